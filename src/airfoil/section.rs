@@ -1,0 +1,169 @@
+//! The [`Section`] type: one closed airfoil outline in unit-chord coordinates.
+//!
+//! # Convention (kept everywhere in spanwright)
+//!
+//! ```text
+//!        y (toward the upper, usually suction, surface)
+//!        ^      upper surface: points 0 ..= le
+//!        |   .-~~~~~~~~~~-.__
+//!   LE  (0,0)                 ~~--.__  TE (1, +g/2) = points[0]
+//!        |                          |  trailing-edge segment (length g, may be 0)
+//!         `-.__________________.--~    TE (1, -g/2) = points[n-1]
+//!               lower surface: points le ..= n-1            -> x (chordwise)
+//! ```
+//!
+//! * Leading edge at (0, 0); trailing edge at (1, 0), the midpoint of the trailing-edge
+//!   segment when the trailing edge is blunt.
+//! * Points run from the upper trailing edge over the upper surface to the leading edge
+//!   and back along the lower surface to the lower trailing edge. The loop is closed by
+//!   the trailing-edge segment `points[n-1] -> points[0]`; for a sharp trailing edge
+//!   the two end points coincide and that segment has zero length. The end point is
+//!   never repeated otherwise.
+//! * Walking the points in order, the enclosed area lies on the left: the loop is
+//!   counter-clockwise in (x, y) and its signed (shoelace) area is positive.
+//!
+//! A *resampled* section (see [`Section::resample`]) has exactly `n` points per side
+//! (leading edge shared), at the same chordwise stations on both sides, so that any two
+//! resampled sections with the same `n` correspond point by point: this is what blending
+//! and lofting rely on.
+
+use nalgebra::Point2;
+
+/// A closed airfoil outline in unit-chord coordinates (see the module docs for the
+/// point order and frame).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Section {
+    name: String,
+    points: Vec<Point2<f64>>,
+    le: usize,
+}
+
+impl Section {
+    /// Builds a section from points already in the spanwright order and frame, with the
+    /// leading edge at index `le`. The points are taken as they are; use the import or
+    /// generator functions for raw data that needs normalising.
+    ///
+    /// # Panics
+    /// Never; returns `None` when `le` is not an interior index or fewer than 3 points
+    /// are given.
+    pub fn from_ordered(
+        name: impl Into<String>,
+        points: Vec<Point2<f64>>,
+        le: usize,
+    ) -> Option<Self> {
+        if points.len() < 3 || le == 0 || le + 1 >= points.len() {
+            return None;
+        }
+        Some(Self {
+            name: name.into(),
+            points,
+            le,
+        })
+    }
+
+    /// The section's name (a designation such as `naca2412`, or a file stem).
+    pub fn name(&self) -> &str {
+        &self.name
+    }
+
+    /// Renames the section.
+    pub fn with_name(mut self, name: impl Into<String>) -> Self {
+        self.name = name.into();
+        self
+    }
+
+    /// All points, upper trailing edge -> leading edge -> lower trailing edge.
+    pub fn points(&self) -> &[Point2<f64>] {
+        &self.points
+    }
+
+    /// Index of the leading-edge point.
+    pub fn leading_edge_index(&self) -> usize {
+        self.le
+    }
+
+    /// Upper surface from the trailing edge to the leading edge (inclusive).
+    pub fn upper_te_to_le(&self) -> &[Point2<f64>] {
+        &self.points[..=self.le]
+    }
+
+    /// Lower surface from the leading edge to the trailing edge (inclusive).
+    pub fn lower_le_to_te(&self) -> &[Point2<f64>] {
+        &self.points[self.le..]
+    }
+
+    /// Upper surface points ordered from the leading edge to the trailing edge.
+    pub fn upper_le_to_te(&self) -> Vec<Point2<f64>> {
+        self.upper_te_to_le().iter().rev().copied().collect()
+    }
+
+    /// Trailing-edge gap: distance between the first and last point (0 when sharp).
+    pub fn te_gap(&self) -> f64 {
+        (self.points[0] - self.points[self.points.len() - 1]).norm()
+    }
+
+    /// Signed shoelace area of the closed loop (positive for the spanwright order).
+    pub fn signed_area(&self) -> f64 {
+        let p = &self.points;
+        let n = p.len();
+        let mut a = 0.0;
+        for i in 0..n {
+            let (q, r) = (p[i], p[(i + 1) % n]);
+            a += q.x * r.y - r.x * q.y;
+        }
+        0.5 * a
+    }
+
+    /// Enclosed area in chord² (always positive).
+    pub fn area(&self) -> f64 {
+        self.signed_area().abs()
+    }
+
+    /// Number of points per side when this section is resampled (upper and lower have the
+    /// same count and the leading edge sits in the middle); `None` otherwise.
+    pub fn points_per_side(&self) -> Option<usize> {
+        let n = self.points.len();
+        (n % 2 == 1 && self.le == n / 2).then_some(self.le + 1)
+    }
+
+    /// True when `other` has the same point structure (same count, same leading-edge
+    /// index), so that the two can be blended or lofted point by point.
+    pub fn is_compatible(&self, other: &Section) -> bool {
+        self.points.len() == other.points.len() && self.le == other.le
+    }
+
+    /// Builds a resampled-structure section from matching upper and lower ordinates given
+    /// at the same chordwise stations `x` (`x[0] = 0` at the leading edge, increasing to
+    /// the trailing edge). `upper[i]` and `lower[i]` are (x, y) points for station `i`.
+    pub fn from_sides(
+        name: impl Into<String>,
+        upper: &[Point2<f64>],
+        lower: &[Point2<f64>],
+    ) -> Option<Self> {
+        if upper.len() != lower.len() || upper.len() < 2 {
+            return None;
+        }
+        let n = upper.len();
+        let mut points = Vec::with_capacity(2 * n - 1);
+        points.extend(upper.iter().rev().copied());
+        // The leading edge is shared: take the mean of the two given leading-edge points.
+        let le = nalgebra::center(&upper[0], &lower[0]);
+        points[n - 1] = le;
+        points.extend(lower[1..].iter().copied());
+        Self::from_ordered(name, points, n - 1)
+    }
+
+    /// Maps every point through `f` (for example to scale thickness), keeping order.
+    pub fn map_points(&self, mut f: impl FnMut(usize, Point2<f64>) -> Point2<f64>) -> Section {
+        Section {
+            name: self.name.clone(),
+            points: self
+                .points
+                .iter()
+                .enumerate()
+                .map(|(i, &p)| f(i, p))
+                .collect(),
+            le: self.le,
+        }
+    }
+}

@@ -1,0 +1,52 @@
+//! Command-line interface. Each subcommand lives in its own file with an `Args` struct
+//! and a `run` function; this file only dispatches and maps results to exit codes:
+//! 0 success, 1 a check failed (does not fit, not watertight), 2 bad input or I/O error.
+
+use clap::{Parser, Subcommand};
+use std::process::ExitCode;
+
+/// Exit code for a failed check.
+pub const EXIT_CHECK_FAILED: u8 = 1;
+/// Exit code for bad input or an I/O error.
+pub const EXIT_BAD_INPUT: u8 = 2;
+
+#[derive(Parser)]
+#[command(
+    name = "spanwright",
+    version,
+    about = "Turns a rotor blade's design table into watertight, printable and machinable solids."
+)]
+struct Cli {
+    /// No progress bars or summaries; errors are still printed.
+    #[arg(long, short, global = true)]
+    quiet: bool,
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {}
+
+/// Options every subcommand sees.
+#[derive(Debug, Clone, Copy)]
+pub struct Context {
+    /// Suppress progress and summaries.
+    pub quiet: bool,
+}
+
+pub fn main() -> ExitCode {
+    let cli = Cli::parse();
+    let ctx = Context { quiet: cli.quiet };
+    let result: anyhow::Result<ExitCode> = match cli.command {};
+    let _ = ctx;
+    match result {
+        Ok(code) => code,
+        Err(e) => {
+            eprintln!("error: {e}");
+            for cause in e.chain().skip(1) {
+                eprintln!("  caused by: {cause}");
+            }
+            ExitCode::from(EXIT_BAD_INPUT)
+        }
+    }
+}

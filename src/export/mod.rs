@@ -1,0 +1,1 @@
+//! Writers: binary and ASCII STL, OBJ, 3MF, STEP; every file written atomically.

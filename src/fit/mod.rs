@@ -1,0 +1,1 @@
+//! Printer fit: build volumes, orientation search, plate layouts, printability.

@@ -1,0 +1,7 @@
+//! The `spanwright` command: a thin layer over the library.
+
+mod cli;
+
+fn main() -> std::process::ExitCode {
+    cli::main()
+}

@@ -1,0 +1,1 @@
+//! Mass and section properties, materials, and the spanwise stress estimate.

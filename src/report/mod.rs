@@ -1,0 +1,1 @@
+//! Pictures (SVG) and reports (HTML, JSON).
