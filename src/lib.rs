@@ -24,6 +24,7 @@ pub mod design;
 pub mod export;
 pub mod fit;
 pub mod interp;
+pub mod loft;
 pub mod mesh;
 pub mod props;
 pub mod report;

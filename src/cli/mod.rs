@@ -3,6 +3,11 @@
 //! 0 success, 1 a check failed (does not fit, not watertight), 2 bad input or I/O error.
 
 use clap::{Parser, Subcommand};
+
+mod draft;
+mod fit;
+mod report;
+mod section;
 use std::process::ExitCode;
 
 /// Exit code for a failed check.
@@ -34,11 +39,16 @@ pub struct Context {
     pub quiet: bool,
 }
 
+/// Parses the command line, runs the subcommand and maps the outcome to an exit code.
 pub fn main() -> ExitCode {
     let cli = Cli::parse();
     let ctx = Context { quiet: cli.quiet };
-    let result: anyhow::Result<ExitCode> = match cli.command {};
-    let _ = ctx;
+    let result = match cli.command {
+        Command::Section(a) => section::run(a, &ctx),
+        Command::Fit(a) => fit::run(a, &ctx),
+        Command::Draft(a) => draft::run(a, &ctx),
+        Command::Report(a) => report::run(a, &ctx),
+    };
     match result {
         Ok(code) => code,
         Err(e) => {
