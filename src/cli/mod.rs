@@ -30,7 +30,16 @@ struct Cli {
 }
 
 #[derive(Subcommand)]
-enum Command {}
+enum Command {
+    /// Generate, convert and measure airfoil sections.
+    Section(section::Args),
+    /// Check whether parts fit a printer; find orientations and plate layouts.
+    Fit(fit::Args),
+    /// Draft a station table from optimum-rotor theory.
+    Draft(draft::Args),
+    /// Mass, section properties, stress estimate, pictures and reports.
+    Report(report::Args),
+}
 
 /// Options every subcommand sees.
 #[derive(Debug, Clone, Copy)]
