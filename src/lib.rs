@@ -18,6 +18,7 @@
 //! are written once, in [`conventions`].
 
 pub mod airfoil;
+pub mod blade;
 pub mod check;
 pub mod conventions;
 pub mod design;
@@ -29,3 +30,4 @@ pub mod mesh;
 pub mod props;
 pub mod report;
 pub mod rotor;
+pub mod tessellate;

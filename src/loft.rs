@@ -25,3 +25,347 @@ pub struct Skin {
     /// Parameter of the leading edge (where upper and lower faces meet).
     pub u_le: f64,
 }
+
+/// Why a loft could not be built.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum LoftError {
+    /// Fewer than two sections, or sections with different point counts.
+    #[error("cannot loft: {0}")]
+    BadInput(String),
+    /// Two consecutive data points coincide, so no parameter can separate them.
+    #[error("cannot loft: data points coincide ({0})")]
+    Coincident(String),
+}
+
+impl Skin {
+    /// Interpolates the sections `rings[l][k]` (`l` along the span, `k` around the
+    /// section; every ring has the same count) with a bicubic B-spline (degree lowered
+    /// where there are too few points), by global surface interpolation: averaged
+    /// chord-length parameters, knots by averaging, one banded solve per ring and then
+    /// one per column (Piegl & Tiller, *The NURBS Book*, 2nd ed., 1997, sections 9.2.1
+    /// and 9.2.5, equations 9.5 and 9.8). `le_index` is the data index of the leading edge.
+    pub fn interpolate(rings: &[Vec<Point3<f64>>], le_index: usize) -> Result<Skin, LoftError> {
+        let m = rings.len();
+        if m < 2 {
+            return Err(LoftError::BadInput(format!(
+                "{m} section(s); at least two are needed"
+            )));
+        }
+        let n = rings[0].len();
+        if n < 3 || rings.iter().any(|r| r.len() != n) {
+            return Err(LoftError::BadInput(
+                "sections have different point counts".into(),
+            ));
+        }
+        // Averaged chord-length parameters around the sections (9.2.5).
+        let mut ubar = vec![0.0; n];
+        for ring in rings {
+            let params = chord_params(ring)
+                .ok_or_else(|| LoftError::Coincident("around a section".into()))?;
+            for (a, p) in ubar.iter_mut().zip(params) {
+                *a += p / m as f64;
+            }
+        }
+        let mut vbar = vec![0.0; m];
+        for k in 0..n {
+            let column: Vec<Point3<f64>> = rings.iter().map(|r| r[k]).collect();
+            let params = chord_params(&column)
+                .ok_or_else(|| LoftError::Coincident("along the span".into()))?;
+            for (a, p) in vbar.iter_mut().zip(params) {
+                *a += p / n as f64;
+            }
+        }
+        let p = 3.min(n - 1);
+        let q = 3.min(m - 1);
+        let knots_u = averaged_knots(&ubar, p);
+        let knots_v = averaged_knots(&vbar, q);
+        // Curves around each ring: R[l][k].
+        let bu = Banded::collocation(&knots_u, p, &ubar);
+        let r: Vec<Vec<Point3<f64>>> = rings.iter().map(|ring| bu.solve(ring)).collect();
+        // Then along the span for each column k: control[k][l].
+        let bv = Banded::collocation(&knots_v, q, &vbar);
+        let control: Vec<Vec<Point3<f64>>> = (0..n)
+            .map(|k| {
+                let column: Vec<Point3<f64>> = r.iter().map(|row| row[k]).collect();
+                bv.solve(&column)
+            })
+            .collect();
+        Ok(Skin {
+            degree_u: p,
+            degree_v: q,
+            knots_u,
+            knots_v,
+            control,
+            u_le: ubar[le_index.min(n - 1)],
+        })
+    }
+
+    /// Surface point at `(u, v)`.
+    pub fn eval(&self, u: f64, v: f64) -> Point3<f64> {
+        let bu = Basis::at(&self.knots_u, self.degree_u, u);
+        let bv = Basis::at(&self.knots_v, self.degree_v, v);
+        self.eval_basis(&bu, &bv)
+    }
+
+    /// Surface point from precomputed basis values (fast grid evaluation).
+    pub fn eval_basis(&self, bu: &Basis, bv: &Basis) -> Point3<f64> {
+        let mut s = nalgebra::Vector3::zeros();
+        for (a, nu) in bu.values.iter().enumerate() {
+            let row = &self.control[bu.first + a];
+            let mut t = nalgebra::Vector3::zeros();
+            for (b, nv) in bv.values.iter().enumerate() {
+                t += row[bv.first + b].coords * *nv;
+            }
+            s += t * *nu;
+        }
+        Point3::from(s)
+    }
+
+    /// The iso-curve at `v` sampled at the given `u` values.
+    pub fn iso_v(&self, v: f64, us: &[f64]) -> Vec<Point3<f64>> {
+        let bv = Basis::at(&self.knots_v, self.degree_v, v);
+        us.iter()
+            .map(|&u| self.eval_basis(&Basis::at(&self.knots_u, self.degree_u, u), &bv))
+            .collect()
+    }
+
+    /// True when the two trailing-edge curves (`u = 0` and `u = 1`) coincide: the trailing
+    /// edge is sharp along the whole span.
+    pub fn sharp_trailing_edge(&self) -> bool {
+        let first = &self.control[0];
+        let last = &self.control[self.control.len() - 1];
+        first.iter().zip(last).all(|(a, b)| (a - b).norm() <= 1e-9)
+    }
+
+    /// +1 when `S_u x S_v` points out of the solid, -1 when it points in (the section
+    /// loop runs clockwise seen from the tip, as after mirroring a blade).
+    pub fn orientation(&self) -> f64 {
+        // Signed area of the root curve projected on the section plane (x, y).
+        let us: Vec<f64> = (0..=64).map(|i| i as f64 / 64.0).collect();
+        let pts = self.iso_v(0.0, &us);
+        let mut a = 0.0;
+        for i in 0..pts.len() {
+            let (p, q) = (pts[i], pts[(i + 1) % pts.len()]);
+            a += p.x * q.y - q.x * p.y;
+        }
+        let tip = self.eval(0.5, 1.0).z - self.eval(0.5, 0.0).z;
+        if (a > 0.0) == (tip > 0.0) {
+            1.0
+        } else {
+            -1.0
+        }
+    }
+}
+
+/// Chord-length parameters on [0, 1] of a polyline (NURBS Book eq. 9.5).
+fn chord_params(points: &[Point3<f64>]) -> Option<Vec<f64>> {
+    let mut acc = vec![0.0; points.len()];
+    for i in 1..points.len() {
+        acc[i] = acc[i - 1] + (points[i] - points[i - 1]).norm();
+    }
+    let total = acc[points.len() - 1];
+    if !(total > 0.0) {
+        return None;
+    }
+    // Coincident consecutive points would give a singular system.
+    if acc.windows(2).any(|w| w[1] - w[0] <= total * 1e-13) {
+        return None;
+    }
+    Some(acc.into_iter().map(|a| a / total).collect())
+}
+
+/// Clamped knot vector by averaging (NURBS Book eq. 9.8).
+fn averaged_knots(params: &[f64], p: usize) -> Vec<f64> {
+    let n = params.len() - 1;
+    let mut knots = vec![0.0; p + 1];
+    for j in 1..=n.saturating_sub(p) {
+        knots.push(params[j..j + p].iter().sum::<f64>() / p as f64);
+    }
+    knots.extend(std::iter::repeat_n(1.0, p + 1));
+    knots
+}
+
+/// Nonzero B-spline basis values at one parameter: `values[a]` belongs to control index
+/// `first + a` (NURBS Book algorithms A2.1 FindSpan and A2.2 BasisFuns).
+#[derive(Debug, Clone)]
+pub struct Basis {
+    /// Index of the first control point with a nonzero basis function.
+    pub first: usize,
+    /// The `degree + 1` nonzero basis values (they sum to 1).
+    pub values: Vec<f64>,
+}
+
+impl Basis {
+    /// Basis values of the clamped knot vector `knots` of degree `p` at `t` (clamped to
+    /// the parameter range).
+    pub fn at(knots: &[f64], p: usize, t: f64) -> Basis {
+        let n = knots.len() - p - 2; // last control index
+        let t = t.clamp(knots[p], knots[n + 1]);
+        let span = if t >= knots[n + 1] {
+            n
+        } else {
+            // Largest i with knots[i] <= t, within [p, n].
+            (knots.partition_point(|&k| k <= t) - 1).clamp(p, n)
+        };
+        let mut values = vec![0.0; p + 1];
+        let mut left = vec![0.0; p + 1];
+        let mut right = vec![0.0; p + 1];
+        values[0] = 1.0;
+        for j in 1..=p {
+            left[j] = t - knots[span + 1 - j];
+            right[j] = knots[span + j] - t;
+            let mut saved = 0.0;
+            for r in 0..j {
+                let denom = right[r + 1] + left[j - r];
+                let temp = if denom != 0.0 { values[r] / denom } else { 0.0 };
+                values[r] = saved + right[r + 1] * temp;
+                saved = left[j - r] * temp;
+            }
+            values[j] = saved;
+        }
+        Basis {
+            first: span - p,
+            values,
+        }
+    }
+}
+
+/// The banded collocation matrix of a curve interpolation, factored once (LU without
+/// pivoting, which is stable for B-spline collocation matrices: they are totally
+/// positive; de Boor, *A Practical Guide to Splines*, rev. ed. 2001, chapter XIII).
+struct Banded {
+    n: usize,
+    /// Half bandwidth.
+    w: usize,
+    /// Dense band storage: row i holds columns i - w ..= i + w.
+    a: Vec<f64>,
+}
+
+impl Banded {
+    fn collocation(knots: &[f64], p: usize, params: &[f64]) -> Banded {
+        let n = params.len();
+        let w = p.max(1);
+        let width = 2 * w + 1;
+        let mut a = vec![0.0; n * width];
+        for (i, &t) in params.iter().enumerate() {
+            let b = Basis::at(knots, p, t);
+            for (k, v) in b.values.iter().enumerate() {
+                let j = b.first + k;
+                if j + w >= i && j <= i + w {
+                    a[i * width + (j + w - i)] = *v;
+                }
+            }
+        }
+        let mut me = Banded { n, w, a };
+        me.factor();
+        me
+    }
+
+    fn idx(&self, i: usize, j: usize) -> usize {
+        i * (2 * self.w + 1) + (j + self.w - i)
+    }
+
+    fn factor(&mut self) {
+        let (n, w) = (self.n, self.w);
+        for k in 0..n {
+            let pivot = self.a[self.idx(k, k)];
+            for i in k + 1..(k + w + 1).min(n) {
+                let f = self.a[self.idx(i, k)] / pivot;
+                let li = self.idx(i, k);
+                self.a[li] = f;
+                for j in k + 1..(k + w + 1).min(n) {
+                    let (ij, kj) = (self.idx(i, j), self.idx(k, j));
+                    self.a[ij] -= f * self.a[kj];
+                }
+            }
+        }
+    }
+
+    fn solve(&self, rhs: &[Point3<f64>]) -> Vec<Point3<f64>> {
+        let (n, w) = (self.n, self.w);
+        let mut x: Vec<nalgebra::Vector3<f64>> = rhs.iter().map(|p| p.coords).collect();
+        for i in 0..n {
+            for k in i.saturating_sub(w)..i {
+                let f = self.a[self.idx(i, k)];
+                let xk = x[k];
+                x[i] -= xk * f;
+            }
+        }
+        for i in (0..n).rev() {
+            for j in i + 1..(i + w + 1).min(n) {
+                let f = self.a[self.idx(i, j)];
+                let xj = x[j];
+                x[i] -= xj * f;
+            }
+            x[i] /= self.a[self.idx(i, i)];
+        }
+        x.into_iter().map(Point3::from).collect()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn ring(z: f64, r: f64, n: usize) -> Vec<Point3<f64>> {
+        (0..n)
+            .map(|k| {
+                let a = std::f64::consts::TAU * k as f64 / (n - 1) as f64;
+                Point3::new(r * a.cos(), r * a.sin(), z)
+            })
+            .collect()
+    }
+
+    #[test]
+    fn interpolates_the_data_points() {
+        // Global interpolation passes through every data point (NURBS Book 9.2.5).
+        let rings: Vec<_> = (0..5)
+            .map(|l| ring(10.0 * l as f64, 5.0 + l as f64, 41))
+            .collect();
+        let skin = Skin::interpolate(&rings, 20).unwrap();
+        let ubar = chord_params(&rings[0]).unwrap();
+        for (l, ring) in rings.iter().enumerate() {
+            let v = l as f64 / 4.0; // equal spacing along the span here
+            let pts = skin.iso_v(v, &ubar);
+            for (a, b) in pts.iter().zip(ring) {
+                assert!((a - b).norm() < 1e-9, "{a} {b}");
+            }
+        }
+        assert!(skin.sharp_trailing_edge());
+        assert_eq!(skin.orientation(), 1.0);
+    }
+
+    #[test]
+    fn agrees_with_truck_evaluation() {
+        // Independent reference: truck-geometry's B-spline surface evaluation.
+        use truck_geometry::prelude::*;
+        let rings: Vec<_> = (0..4)
+            .map(|l| ring(7.0 * l as f64, 3.0 + 0.5 * l as f64, 17))
+            .collect();
+        let skin = Skin::interpolate(&rings, 8).unwrap();
+        let cp: Vec<Vec<truck_geometry::prelude::Point3>> = skin
+            .control
+            .iter()
+            .map(|row| {
+                row.iter()
+                    .map(|p| truck_geometry::prelude::Point3::new(p.x, p.y, p.z))
+                    .collect()
+            })
+            .collect();
+        let surf = BSplineSurface::new(
+            (
+                KnotVec::from(skin.knots_u.clone()),
+                KnotVec::from(skin.knots_v.clone()),
+            ),
+            cp,
+        );
+        for i in 0..=10 {
+            for j in 0..=10 {
+                let (u, v) = (i as f64 / 10.0, j as f64 / 10.0);
+                let a = skin.eval(u, v);
+                let b = surf.subs(u, v);
+                assert!((a.x - b.x).abs() + (a.y - b.y).abs() + (a.z - b.z).abs() < 1e-10);
+            }
+        }
+    }
+}
