@@ -1,1 +1,23 @@
 //! Rotors: assembly, rotation sense, hub body, and design tables from optimum-rotor theory.
+//!
+//! Design tables: [`draft`] turns a [`DraftSpec`] (tip and hub radius, blades, tip speed
+//! ratio, the section's design lift coefficient and angle of attack) into a
+//! [`DraftTable`] of stations, with the ideal power coefficient and graded [`Remark`]s.
+//! The formulas live in [`optimum`].
+
+mod draft;
+mod line;
+pub mod optimum;
+mod remark;
+mod spec;
+
+pub use draft::{
+    draft, rotor_rpm, station_radii, DraftError, DraftStation, DraftTable, CL_HIGH, CSV_HEADER,
+    LINE_SAMPLES, TIP_SPEED_CAUTION, TSR_SMALL_TURBINE, TSR_USUAL, TWIST_LIMIT,
+};
+pub use line::Line;
+pub use remark::{index_list, Grade, Remark};
+pub use spec::{
+    DraftSpec, LinearRange, Method, Problem, Spacing, DEFAULT_MIN_CHORD_FRACTION, DEFAULT_SECTION,
+    DEFAULT_STALL_ALPHA, DEFAULT_STATIONS,
+};
