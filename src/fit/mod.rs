@@ -1,1 +1,30 @@
 //! Printer fit: build volumes, orientation search, plate layouts, printability.
+
+pub mod hull;
+mod printer;
+pub mod yaw;
+
+pub use printer::{
+    preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,
+    DEFAULT_MIN_FEATURE, DEFAULT_NOZZLE, PRESETS,
+};
+
+/// Errors of the printer-fit stage.
+#[derive(Debug, thiserror::Error)]
+pub enum FitError {
+    /// A printer description is wrong.
+    #[error("{origin}: printer {key} = {value} {why}")]
+    Printer {
+        /// Where the description came from.
+        origin: String,
+        /// The key at fault.
+        key: String,
+        /// The value given.
+        value: String,
+        /// What is wrong and how to fix it.
+        why: String,
+    },
+    /// A part has no usable vertices.
+    #[error("part \"{0}\" has no finite vertices; check the mesh file")]
+    EmptyPart(String),
+}

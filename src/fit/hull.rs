@@ -1,0 +1,214 @@
+//! Planar convex hulls, the smallest enclosing circle, and the support subset of a
+//! point cloud in space.
+
+use nalgebra::{Point3, Vector3};
+
+/// A point in the plane, mm.
+pub type P2 = [f64; 2];
+
+fn cross(o: P2, a: P2, b: P2) -> f64 {
+    (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0])
+}
+
+/// Convex hull of planar points by Andrew's monotone chain (A. M. Andrew, "Another
+/// efficient algorithm for convex hulls in two dimensions", Information Processing
+/// Letters 9, 1979). Counter-clockwise, without repeated or collinear points; one or two
+/// points when the input is degenerate, none when it is empty. Non-finite points are
+/// skipped.
+pub fn convex_hull(points: &[P2]) -> Vec<P2> {
+    let mut pts: Vec<P2> = points
+        .iter()
+        .copied()
+        .filter(|p| p[0].is_finite() && p[1].is_finite())
+        .collect();
+    pts.sort_by(|a, b| a[0].total_cmp(&b[0]).then(a[1].total_cmp(&b[1])));
+    pts.dedup();
+    if pts.len() < 3 {
+        return pts;
+    }
+    let mut hull: Vec<P2> = Vec::with_capacity(2 * pts.len());
+    for pass in 0..2 {
+        let start = hull.len();
+        let iter: Box<dyn Iterator<Item = &P2>> = if pass == 0 {
+            Box::new(pts.iter())
+        } else {
+            Box::new(pts.iter().rev())
+        };
+        for &p in iter {
+            while hull.len() >= start + 2
+                && cross(hull[hull.len() - 2], hull[hull.len() - 1], p) <= 0.0
+            {
+                hull.pop();
+            }
+            hull.push(p);
+        }
+        hull.pop();
+    }
+    if hull.len() < 3 {
+        // All points collinear: keep the two ends.
+        return vec![pts[0], pts[pts.len() - 1]];
+    }
+    hull
+}
+
+/// Area of a simple polygon by the shoelace formula, positive counter-clockwise, mm^2.
+pub fn area(poly: &[P2]) -> f64 {
+    let n = poly.len();
+    (0..n)
+        .map(|i| {
+            let (a, b) = (poly[i], poly[(i + 1) % n]);
+            a[0] * b[1] - a[1] * b[0]
+        })
+        .sum::<f64>()
+        * 0.5
+}
+
+/// Smallest circle enclosing the points: `(centre, radius)`, by Welzl's move-to-front
+/// algorithm (E. Welzl, "Smallest enclosing disks (balls and ellipsoids)", LNCS 555,
+/// 1991), on a fixed pseudo-random order so results are reproducible.
+pub fn enclosing_circle(points: &[P2]) -> (P2, f64) {
+    if points.is_empty() {
+        return ([0.0, 0.0], 0.0);
+    }
+    let mut pts = points.to_vec();
+    // Deterministic shuffle (linear congruential generator) for expected linear time.
+    let mut state: u64 = 0x9E37_79B9_7F4A_7C15;
+    for i in (1..pts.len()).rev() {
+        state = state
+            .wrapping_mul(6_364_136_223_846_793_005)
+            .wrapping_add(1_442_695_040_888_963_407);
+        let j = (state >> 33) as usize % (i + 1);
+        pts.swap(i, j);
+    }
+    let eps = 1e-12;
+    let inside = |c: (P2, f64), p: P2| {
+        ((p[0] - c.0[0]).powi(2) + (p[1] - c.0[1]).powi(2)).sqrt() <= c.1 * (1.0 + eps) + eps
+    };
+    let mut c = (pts[0], 0.0);
+    for i in 1..pts.len() {
+        if inside(c, pts[i]) {
+            continue;
+        }
+        c = (pts[i], 0.0);
+        for j in 0..i {
+            if inside(c, pts[j]) {
+                continue;
+            }
+            c = circle2(pts[i], pts[j]);
+            for k in 0..j {
+                if !inside(c, pts[k]) {
+                    c = circle3(pts[i], pts[j], pts[k]);
+                }
+            }
+        }
+    }
+    c
+}
+
+fn circle2(a: P2, b: P2) -> (P2, f64) {
+    let c = [0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1])];
+    (
+        c,
+        0.5 * ((a[0] - b[0]).powi(2) + (a[1] - b[1]).powi(2)).sqrt(),
+    )
+}
+
+fn circle3(a: P2, b: P2, c: P2) -> (P2, f64) {
+    let (bx, by) = (b[0] - a[0], b[1] - a[1]);
+    let (cx, cy) = (c[0] - a[0], c[1] - a[1]);
+    let d = 2.0 * (bx * cy - by * cx);
+    if d.abs() < 1e-300 {
+        // Collinear: the circle on the farthest pair.
+        let cands = [circle2(a, b), circle2(a, c), circle2(b, c)];
+        return cands
+            .into_iter()
+            .max_by(|p, q| p.1.total_cmp(&q.1))
+            .unwrap_or(circle2(a, b));
+    }
+    let b2 = bx * bx + by * by;
+    let c2 = cx * cx + cy * cy;
+    let ux = (cy * b2 - by * c2) / d;
+    let uy = (bx * c2 - cx * b2) / d;
+    ([a[0] + ux, a[1] + uy], (ux * ux + uy * uy).sqrt())
+}
+
+/// Unit directions spread evenly over the sphere (Fibonacci lattice).
+pub fn sphere_directions(count: usize) -> Vec<Vector3<f64>> {
+    let n = count.max(1) as f64;
+    let golden = std::f64::consts::PI * (3.0 - 5f64.sqrt());
+    (0..count.max(1))
+        .map(|i| {
+            let z = 1.0 - 2.0 * (i as f64 + 0.5) / n;
+            let r = (1.0 - z * z).max(0.0).sqrt();
+            let phi = golden * i as f64;
+            Vector3::new(r * phi.cos(), r * phi.sin(), z)
+        })
+        .collect()
+}
+
+/// Indices of the vertices that are extreme along any of `count` directions spread over
+/// the sphere, plus the extremes along the coordinate axes: a subset of the convex hull's
+/// vertices. Every extent computed on the subset is at most the true one, so a search
+/// that finds no fit on the subset proves there is none; fits found on it are checked
+/// again on every vertex (see [`super::search`]).
+pub fn support_subset(vertices: &[Point3<f64>], count: usize) -> Vec<usize> {
+    let mut dirs = sphere_directions(count);
+    for k in 0..3 {
+        let mut e = Vector3::zeros();
+        e[k] = 1.0;
+        dirs.push(e);
+        dirs.push(-e);
+    }
+    let mut keep: Vec<usize> = dirs
+        .iter()
+        .filter_map(|d| {
+            vertices
+                .iter()
+                .enumerate()
+                .filter(|(_, v)| v.coords.iter().all(|c| c.is_finite()))
+                .max_by(|a, b| a.1.coords.dot(d).total_cmp(&b.1.coords.dot(d)))
+                .map(|(i, _)| i)
+        })
+        .collect();
+    keep.sort_unstable();
+    keep.dedup();
+    keep
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn hull_of_square_with_inner_and_edge_points() {
+        // Elementary geometry: the hull of a square's corners plus inner and edge points
+        // is the square, area 4.
+        let pts = [
+            [0.0, 0.0],
+            [2.0, 0.0],
+            [2.0, 2.0],
+            [0.0, 2.0],
+            [1.0, 1.0],
+            [1.0, 0.0],
+            [0.5, 1.5],
+        ];
+        let h = convex_hull(&pts);
+        assert_eq!(h.len(), 4);
+        assert!((area(&h) - 4.0).abs() < 1e-12);
+    }
+
+    #[test]
+    fn circle_of_triangle_and_square() {
+        // Elementary geometry: the smallest circle of a right triangle has the hypotenuse
+        // as diameter; of a unit square, half its diagonal as radius.
+        let (c, r) = enclosing_circle(&[[0.0, 0.0], [4.0, 0.0], [0.0, 3.0], [1.0, 1.0]]);
+        assert!(
+            (r - 2.5).abs() < 1e-12 && (c[0] - 2.0).abs() < 1e-12 && (c[1] - 1.5).abs() < 1e-12
+        );
+        let (_, r) = enclosing_circle(&[[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]]);
+        assert!((r - 0.5 * 2f64.sqrt()).abs() < 1e-12);
+        // Acute triangle: the circumcircle, R = a / (2 sin A); equilateral side 1: 1/sqrt 3.
+        let (_, r) = enclosing_circle(&[[0.0, 0.0], [1.0, 0.0], [0.5, 0.75f64.sqrt()]]);
+        assert!((r - 1.0 / 3f64.sqrt()).abs() < 1e-12);
+    }
+}
