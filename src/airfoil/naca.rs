@@ -84,28 +84,41 @@ impl Naca4 {
 
     /// Raw outline (loop order, upper first) from `n` cosine-spaced stations per side.
     pub fn raw_outline(&self, n: usize) -> Vec<Point2<f64>> {
-        let xs = cosine_stations(n);
-        let side = |sign: f64| -> Vec<Point2<f64>> {
-            xs.iter()
-                .map(|&x| {
-                    let yt = naca4_half_thickness(x, self.t, self.te);
-                    let (yc, dyc) = naca4_mean_line(x, self.m, self.p);
-                    let th = dyc.atan();
-                    Point2::new(x - sign * yt * th.sin(), yc + sign * yt * th.cos())
-                })
-                .collect()
-        };
-        let upper = side(1.0);
-        let lower = side(-1.0);
-        let mut pts: Vec<Point2<f64>> = upper.iter().rev().copied().collect();
-        pts.extend(lower.iter().skip(1).copied());
-        pts
+        thickened_outline(n, self.t, self.te, |x| naca4_mean_line(x, self.m, self.p))
     }
 
     /// The normalised section, resampled to `n` points per side.
     pub fn section(&self, name: &str, n: usize) -> Result<Section, ResampleError> {
         normalize(name, &self.raw_outline(n.max(200) * 2))?.resample(n)
     }
+}
+
+/// Lays the 4-digit thickness distribution perpendicular to a mean line given as
+/// `x -> (y_c, dy_c/dx)`, at `n` cosine-spaced stations per side; returns the raw loop
+/// (upper trailing edge -> leading edge -> lower trailing edge), shared by the 4- and
+/// 5-digit series (NACA Report 460; NACA Report 537).
+pub(crate) fn thickened_outline(
+    n: usize,
+    t: f64,
+    te: TrailingEdge,
+    mean: impl Fn(f64) -> (f64, f64),
+) -> Vec<Point2<f64>> {
+    let xs = cosine_stations(n);
+    let side = |sign: f64| -> Vec<Point2<f64>> {
+        xs.iter()
+            .map(|&x| {
+                let yt = naca4_half_thickness(x, t, te);
+                let (yc, dyc) = mean(x);
+                let th = dyc.atan();
+                Point2::new(x - sign * yt * th.sin(), yc + sign * yt * th.cos())
+            })
+            .collect()
+    };
+    let upper = side(1.0);
+    let lower = side(-1.0);
+    let mut pts: Vec<Point2<f64>> = upper.iter().rev().copied().collect();
+    pts.extend(lower.iter().skip(1).copied());
+    pts
 }
 
 #[cfg(test)]

@@ -13,7 +13,7 @@
 
 use super::section::Section;
 use super::spline::Spline2;
-use nalgebra::{Point2, Vector2};
+use nalgebra::Point2;
 
 /// Why an outline could not be normalised or resampled.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -86,42 +86,95 @@ fn farthest_parameter(sp: &Spline2, target: Point2<f64>) -> f64 {
     0.5 * (a + b)
 }
 
+/// Distance (fraction of chord) within which a data point is taken as the leading edge
+/// instead of the farthest spline point, so that an outline that already holds its exact
+/// leading-edge point (a written and re-read section) keeps it. Default of [`normalize`].
+pub const LE_SNAP: f64 = 1e-6;
+
+/// The similarity transform found by normalising: raw coordinates to the section frame.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Frame {
+    /// Leading edge in raw coordinates.
+    pub leading_edge: Point2<f64>,
+    /// Trailing-edge midpoint in raw coordinates.
+    pub trailing_edge: Point2<f64>,
+    /// Chord length in raw units.
+    pub chord: f64,
+}
+
+impl Frame {
+    /// Maps a raw point to the unit-chord section frame.
+    pub fn map(&self, p: Point2<f64>) -> Point2<f64> {
+        let axis = (self.trailing_edge - self.leading_edge) / self.chord;
+        let (c, s) = (axis.x, axis.y);
+        let d = p - self.leading_edge;
+        Point2::new(
+            (c * d.x + s * d.y) / self.chord,
+            (-s * d.x + c * d.y) / self.chord,
+        )
+    }
+
+    /// Angle of the raw chord line from the raw x axis, radians (counter-clockwise).
+    pub fn angle(&self) -> f64 {
+        let a = self.trailing_edge - self.leading_edge;
+        a.y.atan2(a.x)
+    }
+}
+
 /// Normalises a raw outline given in loop order (either direction, starting and ending
 /// at the trailing edge) to the spanwright frame: leading edge (0, 0), trailing-edge
 /// midpoint (1, 0), upper surface first. Returns the section with the leading edge
 /// inserted as an explicit point.
 pub fn normalize(name: &str, raw: &[Point2<f64>]) -> Result<Section, ResampleError> {
+    normalize_with_frame(name, raw).map(|(s, _)| s)
+}
+
+/// [`normalize`], also returning the transform that was applied (to map raw data such as
+/// the file lines of offending points).
+pub fn normalize_with_frame(
+    name: &str,
+    raw: &[Point2<f64>],
+) -> Result<(Section, Frame), ResampleError> {
     let pts = dedup(raw);
     if pts.len() < 5 {
         return Err(ResampleError::TooFewPoints(pts.len()));
     }
     let sp = Spline2::fit(&pts).ok_or(ResampleError::TooFewPoints(pts.len()))?;
     let te = nalgebra::center(&pts[0], &pts[pts.len() - 1]);
-    let t_le = farthest_parameter(&sp, te);
-    let le = sp.eval(t_le);
-    let axis: Vector2<f64> = te - le;
-    let chord = axis.norm();
+    let mut t_le = farthest_parameter(&sp, te);
+    let mut le = sp.eval(t_le);
+    let mut chord = (te - le).norm();
     if !(chord > 0.0) || !chord.is_finite() {
         return Err(ResampleError::Degenerate);
     }
-    let (c, s) = (axis.x / chord, axis.y / chord);
-    let map = |p: Point2<f64>| {
-        let d = p - le;
-        Point2::new((c * d.x + s * d.y) / chord, (-s * d.x + c * d.y) / chord)
-    };
-    // Split at the leading edge parameter; keep the spline's leading-edge point exactly.
+    // Snap to a data point lying on the leading edge already.
     let knots = sp.knots();
+    let k = knots.partition_point(|&v| v < t_le).min(knots.len() - 1);
+    for j in [k.saturating_sub(1), k] {
+        if (pts[j] - le).norm() < LE_SNAP * chord {
+            t_le = knots[j];
+            le = pts[j];
+            chord = (te - le).norm();
+            break;
+        }
+    }
+    let frame = Frame {
+        leading_edge: le,
+        trailing_edge: te,
+        chord,
+    };
+    // Split at the leading-edge parameter; keep the spline's leading-edge point exactly.
     let mut first: Vec<Point2<f64>> = knots
         .iter()
         .zip(&pts)
         .filter(|(&k, _)| k < t_le)
-        .map(|(_, &p)| map(p))
+        .map(|(_, &p)| frame.map(p))
         .collect();
     let mut second: Vec<Point2<f64>> = knots
         .iter()
         .zip(&pts)
         .filter(|(&k, _)| k > t_le)
-        .map(|(_, &p)| map(p))
+        .map(|(_, &p)| frame.map(p))
         .collect();
     // Drop input points that sit on the leading edge itself.
     first.retain(|p| p.coords.norm() > 1e-12);
@@ -142,100 +195,63 @@ pub fn normalize(name: &str, raw: &[Point2<f64>]) -> Result<Section, ResampleErr
         section =
             Section::from_ordered(name, rev, n - 1 - le_index).ok_or(ResampleError::Degenerate)?;
     }
-    Ok(section)
+    Ok((section, frame))
 }
 
-/// Finds the parameter in `[a, b]` where the spline's x equals `x`, assuming x is
-/// monotone there (bisection safeguarded Newton).
-fn solve_x(sp: &Spline2, x: f64, mut a: f64, mut b: f64) -> f64 {
-    let fa = sp.eval(a).x - x;
-    let increasing = sp.eval(b).x - x > fa;
-    let mut t = 0.5 * (a + b);
-    for _ in 0..100 {
-        let (p, d) = sp.eval_with_derivative(t);
-        let f = p.x - x;
-        if f.abs() < 1e-14 {
-            break;
-        }
-        if (f < 0.0) == increasing {
-            a = t;
-        } else {
-            b = t;
-        }
-        let newton = t - f / d.x;
-        t = if d.x.abs() > 0.0 && newton > a && newton < b {
-            newton
-        } else {
-            0.5 * (a + b)
-        };
-        if b - a < 1e-15 {
-            break;
+/// Samples one side at the stations `xs` (LE to TE). `at(k)` is the knot index of the
+/// side's `k`-th data point counted from the leading edge, `len` their number.
+fn sample_side(
+    sp: &Spline2,
+    pts: &[Point2<f64>],
+    at: impl Fn(usize) -> usize,
+    len: usize,
+    xs: &[f64],
+    side: &'static str,
+) -> Result<Vec<Point2<f64>>, ResampleError> {
+    for k in 1..len {
+        let (a, b) = (pts[at(k - 1)].x, pts[at(k)].x);
+        if b < a - 1e-9 {
+            return Err(ResampleError::NotSingleValued { side, x: a });
         }
     }
-    t
+    let mut out = Vec::with_capacity(xs.len());
+    out.push(Point2::origin());
+    let mut j = 0;
+    for &x in &xs[1..xs.len() - 1] {
+        while j + 2 < len && pts[at(j + 1)].x < x {
+            j += 1;
+        }
+        let span = at(j).min(at(j + 1));
+        out.push(sp.point_at_x_in_span(span, x));
+    }
+    out.push(pts[at(len - 1)]);
+    Ok(out)
 }
 
 impl Section {
-    /// Resamples to `n` points per side at the cosine-spaced stations of
+    /// Resamples to `n` points per side (at least 3) at the cosine-spaced stations of
     /// [`cosine_stations`], both sides at the same x. The section must already be
     /// normalised (leading edge at the origin, chord along x). Result: `2n - 1` points.
+    /// The trailing-edge points are kept as they are.
     pub fn resample(&self, n: usize) -> Result<Section, ResampleError> {
+        let n = n.max(3);
         let pts = dedup(self.points());
+        if pts.len() < 5 {
+            return Err(ResampleError::TooFewPoints(pts.len()));
+        }
         let sp = Spline2::fit(&pts).ok_or(ResampleError::TooFewPoints(pts.len()))?;
-        // The leading-edge point is a data point; find its parameter.
+        // The leading-edge point is a data point; find its index after de-duplication.
         let le_point = self.points()[self.leading_edge_index()];
         let le_k = pts
             .iter()
             .position(|p| (p - le_point).norm() < 1e-12)
             .ok_or(ResampleError::Degenerate)?;
-        let t_le = sp.knots()[le_k];
+        if le_k == 0 || le_k + 1 >= pts.len() {
+            return Err(ResampleError::Degenerate);
+        }
         let xs = cosine_stations(n);
-        let side = |name: &'static str,
-                    a: f64,
-                    b: f64,
-                    te: Point2<f64>|
-         -> Result<Vec<Point2<f64>>, ResampleError> {
-            // Check monotonicity of x along the side on the data points.
-            let ks: Vec<f64> = sp
-                .knots()
-                .iter()
-                .copied()
-                .filter(|&k| k >= a && k <= b)
-                .collect();
-            let xs_data: Vec<f64> = ks.iter().map(|&k| sp.eval(k).x).collect();
-            let dir = (xs_data[xs_data.len() - 1] - xs_data[0]).signum();
-            for w in xs_data.windows(2) {
-                if (w[1] - w[0]) * dir < -1e-9 {
-                    return Err(ResampleError::NotSingleValued {
-                        side: name,
-                        x: w[0],
-                    });
-                }
-            }
-            let mut out = Vec::with_capacity(xs.len());
-            for (i, &x) in xs.iter().enumerate() {
-                if i == 0 {
-                    out.push(Point2::origin());
-                } else if i + 1 == xs.len() {
-                    out.push(te);
-                } else {
-                    // Bracket between data knots for robustness.
-                    let j = xs_data.partition_point(|&v| (v - x) * dir < 0.0);
-                    let j = j.clamp(1, ks.len() - 1);
-                    let t = solve_x(&sp, x, ks[j - 1], ks[j]);
-                    out.push(sp.eval(t));
-                }
-            }
-            Ok(out)
-        };
-        let n_pts = pts.len();
-        let upper = side("upper", 0.0, t_le, pts[0]);
-        let lower = side("lower", t_le, sp.length(), pts[n_pts - 1]);
-        let mut upper = upper?;
-        let lower = lower?;
-        // Upper side was computed from TE toward LE in parameter, but stations are from
-        // LE; the bracketing handles direction, the list is LE -> TE already.
-        upper[0] = Point2::origin();
+        let upper = sample_side(&sp, &pts, |k| le_k - k, le_k + 1, &xs, "upper")?;
+        let lower = sample_side(&sp, &pts, |k| le_k + k, pts.len() - le_k, &xs, "lower")?;
         Section::from_sides(self.name(), &upper, &lower).ok_or(ResampleError::Degenerate)
     }
 }
@@ -243,6 +259,7 @@ impl Section {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use nalgebra::Vector2;
 
     fn ellipse(n: usize, t: f64, angle: f64, scale: f64, shift: Vector2<f64>) -> Vec<Point2<f64>> {
         // Loop from the trailing edge (x = 1) over the upper side and back.

@@ -108,6 +108,78 @@ impl Spline2 {
     }
 }
 
+impl Spline2 {
+    /// Second derivative at parameter `t` (clamped to the curve), for curvature.
+    pub fn second_derivative(&self, t: f64) -> Vector2<f64> {
+        let t = t.clamp(0.0, self.length());
+        let i = self.span(t);
+        let h = self.s[i + 1] - self.s[i];
+        let a = (self.s[i + 1] - t) / h;
+        let b = (t - self.s[i]) / h;
+        self.m[i] * a + self.m[i + 1] * b
+    }
+
+    /// Curvature (1 / radius, signed, positive turning left) at parameter `t`.
+    pub fn curvature(&self, t: f64) -> f64 {
+        let (_, d) = self.eval_with_derivative(t);
+        let dd = self.second_derivative(t);
+        (d.x * dd.y - d.y * dd.x) / d.norm().powi(3)
+    }
+
+    /// Point of span `i` (between knots `i` and `i + 1`) whose x equals `x`, found by
+    /// Newton's method safeguarded by bisection on the local parameter. When `x` lies
+    /// outside the x range of the span's end points, the nearer end point is returned.
+    /// Spans are indexed like [`Spline2::knots`]; `i` must be below `knots().len() - 1`.
+    pub fn point_at_x_in_span(&self, i: usize, x: f64) -> Point2<f64> {
+        let i = i.min(self.s.len() - 2);
+        let h = self.s[i + 1] - self.s[i];
+        let k = h * h / 6.0;
+        let (p0, p1) = (self.p[i].coords, self.p[i + 1].coords);
+        let (m0, m1) = (self.m[i], self.m[i + 1]);
+        let pos = |u: f64| {
+            let (a, b) = (1.0 - u, u);
+            p0 * a + p1 * b + (m0 * (a * a * a - a) + m1 * (b * b * b - b)) * k
+        };
+        let f0 = p0.x - x;
+        let f1 = p1.x - x;
+        if f0 == 0.0 {
+            return Point2::from(p0);
+        }
+        if f1 == 0.0 {
+            return Point2::from(p1);
+        }
+        if (f0 < 0.0) == (f1 < 0.0) {
+            return Point2::from(if f0.abs() <= f1.abs() { p0 } else { p1 });
+        }
+        let (mut lo, mut hi) = (0.0_f64, 1.0_f64);
+        let mut u = f0 / (f0 - f1);
+        for _ in 0..60 {
+            let (a, b) = (1.0 - u, u);
+            let f = p0.x * a + p1.x * b + (m0.x * (a * a * a - a) + m1.x * (b * b * b - b)) * k - x;
+            if f == 0.0 {
+                break;
+            }
+            let d = p1.x - p0.x + (m1.x * (3.0 * b * b - 1.0) - m0.x * (3.0 * a * a - 1.0)) * k;
+            if (f < 0.0) == (f0 < 0.0) {
+                lo = u;
+            } else {
+                hi = u;
+            }
+            let step = f / d;
+            let next = u - step;
+            u = if d != 0.0 && next > lo && next < hi {
+                next
+            } else {
+                0.5 * (lo + hi)
+            };
+            if hi - lo < 1e-15 || step.abs() < 1e-15 {
+                break;
+            }
+        }
+        Point2::from(pos(u))
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

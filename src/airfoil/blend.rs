@@ -1,0 +1,96 @@
+//! Blending two sections and scaling a section to a target relative thickness. Both
+//! work point by point on sections resampled to a common structure.
+
+use super::error::SectionError;
+use super::measures::{distributions, refined_max};
+use super::section::Section;
+use nalgebra::Point2;
+
+/// Default points per side when an operation has to resample.
+pub const DEFAULT_POINTS: usize = 161;
+
+/// The section resampled to `n` points per side, or itself when it already has that
+/// structure.
+pub(crate) fn with_structure(s: &Section, n: usize) -> Result<Section, SectionError> {
+    if s.points_per_side() == Some(n) {
+        let up = s.upper_le_to_te();
+        let same_x = up
+            .iter()
+            .zip(s.lower_le_to_te())
+            .all(|(u, l)| (u.x - l.x).abs() < 1e-12);
+        if same_x {
+            return Ok(s.clone());
+        }
+    }
+    s.resample(n).map_err(|e| SectionError::shape(s.name(), e))
+}
+
+/// Blends two normalised sections: `(1 - w) a + w b`, point by point, after resampling
+/// both to `n` points per side. `w = 0` gives `a`, `w = 1` gives `b`; `w` must lie in
+/// `[0, 1]`.
+pub fn blend(a: &Section, b: &Section, w: f64, n: usize) -> Result<Section, SectionError> {
+    if !(0.0..=1.0).contains(&w) {
+        return Err(SectionError::Parameter {
+            what: "blend weight",
+            value: w,
+            fix: "give a weight from 0 (first section) to 1 (second section)",
+        });
+    }
+    let ra = with_structure(a, n)?;
+    let rb = with_structure(b, n)?;
+    if !ra.is_compatible(&rb) {
+        return Err(SectionError::Incompatible {
+            a: a.name().into(),
+            b: b.name().into(),
+        });
+    }
+    let name = if w == 0.0 {
+        a.name().to_string()
+    } else if w == 1.0 {
+        b.name().to_string()
+    } else {
+        format!("{}~{}@{w}", a.name(), b.name())
+    };
+    let pb = rb.points();
+    Ok(ra
+        .map_points(|i, p| Point2::from(p.coords * (1.0 - w) + pb[i].coords * w))
+        .with_name(name))
+}
+
+impl Section {
+    /// Scales the thickness about the mean line (camber kept) so that the maximum
+    /// relative thickness becomes `target` (fraction of chord, in `(0, 0.5]`), on a
+    /// resampling with `n` points per side.
+    pub fn with_thickness(&self, target: f64, n: usize) -> Result<Section, SectionError> {
+        if !(target > 0.0 && target <= 0.5) {
+            return Err(SectionError::Parameter {
+                what: "relative thickness",
+                value: target,
+                fix: "give a fraction of chord between 0 and 0.5 (0.12 for 12 %)",
+            });
+        }
+        let r = with_structure(self, n)?;
+        let (x, t, _) = distributions(&r);
+        let (current, _) = refined_max(&x, &t);
+        if !(current > 0.0) {
+            return Err(SectionError::Parameter {
+                what: "current thickness",
+                value: current,
+                fix: "the section has no thickness to scale; check the outline",
+            });
+        }
+        let k = target / current;
+        let up = r.upper_le_to_te();
+        let lo = r.lower_le_to_te();
+        let (mut nu, mut nl) = (Vec::with_capacity(n), Vec::with_capacity(n));
+        for (u, l) in up.iter().zip(lo) {
+            let yc = 0.5 * (u.y + l.y);
+            nu.push(Point2::new(u.x, yc + k * (u.y - yc)));
+            nl.push(Point2::new(l.x, yc + k * (l.y - yc)));
+        }
+        Section::from_sides(self.name(), &nu, &nl).ok_or(SectionError::Incompatible {
+            a: self.name().into(),
+            b: self.name().into(),
+        })
+    }
+}
