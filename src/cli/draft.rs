@@ -1,10 +1,367 @@
-//! `spanwright draft` (being built).
+//! `spanwright draft`: a station table from optimum-rotor theory, written as CSV that
+//! `spanwright build` reads.
+
+use anyhow::{bail, Context as _};
+use spanwright::design::Flow;
+use spanwright::rotor::{self, DraftSpec, DraftTable, Grade, LinearRange, Method, Spacing};
+use std::io::Write;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+
+/// Optimum rotor giving the planform.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum MethodArg {
+    /// Betz optimum without wake rotation.
+    Betz,
+    /// Glauert optimum with wake rotation.
+    Glauert,
+}
+
+/// Flow mode.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum FlowArg {
+    /// Wind or water turbine.
+    Turbine,
+    /// Propeller or fan (refused: the methods here are for turbines).
+    Propeller,
+}
 
 /// Arguments of `spanwright draft`.
 #[derive(Debug, clap::Args)]
-pub struct Args {}
+#[command(
+    after_help = "Example: spanwright draft --tip-radius 600 --hub-radius 90 --blades 3 \
+    --tip-speed-ratio 6 --design-cl 1.0 --design-alpha 6 --tip-loss --linear 50..90 \
+    --wind 10 -o table.csv"
+)]
+pub struct Args {
+    /// Read the spec from a TOML or JSON file (keys as in the library's DraftSpec);
+    /// options given on the command line override its values.
+    #[arg(long, value_name = "FILE")]
+    spec: Option<PathBuf>,
+    /// Tip radius, mm.
+    #[arg(long, value_name = "MM", allow_negative_numbers = true)]
+    tip_radius: Option<f64>,
+    /// Hub (root) radius where the blade starts, mm.
+    #[arg(long, value_name = "MM", allow_negative_numbers = true)]
+    hub_radius: Option<f64>,
+    /// Number of blades.
+    #[arg(long, value_name = "N")]
+    blades: Option<u32>,
+    /// Design tip speed ratio (tip speed / wind speed).
+    #[arg(long, value_name = "LAMBDA", allow_negative_numbers = true)]
+    tip_speed_ratio: Option<f64>,
+    /// Design lift coefficient of the section (from its polar, at best lift-to-drag).
+    #[arg(long, value_name = "CL", allow_negative_numbers = true)]
+    design_cl: Option<f64>,
+    /// Design angle of attack of the section, degrees.
+    #[arg(long, value_name = "DEG", allow_negative_numbers = true)]
+    design_alpha: Option<f64>,
+    /// Optimum rotor giving the planform [default: glauert].
+    #[arg(long, value_enum)]
+    method: Option<MethodArg>,
+    /// Multiply the chord by Prandtl's tip-loss factor.
+    #[arg(long)]
+    tip_loss: bool,
+    /// Make chord and twist straight: least-squares lines over this span range, in percent
+    /// of the tip radius, applied over the whole blade (e.g. 50..90).
+    #[arg(long, value_name = "FROM..TO", value_parser = parse_range)]
+    linear: Option<LinearRange>,
+    /// Number of stations, hub and tip included [default: 20].
+    #[arg(long, value_name = "N")]
+    stations: Option<usize>,
+    /// Space stations closer toward the tip (half-cosine) instead of evenly.
+    #[arg(long)]
+    cosine: bool,
+    /// Wind speed, m/s, for rotor speed, tip speed and the overspeed caution.
+    #[arg(long, value_name = "M/S", allow_negative_numbers = true)]
+    wind: Option<f64>,
+    /// Section name written in the table [default: naca4412].
+    #[arg(long, value_name = "NAME")]
+    section: Option<String>,
+    /// Flow mode [default: turbine].
+    #[arg(long, value_enum)]
+    flow: Option<FlowArg>,
+    /// Lift-to-drag ratio of the section at its design point, for the power estimate.
+    #[arg(long, value_name = "RATIO", allow_negative_numbers = true)]
+    lift_drag: Option<f64>,
+    /// Smallest chord written, mm [default: 1 % of the tip radius].
+    #[arg(long, value_name = "MM", allow_negative_numbers = true)]
+    min_chord: Option<f64>,
+    /// Angle of attack above which the section stalls, degrees [default: 14].
+    #[arg(long, value_name = "DEG", allow_negative_numbers = true)]
+    stall_alpha: Option<f64>,
+    /// Design name; names the default output file out/<NAME>.csv [default: draft].
+    #[arg(long)]
+    name: Option<String>,
+    /// Output CSV file, or `-` for standard output [default: out/<NAME>.csv].
+    #[arg(long, short, value_name = "PATH")]
+    output: Option<PathBuf>,
+    /// Also print every station with flow angle, angle of attack, tip-loss factor and
+    /// solidity.
+    #[arg(long)]
+    details: bool,
+}
+
+/// Parses `FROM..TO` in percent of the tip radius.
+fn parse_range(text: &str) -> Result<LinearRange, String> {
+    let (a, b) = text
+        .split_once("..")
+        .ok_or_else(|| format!("`{text}`: expected FROM..TO in percent, e.g. 50..90"))?;
+    let num = |s: &str| -> Result<f64, String> {
+        s.trim()
+            .trim_end_matches('%')
+            .parse::<f64>()
+            .map_err(|_| format!("`{s}` in `{text}` is not a number; expected e.g. 50..90"))
+    };
+    let (from, to) = (num(a)?, num(b)?);
+    if !(from.is_finite() && to.is_finite() && 0.0 <= from && from < to && to <= 100.0) {
+        return Err(format!(
+            "`{text}`: need 0 <= FROM < TO <= 100 (percent of the tip radius), e.g. 50..90"
+        ));
+    }
+    Ok(LinearRange {
+        from: from / 100.0,
+        to: to / 100.0,
+    })
+}
+
+/// Reads a spec file (TOML, or JSON when the name ends in `.json`).
+fn read_spec(path: &Path) -> anyhow::Result<DraftSpec> {
+    let text = std::fs::read_to_string(path)
+        .with_context(|| format!("reading the draft spec {}", path.display()))?;
+    let is_json = path
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("json"));
+    let spec = if is_json {
+        serde_json::from_str(&text).with_context(|| {
+            format!(
+                "{}: not a valid draft spec (JSON); keys: tip_radius, hub_radius, blades, \
+                 tip_speed_ratio, design_cl, design_alpha, and optional ones",
+                path.display()
+            )
+        })?
+    } else {
+        toml::from_str(&text).with_context(|| {
+            format!(
+                "{}: not a valid draft spec (TOML); keys: tip_radius, hub_radius, blades, \
+                 tip_speed_ratio, design_cl, design_alpha, and optional ones",
+                path.display()
+            )
+        })?
+    };
+    Ok(spec)
+}
+
+/// Builds the spec from the file (if any) and the command-line values.
+fn spec_from(args: &Args) -> anyhow::Result<DraftSpec> {
+    let mut spec = match &args.spec {
+        Some(path) => read_spec(path)?,
+        None => {
+            let mut missing = Vec::new();
+            if args.tip_radius.is_none() {
+                missing.push("--tip-radius <MM>");
+            }
+            if args.hub_radius.is_none() {
+                missing.push("--hub-radius <MM>");
+            }
+            if args.blades.is_none() {
+                missing.push("--blades <N>");
+            }
+            if args.tip_speed_ratio.is_none() {
+                missing.push("--tip-speed-ratio <LAMBDA>");
+            }
+            if args.design_cl.is_none() {
+                missing.push("--design-cl <CL>");
+            }
+            if args.design_alpha.is_none() {
+                missing.push("--design-alpha <DEG>");
+            }
+            if !missing.is_empty() {
+                bail!(
+                    "missing {}: give them on the command line or in a spec file (--spec FILE); \
+                     the design Cl and angle of attack come from the section's polar",
+                    missing.join(", ")
+                );
+            }
+            DraftSpec::new(0.0, 0.0, 0, 0.0, 0.0, 0.0)
+        }
+    };
+    macro_rules! take {
+        ($field:ident) => {
+            if let Some(v) = args.$field.clone() {
+                spec.$field = v;
+            }
+        };
+    }
+    take!(tip_radius);
+    take!(hub_radius);
+    take!(blades);
+    take!(tip_speed_ratio);
+    take!(design_cl);
+    take!(design_alpha);
+    take!(stations);
+    take!(section);
+    take!(name);
+    take!(stall_alpha);
+    if let Some(m) = args.method {
+        spec.method = match m {
+            MethodArg::Betz => Method::Betz,
+            MethodArg::Glauert => Method::Glauert,
+        };
+    }
+    if let Some(f) = args.flow {
+        spec.flow = match f {
+            FlowArg::Turbine => Flow::Turbine,
+            FlowArg::Propeller => Flow::Propeller,
+        };
+    }
+    if args.tip_loss {
+        spec.tip_loss = true;
+    }
+    if args.cosine {
+        spec.spacing = Spacing::Cosine;
+    }
+    if args.linear.is_some() {
+        spec.linear = args.linear;
+    }
+    if args.wind.is_some() {
+        spec.wind_speed = args.wind;
+    }
+    if args.lift_drag.is_some() {
+        spec.lift_drag = args.lift_drag;
+    }
+    if args.min_chord.is_some() {
+        spec.min_chord = args.min_chord;
+    }
+    Ok(spec)
+}
+
+/// Writes `table` to `path` atomically: a temporary file beside it, then a rename.
+fn write_atomic(table: &DraftTable, path: &Path) -> anyhow::Result<()> {
+    let dir = match path.parent() {
+        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
+        _ => PathBuf::from("."),
+    };
+    std::fs::create_dir_all(&dir)
+        .with_context(|| format!("creating the output folder {}", dir.display()))?;
+    let file_name = path
+        .file_name()
+        .with_context(|| format!("{}: the output path names no file", path.display()))?;
+    let mut tmp_name = std::ffi::OsString::from(".");
+    tmp_name.push(file_name);
+    tmp_name.push(format!(".{}.tmp", std::process::id()));
+    let tmp = dir.join(tmp_name);
+    let result = (|| -> anyhow::Result<()> {
+        let file =
+            std::fs::File::create(&tmp).with_context(|| format!("creating {}", tmp.display()))?;
+        let mut w = std::io::BufWriter::new(file);
+        table
+            .write_csv(&mut w)
+            .with_context(|| format!("writing {}", tmp.display()))?;
+        let file = w
+            .into_inner()
+            .map_err(|e| e.into_error())
+            .with_context(|| format!("writing {}", tmp.display()))?;
+        file.sync_all()
+            .with_context(|| format!("writing {}", tmp.display()))?;
+        std::fs::rename(&tmp, path)
+            .with_context(|| format!("moving {} to {}", tmp.display(), path.display()))?;
+        Ok(())
+    })();
+    if result.is_err() {
+        let _ = std::fs::remove_file(&tmp);
+    }
+    result
+}
+
+/// Prints the summary (unless quiet) and the remarks to standard error.
+fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
+    let spec = &table.spec;
+    let mut err = std::io::stderr().lock();
+    if !ctx.quiet {
+        let _ = writeln!(
+            err,
+            "drafted {} stations ({}{}{}) for R = {} mm, hub {} mm, {} blades, tip speed ratio {}, \
+             Cl {}, alpha {}° -> {}",
+            table.stations.len(),
+            spec.method,
+            if spec.tip_loss { ", Prandtl tip loss" } else { "" },
+            match spec.linear {
+                Some(r) => format!(", linear over {:.0}..{:.0} %", r.from * 100.0, r.to * 100.0),
+                None => String::new(),
+            },
+            spec.tip_radius,
+            spec.hub_radius,
+            spec.blades,
+            spec.tip_speed_ratio,
+            spec.design_cl,
+            spec.design_alpha,
+            target
+        );
+        let _ = writeln!(
+            err,
+            "ideal power coefficient C_P = {:.3} (optimum rotor with wake rotation between hub and \
+             tip{}{}; Betz limit 16/27 = {:.3}); a built blade reaches less",
+            table.power_coefficient,
+            if spec.tip_loss { ", with tip loss" } else { "" },
+            match spec.lift_drag {
+                Some(ld) => format!(", lift-to-drag {ld}"),
+                None => ", no drag".to_owned(),
+            },
+            rotor::optimum::BETZ_LIMIT
+        );
+        if let (Some(n), Some(u)) = (table.rpm, table.tip_speed) {
+            let _ = writeln!(
+                err,
+                "at {} m/s wind: {n:.0} rpm, tip speed {u:.1} m/s",
+                spec.wind_speed.unwrap_or(0.0)
+            );
+        }
+        if args.details {
+            let _ = writeln!(
+                err,
+                "{:>4} {:>10} {:>10} {:>9} {:>9} {:>9} {:>7} {:>9}",
+                "i", "radius mm", "chord mm", "twist °", "phi °", "alpha °", "F", "solidity"
+            );
+            for (i, s) in table.stations.iter().enumerate() {
+                let _ = writeln!(
+                    err,
+                    "{i:>4} {:>10.2} {:>10.2} {:>9.2} {:>9.2} {:>9.2} {:>7.3} {:>9.3}",
+                    s.radius, s.chord, s.twist, s.flow_angle, s.alpha, s.tip_loss, s.solidity
+                );
+            }
+        }
+    }
+    for r in &table.remarks {
+        if r.grade == Grade::Note && ctx.quiet {
+            continue;
+        }
+        let _ = writeln!(err, "{r}");
+    }
+}
 
 /// Runs the subcommand.
-pub fn run(_args: Args, _ctx: &super::Context) -> anyhow::Result<std::process::ExitCode> {
-    anyhow::bail!("`spanwright draft` is not available yet")
+pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
+    let spec = spec_from(&args)?;
+    let table = rotor::draft(&spec)?;
+    let to_stdout = args.output.as_deref() == Some(Path::new("-"));
+    let target = if to_stdout {
+        "standard output".to_owned()
+    } else {
+        let path = args
+            .output
+            .clone()
+            .unwrap_or_else(|| Path::new("out").join(format!("{}.csv", spec.name)));
+        write_atomic(&table, &path)?;
+        path.display().to_string()
+    };
+    if to_stdout {
+        let stdout = std::io::stdout();
+        let mut lock = stdout.lock();
+        table
+            .write_csv(&mut lock)
+            .context("writing the table to standard output")?;
+    }
+    report(&table, &args, ctx, &target);
+    Ok(ExitCode::SUCCESS)
 }
