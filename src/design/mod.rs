@@ -5,8 +5,102 @@
 //! tables that belong to later stages (root, tip, rotor, printer, material, ...) stay in
 //! [`Design::tables`] and are read by their own module through [`Design::table`], so each
 //! stage owns its keys and its validation while errors still name the key path.
+//!
+//! Entry points: [`load`] (a `.toml` design or a bare `.csv` station table), [`load_csv`]
+//! (a bare CSV plus a default section), [`parse_toml_str`] and [`parse_csv_str`] (text).
+//! Every problem found is reported at once in a [`DesignError`], each with its file and
+//! line (CSV) or key path (TOML, plus the line).
+//!
+//! # TOML design file
+//!
+//! ```toml
+//! name = "garden-turbine"                 # optional, default: the file name
+//! units = { length = "mm", angle = "deg" } # optional, these are the defaults
+//!
+//! [blade]
+//! section = "naca4412"   # default section for stations without one
+//! stacking = 0.25
+//! flow = "turbine"
+//! rotation = "ccw"
+//!
+//! [[station]]
+//! radius = 40
+//! chord = 60
+//! twist = 25
+//! section = "naca4415"
+//!
+//! [[station]]
+//! radius = 280
+//! chord = 25
+//! twist = 3
+//! ```
+//!
+//! | key | type | default | meaning |
+//! |-----|------|---------|---------|
+//! | `name` | string | file stem | design name; names output files (no `/` or `\`) |
+//! | `units.length` | `"mm"`, `"cm"`, `"m"`, `"in"` | `"mm"` | length unit of stations and of the tables of later stages (1 in = 25.4 mm exactly) |
+//! | `units.angle` | `"deg"`, `"rad"` | `"deg"` | angle unit of station twist |
+//! | `blade.section` | string | none | section for stations that name none |
+//! | `blade.stacking` | number in 0..=1 | 0.25 | chord fraction of the stacking axis |
+//! | `blade.flow` | `"turbine"`, `"propeller"` | `"turbine"` | see [`Flow`] |
+//! | `blade.rotation` | `"ccw"`, `"cw"` | `"ccw"` | seen from upstream, see [`Rotation`] |
+//! | `blade.points-per-side` | integer in 8..=2000 | 120 | section resampling |
+//! | `blade.tolerance` | number, **mm** (whatever `units.length`) | 0.01 | largest mesh deviation, 1e-6..=10 |
+//! | `blade.min-te-thickness` | number, **mm** (whatever `units.length`) | none | thinnest trailing edge, >= 0 |
+//! | `station` | array of tables (`[[station]]`) | | the stations, root to tip |
+//! | `station[i].radius` | number, length unit | required | distance from the rotor axis, >= 0, strictly increasing |
+//! | `station[i].chord` | number, length unit | required | > 0 |
+//! | `station[i].twist` | number, angle unit | required | within -90..=90 degrees, sign as in [`crate::conventions`] |
+//! | `station[i].section` | string | `blade.section` | section designation or file |
+//! | `station[i].thickness` | number, **percent of chord** | none | relative thickness to scale the section to, 1..=50 |
+//! | `station[i].sweep` | number, length unit | 0 | chordwise offset of the stacking point |
+//! | `station[i].prebend` | number, length unit | 0 | out-of-plane offset, positive downstream |
+//! | `stations` | string | | instead of `[[station]]`: a CSV station table, path relative to the TOML file |
+//! | any other table | table | | kept in [`Design::tables`] for a later stage |
+//!
+//! Stations are counted from 1 in key paths: `station[1]` is the first `[[station]]`.
+//! Unknown keys in `units`, `blade` and `station` entries are errors (with "did you mean"
+//! when a key is close), as are unknown top-level keys that are not tables and tables
+//! whose name is a near miss of `units`, `blade` or `station`.
+//!
+//! Lengths in the other tables (`root`, `rotor`, `printer`, ...) are in the file's length
+//! unit: multiply by [`Design::length_to_mm`] (or call [`Design::mm`]).
+//!
+//! # CSV station table
+//!
+//! ```text
+//! # invented demo rows
+//! radius [mm];chord [mm];twist [deg];section;thickness [%]
+//! 40;60;25;naca4415;15
+//! 280;25;3;naca4412;
+//! ```
+//!
+//! * First non-blank, non-comment row: the header, naming the columns in any order and
+//!   case: `radius`, `chord`, `twist` (required), `section` (required unless a default
+//!   section is given by `[blade] section` or by the caller), `thickness`, `sweep`,
+//!   `prebend` (optional). `airfoil` and `profile` are accepted for `section`; columns
+//!   named `note(s)` or `comment(s)` are ignored; any other column is an error.
+//! * A unit may follow the name: `radius [mm]`, `chord (in)`, `twist [deg]`,
+//!   `thickness [%]` or `thickness [fraction]`. Without one, the column is in the design's
+//!   units (for a bare CSV: mm, degrees, percent).
+//! * Separator: comma, semicolon or tab, detected from the header. With semicolon or tab,
+//!   a decimal comma (`12,5`) is read as a decimal point.
+//! * Blank rows (also rows of empty cells), `#` comment rows, CRLF and a UTF-8 byte-order
+//!   mark are tolerated; cells may be quoted. Empty optional cells take their default.
 
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
+
+mod csv_table;
+mod error;
+mod rows;
+mod spans;
+mod suggest;
+mod table;
+mod toml_file;
+mod units;
+
+pub use error::{DesignError, Problem};
+pub use units::{AngleUnit, LengthUnit, RatioUnit};
 
 /// Which way the rotor exchanges energy with the flow.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
@@ -112,4 +206,127 @@ pub struct Design {
     pub length_to_mm: f64,
     /// Optional tables owned by later stages (`root`, `tip`, `rotor`, `printer`, ...).
     pub tables: toml::Table,
+}
+
+/// Label used in messages for text given without a file.
+pub const NO_FILE: &str = "<design>";
+
+/// The file name without extension, for a default design name.
+fn stem(file: &Path) -> String {
+    file.file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .filter(|s| !s.is_empty() && s != "<design>")
+        .unwrap_or_else(|| "design".into())
+}
+
+fn read(path: &Path) -> Result<Vec<u8>, DesignError> {
+    std::fs::read(path).map_err(|e| {
+        DesignError::one(
+            Problem::new(path, format!("cannot read the file: {e}"))
+                .hint("check the path and the file's permissions"),
+        )
+    })
+}
+
+/// Reads a design: a TOML design file (`.toml`) or a bare CSV station table (`.csv`, read
+/// as by [`load_csv`] without a default section). The extension is matched
+/// case-insensitively.
+pub fn load(path: &Path) -> Result<Design, DesignError> {
+    let ext = path
+        .extension()
+        .map(|e| e.to_string_lossy().to_ascii_lowercase());
+    match ext.as_deref() {
+        Some("toml") => {
+            let bytes = read(path)?;
+            let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(&bytes);
+            let text = std::str::from_utf8(bytes).map_err(|_| {
+                DesignError::one(
+                    Problem::new(path, "the file is not UTF-8 text")
+                        .hint("save the design as UTF-8"),
+                )
+            })?;
+            let dir = path.parent().unwrap_or(Path::new(""));
+            toml_file::parse(text, path, dir, Some(path.to_path_buf()))
+        }
+        Some("csv") => load_csv(path, None),
+        _ => Err(DesignError::one(
+            Problem::new(path, "unknown kind of design file")
+                .hint("give a .toml design file or a .csv station table"),
+        )),
+    }
+}
+
+/// Reads a bare CSV station table (see the module docs for the format). Stations without
+/// a section take `default_section` (for example a name given on the command line); with
+/// neither a section column nor a default, that is an error. Blade options are the
+/// defaults, units mm and degrees unless the header names others.
+pub fn load_csv(path: &Path, default_section: Option<&str>) -> Result<Design, DesignError> {
+    let bytes = read(path)?;
+    csv_design(&bytes, path, Some(path.to_path_buf()), default_section)
+}
+
+/// Reads a CSV station table from text, as [`load_csv`] does from a file. `source` labels
+/// messages (`<design>` when `None`).
+pub fn parse_csv_str(
+    text: &str,
+    source: Option<&Path>,
+    default_section: Option<&str>,
+) -> Result<Design, DesignError> {
+    let file = source.unwrap_or(Path::new(NO_FILE));
+    csv_design(
+        text.as_bytes(),
+        file,
+        source.map(Path::to_path_buf),
+        default_section,
+    )
+}
+
+fn csv_design(
+    bytes: &[u8],
+    file: &Path,
+    source: Option<PathBuf>,
+    default_section: Option<&str>,
+) -> Result<Design, DesignError> {
+    let default_section = default_section.filter(|s| !s.trim().is_empty());
+    let mut problems = Vec::new();
+    let rows = csv_table::read(
+        bytes,
+        file,
+        csv_table::Defaults::default(),
+        default_section.is_some(),
+        &mut problems,
+    );
+    let whole = error::Loc::new(file, None, None);
+    let stations = rows::validate(
+        &rows,
+        default_section,
+        "add a 'section' column or give a default section",
+        &whole,
+        &mut problems,
+    );
+    if !problems.is_empty() {
+        return Err(DesignError { problems });
+    }
+    Ok(Design {
+        name: stem(file),
+        source,
+        stations,
+        blade: BladeOptions::default(),
+        length_to_mm: 1.0,
+        tables: toml::Table::new(),
+    })
+}
+
+/// Reads a TOML design from text. `source` labels messages (`<design>` when `None`) and
+/// locates a `stations = "file.csv"` table (relative to the source's folder, or to the
+/// working directory without a source).
+pub fn parse_toml_str(text: &str, source: Option<&Path>) -> Result<Design, DesignError> {
+    let file = source.unwrap_or(Path::new(NO_FILE));
+    let dir = source.and_then(Path::parent).unwrap_or(Path::new(""));
+    toml_file::parse(
+        text.strip_prefix('\u{feff}').unwrap_or(text),
+        file,
+        dir,
+        source.map(Path::to_path_buf),
+    )
 }

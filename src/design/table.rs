@@ -1,0 +1,115 @@
+//! [`Design::table`]: reading an optional table of a later stage, with errors that name
+//! the file and the key path.
+
+use std::path::Path;
+
+use super::error::{DesignError, Problem};
+use super::spans::{Seg, Spans};
+use super::{Design, NO_FILE};
+
+/// Rewords serde's type errors for people writing design files:
+/// `invalid type: string "x", expected f64` becomes `expected a number, found string "x"`.
+fn reword(message: &str) -> String {
+    let Some(rest) = message.strip_prefix("invalid type: ") else {
+        return message.to_string();
+    };
+    let Some((found, expected)) = rest.split_once(", expected ") else {
+        return message.to_string();
+    };
+    let expected = match expected {
+        "f64" | "f32" | "a float" => "a number",
+        "i8" | "i16" | "i32" | "i64" | "u8" | "u16" | "u32" | "u64" | "usize" | "isize"
+        | "an integer" => "a whole number",
+        "a boolean" | "bool" => "true or false",
+        other => other,
+    };
+    format!("expected {expected}, found {found}")
+}
+
+impl Design {
+    /// The file messages about this design name (`<design>` without a file).
+    pub fn file(&self) -> &Path {
+        self.source.as_deref().unwrap_or(Path::new(NO_FILE))
+    }
+
+    /// A length in the file's length unit, in mm (`value * length_to_mm`).
+    pub fn mm(&self, value: f64) -> f64 {
+        value * self.length_to_mm
+    }
+
+    /// A problem at a key path of this design's file (for later stages validating their
+    /// own tables), with the line when the file can be read again to find it.
+    pub fn problem(&self, key: &str, message: impl Into<String>) -> Problem {
+        Problem::new(self.file(), message)
+            .key(key)
+            .line(self.line_of(key))
+    }
+
+    /// Line of a dotted key path in the source file, when it is a TOML file that can be
+    /// read (best effort, for messages only).
+    fn line_of(&self, key: &str) -> Option<usize> {
+        let src = self.source.as_deref()?;
+        let is_toml = src
+            .extension()
+            .is_some_and(|e| e.eq_ignore_ascii_case("toml"));
+        if !is_toml {
+            return None;
+        }
+        let text = std::fs::read_to_string(src).ok()?;
+        let spans = Spans::new(&text);
+        let segs: Vec<Seg> = key.split('.').map(Seg::Key).collect();
+        // The deepest prefix found.
+        (1..=segs.len()).rev().find_map(|n| spans.line(&segs[..n]))
+    }
+
+    /// Deserialises the optional top-level table `key` (e.g. `"rotor"`) for a later stage.
+    ///
+    /// `Ok(None)` when the design has no such table. Errors name the file and the key path,
+    /// e.g. `turbine.toml:12: root.bore-diameter: expected a number, found string "8"`.
+    /// Lengths in the table are in the file's length unit: convert them with
+    /// [`Design::mm`] or [`Design::length_to_mm`]. Use `#[serde(deny_unknown_fields,
+    /// rename_all = "kebab-case")]` on `T` so typos are reported with the known keys.
+    pub fn table<T: serde::de::DeserializeOwned>(
+        &self,
+        key: &str,
+    ) -> Result<Option<T>, DesignError> {
+        let Some(value) = self.tables.get(key) else {
+            return Ok(None);
+        };
+        value.clone().try_into::<T>().map(Some).map_err(|e| {
+            // The toml crate's message ends with "in `a.b`" when the error is below the
+            // table itself.
+            let shown = e.to_string();
+            let inner = shown
+                .lines()
+                .find_map(|l| l.strip_prefix("in `").and_then(|l| l.strip_suffix('`')));
+            let mut path = key.to_string();
+            if let Some(inner) = inner.filter(|s| !s.is_empty()) {
+                path.push('.');
+                path.push_str(inner);
+            } else if let Some(field) = e
+                .message()
+                .strip_prefix("unknown field `")
+                .and_then(|m| m.split('`').next())
+            {
+                path.push('.');
+                path.push_str(field);
+            }
+            DesignError::one(self.problem(&path, reword(e.message())))
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::reword;
+
+    #[test]
+    fn rewording() {
+        assert_eq!(
+            reword("invalid type: string \"x\", expected f64"),
+            "expected a number, found string \"x\""
+        );
+        assert_eq!(reword("missing field `a`"), "missing field `a`");
+    }
+}
