@@ -1,13 +1,17 @@
 //! Printer fit: build volumes, orientation search, plate layouts, printability.
 
 pub mod hull;
+mod layout;
 mod printer;
+pub mod search;
 pub mod yaw;
 
+pub use layout::{layout, polygon_distance, Layout, LayoutOptions, Placed, Plate};
 pub use printer::{
     preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,
     DEFAULT_MIN_FEATURE, DEFAULT_NOZZLE, PRESETS,
 };
+pub use search::{fit_part, score, Fit, FitOptions, Placement};
 
 /// Errors of the printer-fit stage.
 #[derive(Debug, thiserror::Error)]

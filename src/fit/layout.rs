@@ -1,0 +1,446 @@
+//! Plate layout: several parts on as few plates as possible, clearance kept.
+//!
+//! Each part is laid in its preferred orientation from [`super::fit_part`], turned about
+//! the vertical so its footprint is narrowest across the bed (the narrowest width of a
+//! convex polygon is found with one of its edges along the bed's x axis, so only edge
+//! directions are tried), and placed by a bottom-left heuristic: for every candidate x
+//! (against the left margin, beside or aligned with a placed part) the part slides down
+//! to the lowest free y, trying it as is and turned by 180 degrees (tapered blades nest
+//! head to tail). The lowest, then leftmost, spot over all open plates wins (first plate
+//! first); a part that finds no spot opens a new plate.
+//!
+//! Footprints are convex polygons enclosing the hull of the placed vertices (the
+//! intersection of the half-planes bounding it in 64 directions, at most about
+//! `R (1 / cos(pi / 64) - 1)` = 0.12 % of R larger than the hull), so clearance kept
+//! between footprints is kept between the parts. Parts only touch the plate at z >= 0,
+//! so footprints that keep apart keep the solids apart.
+//! Round beds: parts are packed in the square inscribed in the usable circle; a part
+//! that fits the bed only outside that square gets a plate of its own, centred as
+//! [`super::fit_part`] placed it.
+
+use super::hull::{self, P2};
+use super::search::{fit_part, Fit, FitOptions, Placement};
+use super::{FitError, Printer, Volume};
+use crate::mesh::Part;
+use nalgebra::{Matrix3, Rotation3, Vector3};
+
+/// Options of the layout.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct LayoutOptions {
+    /// Options of the single-part search.
+    pub fit: FitOptions,
+    /// Try each part turned by 180 degrees as well (default true).
+    pub flips: bool,
+}
+
+impl LayoutOptions {
+    /// The defaults.
+    pub const DEFAULT: LayoutOptions = LayoutOptions {
+        fit: FitOptions::DEFAULT,
+        flips: true,
+    };
+}
+
+impl Default for LayoutOptions {
+    fn default() -> Self {
+        Self::DEFAULT
+    }
+}
+
+/// One part placed on a plate.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Placed {
+    /// Index of the part in the input.
+    pub part: usize,
+    /// Its name.
+    pub name: String,
+    /// Where it goes, in the printer frame.
+    pub placement: Placement,
+    /// Its footprint on the bed (convex, counter-clockwise), printer frame, mm.
+    pub footprint: Vec<P2>,
+    /// Extents along x, y, z once placed, mm.
+    pub size: [f64; 3],
+}
+
+/// One build plate.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Plate {
+    /// The parts on it.
+    pub parts: Vec<Placed>,
+}
+
+/// The answer of [`layout`].
+#[derive(Debug, Clone, PartialEq)]
+pub struct Layout {
+    /// Plates in order.
+    pub plates: Vec<Plate>,
+    /// Parts that fit no plate even alone, with their single-part answer.
+    pub unplaced: Vec<(usize, Fit)>,
+    /// Single-part answers for every input part, in input order.
+    pub fits: Vec<Fit>,
+}
+
+impl Layout {
+    /// The placed meshes of one plate, ready to write as one multi-part file.
+    pub fn plate_parts(&self, plate: usize, parts: &[Part]) -> Vec<Part> {
+        self.plates
+            .get(plate)
+            .map(|p| {
+                p.parts
+                    .iter()
+                    .filter_map(|pl| {
+                        parts.get(pl.part).map(|src| Part {
+                            name: pl.name.clone(),
+                            mesh: pl.placement.place(&src.mesh),
+                        })
+                    })
+                    .collect()
+            })
+            .unwrap_or_default()
+    }
+}
+
+/// Distance between two convex polygons (0 when they overlap), mm.
+pub fn polygon_distance(p: &[P2], q: &[P2]) -> f64 {
+    if overlap(p, q) {
+        return 0.0;
+    }
+    let mut d = f64::MAX;
+    for (a, b) in [(p, q), (q, p)] {
+        for &v in a {
+            for i in 0..b.len() {
+                d = d.min(point_segment(v, b[i], b[(i + 1) % b.len()]));
+            }
+        }
+    }
+    d
+}
+
+fn point_segment(p: P2, a: P2, b: P2) -> f64 {
+    let (dx, dy) = (b[0] - a[0], b[1] - a[1]);
+    let l2 = dx * dx + dy * dy;
+    let t = if l2 > 0.0 {
+        (((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / l2).clamp(0.0, 1.0)
+    } else {
+        0.0
+    };
+    ((p[0] - a[0] - t * dx).powi(2) + (p[1] - a[1] - t * dy).powi(2)).sqrt()
+}
+
+/// Separating-axis test for convex polygons (touching counts as overlap).
+fn overlap(p: &[P2], q: &[P2]) -> bool {
+    for poly in [p, q] {
+        let n = poly.len();
+        if n < 2 {
+            continue;
+        }
+        for i in 0..n {
+            let (a, b) = (poly[i], poly[(i + 1) % n]);
+            let axis = [a[1] - b[1], b[0] - a[0]];
+            let proj = |s: &[P2]| {
+                s.iter().fold((f64::MAX, f64::MIN), |(lo, hi), v| {
+                    let d = v[0] * axis[0] + v[1] * axis[1];
+                    (lo.min(d), hi.max(d))
+                })
+            };
+            let (p0, p1) = proj(p);
+            let (q0, q1) = proj(q);
+            if p1 < q0 || q1 < p0 {
+                return false;
+            }
+        }
+    }
+    true
+}
+
+/// A convex polygon enclosing `hull` bounded by its support lines in `k` directions.
+fn circumscribed(hull: &[P2], k: usize) -> Vec<P2> {
+    if hull.len() < 3 {
+        return hull.to_vec();
+    }
+    let h: Vec<(f64, f64, f64)> = (0..k)
+        .map(|i| {
+            let t = std::f64::consts::TAU * i as f64 / k as f64;
+            let (c, s) = (t.cos(), t.sin());
+            let sup = hull
+                .iter()
+                .map(|p| p[0] * c + p[1] * s)
+                .fold(f64::MIN, f64::max);
+            (c, s, sup)
+        })
+        .collect();
+    let mut out: Vec<P2> = (0..k)
+        .map(|i| {
+            let (a, b) = (h[i], h[(i + 1) % k]);
+            let det = a.0 * b.1 - a.1 * b.0;
+            [(a.2 * b.1 - a.1 * b.2) / det, (a.0 * b.2 - a.2 * b.0) / det]
+        })
+        .collect();
+    out = hull::convex_hull(&out);
+    out
+}
+
+fn bbox(p: &[P2]) -> [f64; 4] {
+    p.iter()
+        .fold([f64::MAX, f64::MAX, f64::MIN, f64::MIN], |b, v| {
+            [
+                b[0].min(v[0]),
+                b[1].min(v[1]),
+                b[2].max(v[0]),
+                b[3].max(v[1]),
+            ]
+        })
+}
+
+fn shifted(p: &[P2], dx: f64, dy: f64) -> Vec<P2> {
+    p.iter().map(|v| [v[0] + dx, v[1] + dy]).collect()
+}
+
+/// A part ready to pack: rotation and footprint with its box corner at the origin.
+struct Shape {
+    rotation: Matrix3<f64>,
+    /// Footprint moved so its box starts at (0, 0), with the offset applied.
+    poly: Vec<P2>,
+    offset: [f64; 2],
+    z0: f64,
+    size: [f64; 3],
+}
+
+fn shape(part: &Part, rotation: Matrix3<f64>) -> Shape {
+    let pts: Vec<Vector3<f64>> = part
+        .mesh
+        .vertices
+        .iter()
+        .filter(|v| v.coords.iter().all(|c| c.is_finite()))
+        .map(|v| rotation * v.coords)
+        .collect();
+    let p2: Vec<P2> = pts.iter().map(|p| [p.x, p.y]).collect();
+    let (z0, z1) = pts
+        .iter()
+        .fold((f64::MAX, f64::MIN), |(a, b), p| (a.min(p.z), b.max(p.z)));
+    let poly = circumscribed(&hull::convex_hull(&p2), 64);
+    let b = bbox(&poly);
+    Shape {
+        rotation,
+        poly: shifted(&poly, -b[0], -b[1]),
+        offset: [b[0], b[1]],
+        z0,
+        size: [b[2] - b[0], b[3] - b[1], z1 - z0],
+    }
+}
+
+/// The lowest y in `[y0, y1]` at which `poly` (box at the origin) shifted to x is at least
+/// `c` from every obstacle, if any.
+fn lowest_y(poly: &[P2], x: f64, y0: f64, y1: f64, obstacles: &[Vec<P2>], c: f64) -> Option<f64> {
+    if y1 < y0 {
+        return None;
+    }
+    let pb = bbox(poly);
+    let mut blocked: Vec<(f64, f64)> = Vec::new();
+    for q in obstacles {
+        let qb = bbox(q);
+        if x + pb[2] + c <= qb[0] || qb[2] + c <= x + pb[0] {
+            continue;
+        }
+        let lo = qb[1] - pb[3] - c;
+        let hi = qb[3] - pb[1] + c;
+        let d = |y: f64| polygon_distance(&shifted(poly, x, y), q);
+        // d is convex in y (distance between convex sets under translation): find its
+        // minimum by golden-section search, then both crossings of c by bisection.
+        let (mut a, mut b) = (lo, hi);
+        for _ in 0..60 {
+            let m1 = a + 0.382 * (b - a);
+            let m2 = a + 0.618 * (b - a);
+            if d(m1) <= d(m2) {
+                b = m2;
+            } else {
+                a = m1;
+            }
+        }
+        let ym = 0.5 * (a + b);
+        if d(ym) >= c {
+            continue;
+        }
+        let cross = |mut inside: f64, mut outside: f64| {
+            for _ in 0..50 {
+                let m = 0.5 * (inside + outside);
+                if d(m) < c {
+                    inside = m;
+                } else {
+                    outside = m;
+                }
+            }
+            outside
+        };
+        blocked.push((cross(ym, lo), cross(ym, hi)));
+    }
+    blocked.sort_by(|p, q| p.0.total_cmp(&q.0));
+    let mut y = y0;
+    for (lo, hi) in blocked {
+        if lo >= y {
+            // [y, lo] is free: the part stays at y.
+            break;
+        }
+        if hi > y {
+            y = hi;
+        }
+    }
+    // Re-check against every obstacle (the blocked sets may chain).
+    let placed = shifted(poly, x, y);
+    let ok = obstacles
+        .iter()
+        .all(|q| polygon_distance(&placed, q) >= c - 1e-9);
+    (y <= y1 && ok).then_some(y)
+}
+
+/// Lays parts out on as few plates as the heuristic finds (see the module docs).
+pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result<Layout, FitError> {
+    let (a, _, _) = printer.available();
+    let m = printer.margin;
+    let c = printer.clearance;
+    // Usable rectangle on the bed.
+    let rect = match printer.volume {
+        Volume::Box { x, y, .. } => [m, m, x - m, y - m],
+        Volume::Round { .. } => {
+            let s = 0.5 * a / 2f64.sqrt();
+            [-s, -s, s, s]
+        }
+    };
+    let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
+    let mut fits = Vec::with_capacity(parts.len());
+    let mut unplaced = Vec::new();
+    let mut shapes: Vec<(usize, Shape, f64)> = Vec::new();
+    let mut alone: Vec<Placed> = Vec::new();
+    for (i, part) in parts.iter().enumerate() {
+        let f = fit_part(&part.name, &part.mesh, printer, &opts.fit)?;
+        fits.push(f.clone());
+        if !f.fits {
+            unplaced.push((i, f));
+            continue;
+        }
+        // Narrowest across the bed: an edge of the footprint along x.
+        let base = shape(part, f.placement.rotation);
+        let mut best: Option<Shape> = None;
+        let n = base.poly.len();
+        for k in 0..n.max(1) {
+            let t = if n >= 2 {
+                let (p, q) = (base.poly[k], base.poly[(k + 1) % n]);
+                -(q[1] - p[1]).atan2(q[0] - p[0])
+            } else {
+                0.0
+            };
+            let rot =
+                Rotation3::from_axis_angle(&Vector3::z_axis(), t).into_inner() * base.rotation;
+            let s = shape(part, rot);
+            if s.size[0] <= ra + 1e-9
+                && s.size[1] <= rb + 1e-9
+                && best.as_ref().is_none_or(|bs| s.size[1] < bs.size[1])
+            {
+                best = Some(s);
+            }
+        }
+        match best {
+            Some(s) => {
+                let area = hull::area(&s.poly).abs();
+                shapes.push((i, s, area));
+            }
+            None => {
+                // Fits the volume only as the single-part search placed it.
+                let pts: Vec<P2> = part
+                    .mesh
+                    .vertices
+                    .iter()
+                    .map(|v| {
+                        let q = f.placement.apply(v);
+                        [q.x, q.y]
+                    })
+                    .collect();
+                alone.push(Placed {
+                    part: i,
+                    name: part.name.clone(),
+                    placement: f.placement,
+                    footprint: hull::convex_hull(&pts),
+                    size: f.size,
+                });
+            }
+        }
+    }
+    shapes.sort_by(|p, q| q.2.total_cmp(&p.2).then(p.0.cmp(&q.0)));
+    let mut plates: Vec<(Plate, Vec<Vec<P2>>)> = Vec::new();
+    for (i, s, _) in shapes {
+        let mut variants = vec![s];
+        if opts.flips {
+            let r = Rotation3::from_axis_angle(&Vector3::z_axis(), std::f64::consts::PI)
+                .into_inner()
+                * variants[0].rotation;
+            variants.push(shape(&parts[i], r));
+        }
+        // (plate, y, x, variant)
+        let mut best: Option<(usize, f64, f64, usize)> = None;
+        'plates: for (pi, (_, obstacles)) in plates.iter().enumerate() {
+            for (vi, v) in variants.iter().enumerate() {
+                let mut xs = vec![rect[0]];
+                for q in obstacles {
+                    let qb = bbox(q);
+                    xs.push(qb[2] + c);
+                    xs.push(qb[0]);
+                }
+                for x in xs {
+                    if x < rect[0] - 1e-9 || x + v.size[0] > rect[2] + 1e-9 {
+                        continue;
+                    }
+                    if let Some(y) =
+                        lowest_y(&v.poly, x, rect[1], rect[3] - v.size[1], obstacles, c)
+                    {
+                        let better = match best {
+                            None => true,
+                            Some((bp, by, bx, _)) => {
+                                pi == bp && (y < by - 1e-9 || (y < by + 1e-9 && x < bx))
+                            }
+                        };
+                        if better {
+                            best = Some((pi, y, x, vi));
+                        }
+                    }
+                }
+            }
+            if best.is_some() {
+                break 'plates;
+            }
+        }
+        let (pi, y, x, vi) = match best {
+            Some(b) => b,
+            None => {
+                plates.push((Plate::default(), Vec::new()));
+                (plates.len() - 1, rect[1], rect[0], 0)
+            }
+        };
+        let v = &variants[vi];
+        let poly = shifted(&v.poly, x, y);
+        let t = Vector3::new(x - v.offset[0], y - v.offset[1], -v.z0);
+        let placed = Placed {
+            part: i,
+            name: parts[i].name.clone(),
+            placement: Placement {
+                rotation: v.rotation,
+                translation: t,
+            },
+            footprint: poly.clone(),
+            size: v.size,
+        };
+        plates[pi].0.parts.push(placed);
+        plates[pi].1.push(poly);
+    }
+    let mut plates: Vec<Plate> = plates.into_iter().map(|p| p.0).collect();
+    for p in alone {
+        plates.push(Plate { parts: vec![p] });
+    }
+    for p in &mut plates {
+        p.parts.sort_by_key(|x| x.part);
+    }
+    Ok(Layout {
+        plates,
+        unplaced,
+        fits,
+    })
+}

@@ -1,0 +1,713 @@
+//! Single-part fit: the orientation search and the exact check of the placement found.
+//!
+//! # Method
+//! An orientation is a "down" direction (the part's direction that faces the bed) and a
+//! yaw about the vertical. For a fixed down direction the height is exact and the best
+//! yaw is found exactly: by rotating calipers on the footprint's convex hull for a box
+//! volume ([`super::yaw`]), by the smallest enclosing circle for a round bed (yaw does
+//! not matter there). Down directions are searched by best-first branch and bound over
+//! the sphere, cut into cells by a cube map (gnomonic squares on the faces x, y, z; a
+//! direction and its opposite give the same extents, so three faces cover every case).
+//!
+//! The objective is the largest ratio of the part's extent to the space available on
+//! the three printer axes (at most 1 means it fits). Turning a part by an angle `a`
+//! moves every vertex by at most `a R` (R: the largest distance from the part's centre),
+//! so every extent changes by at most `L a` with `L = 2R`. A cell whose centre has ratio
+//! `r` and whose corners lie within angle `a` of the centre contains no orientation
+//! better than `r - L a / s` (s: the smallest available length): such a cell is dropped
+//! when that bound cannot beat the best found. Cells are split until their radius is
+//! below the angular resolution `eps`.
+//!
+//! # Resolution guarantee
+//! With resolution `eps` (radians) and `L = 2R`: **if some orientation fits with at least
+//! `L eps` to spare on every axis, a fit is found.** When the search reports no fit, no
+//! orientation has a ratio below the reported best minus `L eps / s`. The guarantee is
+//! stated in the report in millimetres ([`Fit::guarantee`]).
+//!
+//! # Exactness
+//! The search runs on a subset of the convex hull's vertices (extremes along many
+//! directions, [`super::hull::support_subset`]): extents on a subset are never larger than
+//! the true ones, so "no fit" on the subset proves "no fit". Every fit reported is then
+//! checked on **every vertex** of the mesh in the reported orientation; vertices that
+//! break it join the subset and the search goes on. The numbers reported (size, gaps,
+//! overshoot, scale) are measured on every vertex.
+
+use super::hull::{self, P2};
+use super::yaw::best_yaw;
+use super::{FitError, Printer, Volume};
+use crate::mesh::TriMesh;
+use nalgebra::{Matrix3, Matrix4, Point3, Rotation3, Vector3};
+use std::cmp::Ordering;
+use std::collections::{BinaryHeap, HashMap};
+
+/// Options of the orientation search.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FitOptions {
+    /// Angular resolution of the search over down directions, degrees (default 0.5).
+    pub resolution_deg: f64,
+    /// Directions used to pick the hull vertices searched on (default 1000).
+    pub support_directions: usize,
+    /// Slack allowed when comparing an extent with the space available, mm (default 1e-6,
+    /// for rounding only).
+    pub tolerance: f64,
+    /// Most down directions evaluated before the search gives up its guarantee (default
+    /// 200 000).
+    pub max_evaluations: usize,
+}
+
+impl FitOptions {
+    /// The defaults.
+    pub const DEFAULT: FitOptions = FitOptions {
+        resolution_deg: 0.5,
+        support_directions: 1000,
+        tolerance: 1e-6,
+        max_evaluations: 200_000,
+    };
+}
+
+impl Default for FitOptions {
+    fn default() -> Self {
+        Self::DEFAULT
+    }
+}
+
+/// A rigid placement from the part's frame to the printer's frame: `p' = R p + t`.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Placement {
+    /// Rotation matrix (rows: the printer's x, y, z axes in part coordinates).
+    pub rotation: Matrix3<f64>,
+    /// Translation, mm.
+    pub translation: Vector3<f64>,
+}
+
+impl Placement {
+    /// The 4x4 homogeneous matrix.
+    pub fn matrix(&self) -> Matrix4<f64> {
+        let mut m = Matrix4::identity();
+        m.fixed_view_mut::<3, 3>(0, 0).copy_from(&self.rotation);
+        m.fixed_view_mut::<3, 1>(0, 3).copy_from(&self.translation);
+        m
+    }
+
+    /// Places one point.
+    pub fn apply(&self, p: &Point3<f64>) -> Point3<f64> {
+        Point3::from(self.rotation * p.coords + self.translation)
+    }
+
+    /// A placed copy of a mesh.
+    pub fn place(&self, mesh: &TriMesh) -> TriMesh {
+        mesh.transformed(&self.matrix())
+    }
+
+    /// Rotation angles in degrees `[about x, about y, about z]`, applied in that order
+    /// about the fixed printer axes: `R = Rz * Ry * Rx`.
+    pub fn angles_deg(&self) -> [f64; 3] {
+        let (rx, ry, rz) = Rotation3::from_matrix_unchecked(self.rotation).euler_angles();
+        [rx.to_degrees(), ry.to_degrees(), rz.to_degrees()]
+    }
+}
+
+/// The answer for one part.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Fit {
+    /// True when the part fits inside the volume, margin kept, in [`Fit::placement`].
+    pub fits: bool,
+    /// The placement found: the preferred fitting one, or the one closest to fitting.
+    pub placement: Placement,
+    /// Extents along the printer's x, y, z in that placement, mm.
+    pub size: [f64; 3],
+    /// Distance from the part to the walls, mm: x and y the smaller of the two sides (for
+    /// a round bed both are the radial gap), z the gap below the top. Fits when each is at
+    /// least the margin.
+    pub wall_gap: [f64; 3],
+    /// Largest amount by which an extent exceeds the space available, mm (0 when it fits).
+    pub overshoot: f64,
+    /// Largest uniform scale of the part that fits in this placement (below 1 when it
+    /// does not fit).
+    pub scale_to_fit: f64,
+    /// Preference score of the placement (lower is better; see [`score`]).
+    pub score: f64,
+    /// Area of the part's faces resting on the bed, mm^2.
+    pub bed_contact: f64,
+    /// Area of downward faces more than 45 degrees from vertical (not on the bed), mm^2
+    /// (they need support; 45 degrees is common practice).
+    pub overhang_area: f64,
+    /// Angular resolution used, degrees.
+    pub resolution_deg: f64,
+    /// Any orientation that fits with this much to spare on every axis is found, mm
+    /// (`2 R eps`, see the module docs).
+    pub guarantee: f64,
+    /// False when the search stopped at [`FitOptions::max_evaluations`] before finishing
+    /// (the guarantee then does not hold).
+    pub complete: bool,
+    /// Down directions evaluated.
+    pub evaluated: usize,
+}
+
+/// Score of a fitting placement, lower is better:
+/// `height / available height + 0.1 * ratio - 0.25 * contact fraction`, where the ratio
+/// is the largest extent-to-space ratio (small: large margins) and the contact fraction
+/// is the share of the footprint's hull resting flat on the bed (a flat face down prints
+/// without supports and sticks well). Low height puts the long axis on the bed, which
+/// also keeps layer lines along the span (common practice for strength).
+pub fn score(height_ratio: f64, ratio: f64, contact_fraction: f64) -> f64 {
+    height_ratio + 0.1 * ratio - 0.25 * contact_fraction.clamp(0.0, 1.0)
+}
+
+#[derive(Debug, Clone, Copy)]
+struct Avail {
+    a: f64,
+    b: f64,
+    h: f64,
+    round: bool,
+}
+
+impl Avail {
+    fn of(p: &Printer) -> Self {
+        let (a, b, h) = p.available();
+        Avail {
+            a,
+            b,
+            h,
+            round: matches!(p.volume, Volume::Round { .. }),
+        }
+    }
+    fn min(&self) -> f64 {
+        self.a.min(self.b).min(self.h)
+    }
+}
+
+#[derive(Debug, Clone, Copy)]
+struct Eval {
+    up: Vector3<f64>,
+    yaw: f64,
+    ratio: f64,
+    height_ratio: f64,
+    footprint_area: f64,
+}
+
+fn frame(up: &Vector3<f64>) -> (Vector3<f64>, Vector3<f64>) {
+    let seed = if up.x.abs() < 0.9 {
+        Vector3::x()
+    } else {
+        Vector3::y()
+    };
+    let b1 = (seed - up * seed.dot(up)).normalize();
+    let b2 = up.cross(&b1);
+    (b1, b2)
+}
+
+fn rotation(up: &Vector3<f64>, yaw: f64) -> Matrix3<f64> {
+    let (b1, b2) = frame(up);
+    let (c, s) = (yaw.cos(), yaw.sin());
+    let e1 = b1 * c + b2 * s;
+    let e2 = -b1 * s + b2 * c;
+    Matrix3::from_rows(&[e1.transpose(), e2.transpose(), up.transpose()])
+}
+
+fn evaluate(pts: &[Vector3<f64>], up: Vector3<f64>, av: &Avail) -> Eval {
+    let (b1, b2) = frame(&up);
+    let (mut z0, mut z1) = (f64::MAX, f64::MIN);
+    let p2: Vec<P2> = pts
+        .iter()
+        .map(|v| {
+            let z = up.dot(v);
+            z0 = z0.min(z);
+            z1 = z1.max(z);
+            [b1.dot(v), b2.dot(v)]
+        })
+        .collect();
+    let hull2 = hull::convex_hull(&p2);
+    let height_ratio = if pts.is_empty() {
+        0.0
+    } else {
+        (z1 - z0) / av.h
+    };
+    let (yaw, fp) = if av.round {
+        let (_, r) = hull::enclosing_circle(&hull2);
+        (0.0, 2.0 * r / av.a)
+    } else {
+        let y = best_yaw(&hull2, av.a, av.b);
+        (y.angle, y.ratio)
+    };
+    Eval {
+        up,
+        yaw,
+        ratio: fp.max(height_ratio),
+        height_ratio,
+        footprint_area: hull::area(&hull2).abs(),
+    }
+}
+
+struct Cell {
+    face: usize,
+    a: [f64; 2],
+    b: [f64; 2],
+    alpha: f64,
+    ev: Eval,
+    lb: f64,
+}
+
+struct Queued(f64, usize);
+impl PartialEq for Queued {
+    fn eq(&self, o: &Self) -> bool {
+        self.0.total_cmp(&o.0) == Ordering::Equal
+    }
+}
+impl Eq for Queued {}
+impl PartialOrd for Queued {
+    fn partial_cmp(&self, o: &Self) -> Option<Ordering> {
+        Some(self.cmp(o))
+    }
+}
+impl Ord for Queued {
+    fn cmp(&self, o: &Self) -> Ordering {
+        // Reversed: BinaryHeap pops the smallest bound first.
+        o.0.total_cmp(&self.0).then(o.1.cmp(&self.1))
+    }
+}
+
+fn cube_dir(face: usize, a: f64, b: f64) -> Vector3<f64> {
+    let mut v = Vector3::zeros();
+    v[face] = 1.0;
+    v[(face + 1) % 3] = a;
+    v[(face + 2) % 3] = b;
+    v.normalize()
+}
+
+struct Search {
+    best: Eval,
+    evaluated: usize,
+    complete: bool,
+}
+
+/// Best-first branch and bound over down directions (see the module docs).
+fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOptions) -> Search {
+    let eps = opts.resolution_deg.to_radians().max(1e-6);
+    let slope = lip / av.min();
+    let mut cells: Vec<Cell> = Vec::new();
+    let mut heap = BinaryHeap::new();
+    let mut evaluated = 0usize;
+    let mut best: Option<Eval> = None;
+    let make = |face: usize, a: [f64; 2], b: [f64; 2], cells: &mut Vec<Cell>| {
+        let (am, bm) = (0.5 * (a[0] + a[1]), 0.5 * (b[0] + b[1]));
+        let c = cube_dir(face, am, bm);
+        let alpha = [(a[0], b[0]), (a[0], b[1]), (a[1], b[0]), (a[1], b[1])]
+            .iter()
+            .map(|&(x, y)| c.dot(&cube_dir(face, x, y)).clamp(-1.0, 1.0).acos())
+            .fold(0.0, f64::max);
+        let ev = evaluate(pts, c, av);
+        let lb = ev.ratio - slope * alpha;
+        cells.push(Cell {
+            face,
+            a,
+            b,
+            alpha,
+            ev,
+            lb,
+        });
+        cells.len() - 1
+    };
+    const START: usize = 6;
+    for face in 0..3 {
+        for i in 0..START {
+            for j in 0..START {
+                let s = 2.0 / START as f64;
+                let a = [-1.0 + s * i as f64, -1.0 + s * (i + 1) as f64];
+                let b = [-1.0 + s * j as f64, -1.0 + s * (j + 1) as f64];
+                let k = make(face, a, b, &mut cells);
+                evaluated += 1;
+                heap.push(Queued(cells[k].lb, k));
+            }
+        }
+    }
+    for c in &cells {
+        if best.is_none_or(|b| c.ev.ratio < b.ratio) {
+            best = Some(c.ev);
+        }
+    }
+    let mut best = best.unwrap_or(Eval {
+        up: Vector3::z(),
+        yaw: 0.0,
+        ratio: f64::MAX,
+        height_ratio: 0.0,
+        footprint_area: 0.0,
+    });
+    let fits = |e: &Eval| e.ratio <= 1.0 + opts.tolerance / av.min();
+    let mut complete = true;
+    while let Some(Queued(lb, k)) = heap.pop() {
+        if fits(&best) || lb >= best.ratio {
+            break;
+        }
+        if evaluated >= opts.max_evaluations {
+            complete = false;
+            break;
+        }
+        let (face, a, b, alpha) = (cells[k].face, cells[k].a, cells[k].b, cells[k].alpha);
+        if alpha < eps {
+            continue;
+        }
+        let (am, bm) = (0.5 * (a[0] + a[1]), 0.5 * (b[0] + b[1]));
+        for (ra, rb) in [
+            ([a[0], am], [b[0], bm]),
+            ([a[0], am], [bm, b[1]]),
+            ([am, a[1]], [b[0], bm]),
+            ([am, a[1]], [bm, b[1]]),
+        ] {
+            let c = make(face, ra, rb, &mut cells);
+            evaluated += 1;
+            if cells[c].ev.ratio < best.ratio {
+                best = cells[c].ev;
+            }
+            heap.push(Queued(cells[c].lb, c));
+        }
+    }
+    Search {
+        best,
+        evaluated,
+        complete,
+    }
+}
+
+/// Large flat faces of the mesh that lie on its convex hull: `(outward normal, area)`.
+fn flats(mesh: &TriMesh) -> Vec<(Vector3<f64>, f64)> {
+    let mut groups: HashMap<[i32; 3], (Vector3<f64>, Vec<(usize, f64)>)> = HashMap::new();
+    for t in 0..mesh.len() {
+        let n = mesh.scaled_normal(t);
+        let len = n.norm();
+        if !(len > 0.0) || !len.is_finite() {
+            continue;
+        }
+        let u = n / len;
+        let key = [
+            (u.x * 300.0).round() as i32,
+            (u.y * 300.0).round() as i32,
+            (u.z * 300.0).round() as i32,
+        ];
+        let g = groups.entry(key).or_insert((Vector3::zeros(), Vec::new()));
+        g.0 += n;
+        g.1.push((t, 0.5 * len));
+    }
+    let mut list: Vec<(Vector3<f64>, Vec<(usize, f64)>, f64)> = groups
+        .into_values()
+        .map(|(n, tris)| {
+            let area = tris.iter().map(|x| x.1).sum();
+            (n, tris, area)
+        })
+        .collect();
+    list.sort_by(|p, q| q.2.total_cmp(&p.2));
+    list.truncate(12);
+    let size = mesh
+        .bounding_box()
+        .map(|b| b.size().norm())
+        .unwrap_or(1.0)
+        .max(1e-9);
+    let tol = 1e-6 * size;
+    list.into_iter()
+        .filter_map(|(n, tris, _)| {
+            let n = n.try_normalize(0.0)?;
+            let support = mesh
+                .vertices
+                .iter()
+                .map(|v| n.dot(&v.coords))
+                .fold(f64::MIN, f64::max);
+            let area: f64 = tris
+                .iter()
+                .filter(|(t, _)| {
+                    mesh.corners(*t)
+                        .iter()
+                        .all(|c| n.dot(&c.coords) >= support - tol)
+                })
+                .map(|x| x.1)
+                .sum();
+            (area > 0.0).then_some((n, area))
+        })
+        .collect()
+}
+
+/// Size, gaps, fit and placement of every vertex in a rotation; the indices of the
+/// vertices that bound each axis (for the subset).
+struct Measure {
+    placement: Placement,
+    size: [f64; 3],
+    wall_gap: [f64; 3],
+    fits: bool,
+    overshoot: f64,
+    scale: f64,
+    extremes: Vec<usize>,
+}
+
+fn measure(
+    verts: &[Point3<f64>],
+    rot: Matrix3<f64>,
+    printer: &Printer,
+    av: &Avail,
+    tol: f64,
+) -> Measure {
+    let mut lo = [f64::MAX; 3];
+    let mut hi = [f64::MIN; 3];
+    let mut ilo = [0usize; 3];
+    let mut ihi = [0usize; 3];
+    let rotated: Vec<Vector3<f64>> = verts.iter().map(|v| rot * v.coords).collect();
+    for (i, p) in rotated.iter().enumerate() {
+        for k in 0..3 {
+            if p[k] < lo[k] {
+                lo[k] = p[k];
+                ilo[k] = i;
+            }
+            if p[k] > hi[k] {
+                hi[k] = p[k];
+                ihi[k] = i;
+            }
+        }
+    }
+    let size = [hi[0] - lo[0], hi[1] - lo[1], hi[2] - lo[2]];
+    let mut extremes: Vec<usize> = ilo.iter().chain(ihi.iter()).copied().collect();
+    let (cx, cy) = printer.bed_centre();
+    match printer.volume {
+        Volume::Box { x, y, z } => {
+            let t = Vector3::new(
+                cx - 0.5 * (lo[0] + hi[0]),
+                cy - 0.5 * (lo[1] + hi[1]),
+                -lo[2],
+            );
+            let wall_gap = [0.5 * (x - size[0]), 0.5 * (y - size[1]), z - size[2]];
+            let over = [size[0] - av.a, size[1] - av.b, size[2] - av.h];
+            Measure {
+                placement: Placement {
+                    rotation: rot,
+                    translation: t,
+                },
+                size,
+                wall_gap,
+                fits: over.iter().all(|&o| o <= tol),
+                overshoot: over.iter().fold(0.0, |m, &o| m.max(o)),
+                scale: (av.a / size[0]).min(av.b / size[1]).min(av.h / size[2]),
+                extremes,
+            }
+        }
+        Volume::Round { diameter, height } => {
+            let p2: Vec<P2> = rotated.iter().map(|p| [p.x, p.y]).collect();
+            let h2 = hull::convex_hull(&p2);
+            let (c, r) = hull::enclosing_circle(&h2);
+            let t = Vector3::new(cx - c[0], cy - c[1], -lo[2]);
+            // Exact radial reach of the placed vertices from the bed centre.
+            let (mut reach, mut far) = (0.0f64, 0usize);
+            for (i, p) in p2.iter().enumerate() {
+                let d = ((p[0] - c[0]).powi(2) + (p[1] - c[1]).powi(2)).sqrt();
+                if d > reach {
+                    reach = d;
+                    far = i;
+                }
+            }
+            extremes.push(far);
+            let reach = reach.max(r);
+            let gap = 0.5 * diameter - reach;
+            let over = [2.0 * reach - av.a, size[2] - av.h];
+            Measure {
+                placement: Placement {
+                    rotation: rot,
+                    translation: t,
+                },
+                size,
+                wall_gap: [gap, gap, height - size[2]],
+                fits: over.iter().all(|&o| o <= tol),
+                overshoot: over.iter().fold(0.0, |m, &o| m.max(o)),
+                scale: (av.a / (2.0 * reach)).min(av.h / size[2]),
+                extremes,
+            }
+        }
+    }
+}
+
+fn overhang_and_contact(mesh: &TriMesh, pl: &Placement) -> (f64, f64) {
+    let placed: Vec<Point3<f64>> = mesh.vertices.iter().map(|v| pl.apply(v)).collect();
+    let zmin = placed.iter().map(|p| p.z).fold(f64::MAX, f64::min);
+    let size = mesh.bounding_box().map(|b| b.size().norm()).unwrap_or(1.0);
+    let tol = 1e-6 * size.max(1.0);
+    let sin45 = std::f64::consts::FRAC_1_SQRT_2;
+    let cos1 = 1f64.to_radians().cos();
+    let (mut over, mut contact) = (0.0, 0.0);
+    for t in &mesh.triangles {
+        let [a, b, c] = t.map(|i| placed[i as usize]);
+        let n = (b - a).cross(&(c - a));
+        let len = n.norm();
+        if !(len > 0.0) {
+            continue;
+        }
+        let nz = n.z / len;
+        let on_bed = [a, b, c].iter().all(|p| p.z <= zmin + tol);
+        if on_bed && nz < -cos1 {
+            contact += 0.5 * len;
+        } else if nz < -sin45 {
+            over += 0.5 * len;
+        }
+    }
+    (over, contact)
+}
+
+/// Finds how a part fits the printer (see the module docs for the method and the
+/// guarantee). Errors only when the mesh has no finite vertex.
+pub fn fit_part(
+    name: &str,
+    mesh: &TriMesh,
+    printer: &Printer,
+    opts: &FitOptions,
+) -> Result<Fit, FitError> {
+    let verts: Vec<Point3<f64>> = mesh
+        .vertices
+        .iter()
+        .copied()
+        .filter(|v| v.coords.iter().all(|c| c.is_finite()))
+        .collect();
+    if verts.is_empty() {
+        return Err(FitError::EmptyPart(name.to_string()));
+    }
+    let av = Avail::of(printer);
+    let bb =
+        crate::mesh::Aabb::of_points(&verts).ok_or_else(|| FitError::EmptyPart(name.into()))?;
+    let centre = nalgebra::center(&bb.min, &bb.max);
+    let radius = verts
+        .iter()
+        .map(|v| (v - centre).norm())
+        .fold(0.0, f64::max);
+    let lip = 2.0 * radius;
+    let mut subset: Vec<usize> = hull::support_subset(&verts, opts.support_directions);
+    let flat_list = flats(mesh);
+    let eps = opts.resolution_deg.to_radians().max(1e-6);
+    let mut evaluated = 0;
+    let mut complete = true;
+    let finish = |m: Measure, sc: f64, evaluated: usize, complete: bool| {
+        let (overhang_area, bed_contact) = overhang_and_contact(mesh, &m.placement);
+        Fit {
+            fits: m.fits,
+            placement: m.placement,
+            size: m.size,
+            wall_gap: m.wall_gap,
+            overshoot: m.overshoot,
+            scale_to_fit: m.scale,
+            score: sc,
+            bed_contact,
+            overhang_area,
+            resolution_deg: opts.resolution_deg,
+            guarantee: lip * eps,
+            complete,
+            evaluated,
+        }
+    };
+    for round in 0..4 {
+        if round == 3 {
+            // Last resort: every vertex (always exact, slower).
+            subset = (0..verts.len()).collect();
+        }
+        let pts: Vec<Vector3<f64>> = subset.iter().map(|&i| verts[i] - centre).collect();
+        let search = branch_and_bound(&pts, lip, &av, opts);
+        evaluated += search.evaluated;
+        complete &= search.complete;
+        let fit_limit = 1.0 + opts.tolerance / av.min();
+        // Special directions: flat faces down and the part's own axes, evaluated exactly
+        // (parts that fit only just, face down, are found whatever the resolution).
+        let mut best = search.best;
+        let specials = flat_list.iter().map(|(n, _)| -n).chain(
+            [Vector3::x(), Vector3::y(), Vector3::z()]
+                .into_iter()
+                .flat_map(|e| [e, -e]),
+        );
+        for up in specials {
+            let e = evaluate(&pts, up, &av);
+            evaluated += 1;
+            if e.ratio < best.ratio {
+                best = e;
+            }
+        }
+        if best.ratio > fit_limit {
+            // Proven on a subset of the hull: no orientation fits.
+            let rot = rotation(&best.up, best.yaw);
+            let m = measure(&verts, rot, printer, &av, opts.tolerance);
+            return Ok(finish(m, f64::INFINITY, evaluated, complete));
+        }
+        // Preference among fitting directions.
+        let contact_of = |e: &Eval| -> f64 {
+            let cos1 = 1f64.to_radians().cos();
+            flat_list
+                .iter()
+                .filter(|(n, _)| (-n).dot(&e.up) > cos1 || n.dot(&(-e.up)) > cos1)
+                .map(|x| x.1)
+                .fold(0.0, f64::max)
+                / e.footprint_area.max(1e-12)
+        };
+        let sc = |e: &Eval| score(e.height_ratio, e.ratio, contact_of(e));
+        let mut ups: Vec<Vector3<f64>> = hull::sphere_directions(300);
+        ups.extend(flat_list.iter().map(|(n, _)| -n));
+        ups.push(best.up);
+        ups.push(-best.up);
+        let mut cands: Vec<Eval> = ups
+            .iter()
+            .map(|u| evaluate(&pts, *u, &av))
+            .filter(|e| e.ratio <= fit_limit)
+            .collect();
+        evaluated += ups.len();
+        cands.sort_by(|p, q| sc(p).total_cmp(&sc(q)));
+        // Local pattern search around the best few.
+        let mut refined = Vec::new();
+        for start in cands.iter().take(3) {
+            let mut cur = *start;
+            let mut step = 4f64.to_radians();
+            while step >= 0.5 * eps {
+                let (b1, b2) = frame(&cur.up);
+                let mut improved = false;
+                for axis in [b1, b2, -b1, -b2] {
+                    let r = Rotation3::from_axis_angle(&nalgebra::Unit::new_normalize(axis), step);
+                    let e = evaluate(&pts, r * cur.up, &av);
+                    evaluated += 1;
+                    if e.ratio <= fit_limit && sc(&e) < sc(&cur) - 1e-12 {
+                        cur = e;
+                        improved = true;
+                        break;
+                    }
+                }
+                if !improved {
+                    step *= 0.5;
+                }
+            }
+            refined.push(cur);
+        }
+        cands.extend(refined);
+        cands.sort_by(|p, q| sc(p).total_cmp(&sc(q)));
+        // Exact check on every vertex, growing the subset when a vertex breaks a fit.
+        let mut extra: Vec<usize> = Vec::new();
+        for cand in cands.iter().take(20) {
+            let mut e = *cand;
+            for _ in 0..8 {
+                let rot = rotation(&e.up, e.yaw);
+                let m = measure(&verts, rot, printer, &av, opts.tolerance);
+                if m.fits {
+                    return Ok(finish(m, sc(&e), evaluated, complete));
+                }
+                extra.extend(&m.extremes);
+                let mut local = pts.clone();
+                local.extend(extra.iter().map(|&i| verts[i] - centre));
+                e = evaluate(&local, e.up, &av);
+                evaluated += 1;
+                if e.ratio > fit_limit {
+                    break;
+                }
+            }
+        }
+        subset.extend(extra);
+        subset.sort_unstable();
+        subset.dedup();
+    }
+    // Unreachable in practice: the last round searched every vertex, and a fit found
+    // there is exact. Report the closest placement found.
+    let pts: Vec<Vector3<f64>> = verts.iter().map(|v| v - centre).collect();
+    let search = branch_and_bound(&pts, lip, &av, opts);
+    let rot = rotation(&search.best.up, search.best.yaw);
+    let m = measure(&verts, rot, printer, &av, opts.tolerance);
+    Ok(finish(
+        m,
+        f64::INFINITY,
+        evaluated + search.evaluated,
+        false,
+    ))
+}
