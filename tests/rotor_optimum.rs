@@ -238,12 +238,12 @@ fn prandtl_tip_loss_limits_and_chord() {
         assert!(f <= last + 1e-15, "F grows outward at r = {r}");
         last = f;
     }
-    // With tip loss on, the table's chord is F times the optimum chord (stations the
-    // chord floor leaves alone).
+    // With tip loss on, the table's chord is F times the optimum chord (a floor of 1e-12 mm
+    // leaves every station alone but the tip, where F = 0).
     let plain_t = draft(&demo()).unwrap();
     let spec = DraftSpec {
         tip_loss: true,
-        min_chord: Some(0.0),
+        min_chord: Some(1e-12),
         ..demo()
     };
     let lossy = draft(&spec).unwrap();
@@ -601,4 +601,25 @@ fn cli_exits_2_on_bad_input() {
         !dir.path().join("out").exists(),
         "nothing written on bad input"
     );
+}
+
+#[test]
+fn draft_chains_into_the_design_input() {
+    // The table must read back through the design-input stage as written (mm, degrees).
+    let t = draft(&DraftSpec {
+        spacing: Spacing::Cosine,
+        linear: Some(LinearRange { from: 0.4, to: 0.8 }),
+        ..demo()
+    })
+    .unwrap();
+    let mut buf = Vec::new();
+    t.write_csv(&mut buf).unwrap();
+    let text = String::from_utf8(buf).unwrap();
+    let design = spanwright::design::parse_csv_str(&text, None, None).unwrap();
+    assert_eq!(design.stations.len(), t.stations.len());
+    for (d, s) in design.stations.iter().zip(&t.stations) {
+        assert!((d.radius - s.radius).abs() <= 5e-4 && (d.chord - s.chord).abs() <= 5e-4);
+        assert!((d.twist - s.twist).abs() <= 5e-4);
+        assert_eq!(d.section, "naca4412");
+    }
 }

@@ -308,7 +308,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
     };
 
     remarks.extend(judge(spec, &stations, &floored, floor, rpm, tip_speed));
-    remarks.sort_by(|a, b| b.grade.cmp(&a.grade));
+    remarks.sort_by_key(|r| std::cmp::Reverse(r.grade));
     Ok(DraftTable {
         spec: spec.clone(),
         stations,

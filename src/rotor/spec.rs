@@ -297,11 +297,11 @@ impl DraftSpec {
             }
         }
         if let Some(m) = self.min_chord {
-            if !(m.is_finite() && m >= 0.0) {
+            if !(m.is_finite() && m > 0.0) {
                 bad(
                     "min_chord",
                     m.to_string(),
-                    "must be a length in mm, 0 or more".into(),
+                    "must be a positive length in mm (a zero chord cannot be built)".into(),
                 );
             }
         }
