@@ -623,3 +623,36 @@ fn draft_chains_into_the_design_input() {
         assert_eq!(d.section, "naca4412");
     }
 }
+
+#[test]
+fn cli_reads_a_spec_file_and_options_override_it() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("spec.toml"),
+        "tip_radius = 600.0\nhub_radius = 90.0\nblades = 3\ntip_speed_ratio = 6.0\n\
+         design_cl = 1.0\ndesign_alpha = 6.0\nstations = 9\n",
+    )
+    .unwrap();
+    let out = cli(
+        &["--spec", "spec.toml", "--stations", "5", "-o", "t.csv"],
+        dir.path(),
+    );
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let mut rd = csv::Reader::from_path(dir.path().join("t.csv")).unwrap();
+    assert_eq!(rd.records().count(), 5);
+    // A bad key in the spec file: exit 2, naming the file and the key.
+    std::fs::write(
+        dir.path().join("bad.toml"),
+        "tip_radius = 600.0\nbladez = 3\n",
+    )
+    .unwrap();
+    let out = cli(&["--spec", "bad.toml"], dir.path());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(err.contains("bad.toml") && err.contains("bladez"), "{err}");
+}

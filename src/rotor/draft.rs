@@ -186,6 +186,19 @@ fn ideal(spec: &DraftSpec, r: f64) -> (f64, f64, f64) {
 /// the ideal values over the range, applied over the whole blade. Finally no chord is
 /// written below [`DraftSpec::chord_floor`].
 ///
+/// # Example
+/// ```
+/// use spanwright::rotor::{draft, DraftSpec};
+/// // R = 600 mm, hub 90 mm, 3 blades, tip speed ratio 6, Cl 1.0 at 6 degrees.
+/// let table = draft(&DraftSpec::new(600.0, 90.0, 3, 6.0, 1.0, 6.0))?;
+/// assert_eq!(table.stations.len(), 20);
+/// assert!(table.power_coefficient < 16.0 / 27.0);
+/// let mut csv = Vec::new();
+/// table.write_csv(&mut csv)?;
+/// assert!(csv.starts_with(b"radius [mm],chord [mm],twist [deg],section"));
+/// # Ok::<(), spanwright::rotor::DraftError>(())
+/// ```
+///
 /// # Errors
 /// [`DraftError::Invalid`] listing every bad value, [`DraftError::Propeller`] for
 /// `flow = propeller`, [`DraftError::NonPositiveChord`] when the straight chord reaches 0.
