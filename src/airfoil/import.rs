@@ -259,6 +259,31 @@ fn looks_backwards(section: &Section) -> bool {
     }
 }
 
+/// Re-orders a loop given from the leading edge round to the leading edge so that it
+/// runs from the trailing edge instead: the point farthest from the start is the
+/// trailing edge, or, when it and its farther neighbour form a segment facing the start
+/// (a blunt trailing edge), that segment becomes the trailing-edge segment.
+fn start_at_trailing_edge(pts: &[Point2<f64>], lines: &[usize]) -> (Vec<Point2<f64>>, Vec<usize>) {
+    let n = pts.len();
+    let start = pts[0];
+    let m = if pts[0] == pts[n - 1] { n - 1 } else { n };
+    let dist = |i: usize| (pts[i] - start).norm();
+    let k = (0..m)
+        .max_by(|&a, &b| dist(a).total_cmp(&dist(b)))
+        .unwrap_or(0);
+    let (prev, next) = ((k + m - 1) % m, (k + 1) % m);
+    let j = if dist(prev) > dist(next) { prev } else { next };
+    let blunt = dist(k) - dist(j) < 0.5 * (pts[k] - pts[j]).norm();
+    let begin = if blunt && j == next { next } else { k };
+    let mut p: Vec<Point2<f64>> = (0..m).map(|i| pts[(begin + i) % m]).collect();
+    let mut l: Vec<usize> = (0..m).map(|i| lines[(begin + i) % m]).collect();
+    if !blunt {
+        p.push(pts[k]);
+        l.push(lines[k]);
+    }
+    (p, l)
+}
+
 /// Normalises and checks a raw outline; `name` becomes the section's name.
 pub fn normalize_raw(raw: &RawOutline, name: &str, file: &str) -> Result<Section, SectionError> {
     let (mut pts, mut lines) = dedup_lines(raw);
@@ -280,17 +305,7 @@ pub fn normalize_raw(raw: &RawOutline, name: &str, file: &str) -> Result<Section
         normalize_with_frame(name, &pts).map_err(|e| SectionError::shape(file, e))?;
     if raw.layout == Layout::Loop && looks_backwards(&section) {
         // A loop that starts at the leading edge: start it at the trailing edge instead.
-        let start = pts[0];
-        let k = (0..pts.len())
-            .max_by(|&a, &b| (pts[a] - start).norm().total_cmp(&(pts[b] - start).norm()))
-            .unwrap_or(0);
-        let skip = usize::from(pts[0] == pts[pts.len() - 1]);
-        let mut p2: Vec<Point2<f64>> = pts[k..].to_vec();
-        let mut l2: Vec<usize> = lines[k..].to_vec();
-        p2.extend_from_slice(&pts[skip..=k]);
-        l2.extend_from_slice(&lines[skip..=k]);
-        pts = p2;
-        lines = l2;
+        (pts, lines) = start_at_trailing_edge(&pts, &lines);
         (section, frame) =
             normalize_with_frame(name, &pts).map_err(|e| SectionError::shape(file, e))?;
     }

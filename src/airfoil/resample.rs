@@ -87,9 +87,15 @@ fn farthest_parameter(sp: &Spline2, target: Point2<f64>) -> f64 {
 }
 
 /// Distance (fraction of chord) within which a data point is taken as the leading edge
-/// instead of the farthest spline point, so that an outline that already holds its exact
-/// leading-edge point (a written and re-read section) keeps it. Default of [`normalize`].
-pub const LE_SNAP: f64 = 1e-6;
+/// instead of the farthest spline point, so that an outline that already holds its
+/// leading-edge point (a written and re-read section) keeps it exactly: the spline through
+/// a resampled section puts its farthest point up to about 1e-5 chord away from the
+/// written leading edge. Used by [`normalize`]; equal to the resampling shape tolerance.
+pub const LE_SNAP: f64 = 1e-4;
+
+/// Folds in x smaller than this (fraction of chord) are ignored when checking that each
+/// surface is single-valued in x.
+pub const FOLD_TOLERANCE: f64 = 1e-6;
 
 /// The similarity transform found by normalising: raw coordinates to the section frame.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -210,14 +216,19 @@ fn sample_side(
 ) -> Result<Vec<Point2<f64>>, ResampleError> {
     for k in 1..len {
         let (a, b) = (pts[at(k - 1)].x, pts[at(k)].x);
-        if b < a - 1e-9 {
+        if b < a - FOLD_TOLERANCE {
             return Err(ResampleError::NotSingleValued { side, x: a });
         }
     }
     let mut out = Vec::with_capacity(xs.len());
     out.push(Point2::origin());
     let mut j = 0;
+    // Stations scaled to this side's trailing-edge x (1 unless the blunt trailing edge
+    // is slanted to the chord), so that no station falls beyond the surface's end.
+    let x_end = pts[at(len - 1)].x;
+    let scale = if x_end > 0.0 { x_end } else { 1.0 };
     for &x in &xs[1..xs.len() - 1] {
+        let x = x * scale;
         while j + 2 < len && pts[at(j + 1)].x < x {
             j += 1;
         }
@@ -232,7 +243,11 @@ impl Section {
     /// Resamples to `n` points per side (at least 3) at the cosine-spaced stations of
     /// [`cosine_stations`], both sides at the same x. The section must already be
     /// normalised (leading edge at the origin, chord along x). Result: `2n - 1` points.
-    /// The trailing-edge points are kept as they are.
+    /// The trailing-edge points are kept as they are; when a blunt trailing edge is
+    /// slanted to the chord (a cambered section with open trailing edge), each side's
+    /// stations are scaled by that side's trailing-edge x, a shift of at most the
+    /// trailing-edge thickness times its slant. Resampling a resampled section with the
+    /// same `n` returns the same points (to rounding).
     pub fn resample(&self, n: usize) -> Result<Section, ResampleError> {
         let n = n.max(3);
         let pts = dedup(self.points());
@@ -314,5 +329,24 @@ mod tests {
             let exact = 0.05 * (1.0 - (2.0 * xs[i] - 1.0).powi(2)).sqrt();
             assert!((up[i].y - exact).abs() < 2e-5, "{i} {} {exact}", up[i].y);
         }
+    }
+
+    #[test]
+    fn resampling_is_idempotent_and_has_no_duplicates() {
+        // A cambered open-TE section has a slanted trailing edge; resampled twice it
+        // must give the same points, and no two consecutive points may coincide.
+        let s = crate::airfoil::Naca4::from_digits("4415", crate::airfoil::TrailingEdge::Open)
+            .unwrap()
+            .section("naca4415", 121)
+            .unwrap();
+        assert_eq!(dedup(s.points()).len(), s.points().len());
+        let again = s.resample(121).unwrap();
+        let worst = again
+            .points()
+            .iter()
+            .zip(s.points())
+            .map(|(a, b)| (a - b).norm())
+            .fold(0.0, f64::max);
+        assert!(worst < 1e-14, "{worst}");
     }
 }
