@@ -558,6 +558,19 @@ fn cli_writes_the_table_atomically() {
     assert_eq!(left.len(), 1, "temporary files left behind: {left:?}");
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("rpm") && err.contains("IEC 61400-2"), "{err}");
+    // The JSON sidecar reads back with serde_json and agrees with the CSV.
+    let mut args = GOOD.to_vec();
+    args.extend(["--json", "d.json", "-o", "d.csv"]);
+    let out = cli(&args, dir.path());
+    assert_eq!(out.status.code(), Some(0));
+    let v: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.path().join("d.json")).unwrap()).unwrap();
+    let cp = v["power_coefficient"].as_f64().unwrap();
+    assert!(cp > 0.5 && cp < 16.0 / 27.0);
+    let mut rd = csv::Reader::from_path(dir.path().join("d.csv")).unwrap();
+    let first = rd.records().next().unwrap().unwrap();
+    let chord0 = v["stations"][0]["chord"].as_f64().unwrap();
+    assert!((first[1].parse::<f64>().unwrap() - chord0).abs() <= 5e-4);
     // Standard output.
     let mut args = GOOD.to_vec();
     args.extend(["-o", "-"]);

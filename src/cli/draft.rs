@@ -96,6 +96,10 @@ pub struct Args {
     /// Output CSV file, or `-` for standard output [default: out/<NAME>.csv].
     #[arg(long, short, value_name = "PATH")]
     output: Option<PathBuf>,
+    /// Also write the whole draft (spec, stations with flow angle, angle of attack,
+    /// tip-loss factor and solidity, power coefficient, remarks) as JSON to this file.
+    #[arg(long, value_name = "PATH")]
+    json: Option<PathBuf>,
     /// Also print every station with flow angle, angle of attack, tip-loss factor and
     /// solidity.
     #[arg(long)]
@@ -236,8 +240,11 @@ fn spec_from(args: &Args) -> anyhow::Result<DraftSpec> {
     Ok(spec)
 }
 
-/// Writes `table` to `path` atomically: a temporary file beside it, then a rename.
-fn write_atomic(table: &DraftTable, path: &Path) -> anyhow::Result<()> {
+/// Writes a file atomically with `write`: a temporary file beside `path`, then a rename.
+fn write_atomic(
+    path: &Path,
+    write: impl FnOnce(&mut std::io::BufWriter<std::fs::File>) -> anyhow::Result<()>,
+) -> anyhow::Result<()> {
     let dir = match path.parent() {
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => PathBuf::from("."),
@@ -255,9 +262,7 @@ fn write_atomic(table: &DraftTable, path: &Path) -> anyhow::Result<()> {
         let file =
             std::fs::File::create(&tmp).with_context(|| format!("creating {}", tmp.display()))?;
         let mut w = std::io::BufWriter::new(file);
-        table
-            .write_csv(&mut w)
-            .with_context(|| format!("writing {}", tmp.display()))?;
+        write(&mut w).with_context(|| format!("writing {}", tmp.display()))?;
         let file = w
             .into_inner()
             .map_err(|e| e.into_error())
@@ -352,7 +357,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
             .output
             .clone()
             .unwrap_or_else(|| Path::new("out").join(format!("{}.csv", spec.name)));
-        write_atomic(&table, &path)?;
+        write_atomic(&path, |w| Ok(table.write_csv(w)?))?;
         path.display().to_string()
     };
     if to_stdout {
@@ -361,6 +366,13 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         table
             .write_csv(&mut lock)
             .context("writing the table to standard output")?;
+    }
+    if let Some(path) = &args.json {
+        write_atomic(path, |w| {
+            serde_json::to_writer_pretty(&mut *w, &table)?;
+            writeln!(w)?;
+            Ok(())
+        })?;
     }
     report(&table, &args, ctx, &target);
     Ok(ExitCode::SUCCESS)
