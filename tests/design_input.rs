@@ -221,6 +221,7 @@ fn csv_default_section_from_caller() {
     // Without a default, the missing section column is an error naming the file.
     let e = design::load_csv(&p, None).unwrap_err();
     has(&e, &p, 1, &["missing column 'section'"]);
+    assert_eq!(e.problems.len(), 1, "reported once, not per row: {e}");
 }
 
 #[test]
@@ -356,6 +357,8 @@ fn csv_ragged_rows() {
     has(&e, &p, 3, &["5 cells", "header has 4"]);
     // Trailing empty cells, as spreadsheets pad rows, are not ragged.
     assert!(!e.to_string().contains(":4:"), "{e}");
+    // The short row's missing cells are not reported again one by one.
+    assert_eq!(e.problems.len(), 2, "{e}");
 }
 
 #[test]
@@ -486,7 +489,12 @@ fn toml_wrong_types_and_ranges_all_reported() {
     has(&e, &p, 4, &["blade.stacking", "1.5", "outside 0..1"]);
     has(&e, &p, 5, &["blade.flow", "did you mean 'turbine'?"]);
     has(&e, &p, 6, &["blade.points-per-side", "3"]);
-    has(&e, &p, 7, &["blade.tolerance", "outside"]);
+    has(
+        &e,
+        &p,
+        7,
+        &["blade.tolerance", "tolerance 0 mm must be more than 0"],
+    );
     has(
         &e,
         &p,
@@ -505,6 +513,9 @@ fn toml_wrong_types_and_ranges_all_reported() {
     has(&e, &p, 15, &["station[2].twist", "100 deg", "outside"]);
     has(&e, &p, 16, &["station[3]", "missing 'chord'"]);
     assert_eq!(e.problems.len(), 9, "{e}");
+    // Reported in file order.
+    let lines: Vec<usize> = e.problems.iter().map(|p| p.line.unwrap()).collect();
+    assert!(lines.windows(2).all(|w| w[0] <= w[1]), "{lines:?}");
 }
 
 #[test]

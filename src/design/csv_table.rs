@@ -105,7 +105,7 @@ fn split_header(cell: &str) -> (String, Option<String>) {
 }
 
 /// Picks the separator from the header line: the most frequent of `;`, tab and `,`.
-fn separator(text: &str) -> u8 {
+fn separator(text: &str) -> char {
     let header = text
         .lines()
         .map(str::trim)
@@ -114,19 +114,92 @@ fn separator(text: &str) -> u8 {
     let count = |c: char| header.matches(c).count();
     let (semi, tab, comma) = (count(';'), count('\t'), count(','));
     if semi > 0 && semi >= comma && semi >= tab {
-        b';'
+        ';'
     } else if tab > 0 && tab >= comma {
-        b'\t'
+        '\t'
     } else {
-        b','
+        ','
     }
 }
 
+/// Splits CSV text into records with the line (from 1) each starts on. Cells are trimmed;
+/// a cell may be quoted (RFC 4180: `""` is a quote inside quotes, separators and line
+/// breaks inside quotes belong to the cell). Rows whose first non-blank character is `#`
+/// are comments and give an empty record. Line ends: LF or CRLF.
+fn split(text: &str, sep: char) -> Vec<(usize, Result<Vec<String>, String>)> {
+    let mut out = Vec::new();
+    let mut line = 1;
+    let mut start = 1;
+    let mut cells: Vec<String> = Vec::new();
+    let mut cell = String::new();
+    let mut quoted = false; // inside quotes
+    let mut was_quoted = false; // this cell had quotes (keep its inner spaces)
+    let mut comment = false;
+    let mut chars = text.chars().peekable();
+    let finish = |cell: &mut String, was_quoted: &mut bool, cells: &mut Vec<String>| {
+        let c = std::mem::take(cell);
+        cells.push(if *was_quoted { c } else { c.trim().to_string() });
+        *was_quoted = false;
+    };
+    while let Some(c) = chars.next() {
+        if comment {
+            if c == '\n' {
+                comment = false;
+                out.push((start, Ok(Vec::new())));
+                line += 1;
+                start = line;
+            }
+            continue;
+        }
+        if quoted {
+            match c {
+                '"' if chars.peek() == Some(&'"') => {
+                    chars.next();
+                    cell.push('"');
+                }
+                '"' => quoted = false,
+                '\n' => {
+                    line += 1;
+                    cell.push('\n');
+                }
+                _ => cell.push(c),
+            }
+            continue;
+        }
+        match c {
+            '#' if cells.is_empty() && cell.trim().is_empty() && !was_quoted => comment = true,
+            '"' if cell.trim().is_empty() && !was_quoted => {
+                cell.clear();
+                quoted = true;
+                was_quoted = true;
+            }
+            '\r' if chars.peek() == Some(&'\n') => {}
+            '\n' => {
+                finish(&mut cell, &mut was_quoted, &mut cells);
+                out.push((start, Ok(std::mem::take(&mut cells))));
+                line += 1;
+                start = line;
+            }
+            c if c == sep => finish(&mut cell, &mut was_quoted, &mut cells),
+            // Text after a closing quote is kept, trimmed, as spreadsheets never write it.
+            c if was_quoted && c.is_whitespace() => {}
+            c => cell.push(c),
+        }
+    }
+    if quoted {
+        out.push((start, Err("a quoted cell is not closed".to_string())));
+    } else if !comment && (!cells.is_empty() || !cell.trim().is_empty() || was_quoted) {
+        finish(&mut cell, &mut was_quoted, &mut cells);
+        out.push((start, Ok(cells)));
+    }
+    out
+}
+
 /// Number of cells up to and including the last non-empty one.
-fn filled_width(record: &csv::StringRecord) -> usize {
-    (0..record.len())
-        .rev()
-        .find(|i| record.get(*i).is_some_and(|c| !c.trim().is_empty()))
+fn filled_width(record: &[String]) -> usize {
+    record
+        .iter()
+        .rposition(|c| !c.trim().is_empty())
         .map_or(0, |i| i + 1)
 }
 
@@ -167,48 +240,21 @@ pub(crate) fn read(
         }
     };
     let sep = separator(text);
-    let decimal_comma = sep != b',';
-    // Comment rows are blanked here rather than by the csv reader, whose line count skips
-    // them: messages must name the line as an editor shows it.
-    let text: String = text
-        .split_inclusive('\n')
-        .map(|l| {
-            if l.trim_start().starts_with('#') {
-                if l.ends_with("\r\n") {
-                    "\r\n"
-                } else if l.ends_with('\n') {
-                    "\n"
-                } else {
-                    ""
-                }
-            } else {
-                l
-            }
-        })
-        .collect();
-    let mut reader = csv::ReaderBuilder::new()
-        .delimiter(sep)
-        .has_headers(false)
-        .flexible(true)
-        .trim(csv::Trim::All)
-        .from_reader(text.as_bytes());
-
+    let decimal_comma = sep != ',';
     let mut header: Option<(usize, Vec<Option<Column>>)> = None;
     let mut rows = Vec::new();
-    for record in reader.records() {
-        let record = match record {
-            Ok(r) => r,
-            Err(e) => {
-                let line = e.position().map(|p| p.line() as usize);
-                problems.push(
-                    at(line)
-                        .problem(format!("cannot read this row: {e}"))
-                        .hint("check quotes: a quoted cell must end with a quote"),
-                );
-                continue;
-            }
-        };
-        let line = record.position().map(|p| p.line() as usize);
+    for (line, record) in split(text, sep) {
+        let line = Some(line);
+        let record =
+            match record {
+                Ok(r) => r,
+                Err(message) => {
+                    problems.push(at(line).problem(message).hint(
+                        "a quoted cell must end with a quote; write a quote inside one as \"\"",
+                    ));
+                    continue;
+                }
+            };
         if record.iter().all(|c| c.is_empty()) {
             continue;
         }
@@ -247,18 +293,25 @@ pub(crate) fn read(
             thickness: None,
             sweep: None,
             prebend: None,
+            // A missing section column is reported once, at the header.
+            section_reported: !section_default
+                && !columns.iter().flatten().any(|c| c.col == Col::Section),
         };
         for (i, column) in columns.iter().enumerate() {
             let Some(column) = column else { continue };
-            let cell = record.get(i).unwrap_or("");
+            let cell = record.get(i).map_or("", String::as_str);
             let name = column.col.name();
             if column.col == Col::Note {
                 continue;
             }
             if cell.is_empty() {
-                if matches!(column.col, Col::Radius | Col::Chord | Col::Twist)
-                    || (column.col == Col::Section && !section_default)
-                {
+                let required = matches!(column.col, Col::Radius | Col::Chord | Col::Twist)
+                    || (column.col == Col::Section && !section_default);
+                // Cells missing from a short row are covered by the row-length message.
+                if required && column.col == Col::Section {
+                    row.section_reported = true;
+                }
+                if required && i < record.len() {
                     problems.push(
                         loc.problem(format!("{name} is empty"))
                             .hint(format!("every station needs a {name}")),
@@ -309,7 +362,7 @@ pub(crate) fn read(
 /// Reads the header row: column kinds and units. Returns the header width and, per cell,
 /// the column read from it (`None` for unusable cells, already reported).
 fn read_header(
-    record: &csv::StringRecord,
+    record: &[String],
     line: Option<usize>,
     file: &Path,
     defaults: Defaults,
@@ -426,4 +479,49 @@ fn read_header(
         }
     }
     (filled_width(record), columns)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn cells(r: &(usize, Result<Vec<String>, String>)) -> Vec<&str> {
+        r.1.as_ref().unwrap().iter().map(String::as_str).collect()
+    }
+
+    #[test]
+    fn split_follows_rfc4180_quoting() {
+        // RFC 4180 (2005), section 2, rules 5-7: quoted fields may hold separators, line
+        // breaks and doubled quotes.
+        let text = "a,b\r\n\"x, y\",\"say \"\"hi\"\"\"\r\n\"two\nlines\",3\n# note, here\n\n4 , 5";
+        let r = split(text, ',');
+        assert_eq!(r.len(), 6);
+        assert_eq!((r[0].0, cells(&r[0])), (1, vec!["a", "b"]));
+        assert_eq!((r[1].0, cells(&r[1])), (2, vec!["x, y", "say \"hi\""]));
+        assert_eq!((r[2].0, cells(&r[2])), (3, vec!["two\nlines", "3"]));
+        assert_eq!((r[3].0, cells(&r[3]).len()), (5, 0), "comment row");
+        assert_eq!((r[4].0, cells(&r[4])), (6, vec![""]), "blank row");
+        assert_eq!((r[5].0, cells(&r[5])), (7, vec!["4", "5"]));
+        let bad = split("a,b\n\"open,1\n", ',');
+        assert!(bad.last().unwrap().1.is_err());
+        assert_eq!(bad.last().unwrap().0, 2);
+    }
+
+    #[test]
+    fn header_units_and_separators() {
+        assert_eq!(
+            split_header(" Radius [mm] "),
+            ("radius".into(), Some("mm".into()))
+        );
+        assert_eq!(
+            split_header("chord (in)"),
+            ("chord".into(), Some("in".into()))
+        );
+        assert_eq!(split_header("twist"), ("twist".into(), None));
+        assert_eq!(separator("# a, b, c\nradius;chord;twist\n"), ';');
+        assert_eq!(separator("radius\tchord\ttwist"), '\t');
+        assert_eq!(separator("radius,chord"), ',');
+        assert_eq!(number("12,5", true), Some(12.5));
+        assert_eq!(number("12,5", false), None);
+    }
 }

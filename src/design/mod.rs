@@ -45,7 +45,7 @@
 //! | `blade.flow` | `"turbine"`, `"propeller"` | `"turbine"` | see [`Flow`] |
 //! | `blade.rotation` | `"ccw"`, `"cw"` | `"ccw"` | seen from upstream, see [`Rotation`] |
 //! | `blade.points-per-side` | integer in 8..=2000 | 120 | section resampling |
-//! | `blade.tolerance` | number, **mm** (whatever `units.length`) | 0.01 | largest mesh deviation, 1e-6..=10 |
+//! | `blade.tolerance` | number, **mm** (whatever `units.length`) | 0.01 | largest mesh deviation, > 0 and <= 10 |
 //! | `blade.min-te-thickness` | number, **mm** (whatever `units.length`) | none | thinnest trailing edge, >= 0 |
 //! | `station` | array of tables (`[[station]]`) | | the stations, root to tip |
 //! | `station[i].radius` | number, length unit | required | distance from the rotor axis, >= 0, strictly increasing |
@@ -305,6 +305,7 @@ fn csv_design(
         &mut problems,
     );
     if !problems.is_empty() {
+        rows::sort(&mut problems);
         return Err(DesignError { problems });
     }
     Ok(Design {

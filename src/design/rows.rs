@@ -48,6 +48,8 @@ pub(crate) struct Row {
     pub thickness: Option<Num>,
     pub sweep: Option<Num>,
     pub prebend: Option<Num>,
+    /// The reader already reported why this row has no section.
+    pub section_reported: bool,
 }
 
 /// Where a row is, shortly, for cross references in messages: `line 7` or `station[2]`.
@@ -159,7 +161,7 @@ pub(crate) fn validate(
                             "twist {} is outside -{TWIST_LIMIT_DEG}..{TWIST_LIMIT_DEG} degrees",
                             t.written
                         ))
-                        .hint("check the angle unit (deg or rad)"),
+                        .hint("check the angle unit: deg or rad"),
                 );
             }
         } else {
@@ -198,6 +200,8 @@ pub(crate) fn validate(
         };
         if section.is_none() {
             ok = false;
+        }
+        if section.is_none() && !row.section_reported {
             problems.push(
                 row.loc
                     .problem("no section for this station")
@@ -229,4 +233,16 @@ pub(crate) fn validate(
         );
     }
     stations
+}
+
+/// Orders problems by file (in order of first appearance) and line, keeping the order
+/// of problems on the same line.
+pub(crate) fn sort(problems: &mut [Problem]) {
+    let mut files: Vec<std::path::PathBuf> = Vec::new();
+    for p in problems.iter() {
+        if !files.contains(&p.file) {
+            files.push(p.file.clone());
+        }
+    }
+    problems.sort_by_key(|p| (files.iter().position(|f| *f == p.file), p.line.unwrap_or(0)));
 }

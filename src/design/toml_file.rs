@@ -39,8 +39,8 @@ const STATION_KEYS: [&str; 7] = [
 /// Accepted `points-per-side` range: fewer cannot resolve a leading edge, more only slows
 /// every later stage down.
 pub(crate) const POINTS_PER_SIDE: (i64, i64) = (8, 2000);
-/// Accepted `tolerance` range, mm.
-pub(crate) const TOLERANCE_MM: (f64, f64) = (1e-6, 10.0);
+/// Largest accepted `tolerance`, mm (it must also be more than 0).
+pub(crate) const TOLERANCE_MAX_MM: f64 = 10.0;
 
 /// How a value looks in a message: strings quoted, others as TOML writes them.
 pub(crate) fn show(v: &Value) -> String {
@@ -240,11 +240,11 @@ impl Reader<'_> {
             }
         }
         if let Some(f) = self.number(t, &path, "tolerance") {
-            let (lo, hi) = TOLERANCE_MM;
-            if !(lo..=hi).contains(&f) {
+            let hi = TOLERANCE_MAX_MM;
+            if !(f > 0.0 && f <= hi) {
                 self.report(
                     &key("tolerance"),
-                    format!("tolerance {f} mm is outside {lo}..{hi} mm"),
+                    format!("tolerance {f} mm must be more than 0 and at most {hi} mm"),
                     Some("give the largest allowed mesh deviation in mm, e.g. 0.01".into()),
                 );
             } else {
@@ -322,6 +322,7 @@ impl Reader<'_> {
                 thickness: self.num(t, &p, "thickness", 1.0, "%"),
                 sweep: self.num(t, &p, "sweep", lf, lu),
                 prebend: self.num(t, &p, "prebend", lf, lu),
+                section_reported: false,
             });
         }
         rows
@@ -467,6 +468,7 @@ pub(crate) fn parse(
         None => Vec::new(),
     };
     if !r.problems.is_empty() {
+        super::rows::sort(&mut r.problems);
         return Err(DesignError {
             problems: r.problems,
         });
