@@ -1,1 +1,27 @@
 //! Pictures (SVG) and reports (HTML, JSON).
+//!
+//! * [`build`] gathers mass properties, balance, section table and the stress estimate
+//!   into a [`Report`] and draws the [`Pictures`].
+//! * [`html`] renders a self-contained HTML page with the pictures inline.
+//! * The JSON report is `serde_json` of [`Report`]; its schema is [`SCHEMA`]
+//!   (`src/report/schema.json`).
+//! * [`write_atomic`] writes files through a temporary file and a rename.
+
+mod build;
+mod html;
+mod model;
+mod planform;
+mod stack;
+mod stress_chart;
+pub mod svg;
+mod views;
+mod write;
+
+pub use build::{build, Pictures, ReportError, ReportInput, STEPS};
+pub use html::html;
+pub use model::{BalanceSummary, PartSummary, Report, Units, SCHEMA, SCHEMA_ID};
+pub use planform::{planform_svg, station_thickness};
+pub use stack::stack_svg;
+pub use stress_chart::stress_svg;
+pub use views::{outline_edges, three_view_svg, CREASE_DEGREES};
+pub use write::{write_atomic, WriteError};

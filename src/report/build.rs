@@ -1,0 +1,165 @@
+//! Assembling a report: mass properties of every part, balance, section table, stress
+//! estimate and pictures.
+
+use super::model::{BalanceSummary, PartSummary, Report, Units, SCHEMA_ID};
+use super::{planform_svg, stack_svg, stress_svg, three_view_svg};
+use crate::design::Station;
+use crate::mesh::Part;
+use crate::props::{
+    section_table, span_radii, Balance, Fill, LoadCase, Material, Slice, SliceError, StressError,
+    StressTable,
+};
+
+/// What a report is made from.
+#[derive(Debug, Clone)]
+pub struct ReportInput<'a> {
+    /// Design or part name.
+    pub name: String,
+    /// Input file, when known.
+    pub source: Option<String>,
+    /// The parts; the first must be one whole blade in the blade frame for the section
+    /// table and stress estimate (see [`crate::conventions`]).
+    pub parts: &'a [Part],
+    /// Design stations, for the planform picture and the section radii.
+    pub stations: Option<&'a [Station]>,
+    /// Material.
+    pub material: Material,
+    /// Fill model.
+    pub fill: Fill,
+    /// Operating point; no stress estimate when `None`.
+    pub load: Option<LoadCase>,
+    /// Extra radii for the section table, mm.
+    pub extra_radii: Vec<f64>,
+    /// Number of evenly spaced cuts for the stress estimate. Default 101.
+    pub stress_cuts: usize,
+    /// Number of outlines in the stacked-sections picture. Default 11.
+    pub picture_cuts: usize,
+}
+
+/// The pictures of a report, as inline SVG documents.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Pictures {
+    /// Chord, twist and thickness against radius (only with design stations).
+    pub planform: Option<String>,
+    /// Sections seen from the tip.
+    pub sections: String,
+    /// Three views with overall dimensions.
+    pub three_view: String,
+    /// Stress and safety factor against radius (only with a load case).
+    pub stress: Option<String>,
+}
+
+/// Why a report could not be made.
+#[derive(Debug, thiserror::Error)]
+pub enum ReportError {
+    /// No parts were given.
+    #[error("nothing to report: no parts")]
+    NoParts,
+    /// A part encloses no volume.
+    #[error("part `{0}` encloses no volume: its mesh is empty, open or inside-out (check and repair it)")]
+    NoVolume(String),
+    /// A cut failed.
+    #[error("part `{part}`: {source}")]
+    Slice {
+        /// Part name.
+        part: String,
+        /// The cut error.
+        source: SliceError,
+    },
+    /// The stress estimate failed.
+    #[error("part `{part}`: {source}")]
+    Stress {
+        /// Part name.
+        part: String,
+        /// The stress error.
+        source: StressError,
+    },
+}
+
+/// Steps reported to the progress callback.
+pub const STEPS: u64 = 5;
+
+/// Builds the report and its pictures. `progress(step, message)` is called before each of
+/// the [`STEPS`] steps.
+pub fn build(
+    input: &ReportInput<'_>,
+    progress: &mut dyn FnMut(u64, &str),
+) -> Result<(Report, Pictures), ReportError> {
+    let first = input.parts.first().ok_or(ReportError::NoParts)?;
+    progress(0, "mass properties");
+    let mut parts = Vec::new();
+    let mut props = Vec::new();
+    for part in input.parts {
+        let (s, p) = PartSummary::of_part(part, &input.material, input.fill)
+            .ok_or_else(|| ReportError::NoVolume(part.name.clone()))?;
+        parts.push(s);
+        props.push(p);
+    }
+    let balance = if props.len() > 1 {
+        Balance::of_parts(&props).map(|b| BalanceSummary::from(&b))
+    } else {
+        None
+    };
+    progress(1, "section properties");
+    let mesh = &first.mesh;
+    let span = span_radii(mesh, 2);
+    let (r0, r1) = (span[0], span[1]);
+    let mut radii: Vec<f64> = match input.stations {
+        Some(st) if !st.is_empty() => st.iter().map(|s| s.radius.clamp(r0, r1)).collect(),
+        _ => span_radii(mesh, 21),
+    };
+    radii.extend(input.extra_radii.iter().copied());
+    radii.sort_by(f64::total_cmp);
+    radii.dedup();
+    let slice_err = |source| ReportError::Slice {
+        part: first.name.clone(),
+        source,
+    };
+    let sections = section_table(mesh, &radii).map_err(slice_err)?;
+    progress(2, "stress estimate");
+    let stress = match &input.load {
+        Some(load) => Some(
+            StressTable::estimate(
+                mesh,
+                &span_radii(mesh, input.stress_cuts.max(3)),
+                &input.material,
+                input.fill,
+                load,
+            )
+            .map_err(|source| ReportError::Stress {
+                part: first.name.clone(),
+                source,
+            })?,
+        ),
+        None => None,
+    };
+    progress(3, "pictures");
+    let mut slices = Vec::new();
+    for r in span_radii(mesh, input.picture_cuts.max(2)) {
+        slices.push(Slice::cut(mesh, r).map_err(slice_err)?);
+    }
+    let pictures = Pictures {
+        planform: input
+            .stations
+            .map(|st| planform_svg(&input.name, st, false)),
+        sections: stack_svg(&input.name, &slices, false),
+        three_view: three_view_svg(&first.name, mesh, false),
+        stress: stress.as_ref().map(|t| stress_svg(&first.name, t, false)),
+    };
+    progress(4, "report");
+    let report = Report {
+        schema: SCHEMA_ID,
+        name: input.name.clone(),
+        source: input.source.clone(),
+        generator: format!("spanwright {}", env!("CARGO_PKG_VERSION")),
+        units: Units::default(),
+        material: input.material.clone(),
+        fill: input.fill,
+        parts,
+        balance,
+        sections,
+        stress,
+        cautions: Report::cautions(),
+    };
+    Ok((report, pictures))
+}

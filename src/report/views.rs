@@ -1,0 +1,158 @@
+//! Three-view drawing of a part with its overall dimensions.
+//!
+//! Each view draws the outline edges of the mesh seen along one axis: silhouette edges
+//! (one neighbouring triangle faces the viewer, the other faces away), open edges, and
+//! creases sharper than [`CREASE_DEGREES`]. No hidden-line removal.
+//!
+//! Layout (third-angle style, views aligned): the plan view (looking downstream, along
+//! +y: radius z to the right, chordwise x up) at the top left, the edge view (looking
+//! along -x: z to the right, y up) below it, the end view from the tip (looking along -z:
+//! y to the right, x up) on the right.
+
+use std::collections::HashMap;
+
+use nalgebra::{Point3, Vector3};
+
+use super::svg::Svg;
+use crate::mesh::TriMesh;
+
+/// Dihedral angle above which an edge is drawn as a crease, degrees. Default 40.
+pub const CREASE_DEGREES: f64 = 40.0;
+
+/// Edges of `mesh` that outline it when seen along `dir`.
+pub fn outline_edges(mesh: &TriMesh, dir: &Vector3<f64>) -> Vec<(Point3<f64>, Point3<f64>)> {
+    let mut faces: HashMap<(u32, u32), Vec<usize>> = HashMap::new();
+    for (t, tri) in mesh.triangles.iter().enumerate() {
+        for k in 0..3 {
+            let (a, b) = (tri[k], tri[(k + 1) % 3]);
+            faces.entry((a.min(b), a.max(b))).or_default().push(t);
+        }
+    }
+    let normals: Vec<Vector3<f64>> = (0..mesh.len())
+        .map(|t| {
+            mesh.scaled_normal(t)
+                .try_normalize(0.0)
+                .unwrap_or_else(Vector3::zeros)
+        })
+        .collect();
+    let cos_crease = CREASE_DEGREES.to_radians().cos();
+    let mut out = Vec::new();
+    let mut keys: Vec<_> = faces.keys().copied().collect();
+    keys.sort_unstable();
+    for e in keys {
+        let f = &faces[&e];
+        let draw = match f.as_slice() {
+            [a, b] => {
+                let (na, nb) = (normals[*a], normals[*b]);
+                let (sa, sb) = (na.dot(dir), nb.dot(dir));
+                (sa > 0.0) != (sb > 0.0) || na.dot(&nb) < cos_crease
+            }
+            _ => true,
+        };
+        if draw {
+            out.push((mesh.vertices[e.0 as usize], mesh.vertices[e.1 as usize]));
+        }
+    }
+    out
+}
+
+/// The three-view SVG with overall dimensions (mm).
+pub fn three_view_svg(name: &str, mesh: &TriMesh, standalone: bool) -> String {
+    let (w, h, m) = (900.0, 620.0, 50.0);
+    let mut svg = Svg::new(w, h);
+    svg.text(
+        w / 2.0,
+        20.0,
+        14.0,
+        "middle",
+        &format!("Three views: {name} (mm)"),
+    );
+    let Some(bb) = mesh.bounding_box() else {
+        svg.text(w / 2.0, h / 2.0, 12.0, "middle", "empty part");
+        return svg.finish("Three views", standalone);
+    };
+    let size = bb.size();
+    let (ex, ey, ez) = (size.x.max(1e-6), size.y.max(1e-6), size.z.max(1e-6));
+    // Horizontal: z then y (end view); vertical: x then y (edge view).
+    let s = ((w - 4.0 * m) / (ez + ey)).min((h - 4.0 * m - 20.0) / (ex + ey));
+    let left = 1.5 * m;
+    let top = 30.0 + m;
+    let x_end = left + s * ez + m; // left edge of the end view
+    let y_edge = top + s * ex + m; // top edge of the edge view
+                                   // Plan view: z -> right, x -> up.
+    let plan = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), top + s * (bb.max.x - p.x));
+    // Edge view: z -> right, y -> up.
+    let edge = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), y_edge + s * (bb.max.y - p.y));
+    // End view from the tip: y -> right, x -> up.
+    let end = |p: &Point3<f64>| (x_end + s * (p.y - bb.min.y), top + s * (bb.max.x - p.x));
+    let views: [(Vector3<f64>, &dyn Fn(&Point3<f64>) -> (f64, f64), &str); 3] = [
+        (Vector3::y(), &plan, "plan, looking downstream (+y)"),
+        (-Vector3::x(), &edge, "edge view, looking along -x"),
+        (-Vector3::z(), &end, "from the tip, looking along -z"),
+    ];
+    for (dir, map, title) in views {
+        let segs: Vec<_> = outline_edges(mesh, &dir)
+            .iter()
+            .map(|(a, b)| (map(a), map(b)))
+            .collect();
+        svg.segments(&segs, "#1f2f4f", 0.8);
+        let (tx, ty) = map(&Point3::new(bb.min.x, bb.min.y, bb.min.z));
+        svg.text(tx, ty + 14.0, 10.0, "start", title);
+    }
+    // Dimension lines.
+    let dim = |svg: &mut Svg, a: (f64, f64), b: (f64, f64), text: String, vertical: bool| {
+        svg.line(a, b, "#c0392b", 0.8);
+        let (tick_a, tick_b) = if vertical {
+            (
+                ((a.0 - 4.0, a.1), (a.0 + 4.0, a.1)),
+                ((b.0 - 4.0, b.1), (b.0 + 4.0, b.1)),
+            )
+        } else {
+            (
+                ((a.0, a.1 - 4.0), (a.0, a.1 + 4.0)),
+                ((b.0, b.1 - 4.0), (b.0, b.1 + 4.0)),
+            )
+        };
+        svg.line(tick_a.0, tick_a.1, "#c0392b", 0.8);
+        svg.line(tick_b.0, tick_b.1, "#c0392b", 0.8);
+        let mid = ((a.0 + b.0) / 2.0, (a.1 + b.1) / 2.0);
+        if vertical {
+            svg.text(mid.0 - 6.0, mid.1, 11.0, "end", &text);
+        } else {
+            svg.text(mid.0, mid.1 - 6.0, 11.0, "middle", &text);
+        }
+    };
+    let below = y_edge + s * ey + 24.0;
+    dim(
+        &mut svg,
+        (left, below),
+        (left + s * ez, below),
+        format!("z: {:.1} (r {:.1} to {:.1})", size.z, bb.min.z, bb.max.z),
+        false,
+    );
+    dim(
+        &mut svg,
+        (left - 12.0, top),
+        (left - 12.0, top + s * ex),
+        format!("x: {:.1}", size.x),
+        true,
+    );
+    dim(
+        &mut svg,
+        (x_end, top - 12.0),
+        (x_end + s * ey, top - 12.0),
+        format!("y: {:.1}", size.y),
+        false,
+    );
+    svg.text(
+        m,
+        h - 12.0,
+        11.0,
+        "start",
+        &format!(
+            "overall {:.1} x {:.1} x {:.1} mm (x chordwise, y along the rotor axis, z radius); scale {:.3} px/mm",
+            size.x, size.y, size.z, s
+        ),
+    );
+    svg.finish(&format!("Three views of {name}"), standalone)
+}
