@@ -74,6 +74,12 @@ impl Slice {
         let point = |(lo, hi): (u32, u32)| -> Point2<f64> {
             let (p, q): (Point3<f64>, Point3<f64>) =
                 (mesh.vertices[lo as usize], mesh.vertices[hi as usize]);
+            // A vertex on the plane is its own crossing point, exactly.
+            for v in [p, q] {
+                if v.z == radius {
+                    return Point2::new(v.x, v.y);
+                }
+            }
             let t = (radius - p.z) / (q.z - p.z);
             Point2::new(p.x + t * (q.x - p.x), p.y + t * (q.y - p.y))
         };
