@@ -27,6 +27,9 @@ pub const MIN_POINTS: usize = 10;
 /// Margin (fraction of chord) by which a normalised point may lie outside `0 <= x <= 1`.
 pub const RANGE_MARGIN: f64 = 0.02;
 
+/// Smallest enclosed area accepted, chord² (a 0.1 % thick section has about 7e-4).
+pub const MIN_AREA: f64 = 1e-5;
+
 /// Points per side of the trial resampling that checks each surface is single-valued.
 const CHECK_POINTS: usize = 101;
 
@@ -308,6 +311,12 @@ pub fn normalize_raw(raw: &RawOutline, name: &str, file: &str) -> Result<Section
         (pts, lines) = start_at_trailing_edge(&pts, &lines);
         (section, frame) =
             normalize_with_frame(name, &pts).map_err(|e| SectionError::shape(file, e))?;
+    }
+    if section.area() < MIN_AREA {
+        return Err(SectionError::shape(
+            file,
+            super::resample::ResampleError::NoArea(section.area()),
+        ));
     }
     check_range(&pts, &lines, &frame, file)?;
     section

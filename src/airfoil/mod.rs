@@ -29,7 +29,7 @@ pub use blend::{blend, DEFAULT_POINTS};
 pub use designation::{Designation, Parsed, GENERATED_POINTS};
 pub use error::SectionError;
 pub use import::{
-    normalize_raw, parse, parse_raw, read, Layout, RawOutline, MIN_POINTS, RANGE_MARGIN,
+    normalize_raw, parse, parse_raw, read, Layout, RawOutline, MIN_AREA, MIN_POINTS, RANGE_MARGIN,
 };
 pub use measures::{Measures, MEASURE_POINTS};
 pub use naca::{naca4_half_thickness, naca4_mean_line, Naca4, TrailingEdge};

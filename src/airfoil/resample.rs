@@ -24,6 +24,10 @@ pub enum ResampleError {
     /// The trailing edge and the leading edge coincide.
     #[error("the outline has no extent (leading and trailing edge coincide)")]
     Degenerate,
+    /// The outline encloses (almost) no area: all points on one line, or a side given
+    /// twice.
+    #[error("the outline encloses almost no area ({0:.2e} chord²)")]
+    NoArea(f64),
     /// A side of the outline turns back in x, so a chord station meets it twice.
     #[error("the {side} surface is not single-valued in x near x = {x:.4}; the outline folds back there")]
     NotSingleValued {
