@@ -1,0 +1,294 @@
+//! Plate layouts: parts inside the volume, clearance kept, no two parts intersecting
+//! (checked with parry3d 0.31's triangle-mesh intersection test, an independent library),
+//! and plate counts against elementary area bounds.
+
+use nalgebra::Point3;
+use spanwright::fit::{layout, Layout, LayoutOptions, Printer, PrinterSpec, Volume};
+use spanwright::mesh::{Part, TriMesh};
+
+fn box_mesh(a: f64, b: f64, c: f64) -> TriMesh {
+    let mut m = TriMesh::new();
+    for i in 0..8u32 {
+        m.push_vertex(Point3::new(
+            if i & 1 != 0 { a } else { 0.0 },
+            if i & 2 != 0 { b } else { 0.0 },
+            if i & 4 != 0 { c } else { 0.0 },
+        ));
+    }
+    m.triangles = vec![
+        [0, 2, 1],
+        [1, 2, 3],
+        [4, 5, 6],
+        [5, 7, 6],
+        [0, 1, 4],
+        [1, 5, 4],
+        [2, 6, 3],
+        [3, 6, 7],
+        [0, 4, 2],
+        [2, 4, 6],
+        [1, 3, 5],
+        [3, 7, 5],
+    ];
+    m
+}
+
+/// Invented blade-like test solid: an elliptic section (thickness 12 % of chord) whose
+/// chord tapers from `root` to `tip` and twists by `twist` degrees over the span `len`
+/// (z), closed by flat caps.
+fn blade(len: f64, root: f64, tip: f64, twist: f64, rings: usize, around: usize) -> TriMesh {
+    let mut m = TriMesh::new();
+    for k in 0..rings {
+        let f = k as f64 / (rings - 1) as f64;
+        let c = root + (tip - root) * f;
+        let th = (twist * f).to_radians();
+        for i in 0..around {
+            let t = std::f64::consts::TAU * i as f64 / around as f64;
+            let (u, v) = (0.5 * c * t.cos(), 0.06 * c * t.sin());
+            m.push_vertex(Point3::new(
+                u * th.cos() - v * th.sin(),
+                u * th.sin() + v * th.cos(),
+                len * f,
+            ));
+        }
+    }
+    let n = around as u32;
+    for k in 0..rings as u32 - 1 {
+        for i in 0..n {
+            let j = (i + 1) % n;
+            let (a, b, c, d) = (k * n + i, k * n + j, (k + 1) * n + j, (k + 1) * n + i);
+            m.triangles.push([a, b, c]);
+            m.triangles.push([a, c, d]);
+        }
+    }
+    let bottom = m.push_vertex(Point3::new(0.0, 0.0, 0.0));
+    let top = m.push_vertex(Point3::new(0.0, 0.0, len));
+    let last = (rings as u32 - 1) * n;
+    for i in 0..n {
+        let j = (i + 1) % n;
+        m.triangles.push([bottom, j, i]);
+        m.triangles.push([top, last + i, last + j]);
+    }
+    m
+}
+
+fn printer(x: f64, y: f64, z: f64, margin: f64, clearance: f64) -> Printer {
+    PrinterSpec {
+        volume: Some([x, y, z]),
+        margin: Some(margin),
+        clearance: Some(clearance),
+        ..Default::default()
+    }
+    .resolve("test")
+    .unwrap()
+}
+
+/// Convex hull by Jarvis's march (gift wrapping; R. A. Jarvis, Information Processing
+/// Letters 2, 1973): written here independently of the library's monotone chain.
+fn jarvis(pts: &[[f64; 2]]) -> Vec<[f64; 2]> {
+    let start = (0..pts.len())
+        .min_by(|&a, &b| {
+            pts[a][0]
+                .total_cmp(&pts[b][0])
+                .then(pts[a][1].total_cmp(&pts[b][1]))
+        })
+        .unwrap();
+    let mut hull = vec![];
+    let mut p = start;
+    loop {
+        hull.push(pts[p]);
+        let mut q = (p + 1) % pts.len();
+        for r in 0..pts.len() {
+            let cross = (pts[q][0] - pts[p][0]) * (pts[r][1] - pts[p][1])
+                - (pts[q][1] - pts[p][1]) * (pts[r][0] - pts[p][0]);
+            if cross < 0.0 {
+                q = r;
+            }
+        }
+        p = q;
+        if p == start || hull.len() > pts.len() {
+            break;
+        }
+    }
+    hull
+}
+
+fn seg_dist(p: [f64; 2], a: [f64; 2], b: [f64; 2]) -> f64 {
+    let (dx, dy) = (b[0] - a[0], b[1] - a[1]);
+    let l2 = dx * dx + dy * dy;
+    let t = if l2 > 0.0 {
+        (((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / l2).clamp(0.0, 1.0)
+    } else {
+        0.0
+    };
+    ((p[0] - a[0] - t * dx).powi(2) + (p[1] - a[1] - t * dy).powi(2)).sqrt()
+}
+
+/// Smallest distance between two separated convex polygons (vertex to edge, both ways).
+fn hull_gap(p: &[[f64; 2]], q: &[[f64; 2]]) -> f64 {
+    let mut d = f64::MAX;
+    for (a, b) in [(p, q), (q, p)] {
+        for &v in a {
+            for i in 0..b.len() {
+                d = d.min(seg_dist(v, b[i], b[(i + 1) % b.len()]));
+            }
+        }
+    }
+    d
+}
+
+fn to_parry(m: &TriMesh) -> parry3d::shape::TriMesh {
+    let v: Vec<parry3d::math::Vector> = m
+        .vertices
+        .iter()
+        .map(|p| parry3d::math::Vector::new(p.x as f32, p.y as f32, p.z as f32))
+        .collect();
+    parry3d::shape::TriMesh::new(v, m.triangles.clone()).unwrap()
+}
+
+/// Checks every plate: inside the volume with the margin, footprints apart by the
+/// clearance, and no two solids intersecting (parry3d).
+fn check(l: &Layout, parts: &[Part], p: &Printer) {
+    let tol = 1e-6;
+    for k in 0..l.plates.len() {
+        let placed = l.plate_parts(k, parts);
+        for part in &placed {
+            for q in &part.mesh.vertices {
+                match p.volume {
+                    Volume::Box { x, y, z } => {
+                        assert!(q.x >= p.margin - tol && q.x <= x - p.margin + tol, "{q:?}");
+                        assert!(q.y >= p.margin - tol && q.y <= y - p.margin + tol, "{q:?}");
+                        assert!(q.z >= -tol && q.z <= z - p.margin + tol, "{q:?}");
+                    }
+                    Volume::Round { diameter, height } => {
+                        assert!((q.x * q.x + q.y * q.y).sqrt() <= 0.5 * diameter - p.margin + tol);
+                        assert!(q.z >= -tol && q.z <= height - p.margin + tol);
+                    }
+                }
+            }
+        }
+        let hulls: Vec<Vec<[f64; 2]>> = placed
+            .iter()
+            .map(|x| {
+                jarvis(
+                    &x.mesh
+                        .vertices
+                        .iter()
+                        .map(|v| [v.x, v.y])
+                        .collect::<Vec<_>>(),
+                )
+            })
+            .collect();
+        let shapes: Vec<_> = placed.iter().map(|x| to_parry(&x.mesh)).collect();
+        for i in 0..placed.len() {
+            for j in i + 1..placed.len() {
+                let gap = hull_gap(&hulls[i], &hulls[j]);
+                assert!(
+                    gap >= p.clearance - 1e-6,
+                    "plate {k}: parts {i}, {j} {gap} mm apart"
+                );
+                let id = parry3d::math::Pose::IDENTITY;
+                let hit = parry3d::query::intersection_test(&id, &shapes[i], &id, &shapes[j])
+                    .unwrap()
+                    .intersecting;
+                assert!(!hit, "plate {k}: parts {i} and {j} intersect");
+            }
+        }
+    }
+}
+
+#[test]
+fn three_blades_share_one_plate() {
+    // Invented demo blades: 150 mm span, chord 40 to 15 mm, 30 degrees of twist.
+    let b = blade(150.0, 40.0, 15.0, 30.0, 31, 48);
+    let parts: Vec<Part> = (1..=3)
+        .map(|k| Part {
+            name: format!("blade-{k}"),
+            mesh: b.clone(),
+        })
+        .collect();
+    let p = printer(220.0, 220.0, 250.0, 5.0, 5.0);
+    // Negative control: the intersection test does see two overlapping blades.
+    let shifted = b.transformed(&nalgebra::Matrix4::new_translation(
+        &nalgebra::Vector3::new(3.0, 0.0, 0.0),
+    ));
+    let id = parry3d::math::Pose::IDENTITY;
+    assert!(
+        parry3d::query::intersection_test(&id, &to_parry(&b), &id, &to_parry(&shifted))
+            .unwrap()
+            .intersecting
+    );
+    let l = layout(&parts, &p, &LayoutOptions::DEFAULT).unwrap();
+    assert!(l.unplaced.is_empty());
+    // Three chord-wide strips of ~ 150 x 40 mm need about 150 x 130 mm: one plate.
+    assert_eq!(
+        l.plates.len(),
+        1,
+        "{:?}",
+        l.plates.iter().map(|p| p.parts.len()).collect::<Vec<_>>()
+    );
+    check(&l, &parts, &p);
+}
+
+#[test]
+fn nine_tiles_in_a_grid_and_two_large_plates() {
+    // Elementary packing: 3 x 60 + 2 x 5 = 190 <= 210 usable, so nine 60 x 60 tiles fit a
+    // 220 x 220 bed with margin 5 and clearance 5 in a 3 x 3 grid.
+    let tiles: Vec<Part> = (0..9)
+        .map(|k| Part {
+            name: format!("tile-{k}"),
+            mesh: box_mesh(60.0, 60.0, 8.0),
+        })
+        .collect();
+    let p = printer(220.0, 220.0, 100.0, 5.0, 5.0);
+    let l = layout(&tiles, &p, &LayoutOptions::DEFAULT).unwrap();
+    assert_eq!(l.plates.len(), 1);
+    check(&l, &tiles, &p);
+    // Area bound: two 150 x 150 plates cover 45 000 mm^2 > 210^2 = 44 100 mm^2 usable, so
+    // they need two plates; each fits alone.
+    let big: Vec<Part> = (0..2)
+        .map(|k| Part {
+            name: format!("big-{k}"),
+            mesh: box_mesh(150.0, 150.0, 8.0),
+        })
+        .collect();
+    let l = layout(&big, &p, &LayoutOptions::DEFAULT).unwrap();
+    assert_eq!(l.plates.len(), 2);
+    check(&l, &big, &p);
+}
+
+#[test]
+fn round_bed_and_unplaceable_part() {
+    let p = PrinterSpec {
+        diameter: Some(200.0),
+        height: Some(100.0),
+        margin: Some(3.0),
+        clearance: Some(4.0),
+        ..Default::default()
+    }
+    .resolve("test")
+    .unwrap();
+    let parts: Vec<Part> = vec![
+        Part {
+            name: "a".into(),
+            mesh: box_mesh(50.0, 30.0, 10.0),
+        },
+        Part {
+            name: "b".into(),
+            mesh: box_mesh(40.0, 40.0, 10.0),
+        },
+        Part {
+            name: "c".into(),
+            mesh: box_mesh(60.0, 20.0, 10.0),
+        },
+        // Longer than the volume's longest segment sqrt(194^2 + 97^2) = 216.9 mm.
+        Part {
+            name: "too-long".into(),
+            mesh: box_mesh(230.0, 5.0, 5.0),
+        },
+    ];
+    let l = layout(&parts, &p, &LayoutOptions::DEFAULT).unwrap();
+    assert_eq!(l.unplaced.len(), 1);
+    assert_eq!(l.unplaced[0].0, 3);
+    assert_eq!(l.plates.len(), 1);
+    check(&l, &parts, &p);
+}
