@@ -1,2 +1,222 @@
 //! Checks of finished solids: closed, consistently oriented 2-manifold, positive volume,
-//! no degenerate triangles, one component, no self-intersection.
+//! no degenerate triangles, one component, expected genus, no self-intersection.
+//!
+//! [`check_solid`] runs every check on a [`TriMesh`] and returns a [`CheckReport`] graded
+//! from [`Grade::Broken`] to [`Grade::Solid`], listing each failed check with the
+//! offending triangles, edges, vertices or triangle pairs. Writers call it before writing
+//! and refuse a mesh whose report is not [`CheckReport::is_ok`].
+//!
+//! ```
+//! use spanwright::check::{check_solid, CheckOptions, Grade};
+//! use spanwright::mesh::TriMesh;
+//! use nalgebra::Point3;
+//!
+//! // A tetrahedron, counter-clockwise seen from outside.
+//! let mut m = TriMesh::new();
+//! for p in [[0.0, 0.0, 0.0], [1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]] {
+//!     m.push_vertex(Point3::from(p));
+//! }
+//! m.triangles = vec![[0, 2, 1], [0, 1, 3], [1, 2, 3], [0, 3, 2]];
+//! let report = check_solid(&m, &CheckOptions::DEFAULT);
+//! assert!(report.is_ok(), "{report}");
+//! assert_eq!(report.grade, Grade::Solid);
+//! assert!((report.volume - 1.0 / 6.0).abs() < 1e-15);
+//! ```
+
+mod components;
+mod finding;
+mod grade;
+mod intersections;
+mod options;
+mod report;
+mod topology;
+mod tritri;
+mod weld;
+
+pub use components::components;
+pub use finding::{EdgeUse, Finding, Listed, VertexFans};
+pub use grade::Grade;
+pub use options::CheckOptions;
+pub use report::CheckReport;
+pub use weld::weld;
+
+use crate::mesh::TriMesh;
+
+/// Runs every check on `mesh` (see the module docs) and grades it.
+///
+/// Order: indices and coordinates first (a broken mesh stops there), then edge use,
+/// orientation and vertex fans, degenerate triangles, volume (only when closed and
+/// consistently oriented), components, genus, and the self-intersection test (when
+/// [`CheckOptions::self_intersection`] is set; degenerate triangles are left out of it).
+pub fn check_solid(mesh: &TriMesh, opts: &CheckOptions) -> CheckReport {
+    let cap = opts.max_listed;
+    let nv = mesh.vertices.len();
+    let mut findings = Vec::new();
+    let mut report = CheckReport {
+        grade: Grade::Solid,
+        triangles: mesh.triangles.len(),
+        vertices: 0,
+        edges: 0,
+        euler: 0,
+        components: 0,
+        genus: None,
+        volume: 0.0,
+        area: 0.0,
+        self_intersection_tested: false,
+        findings: Vec::new(),
+    };
+    if mesh.triangles.is_empty() {
+        findings.push(Finding::Empty);
+    }
+
+    // Indices, repeated indices, coordinates.
+    let mut out_of_range = Listed::new();
+    let mut repeated = Listed::new();
+    let mut valid = vec![false; mesh.triangles.len()];
+    for (t, tri) in mesh.triangles.iter().enumerate() {
+        if tri.iter().any(|&i| i as usize >= nv) {
+            out_of_range.push(t, cap);
+        } else if tri[0] == tri[1] || tri[1] == tri[2] || tri[0] == tri[2] {
+            repeated.push(t, cap);
+        } else {
+            valid[t] = true;
+        }
+    }
+    let mut non_finite = Listed::new();
+    for (i, p) in mesh.vertices.iter().enumerate() {
+        if !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite()) {
+            non_finite.push(i as u32, cap);
+        }
+    }
+    let broken = !out_of_range.is_empty() || !non_finite.is_empty();
+    if !non_finite.is_empty() {
+        findings.push(Finding::NonFinite(non_finite));
+    }
+    if !out_of_range.is_empty() {
+        findings.push(Finding::IndexOutOfRange {
+            vertex_count: nv,
+            triangles: out_of_range,
+        });
+    }
+    if !repeated.is_empty() {
+        findings.push(Finding::RepeatedIndex(repeated));
+    }
+    let comps = components(mesh);
+    report.components = comps.len();
+    if broken {
+        return finish(report, findings);
+    }
+
+    // Edge use, orientation, fans, Euler characteristic.
+    let use_tri: Vec<u32> = (0..mesh.triangles.len() as u32)
+        .filter(|&t| valid[t as usize])
+        .collect();
+    let topo = topology::analyse(&mesh.triangles, &use_tri, nv, cap);
+    report.vertices = topo.vertices;
+    report.edges = topo.edges;
+    report.euler = topo.euler();
+    let closed = topo.closed_manifold();
+    let oriented = topo.same_direction.is_empty();
+    if !topo.overused.is_empty() {
+        findings.push(Finding::OverusedEdges(topo.overused.clone()));
+    }
+    if !topo.fans.is_empty() {
+        findings.push(Finding::NonManifoldVertices(topo.fans.clone()));
+    }
+    if !oriented {
+        findings.push(Finding::SameDirection(topo.same_direction.clone()));
+    }
+    if !topo.boundary.is_empty() {
+        findings.push(Finding::BoundaryEdges(topo.boundary.clone()));
+    }
+
+    // Degenerate triangles, relative to the size of the mesh.
+    let diag = mesh.bounding_box().map(|b| b.size().norm()).unwrap_or(0.0);
+    let threshold = opts.degenerate_area * diag * diag;
+    let mut degenerate = Listed::new();
+    let mut active = valid.clone();
+    let mut area = 0.0;
+    for &t in &use_tri {
+        let a = 0.5 * mesh.scaled_normal(t as usize).norm();
+        area += a;
+        if !(a > threshold) {
+            degenerate.push(t as usize, cap);
+            active[t as usize] = false;
+        }
+    }
+    report.area = area;
+    if !degenerate.is_empty() {
+        findings.push(Finding::Degenerate {
+            threshold,
+            triangles: degenerate,
+        });
+    }
+
+    // Volume, about the box centre for precision far from the origin.
+    let centre = mesh
+        .bounding_box()
+        .map(|b| nalgebra::center(&b.min, &b.max))
+        .unwrap_or_else(nalgebra::Point3::origin);
+    report.volume = use_tri
+        .iter()
+        .map(|&t| {
+            let [a, b, c] = mesh.corners(t as usize).map(|p| p - centre);
+            a.dot(&b.cross(&c))
+        })
+        .sum::<f64>()
+        / 6.0;
+    if closed && oriented {
+        // Zero within the rounding of the sum: |V| below 1e-12 of the box volume scale.
+        if report.volume.abs() <= 1e-12 * diag * diag * diag {
+            findings.push(Finding::ZeroVolume {
+                volume: report.volume,
+            });
+        } else if report.volume < 0.0 {
+            findings.push(Finding::InsideOut {
+                volume: report.volume,
+            });
+        }
+    }
+
+    // Components and genus.
+    if report.components > 1 {
+        let mut sizes = Listed::new();
+        for c in &comps {
+            sizes.push(c.len(), cap);
+        }
+        findings.push(Finding::Components { sizes });
+    }
+    if closed {
+        let twice_genus = 2 * report.components as i64 - report.euler;
+        if twice_genus >= 0 && twice_genus % 2 == 0 {
+            let genus = (twice_genus / 2) as u32;
+            report.genus = Some(genus);
+            if let Some(expected) = opts.expected_genus {
+                if genus != expected {
+                    findings.push(Finding::Genus { genus, expected });
+                }
+            }
+        }
+    }
+
+    if opts.self_intersection {
+        report.self_intersection_tested = true;
+        let pairs = intersections::self_intersections(mesh, &active);
+        if !pairs.is_empty() {
+            let mut l = Listed::new();
+            for p in pairs {
+                l.push(p, cap);
+            }
+            findings.push(Finding::SelfIntersection(l));
+        }
+    }
+    finish(report, findings)
+}
+
+/// Sorts the findings worst first and sets the grade.
+fn finish(mut report: CheckReport, mut findings: Vec<Finding>) -> CheckReport {
+    findings.sort_by_key(|f| f.grade());
+    report.grade = findings.first().map_or(Grade::Solid, |f| f.grade());
+    report.findings = findings;
+    report
+}

@@ -1,0 +1,177 @@
+//! Self-intersection search: a uniform grid over triangle bounding boxes, then the exact
+//! pair tests of [`super::tritri`].
+//!
+//! Each triangle is entered in every grid cell its bounding box overlaps; the entries are
+//! sorted by cell, and the triangles of each cell are paired. A pair overlapping in
+//! several cells is tested only in the cell holding the lowest corner of the intersection
+//! of their boxes, so every pair is tested once without a hash set. Triangles whose box
+//! spans very many cells (long cap triangles, say) are kept out of the grid and tested
+//! against all others by box overlap.
+
+use super::tritri::{corner_pair_meets, disjoint_pair_meets};
+use crate::mesh::TriMesh;
+use nalgebra::Vector3;
+
+/// At most this many cells along each axis.
+const MAX_CELLS_PER_AXIS: f64 = 1024.0;
+/// Triangles whose box spans more cells than this are tested outside the grid.
+const MAX_CELLS_PER_TRIANGLE: u64 = 512;
+
+#[derive(Clone, Copy)]
+struct Boxed {
+    min: [f64; 3],
+    max: [f64; 3],
+}
+
+impl Boxed {
+    fn overlaps(&self, o: &Boxed) -> bool {
+        (0..3).all(|k| self.min[k] <= o.max[k] && o.min[k] <= self.max[k])
+    }
+}
+
+/// All intersecting pairs `(i, j)`, `i < j`, sorted, among the triangles `t` with
+/// `active[t]` (vertex indices in range, distinct, non-zero area). Pairs sharing an edge
+/// are not tested; pairs sharing one vertex count when they meet anywhere else.
+pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
+    let tris = &mesh.triangles;
+    let ids: Vec<u32> = (0..tris.len() as u32)
+        .filter(|&t| active[t as usize])
+        .collect();
+    if ids.len() < 2 {
+        return Vec::new();
+    }
+    let boxes: Vec<Boxed> = tris
+        .iter()
+        .map(|t| {
+            let mut b = Boxed {
+                min: [f64::INFINITY; 3],
+                max: [f64::NEG_INFINITY; 3],
+            };
+            for &i in t {
+                if let Some(p) = mesh.vertices.get(i as usize) {
+                    for k in 0..3 {
+                        b.min[k] = b.min[k].min(p[k]);
+                        b.max[k] = b.max[k].max(p[k]);
+                    }
+                }
+            }
+            b
+        })
+        .collect();
+
+    // Grid: cells about the mean largest box side, capped per axis.
+    let mut lo = [f64::INFINITY; 3];
+    let mut hi = [f64::NEG_INFINITY; 3];
+    let mut mean = 0.0;
+    for &t in &ids {
+        let b = &boxes[t as usize];
+        for k in 0..3 {
+            lo[k] = lo[k].min(b.min[k]);
+            hi[k] = hi[k].max(b.max[k]);
+        }
+        mean += (0..3).map(|k| b.max[k] - b.min[k]).fold(0.0, f64::max);
+    }
+    mean /= ids.len() as f64;
+    let extent = (0..3).map(|k| hi[k] - lo[k]).fold(0.0, f64::max);
+    let h = mean.max(extent / MAX_CELLS_PER_AXIS).max(f64::MIN_POSITIVE);
+    let dims: [u64; 3] = std::array::from_fn(|k| {
+        (((hi[k] - lo[k]) / h) as u64 + 1).min(MAX_CELLS_PER_AXIS as u64 + 1)
+    });
+    let cell_of = |x: f64, k: usize| (((x - lo[k]) / h) as u64).min(dims[k] - 1);
+    let cell_id = |c: [u64; 3]| c[0] + dims[0] * (c[1] + dims[1] * c[2]);
+
+    // Entries (cell << 32 | triangle), and the triangles too large for the grid.
+    let mut entries: Vec<u64> = Vec::with_capacity(ids.len() * 4);
+    let mut big: Vec<u32> = Vec::new();
+    for &t in &ids {
+        let b = &boxes[t as usize];
+        let c0: [u64; 3] = std::array::from_fn(|k| cell_of(b.min[k], k));
+        let c1: [u64; 3] = std::array::from_fn(|k| cell_of(b.max[k], k));
+        let n = (0..3).map(|k| c1[k] - c0[k] + 1).product::<u64>();
+        if n > MAX_CELLS_PER_TRIANGLE {
+            big.push(t);
+            continue;
+        }
+        for z in c0[2]..=c1[2] {
+            for y in c0[1]..=c1[1] {
+                for x in c0[0]..=c1[0] {
+                    entries.push((cell_id([x, y, z]) << 32) | t as u64);
+                }
+            }
+        }
+    }
+    entries.sort_unstable();
+
+    let mut found = Vec::new();
+    let test = |a: u32, b: u32, found: &mut Vec<[usize; 2]>| {
+        if pair_meets(mesh, tris[a as usize], tris[b as usize]) {
+            found.push([a.min(b) as usize, a.max(b) as usize]);
+        }
+    };
+    let mut i = 0;
+    while i < entries.len() {
+        let cell = entries[i] >> 32;
+        let mut j = i + 1;
+        while j < entries.len() && entries[j] >> 32 == cell {
+            j += 1;
+        }
+        for x in i..j {
+            let a = entries[x] as u32;
+            let ba = &boxes[a as usize];
+            for &e in &entries[x + 1..j] {
+                let b = e as u32;
+                let bb = &boxes[b as usize];
+                if !ba.overlaps(bb) {
+                    continue;
+                }
+                // Test only in the cell of the lowest corner of the overlap.
+                let c: [u64; 3] = std::array::from_fn(|k| cell_of(ba.min[k].max(bb.min[k]), k));
+                if cell_id(c) == cell {
+                    test(a, b, &mut found);
+                }
+            }
+        }
+        i = j;
+    }
+    // Large triangles against everything else (each unordered pair once).
+    for (n, &a) in big.iter().enumerate() {
+        let ba = &boxes[a as usize];
+        for &b in &ids {
+            if b == a || (big[..n].contains(&b)) {
+                continue;
+            }
+            if ba.overlaps(&boxes[b as usize]) {
+                test(a, b, &mut found);
+            }
+        }
+    }
+    found.sort_unstable();
+    found.dedup();
+    found
+}
+
+/// The exact test for one pair, by the number of shared vertex indices.
+fn pair_meets(mesh: &TriMesh, a: [u32; 3], b: [u32; 3]) -> bool {
+    let p = |i: u32| -> Vector3<f64> { mesh.vertices[i as usize].coords };
+    let mut shared = 0;
+    let mut ka = 0;
+    let mut kb = 0;
+    for (i, va) in a.iter().enumerate() {
+        if let Some(j) = b.iter().position(|vb| vb == va) {
+            shared += 1;
+            ka = i;
+            kb = j;
+        }
+    }
+    match shared {
+        0 => disjoint_pair_meets(&a.map(p), &b.map(p)),
+        1 => {
+            // Rotate both so the shared vertex comes first (keeps orientation).
+            let ra = [a[ka], a[(ka + 1) % 3], a[(ka + 2) % 3]];
+            let rb = [b[kb], b[(kb + 1) % 3], b[(kb + 2) % 3]];
+            corner_pair_meets(&ra.map(p), &rb.map(p))
+        }
+        // Neighbours across an edge (or duplicates, reported as over-used edges).
+        _ => false,
+    }
+}
