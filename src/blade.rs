@@ -13,6 +13,7 @@
 use crate::airfoil::Section;
 use crate::design::{BladeOptions, Flow, Rotation, Station};
 use crate::interp::Monotone;
+use crate::root::{RootError, RootSpec, TipShape, TipSpec};
 use nalgebra::{Point2, Point3};
 
 /// Why a blade could not be built from its stations.
@@ -24,6 +25,12 @@ pub enum BladeError {
     /// Fewer than two stations, radii not increasing, or a non-finite value.
     #[error("invalid stations: {0}")]
     Stations(String),
+    /// The root settings cannot be built.
+    #[error(transparent)]
+    Root(#[from] RootError),
+    /// The tip settings cannot be built.
+    #[error("tip.length = {0}: must be a positive number of millimetres")]
+    TipLength(f64),
 }
 
 /// The spanwise-interpolated blade.
@@ -41,6 +48,37 @@ pub struct Blade {
     stacking: f64,
     side: f64,
     mirror: bool,
+    root: Option<RootSpec>,
+    tip: TipSpec,
+}
+
+/// Spanwise regions of the blade, root to tip.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Region {
+    /// Constant round (or elliptical) shank.
+    Shank,
+    /// Shank-to-airfoil transition.
+    Transition,
+    /// The airfoil stations.
+    Airfoil,
+    /// Rounded tip closure.
+    Tip,
+}
+
+/// The round tip stops where the outline has shrunk to 5 % (sin of the elliptic angle).
+const TIP_END_SIN: f64 = 0.998_749_217_771_908_8; // sqrt(1 - 0.05^2)
+
+/// Shoelace area of a closed polygon (absolute value).
+fn polygon_area(p: &[Point2<f64>]) -> f64 {
+    let n = p.len();
+    (0..n)
+        .map(|i| {
+            let (a, b) = (p[i], p[(i + 1) % n]);
+            a.x * b.y - b.x * a.y
+        })
+        .sum::<f64>()
+        .abs()
+        * 0.5
 }
 
 /// A section placed in the blade frame at one radius.
@@ -113,7 +151,234 @@ impl Blade {
                 Flow::Propeller => -1.0,
             },
             mirror: opts.rotation == Rotation::Cw,
+            root: None,
+            tip: TipSpec::default(),
         })
+    }
+
+    /// Adds a round shank and transition at the root (lengths in mm), after checking them
+    /// against the first station.
+    pub fn with_root(mut self, root: RootSpec) -> Result<Blade, BladeError> {
+        root.validate()?;
+        let face = self.radii[0] - root.transition_length - root.shank_length;
+        if face < 0.0 {
+            return Err(RootError::BehindAxis(face).into());
+        }
+        self.root = Some(root);
+        let (shank, air) = (self.shank_outline(), self.airfoil_outline(self.radii[0]));
+        let travel = shank
+            .iter()
+            .zip(&air)
+            .map(|(a, b)| (a - b).norm())
+            .fold(0.0, f64::max);
+        let given = self.root.as_ref().map_or(0.0, |r| r.transition_length);
+        if given < travel {
+            return Err(RootError::TransitionTooShort { given, travel }.into());
+        }
+        // Section area along the transition must be monotone (no waist).
+        let (z0, z1) = (self.radii[0] - given, self.radii[0]);
+        let areas: Vec<f64> = (0..=64)
+            .map(|i| polygon_area(&self.outline(z0 + (z1 - z0) * i as f64 / 64.0).0))
+            .collect();
+        let (start, end) = (areas[0], areas[64]);
+        let rising = end >= start;
+        let slack = 1e-9 * start.max(end);
+        let monotone = areas.windows(2).all(|w| {
+            if rising {
+                w[1] >= w[0] - slack
+            } else {
+                w[1] <= w[0] + slack
+            }
+        });
+        if !monotone {
+            let min_area = areas.iter().copied().fold(f64::INFINITY, f64::min);
+            return Err(RootError::Waist {
+                min_area,
+                start,
+                end,
+            }
+            .into());
+        }
+        Ok(self)
+    }
+
+    /// Sets the tip closure.
+    pub fn with_tip(mut self, tip: TipSpec) -> Result<Blade, BladeError> {
+        if let Some(l) = tip.length {
+            if !(l > 0.0 && l.is_finite()) {
+                return Err(BladeError::TipLength(l));
+            }
+        }
+        self.tip = tip;
+        Ok(self)
+    }
+
+    /// The root settings, if any.
+    pub fn root(&self) -> Option<&RootSpec> {
+        self.root.as_ref()
+    }
+
+    /// Radius of the root face (the first station without a shank), mm.
+    pub fn root_face(&self) -> f64 {
+        match &self.root {
+            Some(r) => self.radii[0] - r.transition_length - r.shank_length,
+            None => self.radii[0],
+        }
+    }
+
+    /// Radius where the lofted skin starts: the root face, or the top of the flange's
+    /// fillet when there is a flange (the flange itself is a mesh feature), mm.
+    pub fn skin_start(&self) -> f64 {
+        let flange = self.root.as_ref().and_then(|r| r.flange.as_ref());
+        self.root_face() + flange.map_or(0.0, |f| f.thickness + f.fillet)
+    }
+
+    /// Radius of the tip end (the last station for a flat tip), mm.
+    pub fn tip_end(&self) -> f64 {
+        self.tip_radius() + self.tip_length()
+    }
+
+    fn tip_length(&self) -> f64 {
+        match self.tip.shape {
+            TipShape::Flat => 0.0,
+            TipShape::Round => self
+                .tip
+                .length
+                .unwrap_or(0.5 * self.chord_at(self.tip_radius())),
+        }
+    }
+
+    /// The region a radius falls in.
+    pub fn region(&self, r: f64) -> Region {
+        let first = self.radii[0];
+        if r > self.tip_radius() {
+            Region::Tip
+        } else if r >= first || self.root.is_none() {
+            Region::Airfoil
+        } else if r >= first - self.root.as_ref().map_or(0.0, |s| s.transition_length) {
+            Region::Transition
+        } else {
+            Region::Shank
+        }
+    }
+
+    /// Section outline in physical section coordinates (mm, stacking point at the
+    /// origin, before twist, flow side and mirroring) at an airfoil radius.
+    fn airfoil_outline(&self, r: f64) -> Vec<Point2<f64>> {
+        let c = self.chord.eval(r);
+        self.shape
+            .iter()
+            .map(|(fx, fy)| Point2::new((fx.eval(r) - self.stacking) * c, fy.eval(r) * c))
+            .collect()
+    }
+
+    /// Spanwise derivative of [`Blade::airfoil_outline`] (forward difference), mm/mm.
+    fn airfoil_outline_slope(&self, r: f64, dir: f64) -> Vec<nalgebra::Vector2<f64>> {
+        let h = 1e-5 * (self.tip_radius() - self.radii[0]) * dir;
+        let (a, b) = (self.airfoil_outline(r), self.airfoil_outline(r + h));
+        a.iter().zip(&b).map(|(p, q)| (q - p) / h).collect()
+    }
+
+    fn slope(f: &Monotone, r: f64, h: f64) -> f64 {
+        (f.eval(r + h) - f.eval(r)) / h
+    }
+
+    /// The shank outline (physical coordinates, centred on the stacking axis).
+    fn shank_outline(&self) -> Vec<Point2<f64>> {
+        let root = self.root.as_ref().expect("only called with a root");
+        let n = self.le_index + 1;
+        let xs = crate::airfoil::cosine_stations(n);
+        let air = self.airfoil_outline(self.radii[0]);
+        let gap = (air[0] - air[air.len() - 1]).norm();
+        let (d, t) = (root.shank_diameter, root.thickness());
+        let m = 2 * n - 1;
+        (0..m)
+            .map(|k| {
+                let (i, sign) = if k < n {
+                    (n - 1 - k, 1.0)
+                } else {
+                    (k - (n - 1), -1.0)
+                };
+                let x = xs[i];
+                let y = if i == n - 1 {
+                    0.5 * gap
+                } else {
+                    t * (x * (1.0 - x)).max(0.0).sqrt()
+                };
+                Point2::new((x - 0.5) * d, sign * y)
+            })
+            .collect()
+    }
+
+    /// Physical outline, twist (degrees), sweep and prebend (mm) at radius `r`.
+    fn outline(&self, r: f64) -> (Vec<Point2<f64>>, f64, f64, f64) {
+        let first = self.radii[0];
+        let last = self.tip_radius();
+        match self.region(r) {
+            Region::Airfoil => (
+                self.airfoil_outline(r),
+                self.twist.eval(r),
+                self.sweep.eval(r),
+                self.prebend.eval(r),
+            ),
+            Region::Shank => (
+                self.shank_outline(),
+                self.twist.eval(first),
+                self.sweep.eval(first),
+                self.prebend.eval(first),
+            ),
+            Region::Transition => {
+                // Cubic Hermite from the shank (zero slope) to the first station (its
+                // slope): continuous position and slope at both ends.
+                let l = self.root.as_ref().map_or(1.0, |s| s.transition_length);
+                let s = ((r - (first - l)) / l).clamp(0.0, 1.0);
+                let (h00, h01, h11) = (
+                    2.0 * s * s * s - 3.0 * s * s + 1.0,
+                    -2.0 * s * s * s + 3.0 * s * s,
+                    s * s * s - s * s,
+                );
+                let shank = self.shank_outline();
+                let air = self.airfoil_outline(first);
+                let slope = self.airfoil_outline_slope(first, 1.0);
+                let pts = (0..air.len())
+                    .map(|k| {
+                        Point2::from(
+                            shank[k].coords * h00 + air[k].coords * h01 + slope[k] * (h11 * l),
+                        )
+                    })
+                    .collect();
+                let h = 1e-5 * (last - first);
+                let cont = |f: &Monotone| f.eval(first) + h11 * l * Self::slope(f, first, h);
+                (
+                    pts,
+                    cont(&self.twist),
+                    cont(&self.sweep),
+                    cont(&self.prebend),
+                )
+            }
+            Region::Tip => {
+                // Elliptic closure continuing the blade's slope at the last station.
+                let l = self.tip_length();
+                let dz = (r - last).clamp(0.0, l);
+                let s = TIP_END_SIN * dz / l;
+                let k = (1.0 - s * s).max(0.0).sqrt();
+                let air = self.airfoil_outline(last);
+                let slope = self.airfoil_outline_slope(last, -1.0);
+                let pts = air
+                    .iter()
+                    .zip(&slope)
+                    .map(|(p, d)| Point2::from((p.coords + d * dz) * k))
+                    .collect();
+                let h = -1e-5 * (last - first);
+                let cont = |f: &Monotone| f.eval(last) + dz * Self::slope(f, last, h);
+                (
+                    pts,
+                    cont(&self.twist),
+                    cont(&self.sweep),
+                    cont(&self.prebend),
+                )
+            }
+        }
     }
 
     /// Root radius (first station), mm.
@@ -157,43 +422,82 @@ impl Blade {
             .expect("structure checked in Blade::new")
     }
 
-    /// Places a unit-chord section at radius `r` with the given chord and twist (degrees)
-    /// and the interpolated offsets, following [`crate::conventions`].
-    pub fn place(&self, section: &Section, r: f64, chord: f64, twist_deg: f64) -> Vec<Point3<f64>> {
+    /// Places a physical outline at radius `r` with twist (degrees) and offsets, following
+    /// [`crate::conventions`].
+    fn place(
+        &self,
+        outline: &[Point2<f64>],
+        r: f64,
+        twist_deg: f64,
+        dx: f64,
+        dy: f64,
+    ) -> Vec<Point3<f64>> {
         let (s, c) = twist_deg.to_radians().sin_cos();
-        let (dx, dy) = (self.sweep.eval(r), self.prebend.eval(r));
         let mirror = if self.mirror { -1.0 } else { 1.0 };
-        section
-            .points()
+        outline
             .iter()
             .map(|p| {
-                let u = (p.x - self.stacking) * chord;
-                let v = self.side * p.y * chord;
+                let (u, v) = (p.x, self.side * p.y);
                 Point3::new(mirror * (u * c - v * s + dx), u * s + v * c + dy, r)
             })
             .collect()
     }
 
-    /// The placed section at radius `r`.
+    /// The placed section at radius `r` (any region).
     pub fn ring(&self, r: f64) -> Ring {
-        let chord = self.chord_at(r);
-        let twist = self.twist_at(r);
+        let (outline, twist, dx, dy) = self.outline(r);
+        let chord = match self.region(r) {
+            Region::Airfoil => self.chord_at(r),
+            _ => {
+                let xs = outline.iter().map(|p| p.x);
+                xs.clone().fold(f64::MIN, f64::max) - xs.fold(f64::MAX, f64::min)
+            }
+        };
         Ring {
             radius: r,
             chord,
             twist,
-            points: self.place(&self.section_at(r), r, chord, twist),
+            points: self.place(&outline, r, twist, dx, dy),
         }
     }
 
-    /// Radii at which to sample rings for the loft: every station plus evenly spaced
-    /// radii between stations, no farther apart than `max_spacing` (mm).
+    /// Section area at radius `r`, mm² (of the outline polygon).
+    pub fn area_at(&self, r: f64) -> f64 {
+        polygon_area(&self.outline(r).0)
+    }
+
+    /// Radii at which to sample rings for the loft, root face to tip end: every station,
+    /// evenly spaced radii between stations no farther apart than `max_spacing` (mm), at
+    /// least 4 rings along the shank, 16 along the transition, and rings clustered toward
+    /// the end of a round tip (even steps of the elliptic angle).
     pub fn ring_radii(&self, max_spacing: f64) -> Vec<f64> {
-        let mut out = vec![self.radii[0]];
-        for w in self.radii.windows(2) {
-            let k = ((w[1] - w[0]) / max_spacing).ceil().max(1.0) as usize;
+        let mut out = Vec::new();
+        let push_range = |out: &mut Vec<f64>, a: f64, b: f64, min_steps: usize| {
+            let k = (((b - a) / max_spacing).ceil() as usize)
+                .max(min_steps)
+                .max(1);
             for i in 1..=k {
-                out.push(w[0] + (w[1] - w[0]) * i as f64 / k as f64);
+                out.push(a + (b - a) * i as f64 / k as f64);
+            }
+        };
+        out.push(self.skin_start());
+        if let Some(root) = &self.root {
+            let shank_end = self.radii[0] - root.transition_length;
+            if shank_end > self.skin_start() {
+                push_range(&mut out, self.skin_start(), shank_end, 4);
+            }
+            push_range(&mut out, shank_end, self.radii[0], 16);
+        }
+        for w in self.radii.windows(2) {
+            push_range(&mut out, w[0], w[1], 1);
+        }
+        if self.tip.shape == TipShape::Round {
+            let (last, l) = (self.tip_radius(), self.tip_length());
+            let phi_end = TIP_END_SIN.asin();
+            let k = 24;
+            for i in 1..=k {
+                let phi = phi_end * i as f64 / k as f64;
+                out.push(last + l * phi.sin() / TIP_END_SIN);
             }
         }
         out

@@ -61,6 +61,12 @@ pub struct Tessellation {
     pub us: Vec<f64>,
     /// Grid parameters along the span (`v`).
     pub vs: Vec<f64>,
+    /// The root boundary loop (vertex indices, in `u` order, without a repeated
+    /// trailing-edge vertex).
+    pub root_ring: Vec<u32>,
+    /// The triangles of the root cap (a range of `mesh.triangles`), for features that
+    /// replace the cap.
+    pub root_cap: std::ops::Range<usize>,
 }
 
 /// Precomputed basis values along one direction.
@@ -302,13 +308,26 @@ pub fn tessellate(
         return Err(TessellateError::Tolerance(opts.tolerance));
     }
     let (us, vs) = grid_parameters(skin, opts);
-    let mesh = mesh_from_grid(skin, &us, &vs)?;
-    Ok(Tessellation { mesh, us, vs })
+    let (mesh, root_ring, root_cap) = mesh_from_grid(skin, &us, &vs)?;
+    Ok(Tessellation {
+        mesh,
+        us,
+        vs,
+        root_ring,
+        root_cap,
+    })
 }
 
+/// The root ring and the range of the root cap's triangles.
+type RootCap = (Vec<u32>, std::ops::Range<usize>);
+
 /// Builds the closed mesh on the given grid parameters (`us` from 0 to 1, `vs` from 0
-/// to 1, both sorted).
-pub fn mesh_from_grid(skin: &Skin, us: &[f64], vs: &[f64]) -> Result<TriMesh, TessellateError> {
+/// to 1, both sorted); also returns the root ring and the root cap's triangle range.
+pub fn mesh_from_grid(
+    skin: &Skin,
+    us: &[f64],
+    vs: &[f64],
+) -> Result<(TriMesh, Vec<u32>, std::ops::Range<usize>), TessellateError> {
     let ua = Axis::new(&skin.knots_u, skin.degree_u, us.to_vec());
     let va = Axis::new(&skin.knots_v, skin.degree_v, vs.to_vec());
     let (nu, nv) = (ua.params.len(), va.params.len());
@@ -328,7 +347,7 @@ pub fn mesh_from_grid(skin: &Skin, us: &[f64], vs: &[f64]) -> Result<TriMesh, Te
         }
     }
     let outward = skin.orientation() > 0.0;
-    let mut push = |mesh: &mut TriMesh, t: [u32; 3]| {
+    let push = |mesh: &mut TriMesh, t: [u32; 3]| {
         if t[0] != t[1] && t[1] != t[2] && t[0] != t[2] {
             mesh.triangles
                 .push(if outward { t } else { [t[0], t[2], t[1]] });
@@ -358,16 +377,21 @@ pub fn mesh_from_grid(skin: &Skin, us: &[f64], vs: &[f64]) -> Result<TriMesh, Te
         }
     }
     // Caps: the boundary loop of row j, without the aliased duplicate.
+    let mut root: RootCap = (Vec::new(), 0..0);
     for (j, name, up) in [(0usize, "root", false), (nv - 1, "tip", true)] {
         let mut ring: Vec<u32> = (0..nu).map(|i| index[i][j]).collect();
         if ring[nu - 1] == ring[0] {
             ring.pop();
         }
+        let start = mesh.triangles.len();
         for t in cap_triangles(&mesh, &ring, up).ok_or(TessellateError::CapSelfIntersects(name))? {
             mesh.triangles.push(t);
         }
+        if !up {
+            root = (ring, start..mesh.triangles.len());
+        }
     }
-    Ok(mesh)
+    Ok((mesh, root.0, root.1))
 }
 
 /// Constrained Delaunay triangulation of a planar cap (a plane `z = const`) bounded by

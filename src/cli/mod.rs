@@ -4,8 +4,10 @@
 
 use clap::{Parser, Subcommand};
 
+mod build;
 mod draft;
 mod fit;
+mod progress;
 mod report;
 mod section;
 use std::process::ExitCode;
@@ -31,6 +33,8 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
+    /// Build a blade from a design file: loft, mesh, check, write STL/3MF/OBJ/STEP.
+    Build(build::Args),
     /// Generate, convert and measure airfoil sections.
     Section(section::Args),
     /// Check whether parts fit a printer; find orientations and plate layouts.
@@ -53,6 +57,7 @@ pub fn main() -> ExitCode {
     let cli = Cli::parse();
     let ctx = Context { quiet: cli.quiet };
     let result = match cli.command {
+        Command::Build(a) => build::run(a, &ctx),
         Command::Section(a) => section::run(a, &ctx),
         Command::Fit(a) => fit::run(a, &ctx),
         Command::Draft(a) => draft::run(a, &ctx),

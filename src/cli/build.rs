@@ -1,0 +1,174 @@
+//! `spanwright build`: design table in, checked solids out.
+
+use super::{progress::Stages, Context, EXIT_CHECK_FAILED};
+use anyhow::Context as _;
+use spanwright::check::{check_solid, CheckOptions};
+use spanwright::design::{self, Design};
+use spanwright::export::{self, Format};
+use spanwright::pipeline::{self, BuildOptions, Model};
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+use std::time::Instant;
+
+/// Arguments of `spanwright build`.
+#[derive(Debug, clap::Args)]
+#[command(after_help = "Examples:
+  spanwright build examples/garden-turbine.toml
+  spanwright build table.csv --section naca4412 --format stl,3mf,step
+  spanwright build examples/desk-fan.toml --tolerance 0.005 --out prints/")]
+pub struct Args {
+    /// Design file: a TOML design, or a CSV station table (with --section when the table
+    /// has no section column).
+    pub design: PathBuf,
+    /// Section for every station of a bare CSV table (a designation such as naca4412, or
+    /// a section file).
+    #[arg(long, short)]
+    pub section: Option<String>,
+    /// Output folder (created when missing).
+    #[arg(long, short, default_value = "out")]
+    pub out: PathBuf,
+    /// Output formats, comma separated: stl, stl-ascii, obj, 3mf, step.
+    #[arg(long, short, value_delimiter = ',', default_value = "stl")]
+    pub format: Vec<String>,
+    /// Largest distance between mesh and exact surface, mm (overrides the design).
+    #[arg(long, short)]
+    pub tolerance: Option<f64>,
+    /// Print the summary as JSON.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// Loads a design file (TOML, or CSV with an optional default section).
+pub fn load_design(path: &Path, section: Option<&str>) -> anyhow::Result<Design> {
+    let is_csv = path
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("csv"));
+    let design = if is_csv {
+        design::load_csv(path, section)
+    } else {
+        design::load(path)
+    }?;
+    Ok(design)
+}
+
+/// Runs the subcommand.
+pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
+    let started = Instant::now();
+    let formats = args
+        .format
+        .iter()
+        .map(|f| f.parse::<Format>().map_err(anyhow::Error::msg))
+        .collect::<anyhow::Result<Vec<Format>>>()?;
+    let stages = Stages::new(ctx, 4);
+    stages.set("reading the design");
+    let design = load_design(&args.design, args.section.as_deref())?;
+    stages.set("lofting and meshing");
+    let model = pipeline::build(
+        &design,
+        &BuildOptions {
+            tolerance: args.tolerance,
+        },
+    )?;
+    stages.set("checking the solid");
+    let report = check_solid(model.mesh(), &CheckOptions::DEFAULT);
+    stages.finish();
+    if !report.is_ok() {
+        eprintln!(
+            "{}: the solid failed its checks; nothing was written:\n{report}",
+            args.design.display()
+        );
+        return Ok(ExitCode::from(EXIT_CHECK_FAILED));
+    }
+    std::fs::create_dir_all(&args.out)
+        .with_context(|| format!("cannot create the output folder {}", args.out.display()))?;
+    let mut written = Vec::new();
+    for format in &formats {
+        let path = args
+            .out
+            .join(format!("{}.{}", model.name, format.extension()));
+        write_format(&model, *format, &path)?;
+        written.push(path);
+    }
+    let summary = Summary::of(&model, &written, started.elapsed().as_secs_f64());
+    if args.json {
+        println!("{}", serde_json::to_string_pretty(&summary)?);
+    } else if !ctx.quiet {
+        summary.print();
+    }
+    Ok(ExitCode::SUCCESS)
+}
+
+fn write_format(model: &Model, format: Format, path: &Path) -> anyhow::Result<()> {
+    match format {
+        Format::Step => {
+            let solid = export::step_solid(&model.skin)?;
+            export::write_step(
+                path,
+                &[(model.name.clone(), solid)],
+                &export::StepHeader::for_design(&model.name),
+            )?;
+        }
+        _ => export::write_parts(path, format, &[model.part()])?,
+    }
+    Ok(())
+}
+
+/// What a build made, for people and scripts.
+#[derive(Debug, serde::Serialize)]
+struct Summary {
+    name: String,
+    stations: usize,
+    rings: usize,
+    triangles: usize,
+    vertices: usize,
+    volume_mm3: f64,
+    area_mm2: f64,
+    bounding_box_mm: [[f64; 3]; 2],
+    files: Vec<String>,
+    seconds: f64,
+}
+
+impl Summary {
+    fn of(model: &Model, files: &[PathBuf], seconds: f64) -> Summary {
+        let mesh = model.mesh();
+        let bb = mesh.bounding_box().expect("a built blade has vertices");
+        Summary {
+            name: model.name.clone(),
+            stations: model.sections.len(),
+            rings: model.ring_radii.len(),
+            triangles: mesh.len(),
+            vertices: mesh.vertices.len(),
+            volume_mm3: mesh.signed_volume(),
+            area_mm2: mesh.area(),
+            bounding_box_mm: [bb.min.into(), bb.max.into()],
+            files: files.iter().map(|p| p.display().to_string()).collect(),
+            seconds,
+        }
+    }
+
+    fn print(&self) {
+        let [lo, hi] = self.bounding_box_mm;
+        println!(
+            "{}: {} stations, {} rings lofted",
+            self.name, self.stations, self.rings
+        );
+        println!(
+            "  mesh: {} triangles, {} vertices; closed, oriented, no self-intersection",
+            self.triangles, self.vertices
+        );
+        println!(
+            "  volume {:.1} mm³ ({:.2} cm³), surface {:.1} mm²",
+            self.volume_mm3,
+            self.volume_mm3 / 1000.0,
+            self.area_mm2
+        );
+        println!(
+            "  box x {:.1}..{:.1}, y {:.1}..{:.1}, z {:.1}..{:.1} mm",
+            lo[0], hi[0], lo[1], hi[1], lo[2], hi[2]
+        );
+        for f in &self.files {
+            println!("  wrote {f}");
+        }
+        println!("  {:.3} s", self.seconds);
+    }
+}

@@ -1,0 +1,220 @@
+//! The whole job in one call: design -> sections -> blade -> skin -> mesh -> checks.
+//!
+//! ```no_run
+//! let design = spanwright::design::load(std::path::Path::new("examples/garden-turbine.toml"))?;
+//! let model = spanwright::pipeline::build(&design, &spanwright::pipeline::BuildOptions::default())?;
+//! println!("{} triangles, {:.0} mm³", model.mesh().len(), model.mesh().signed_volume());
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
+
+use crate::airfoil::Section;
+use crate::blade::{Blade, BladeError};
+use crate::design::{Design, DesignError};
+use crate::loft::{LoftError, Skin};
+use crate::mesh::{Part, TriMesh};
+use crate::root::{RootSpec, TipSpec};
+use crate::tessellate::{tessellate, TessellateError, Tessellation, TessellationOptions};
+use std::path::{Path, PathBuf};
+
+/// Why the pipeline stopped.
+#[derive(Debug, thiserror::Error)]
+pub enum PipelineError {
+    /// One or more station sections could not be found or read; every one is listed.
+    #[error("{}", .0.join("\n"))]
+    Sections(Vec<String>),
+    /// The blade could not be built from the stations.
+    #[error(transparent)]
+    Blade(#[from] BladeError),
+    /// The skin could not be lofted.
+    #[error(transparent)]
+    Loft(#[from] LoftError),
+    /// The skin could not be tessellated.
+    #[error(transparent)]
+    Tessellate(#[from] TessellateError),
+    /// An optional table (root, tip, ...) is malformed.
+    #[error(transparent)]
+    Design(#[from] DesignError),
+}
+
+/// Options that override the design for one run.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct BuildOptions {
+    /// Mesh tolerance, mm (default: the design's).
+    pub tolerance: Option<f64>,
+}
+
+/// The built blade: every stage's result, for the consumers.
+#[derive(Debug, Clone)]
+pub struct Model {
+    /// Design name.
+    pub name: String,
+    /// The resolved station sections (resampled, one per station).
+    pub sections: Vec<Section>,
+    /// Trailing edges opened for printing.
+    pub te_changes: Vec<TeChange>,
+    /// The spanwise-interpolated blade.
+    pub blade: Blade,
+    /// Radii of the rings the skin interpolates, mm.
+    pub ring_radii: Vec<f64>,
+    /// The surface model.
+    pub skin: Skin,
+    /// The tessellation of the surface model.
+    pub tessellation: Tessellation,
+}
+
+impl Model {
+    /// The closed mesh.
+    pub fn mesh(&self) -> &TriMesh {
+        &self.tessellation.mesh
+    }
+
+    /// The blade as a named part.
+    pub fn part(&self) -> Part {
+        Part {
+            name: self.name.clone(),
+            mesh: self.tessellation.mesh.clone(),
+        }
+    }
+}
+
+/// Folders searched for section files: the design file's folder, then `profiles/` beside
+/// it and in the working directory.
+pub fn section_dirs(design: &Design) -> Vec<PathBuf> {
+    let mut dirs = Vec::new();
+    if let Some(dir) = design.source.as_deref().and_then(Path::parent) {
+        dirs.push(dir.to_path_buf());
+        dirs.push(dir.join("profiles"));
+        if let Some(up) = dir.parent() {
+            dirs.push(up.join("profiles"));
+        }
+    }
+    dirs.push(PathBuf::from("profiles"));
+    dirs
+}
+
+/// A trailing edge opened for printing at one station.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct TeChange {
+    /// Station radius, mm.
+    pub radius: f64,
+    /// Trailing-edge thickness before, mm.
+    pub before: f64,
+    /// Trailing-edge thickness after, mm.
+    pub after: f64,
+    /// Section area added, mm².
+    pub added_area: f64,
+}
+
+/// Resolves every station's section, scales it to the station's relative thickness,
+/// resamples it to the design's point structure and opens its trailing edge to the
+/// design's minimum thickness. Every failure is reported at once with the station's
+/// origin (file and line, or key).
+pub fn resolve_sections(design: &Design) -> Result<(Vec<Section>, Vec<TeChange>), PipelineError> {
+    let dirs = section_dirs(design);
+    let dir_refs: Vec<&Path> = dirs.iter().map(PathBuf::as_path).collect();
+    let n = design.blade.points_per_side;
+    let mut cache: Vec<(String, Section)> = Vec::new();
+    let mut errors = Vec::new();
+    let mut out = Vec::with_capacity(design.stations.len());
+    let mut te_changes = Vec::new();
+    for st in &design.stations {
+        let base = match cache.iter().find(|(name, _)| *name == st.section) {
+            Some((_, s)) => Ok(s.clone()),
+            None => crate::airfoil::resolve(&st.section, &dir_refs).map_err(|e| e.to_string()),
+        };
+        let base = match base {
+            Ok(s) => {
+                if !cache.iter().any(|(name, _)| *name == st.section) {
+                    cache.push((st.section.clone(), s.clone()));
+                }
+                s
+            }
+            Err(e) => {
+                errors.push(format!("{}: {e}", st.origin));
+                continue;
+            }
+        };
+        let shaped = match st.thickness {
+            Some(t) => base.with_thickness(t, n),
+            None => Ok(base),
+        }
+        .and_then(|s| {
+            s.resample(n)
+                .map_err(|e| crate::airfoil::SectionError::shape(&st.section, e))
+        });
+        let shaped = match (shaped, design.blade.min_te_thickness) {
+            (Ok(s), Some(min_mm)) => {
+                crate::airfoil::thicken_te(&s, (min_mm / st.chord).min(0.1), n).map(|t| {
+                    if t.te_after > t.te_before {
+                        te_changes.push(TeChange {
+                            radius: st.radius,
+                            before: t.te_before * st.chord,
+                            after: t.te_after * st.chord,
+                            added_area: t.area_change() * st.chord * st.chord,
+                        });
+                    }
+                    t.section
+                })
+            }
+            (other, _) => other,
+        };
+        match shaped {
+            Ok(s) => out.push(s),
+            Err(e) => errors.push(format!("{}: section '{}': {e}", st.origin, st.section)),
+        }
+    }
+    if errors.is_empty() {
+        Ok((out, te_changes))
+    } else {
+        Err(PipelineError::Sections(errors))
+    }
+}
+
+/// Builds the blade of a design up to its tessellation.
+pub fn build(design: &Design, opts: &BuildOptions) -> Result<Model, PipelineError> {
+    let (sections, te_changes) = resolve_sections(design)?;
+    let mut blade = Blade::new(&design.stations, &sections, &design.blade)?;
+    if let Some(root) = design.table::<RootSpec>("root")? {
+        blade = blade.with_root(root.to_mm(design.length_to_mm))?;
+    }
+    if let Some(mut tip) = design.table::<TipSpec>("tip")? {
+        tip.length = tip.length.map(|l| l * design.length_to_mm);
+        blade = blade.with_tip(tip)?;
+    }
+    let span = blade.tip_radius() - blade.root_radius();
+    let ring_radii = blade.ring_radii(span / 48.0);
+    let rings: Vec<_> = ring_radii.iter().map(|&r| blade.ring(r).points).collect();
+    let skin = Skin::interpolate(&rings, blade.le_index())?;
+    let tess_opts = TessellationOptions {
+        tolerance: opts.tolerance.unwrap_or(design.blade.tolerance),
+        ..TessellationOptions::DEFAULT
+    };
+    let mut tessellation = tessellate(&skin, &tess_opts)?;
+    if let Some(root) = blade.root() {
+        let (ring, cap) = (
+            tessellation.root_ring.clone(),
+            tessellation.root_cap.clone(),
+        );
+        crate::mount::add_mount_features(
+            &mut tessellation.mesh,
+            &ring,
+            cap,
+            root,
+            blade.root_face(),
+        );
+    }
+    Ok(Model {
+        name: design.name.clone(),
+        sections,
+        te_changes,
+        blade,
+        ring_radii,
+        skin,
+        tessellation,
+    })
+}
+
+/// The printable parts of a design (the blade; more once rotors and hubs are asked for).
+pub fn build_parts(design: &Design) -> Result<Vec<Part>, PipelineError> {
+    Ok(vec![build(design, &BuildOptions::default())?.part()])
+}

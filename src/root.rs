@@ -1,0 +1,291 @@
+//! Root and tip: the round shank for hub mounting, its smooth transition into the first
+//! airfoil station, the mounting features, and the tip closure.
+//!
+//! ```text
+//!  z (span) ->
+//!  root face      shank end        first station                 tip station   tip end
+//!  |<- shank-length ->|<- transition-length ->|<------ blade ------>|<- tip-length ->|
+//!  [flange]  circle (or ellipse)   circle -> airfoil                 airfoil -> small cap
+//!  [bore from the root face]
+//! ```
+//!
+//! * **Shank**: a circle of `shank-diameter` (an ellipse when `shank-thickness` is given,
+//!   the thickness measured along the rotor axis) centred on the stacking axis.
+//! * **Transition**: every section point moves on a cubic Hermite path from the shank
+//!   outline (slope zero along the span) to the first station's outline (with the blade's
+//!   own spanwise slope), so position and slope are continuous at both ends (no kink).
+//!   Twist and offsets continue the blade's slope into the transition the same way. The
+//!   shank outline shares the airfoil's point structure (cosine stations; the shank's two
+//!   trailing-edge points are held the airfoil's trailing-edge gap apart, so a blunt
+//!   trailing edge stays blunt, by at most half that gap off the exact circle); upper and
+//!   lower points of a station move at one chordwise position, so thickness never turns
+//!   negative and no section crosses itself. The section area is checked to be monotone
+//!   along the transition (no waist).
+//! * **Mounting features** (mesh only: STEP carries the shank without them): an optional
+//!   flange plate with a fillet at the root face, a coaxial blind bore with a drill-point
+//!   cone, built as surfaces of revolution sharing the skin's root ring. The wall left
+//!   around each hole is checked against `min-wall`.
+//! * **Tip**: a flat cap, or a rounded tip that scales the outline down on an elliptic law
+//!   (`sqrt(1 - s^2)`) over `tip-length`, continuing the blade's slope (C1), to 5 % of its
+//!   size, closed by a small flat cap (so no triangle degenerates at a point).
+//!
+//! Rules of thumb used as defaults (common practice, not from a standard): a printed wall
+//! of at least two nozzle widths (`min-wall = 0.8` mm for a 0.4 mm nozzle); a heat-set
+//! insert hole slightly under the insert's outer diameter (choose `bore.diameter` so);
+//! transitions no steeper than 45 degrees, which also print without support.
+
+use serde::Deserialize;
+
+/// The `[root]` table of a design file (lengths in the file's unit, converted to mm by
+/// [`RootSpec::to_mm`]).
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(rename_all = "kebab-case", deny_unknown_fields)]
+pub struct RootSpec {
+    /// Shank diameter (chordwise extent), mm.
+    pub shank_diameter: f64,
+    /// Shank thickness along the rotor axis for an elliptical shank, mm (default: round).
+    pub shank_thickness: Option<f64>,
+    /// Length of the constant shank from the root face, mm.
+    pub shank_length: f64,
+    /// Length of the transition from the shank to the first station, mm.
+    pub transition_length: f64,
+    /// Minimum wall left around holes, mm (default 0.8: two 0.4 mm nozzle widths,
+    /// common practice).
+    #[serde(default = "default_min_wall")]
+    pub min_wall: f64,
+    /// Optional flange plate at the root face.
+    pub flange: Option<FlangeSpec>,
+    /// Optional coaxial blind bore from the root face.
+    pub bore: Option<BoreSpec>,
+}
+
+fn default_min_wall() -> f64 {
+    0.8
+}
+
+/// A round flange plate at the root face with a fillet up to the shank.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(rename_all = "kebab-case", deny_unknown_fields)]
+pub struct FlangeSpec {
+    /// Plate diameter, mm.
+    pub diameter: f64,
+    /// Plate thickness, mm.
+    pub thickness: f64,
+    /// Fillet radius between plate and shank, mm (0 for none).
+    #[serde(default)]
+    pub fillet: f64,
+}
+
+/// A coaxial blind bore from the root face (bolt or heat-set insert).
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(rename_all = "kebab-case", deny_unknown_fields)]
+pub struct BoreSpec {
+    /// Bore diameter, mm.
+    pub diameter: f64,
+    /// Depth of the cylindrical part from the root face, mm.
+    pub depth: f64,
+    /// Included angle of the drill point, degrees (default 118, a common twist-drill
+    /// point; 180 gives a flat bottom).
+    #[serde(default = "default_point_angle")]
+    pub point_angle: f64,
+}
+
+fn default_point_angle() -> f64 {
+    118.0
+}
+
+/// The `[tip]` table.
+#[derive(Debug, Clone, Copy, PartialEq, Deserialize, Default)]
+#[serde(rename_all = "kebab-case", deny_unknown_fields)]
+pub struct TipSpec {
+    /// `flat` (default) or `round`.
+    #[serde(default)]
+    pub shape: TipShape,
+    /// Length over which a round tip closes, mm (default: half the tip chord).
+    pub length: Option<f64>,
+}
+
+/// How the blade ends at the tip.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Default)]
+#[serde(rename_all = "kebab-case")]
+pub enum TipShape {
+    /// A flat cap at the last station.
+    #[default]
+    Flat,
+    /// An elliptic closure beyond the last station.
+    Round,
+}
+
+/// A root setting that cannot be built, with what to change.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum RootError {
+    /// A length or diameter is not a positive finite number.
+    #[error("root.{key} = {value}: must be a positive number of millimetres")]
+    NotPositive {
+        /// Key path below `root`.
+        key: &'static str,
+        /// The value given.
+        value: f64,
+    },
+    /// The root face would lie inside the rotor axis.
+    #[error("the root face would be at radius {0:.2} mm (first station minus shank and transition lengths); shorten root.shank-length or root.transition-length")]
+    BehindAxis(f64),
+    /// The transition is too steep for the change of outline it must make.
+    #[error("root.transition-length = {given:.2} mm is too short: the outline must move {travel:.2} mm sideways, so the transition needs at least {travel:.2} mm (45 degrees); lengthen it by {:.2} mm", travel - given)]
+    TransitionTooShort {
+        /// Length given, mm.
+        given: f64,
+        /// Largest sideways travel of an outline point, mm.
+        travel: f64,
+    },
+    /// The section area does not vary monotonically along the transition.
+    #[error("the transition pinches (section area dips to {min_area:.1} mm² between {start:.1} and {end:.1} mm²); choose a shank diameter closer to the root chord's size or a longer transition")]
+    Waist {
+        /// Smallest area found, mm².
+        min_area: f64,
+        /// Shank area, mm².
+        start: f64,
+        /// First station area, mm².
+        end: f64,
+    },
+    /// A hole leaves too thin a wall.
+    #[error("{what}: the wall left is {wall:.2} mm, {:.2} mm under root.min-wall = {min:.2} mm; {fix}", min - wall)]
+    ThinWall {
+        /// Which feature.
+        what: &'static str,
+        /// Wall left, mm (negative when the hole breaks out).
+        wall: f64,
+        /// Required wall, mm.
+        min: f64,
+        /// How to fix it.
+        fix: &'static str,
+    },
+    /// The flange and its fillet do not leave any straight shank.
+    #[error("root.flange.thickness + root.flange.fillet = {height:.2} mm must be less than root.shank-length = {shank:.2} mm; lengthen the shank or thin the flange")]
+    FlangeTooLong {
+        /// Flange thickness plus fillet, mm.
+        height: f64,
+        /// Shank length, mm.
+        shank: f64,
+    },
+    /// The flange is not larger than the shank and its fillet.
+    #[error("root.flange.diameter = {diameter:.2} mm must exceed the shank diameter plus twice the fillet ({needed:.2} mm); enlarge it by {:.2} mm or reduce the fillet", needed - diameter)]
+    FlangeTooSmall {
+        /// Flange diameter given, mm.
+        diameter: f64,
+        /// Smallest diameter that works, mm.
+        needed: f64,
+    },
+}
+
+impl RootSpec {
+    /// Converts every length by `k` (file unit to mm).
+    pub fn to_mm(mut self, k: f64) -> Self {
+        self.shank_diameter *= k;
+        self.shank_thickness = self.shank_thickness.map(|t| t * k);
+        self.shank_length *= k;
+        self.transition_length *= k;
+        self.min_wall *= k;
+        if let Some(f) = &mut self.flange {
+            f.diameter *= k;
+            f.thickness *= k;
+            f.fillet *= k;
+        }
+        if let Some(b) = &mut self.bore {
+            b.diameter *= k;
+            b.depth *= k;
+        }
+        self
+    }
+
+    /// Shank thickness along the rotor axis, mm.
+    pub fn thickness(&self) -> f64 {
+        self.shank_thickness.unwrap_or(self.shank_diameter)
+    }
+
+    /// Checks the settings that do not depend on the airfoil (the transition is checked
+    /// by the blade, which knows the first station).
+    pub fn validate(&self) -> Result<(), RootError> {
+        let positive = |key: &'static str, value: f64| {
+            if value > 0.0 && value.is_finite() {
+                Ok(())
+            } else {
+                Err(RootError::NotPositive { key, value })
+            }
+        };
+        positive("shank-diameter", self.shank_diameter)?;
+        positive("shank-thickness", self.thickness())?;
+        positive("transition-length", self.transition_length)?;
+        positive("min-wall", self.min_wall)?;
+        if !(self.shank_length >= 0.0 && self.shank_length.is_finite()) {
+            return Err(RootError::NotPositive {
+                key: "shank-length",
+                value: self.shank_length,
+            });
+        }
+        let small = self.shank_diameter.min(self.thickness());
+        if let Some(f) = &self.flange {
+            positive("flange.diameter", f.diameter)?;
+            positive("flange.thickness", f.thickness)?;
+            if !(f.fillet >= 0.0) {
+                return Err(RootError::NotPositive {
+                    key: "flange.fillet",
+                    value: f.fillet,
+                });
+            }
+            if f.thickness + f.fillet >= self.shank_length {
+                return Err(RootError::FlangeTooLong {
+                    height: f.thickness + f.fillet,
+                    shank: self.shank_length,
+                });
+            }
+            let needed = self.shank_diameter.max(self.thickness()) + 2.0 * f.fillet;
+            if f.diameter <= needed {
+                return Err(RootError::FlangeTooSmall {
+                    diameter: f.diameter,
+                    needed,
+                });
+            }
+        }
+        if let Some(b) = &self.bore {
+            positive("bore.diameter", b.diameter)?;
+            positive("bore.depth", b.depth)?;
+            if !(b.point_angle > 0.0 && b.point_angle <= 180.0) {
+                return Err(RootError::NotPositive {
+                    key: "bore.point-angle",
+                    value: b.point_angle,
+                });
+            }
+            let wall = 0.5 * (small - b.diameter);
+            if wall < self.min_wall {
+                return Err(RootError::ThinWall {
+                    what: "root.bore.diameter",
+                    wall,
+                    min: self.min_wall,
+                    fix: "use a smaller bore or a larger shank",
+                });
+            }
+            let wall_end = self.shank_length - (b.depth + self.bore_point_depth());
+            if wall_end < self.min_wall {
+                return Err(RootError::ThinWall {
+                    what: "root.bore.depth",
+                    wall: wall_end,
+                    min: self.min_wall,
+                    fix: "make the bore shallower or the shank longer (the bore must end inside the round shank)",
+                });
+            }
+        }
+        Ok(())
+    }
+
+    /// Axial depth of the bore's drill-point cone, mm.
+    pub fn bore_point_depth(&self) -> f64 {
+        self.bore.as_ref().map_or(0.0, |b| {
+            if b.point_angle >= 180.0 {
+                0.0
+            } else {
+                0.5 * b.diameter / (0.5 * b.point_angle).to_radians().tan()
+            }
+        })
+    }
+}
