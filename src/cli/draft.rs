@@ -29,9 +29,10 @@ pub enum FlowArg {
 /// Arguments of `spanwright draft`.
 #[derive(Debug, clap::Args)]
 #[command(
-    after_help = "Example: spanwright draft --tip-radius 600 --hub-radius 90 --blades 3 \
-    --tip-speed-ratio 6 --design-cl 1.0 --design-alpha 6 --tip-loss --linear 50..90 \
-    --wind 10 -o table.csv"
+    after_help = "Example (demo values; take Cl and alpha from your section's polar):
+  spanwright draft --tip-radius 600 --hub-radius 90 --blades 3 --tip-speed-ratio 6 \\
+    --design-cl 1.0 --design-alpha 6 --tip-loss --linear 50..90 --wind 10 -o table.csv
+  spanwright build table.csv --section naca4412"
 )]
 pub struct Args {
     /// Read the spec from a TOML or JSON file (keys as in the library's DraftSpec);
@@ -59,7 +60,9 @@ pub struct Args {
     /// Optimum rotor giving the planform [default: glauert].
     #[arg(long, value_enum)]
     method: Option<MethodArg>,
-    /// Multiply the chord by Prandtl's tip-loss factor.
+    /// Multiply the chord by Prandtl's tip-loss factor,
+    /// F = (2/pi) arccos(exp(-B (R - r) / (2 r sin phi))), so c = F c_optimum; the power
+    /// estimate then carries F too.
     #[arg(long)]
     tip_loss: bool,
     /// Make chord and twist straight: least-squares lines over this span range, in percent
