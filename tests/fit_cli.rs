@@ -1,0 +1,131 @@
+//! `spanwright fit` through the binary: exit codes, files written and read back with
+//! independent readers (stl_io for STL, the zip crate for the 3MF package, quick-xml for
+//! the SVG).
+
+use std::path::Path;
+use std::process::Command;
+
+/// Writes a closed a x b x c box as binary STL with stl_io.
+fn write_box_stl(path: &Path, a: f32, b: f32, c: f32) {
+    let v = |i: u32| {
+        stl_io::Vector::new([
+            if i & 1 != 0 { a } else { 0.0 },
+            if i & 2 != 0 { b } else { 0.0 },
+            if i & 4 != 0 { c } else { 0.0 },
+        ])
+    };
+    let tris = [
+        [0, 2, 1],
+        [1, 2, 3],
+        [4, 5, 6],
+        [5, 7, 6],
+        [0, 1, 4],
+        [1, 5, 4],
+        [2, 6, 3],
+        [3, 6, 7],
+        [0, 4, 2],
+        [2, 4, 6],
+        [1, 3, 5],
+        [3, 7, 5],
+    ];
+    let out: Vec<stl_io::Triangle> = tris
+        .iter()
+        .map(|t: &[u32; 3]| stl_io::Triangle {
+            normal: stl_io::Vector::new([0.0, 0.0, 0.0]),
+            vertices: [v(t[0]), v(t[1]), v(t[2])],
+        })
+        .collect();
+    let mut f = std::fs::File::create(path).unwrap();
+    stl_io::write_stl(&mut f, out.iter()).unwrap();
+}
+
+fn run(dir: &Path, args: &[&str]) -> (i32, String, String) {
+    let o = Command::new(env!("CARGO_BIN_EXE_spanwright"))
+        .current_dir(dir)
+        .arg("fit")
+        .args(args)
+        .output()
+        .unwrap();
+    (
+        o.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&o.stdout).into_owned(),
+        String::from_utf8_lossy(&o.stderr).into_owned(),
+    )
+}
+
+#[test]
+fn fits_writes_plates_exit_0() {
+    let dir = tempfile::tempdir().unwrap();
+    write_box_stl(&dir.path().join("tile.stl"), 60.0, 40.0, 5.0);
+    let (code, out, err) = run(
+        dir.path(),
+        &[
+            "tile.stl",
+            "--printer",
+            "small-180",
+            "--copies",
+            "4",
+            "--json",
+        ],
+    );
+    assert_eq!(code, 0, "{out}\n{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["fits"], true);
+    assert_eq!(v["plates"].as_array().unwrap().len(), 1);
+    // Plate STL read back by stl_io: four boxes of 12 triangles.
+    let mut f = std::fs::File::open(dir.path().join("out/tile-plate-1.stl")).unwrap();
+    let mesh = stl_io::read_stl(&mut f).unwrap();
+    assert_eq!(mesh.faces.len(), 48);
+    for p in &mesh.vertices {
+        assert!(p.0[0] >= 5.0 - 1e-3 && p.0[0] <= 175.0 + 1e-3 && p.0[2] >= -1e-3);
+    }
+    // 3MF: a zip package with the model part (3MF Core Specification, part naming).
+    let f = std::fs::File::open(dir.path().join("out/tile-plate-1.3mf")).unwrap();
+    let mut zip = zip::ZipArchive::new(f).unwrap();
+    assert!(zip.by_name("3D/3dmodel.model").is_ok());
+    // SVG: well-formed XML with four part outlines.
+    let svg = std::fs::read_to_string(dir.path().join("out/tile-plate-1.svg")).unwrap();
+    let mut reader = quick_xml::Reader::from_str(&svg);
+    let mut polygons = 0;
+    loop {
+        match reader.read_event().unwrap() {
+            quick_xml::events::Event::Eof => break,
+            quick_xml::events::Event::Empty(e) | quick_xml::events::Event::Start(e)
+                if e.name().as_ref() == "polygon" =>
+            {
+                polygons += 1
+            }
+            _ => {}
+        }
+    }
+    assert_eq!(polygons, 4);
+}
+
+#[test]
+fn too_big_exit_1_and_bad_input_exit_2() {
+    let dir = tempfile::tempdir().unwrap();
+    write_box_stl(&dir.path().join("slab.stl"), 100.0, 100.0, 100.0);
+    // A 100 mm cube cannot fit a 90 mm cube whatever the orientation (its width is at
+    // least 100 in every direction).
+    let (code, out, _) = run(
+        dir.path(),
+        &["slab.stl", "--volume", "90,90,90", "--margin", "0"],
+    );
+    assert_eq!(code, 1, "{out}");
+    assert!(
+        out.contains("DOES NOT FIT") && out.contains("scale"),
+        "{out}"
+    );
+    let (code, _, err) = run(dir.path(), &["missing.stl", "--printer", "small-180"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("missing.stl"), "{err}");
+    let (code, _, err) = run(dir.path(), &["slab.stl", "--printer", "huge"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("huge") && err.contains("medium-220"), "{err}");
+    let (code, _, err) = run(dir.path(), &["slab.stl"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--printer"), "{err}");
+    std::fs::write(dir.path().join("junk.stl"), b"solid x\nfacet oops\n").unwrap();
+    let (code, _, err) = run(dir.path(), &["junk.stl", "--printer", "small-180"]);
+    assert_eq!(code, 2, "{err}");
+}
