@@ -649,3 +649,67 @@ fn table_errors_name_key_path() {
     let e = d.table::<Tip>("tip").unwrap_err();
     has(&e, &p, 15, &["tip.extra: unknown field `extra`"]);
 }
+
+// ---- properties ----
+
+mod properties {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(200))]
+
+        /// Bad input never panics: any text gives a design or an error with problems.
+        #[test]
+        fn arbitrary_text_never_panics(text in "[ -~\r\n\t]{0,300}") {
+            if let Err(e) = design::parse_csv_str(&text, None, Some("s")) {
+                prop_assert!(!e.problems.is_empty());
+            }
+            if let Err(e) = design::parse_toml_str(&text, None) {
+                prop_assert!(!e.problems.is_empty());
+            }
+        }
+
+        /// Text shaped like a station table (digits, separators, quotes, comments) never
+        /// panics either, and every problem names a line.
+        #[test]
+        fn table_like_text_never_panics(
+            rows in proptest::collection::vec("[0-9.,;\"#a-z -]{0,30}", 0..12)
+        ) {
+            let text = format!("radius,chord,twist,section\n{}", rows.join("\n"));
+            if let Err(e) = design::parse_csv_str(&text, None, None) {
+                for p in &e.problems {
+                    let whole_file = p.message.contains("station")
+                        || p.message.contains("empty");
+                    prop_assert!(p.line.is_some() || whole_file, "{}", p);
+                }
+            }
+        }
+
+        /// Stations written in inches as CSV come back in mm, 1 in = 25.4 mm exactly
+        /// (NIST SP 811, 2008, Appendix B.8), with the same order and sections.
+        #[test]
+        fn csv_in_inches_round_trips(
+            steps in proptest::collection::vec(0.01f64..50.0, 2..15),
+            chord in 0.1f64..20.0,
+            twist in -60.0f64..60.0,
+        ) {
+            let mut text = String::from("radius [in];chord [in];twist [deg];section\n");
+            let mut r = 0.0;
+            let mut radii = Vec::new();
+            for (i, s) in steps.iter().enumerate() {
+                r += s;
+                radii.push(r);
+                text.push_str(&format!("{r};{chord};{twist};sec{i}\n"));
+            }
+            let d = design::parse_csv_str(&text, None, None).unwrap();
+            prop_assert_eq!(d.stations.len(), radii.len());
+            for (i, (st, r)) in d.stations.iter().zip(&radii).enumerate() {
+                prop_assert!((st.radius - r * INCH_MM).abs() <= 1e-9 * r.max(1.0) * INCH_MM);
+                prop_assert!((st.chord - chord * INCH_MM).abs() <= 1e-9 * INCH_MM * chord.max(1.0));
+                prop_assert!((st.twist - twist).abs() <= 1e-12);
+                prop_assert_eq!(&st.section, &format!("sec{i}"));
+            }
+        }
+    }
+}
