@@ -713,3 +713,47 @@ mod properties {
         }
     }
 }
+
+#[test]
+fn csv_not_utf8_and_tabs() {
+    let dir = TempDir::new().unwrap();
+    // "twist [°]" saved as Windows-1252 / Latin-1: the degree sign is the byte 0xB0
+    // (ISO/IEC 8859-1 code table), not valid UTF-8 on its own.
+    let p = dir.path().join("latin1.csv");
+    fs::write(
+        &p,
+        b"# exported\nradius,chord,twist [\xB0],section\n1,2,3,s\n",
+    )
+    .unwrap();
+    has(&load_err(&p), &p, 2, &["not UTF-8"]);
+    // Tab separated, as a spreadsheet's "text (tab delimited)" export.
+    let p = write(
+        &dir,
+        "tabs.csv",
+        "radius\tchord\ttwist\tsection\n1\t2,5\t3\ts\n4\t2\t1\ts\n",
+    );
+    let d = design::load(&p).unwrap();
+    near(d.stations[0].chord, 2.5, 1e-12);
+}
+
+#[test]
+fn toml_thickness_as_fraction_is_caught() {
+    let text = "[blade]\nsection = \" naca0012 \"\n\
+                [[station]]\nradius = 1\nchord = 1\ntwist = 0\nthickness = 0.12\n\
+                [[station]]\nradius = 2\nchord = 1\ntwist = 0\n";
+    let e = design::parse_toml_str(text, None).unwrap_err();
+    let s = e.to_string();
+    assert!(
+        s.contains(
+            "<design>:7: station[1].thickness: thickness 0.12 % is outside 1..50 % of chord"
+        ),
+        "{s}"
+    );
+    assert!(s.contains("write 12 for 12 %"), "{s}");
+    let ok = design::parse_toml_str(&text.replace("0.12", "12"), None).unwrap();
+    near(ok.stations[0].thickness.unwrap(), 0.12, 1e-12);
+    assert_eq!(
+        ok.stations[1].section, "naca0012",
+        "section names are trimmed"
+    );
+}

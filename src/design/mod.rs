@@ -11,6 +11,32 @@
 //! Every problem found is reported at once in a [`DesignError`], each with its file and
 //! line (CSV) or key path (TOML, plus the line).
 //!
+//! ```
+//! use spanwright::design;
+//! let text = r#"
+//! units = { length = "in" }
+//! [blade]
+//! section = "naca4412"
+//! [[station]]
+//! radius = 2
+//! chord = 2
+//! twist = 20
+//! [[station]]
+//! radius = 10
+//! chord = 1
+//! twist = 4
+//! "#;
+//! let d = design::parse_toml_str(text, None)?;
+//! assert_eq!(d.stations[1].radius, 254.0); // mm
+//! assert_eq!(d.stations[0].section, "naca4412");
+//!
+//! let bad = "radius,chord,twist,section\n10,5,1,a\n8,-1,1,a\n";
+//! let e = design::parse_csv_str(bad, None, None).unwrap_err();
+//! assert_eq!(e.problems.len(), 2);
+//! assert!(e.to_string().starts_with("<design>:3: radius 8 mm is smaller than 10 mm"));
+//! # Ok::<(), design::DesignError>(())
+//! ```
+//!
 //! # TOML design file
 //!
 //! ```toml

@@ -184,7 +184,9 @@ impl Reader<'_> {
         };
         self.keys(t, &path, &BLADE_KEYS);
         let key = |k: &'static str| [Seg::Key("blade"), Seg::Key(k)];
-        let section = self.string(t, &path, "section");
+        let section = self
+            .string(t, &path, "section")
+            .map(|s| s.trim().to_string());
         if section.as_deref().is_some_and(|s| s.trim().is_empty()) {
             self.report(
                 &key("section"),
@@ -303,7 +305,7 @@ impl Reader<'_> {
             }
             let section = self.string(t, &p, "section").map(|s| {
                 let sp = [Seg::Key("station"), Seg::Index(i), Seg::Key("section")];
-                (s, self.loc(&sp))
+                (s.trim().to_string(), self.loc(&sp))
             });
             if let Some((s, loc)) = &section {
                 if s.trim().is_empty() {
