@@ -113,6 +113,10 @@
 //!   a decimal comma (`12,5`) is read as a decimal point.
 //! * Blank rows (also rows of empty cells), `#` comment rows, CRLF and a UTF-8 byte-order
 //!   mark are tolerated; cells may be quoted. Empty optional cells take their default.
+//!   Trailing empty cells are fine; a row with fewer cells than the header, or with
+//!   filled cells beyond it, is an error.
+//! * [`Station::origin`] is `file:line` for CSV rows and `file:line: station[i]` for
+//!   TOML entries.
 
 use std::path::{Path, PathBuf};
 
@@ -230,7 +234,9 @@ pub struct Design {
     pub blade: BladeOptions,
     /// Factor from the file's length unit to millimetres (for the optional tables).
     pub length_to_mm: f64,
-    /// Optional tables owned by later stages (`root`, `tip`, `rotor`, `printer`, ...).
+    /// Optional tables owned by later stages (`root`, `tip`, `rotor`, `printer`, ...),
+    /// as written: lengths in them are in the file's length unit (multiply by
+    /// [`Design::length_to_mm`]). Read one with [`Design::table`].
     pub tables: toml::Table,
 }
 
