@@ -669,3 +669,50 @@ fn cli_reads_a_spec_file_and_options_override_it() {
     assert_eq!(out.status.code(), Some(2));
     assert!(err.contains("bad.toml") && err.contains("bladez"), "{err}");
 }
+
+#[test]
+fn blade_element_estimate_reproduces_the_optimum() {
+    // The Glauert optimum is the blade that satisfies the blade-element momentum
+    // equations with a, a' of the optimum (Manwell et al., 2nd ed., section 3.11, from
+    // memory): a BEM analysis of that blade (no tip loss, no drag) must give back the
+    // ideal C_P, here from the independent quadrature above.
+    for lam in [2.0, 6.0, 9.0] {
+        let t = draft(&DraftSpec {
+            tip_speed_ratio: lam,
+            hub_radius: 60.0,
+            ..demo()
+        })
+        .unwrap();
+        let reference = reference_cp(lam, 0.1);
+        assert!(
+            (t.blade_power_coefficient - reference).abs() < 1e-4,
+            "lambda {lam}: {} vs {reference}",
+            t.blade_power_coefficient
+        );
+    }
+    // Straight chord and twist, the Betz planform (which ignores wake rotation), tip loss
+    // and drag all cost power against the optimum.
+    let best = draft(&demo()).unwrap().blade_power_coefficient;
+    for spec in [
+        DraftSpec {
+            linear: Some(LinearRange { from: 0.5, to: 0.9 }),
+            ..demo()
+        },
+        DraftSpec {
+            method: Method::Betz,
+            tip_speed_ratio: 6.0,
+            ..demo()
+        },
+        DraftSpec {
+            tip_loss: true,
+            ..demo()
+        },
+        DraftSpec {
+            lift_drag: Some(40.0),
+            ..demo()
+        },
+    ] {
+        let cp = draft(&spec).unwrap().blade_power_coefficient;
+        assert!(cp < best && cp > 0.3, "{cp} vs {best}");
+    }
+}

@@ -318,6 +318,17 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
             },
             rotor::optimum::BETZ_LIMIT
         );
+        let _ = writeln!(
+            err,
+            "blade as written: C_P about {:.3} (rough blade-element estimate: lift slope 2 pi \
+             per radian up to stall{})",
+            table.blade_power_coefficient,
+            if spec.lift_drag.is_some() {
+                ", constant drag"
+            } else {
+                ", no drag"
+            }
+        );
         if let (Some(n), Some(u)) = (table.rpm, table.tip_speed) {
             let _ = writeln!(
                 err,

@@ -2,6 +2,7 @@
 //! with the ideal power coefficient and graded remarks; [`DraftTable::write_csv`] writes
 //! it in the CSV layout the design input reads.
 
+use super::bem;
 use super::line::Line;
 use super::optimum::{self, PowerOptions, BETZ_LIMIT, DEFAULT_PANELS};
 use super::remark::{Grade, Remark};
@@ -114,6 +115,10 @@ pub struct DraftTable {
     /// speed ratio between hub and tip (with tip loss and drag when given); never above
     /// the Betz limit 16/27. See [`optimum::power_coefficient`].
     pub power_coefficient: f64,
+    /// Rough blade-element momentum estimate of the power coefficient of the blade as
+    /// written (linearised chord and twist, tip loss and drag when given), at the design
+    /// tip speed ratio; see [`super::bem`]. Never above 16/27.
+    pub blade_power_coefficient: f64,
     /// Straight chord line, mm against radius in mm, when linearised.
     pub chord_line: Option<Line>,
     /// Straight twist line, degrees against radius in mm, when linearised.
@@ -312,6 +317,38 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
         raw_cp.max(0.0)
     };
 
+    // Rough BEM estimate of the blade as written (chord and twist between the stations
+    // follow the same rules as at them).
+    let bem_input = bem::BemInput {
+        blades: spec.blades,
+        tip_radius: spec.tip_radius,
+        hub_radius: spec.hub_radius,
+        tsr: spec.tip_speed_ratio,
+        cl_design: spec.design_cl,
+        alpha_design: alpha_d,
+        alpha_stall: spec.stall_alpha.to_radians(),
+        cd: spec.lift_drag.map_or(0.0, |ld| spec.design_cl / ld),
+        tip_loss: spec.tip_loss,
+        annuli: bem::DEFAULT_ANNULI,
+    };
+    let (blade_cp, failed) = bem::power_coefficient(&bem_input, |r| {
+        let (phi, c, _) = ideal(spec, r);
+        let chord = chord_line.map_or(c, |l| l.at(r)).max(floor);
+        let twist = twist_line.map_or(phi - alpha_d, |l| l.at(r).to_radians());
+        (chord, twist)
+    });
+    if failed > 0 {
+        remarks.push(Remark::new(
+            Grade::Note,
+            format!(
+                "the blade-element estimate found no flow balance in {failed} of {} annuli \
+                 (counted as producing nothing); its C_P is a lower figure",
+                bem::DEFAULT_ANNULI + 1
+            ),
+        ));
+    }
+    let blade_power_coefficient = blade_cp.clamp(0.0, BETZ_LIMIT);
+
     let (rpm, tip_speed) = match spec.wind_speed {
         Some(v) => (
             Some(rotor_rpm(spec.tip_speed_ratio, v, spec.tip_radius)),
@@ -326,6 +363,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
         spec: spec.clone(),
         stations,
         power_coefficient,
+        blade_power_coefficient,
         chord_line,
         twist_line,
         rpm,

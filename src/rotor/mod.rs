@@ -3,8 +3,9 @@
 //! Design tables: [`draft`] turns a [`DraftSpec`] (tip and hub radius, blades, tip speed
 //! ratio, the section's design lift coefficient and angle of attack) into a
 //! [`DraftTable`] of stations, with the ideal power coefficient and graded [`Remark`]s.
-//! The formulas live in [`optimum`].
+//! The formulas live in [`optimum`]; [`bem`] estimates the power of the blade as written.
 
+pub mod bem;
 mod draft;
 mod line;
 pub mod optimum;
