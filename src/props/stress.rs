@@ -169,24 +169,18 @@ pub enum StressError {
     },
 }
 
-/// Evenly spaced radii over the part's span, `n >= 2`: the first just outboard of the root
-/// face (a plane through the root face itself finds no section, see [`Slice::cut`]).
+/// Evenly spaced radii over the part's span, `n >= 2`, the first and last moved inward by
+/// 1e-6 of the span: a plane through the root face finds no section (see [`Slice::cut`]),
+/// and end caps are flat only to rounding.
 pub fn span_radii(mesh: &TriMesh, n: usize) -> Vec<f64> {
     let Some(bb) = mesh.bounding_box() else {
         return Vec::new();
     };
-    let (r0, r1) = (bb.min.z, bb.max.z);
     let n = n.max(2);
-    let eps = (r1 - r0).abs().max(1.0) * 1e-9;
+    let eps = (bb.max.z - bb.min.z).abs().max(1e-3) * 1e-6;
+    let (r0, r1) = (bb.min.z + eps, bb.max.z - eps);
     (0..n)
-        .map(|i| {
-            let r = r0 + (r1 - r0) * i as f64 / (n - 1) as f64;
-            if i == 0 {
-                r + eps
-            } else {
-                r
-            }
-        })
+        .map(|i| r0 + (r1 - r0) * i as f64 / (n - 1) as f64)
         .collect()
 }
 

@@ -209,7 +209,8 @@ pub struct Chart {
 impl Chart {
     /// Draws the chart in the box `(x, y, w, h)` of `svg`.
     pub fn draw(&self, svg: &mut Svg, x: f64, y: f64, w: f64, h: f64) {
-        let (l, r, t, b) = (x + 62.0, x + w - 12.0, y + 26.0, y + h - 40.0);
+        // Title, then one legend row, then the plot.
+        let (l, r, t, b) = (x + 62.0, x + w - 12.0, y + 50.0, y + h - 40.0);
         let finite = |v: &f64| v.is_finite();
         let xs: Vec<f64> = self
             .series
@@ -258,7 +259,7 @@ impl Chart {
             svg.text(l - 6.0, sy(tv) + 3.0, 10.0, "end", &label(tv));
         }
         svg.text((l + r) / 2.0, b + 32.0, 11.0, "middle", &self.x_label);
-        svg.text(x + 4.0, t - 8.0, 11.0, "start", &self.y_label);
+        svg.text(l, t - 4.0, 10.0, "start", &self.y_label);
         for (i, s) in self.series.iter().enumerate() {
             let colour = PALETTE[i % PALETTE.len()];
             // Break the line at non-finite points.
@@ -272,9 +273,13 @@ impl Chart {
                     svg.polyline(&pts, colour, 1.6, false);
                 }
             }
-            let ly = t + 14.0 + 14.0 * i as f64;
-            svg.line((r - 150.0, ly - 4.0), (r - 130.0, ly - 4.0), colour, 2.0);
-            svg.text(r - 126.0, ly, 10.0, "start", &s.name);
+            let (lx, ly) = (l + 150.0 * i as f64, y + 32.0);
+            if s.dashed {
+                svg.dashed((lx, ly - 4.0), (lx + 20.0, ly - 4.0), colour);
+            } else {
+                svg.line((lx, ly - 4.0), (lx + 20.0, ly - 4.0), colour, 2.0);
+            }
+            svg.text(lx + 24.0, ly, 10.0, "start", &s.name);
         }
     }
 }
