@@ -313,9 +313,17 @@ pub fn step_solid_with(skin: &Skin, opts: &BrepOptions) -> Result<Solid, ExportE
         truck_modeling::Vector3::unit_x(),
         truck_modeling::Vector3::unit_y(),
     );
-    // Root cap: normal -z (y x x); tip cap: normal +z (x x y).
-    let root_plane = Plane::new(z(z_root), z(z_root) + ey, z(z_root) + ex);
-    let tip_plane = Plane::new(z(z_tip), z(z_tip) + ex, z(z_tip) + ey);
+    // Each cap's plane must face the way its loop runs (right-hand rule). The root loop
+    // runs clockwise seen from +z when the sections run counter-clockwise: normal -z
+    // (y x x) at the root, +z (x x y) at the tip; the other way round for clockwise
+    // sections. The final inversion below then turns every face outward.
+    let down = |zz: f64| Plane::new(z(zz), z(zz) + ey, z(zz) + ex);
+    let up = |zz: f64| Plane::new(z(zz), z(zz) + ex, z(zz) + ey);
+    let (root_plane, tip_plane) = if area2 > 0.0 {
+        (down(z_root), up(z_tip))
+    } else {
+        (up(z_root), down(z_tip))
+    };
     if sharp {
         faces.push(face(
             vec![e_root_u.inverse(), e_root_l.inverse()],
