@@ -73,8 +73,12 @@ fn cantilever_uniform_load_tip_deflection() {
         "{} vs {w}",
         t.tip_deflection
     );
-    let m = q * l * l / 2.0;
-    assert!(close(t.rows[0].bending_moment, m, 1e-6));
+    // The first cut sits 1e-6 of the span outboard of the root face (see span_radii):
+    // M(r) = q (L - r)^2 / 2 there.
+    let r = t.rows[0].section.radius;
+    assert!(r > 0.0 && r < 1e-5 * l);
+    let m = q * (l - r).powi(2) / 2.0;
+    assert!(close(t.rows[0].bending_moment, m, 1e-9));
     let sigma = m * (h / 2.0) / i;
     assert!(close(t.rows[0].max_tension, sigma, 1e-6));
     assert!(close(t.rows[0].max_compression, sigma, 1e-6));
@@ -105,12 +109,13 @@ fn momentum_thrust_and_annulus_moment() {
     let thrust = 0.5 * 1.225 * area * 100.0 * (8.0 / 9.0) / 2.0;
     assert!(close(t.thrust_per_blade, thrust, 1e-9));
     let centre = 2.0 / 3.0 * (rt.powi(3) - r0.powi(3)) / (rt * rt - r0 * r0);
+    // First cut 1e-6 of the span outboard of the root face: allow 1e-5.
     assert!(close(
         t.rows[0].bending_moment,
         thrust * (centre - r0),
-        1e-6
+        1e-5
     ));
-    assert!(t.rows.last().unwrap().bending_moment.abs() < 1e-9);
+    assert!(t.rows.last().unwrap().bending_moment.abs() < 1e-6 * thrust);
     // Printed fill: section stresses are divided by the section's material fraction
     // (perimeter x wall + infill x rest), our stated, conservative approximation.
     let s = &t.rows[10];

@@ -34,7 +34,7 @@ impl Balance {
     /// the list is empty or the total mass is not positive.
     pub fn of_parts(parts: &[MassProps]) -> Option<Balance> {
         let total_mass: f64 = parts.iter().map(|p| p.mass).sum();
-        if parts.is_empty() || !(total_mass > 0.0) {
+        if parts.is_empty() || total_mass.partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
             return None;
         }
         let sum = parts.iter().fold(nalgebra::Vector3::zeros(), |s, p| {

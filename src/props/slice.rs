@@ -62,7 +62,10 @@ pub enum SliceError {
     },
 }
 
-fn key(a: u32, b: u32) -> (u32, u32) {
+/// A mesh edge as its two vertex indices, smaller first.
+type Edge = (u32, u32);
+
+fn key(a: u32, b: u32) -> Edge {
     (a.min(b), a.max(b))
 }
 
@@ -86,7 +89,7 @@ impl Slice {
         // Segment: from the edge the triangle crosses going down (above -> below) to the
         // edge it crosses going up; this keeps the material on the left seen from +z.
         let mut starts: HashMap<(u32, u32), usize> = HashMap::new();
-        let mut segs: Vec<((u32, u32), (u32, u32), usize)> = Vec::new();
+        let mut segs: Vec<(Edge, Edge, usize)> = Vec::new();
         for (t, tri) in mesh.triangles.iter().enumerate() {
             let mut down = None;
             let mut up = None;

@@ -196,14 +196,14 @@ impl LoadCase {
         if self.blades == 0 {
             return bad("blades", 0.0, "a rotor has at least one blade");
         }
-        if !(self.safety_factor >= 1.0) {
+        if self.safety_factor.is_nan() || self.safety_factor < 1.0 {
             return bad(
                 "safety factor",
                 self.safety_factor,
                 "use 1 or more (3 or more for printed parts)",
             );
         }
-        if !(self.air_density > 0.0) {
+        if self.air_density.is_nan() || self.air_density <= 0.0 {
             return bad(
                 "air density",
                 self.air_density,

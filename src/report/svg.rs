@@ -21,6 +21,9 @@ pub fn escape(s: &str) -> String {
     out
 }
 
+/// A line segment between two points, px.
+pub type Segment = ((f64, f64), (f64, f64));
+
 /// An SVG document being built. Coordinates in SVG user units (pixels), y down.
 #[derive(Debug, Clone)]
 pub struct Svg {
@@ -99,7 +102,7 @@ impl Svg {
     }
 
     /// Adds a batch of segments as one path (cheap for many edges).
-    pub fn segments(&mut self, segs: &[((f64, f64), (f64, f64))], stroke: &str, width: f64) {
+    pub fn segments(&mut self, segs: &[Segment], stroke: &str, width: f64) {
         if segs.is_empty() {
             return;
         }

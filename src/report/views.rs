@@ -85,7 +85,8 @@ pub fn three_view_svg(name: &str, mesh: &TriMesh, standalone: bool) -> String {
     let edge = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), y_edge + s * (bb.max.y - p.y));
     // End view from the tip: y -> right, x -> up.
     let end = |p: &Point3<f64>| (x_end + s * (p.y - bb.min.y), top + s * (bb.max.x - p.x));
-    let views: [(Vector3<f64>, &dyn Fn(&Point3<f64>) -> (f64, f64), &str); 3] = [
+    type Projection<'a> = &'a dyn Fn(&Point3<f64>) -> (f64, f64);
+    let views: [(Vector3<f64>, Projection, &str); 3] = [
         (Vector3::y(), &plan, "plan, looking downstream (+y)"),
         (-Vector3::x(), &edge, "edge view, looking along -x"),
         (-Vector3::z(), &end, "from the tip, looking along -z"),

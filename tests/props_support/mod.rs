@@ -102,6 +102,7 @@ pub fn naca00(t: f64, x: f64) -> f64 {
 /// An invented demo blade (labelled as such): symmetric NACA sections, chord tapering
 /// from `c0` to `c1`, twist from `tw0` to `tw1` degrees, `m` stations from `r0` to `r1`,
 /// stacked at quarter chord. Counter-clockwise rings, star-shaped about the quarter chord.
+#[allow(clippy::too_many_arguments)] // a demo geometry: every number is one design value
 pub fn demo_blade(
     r0: f64,
     r1: f64,
