@@ -102,37 +102,82 @@ pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize;
     }
     entries.sort_unstable();
 
-    let mut found = Vec::new();
+    // Cell coordinates of each box's lowest corner: a pair is tested only in the cell of
+    // the lowest corner of the overlap of the two boxes, which is the per-axis maximum.
+    let low: Vec<[u16; 3]> = boxes
+        .iter()
+        .map(|b| {
+            if b.min[0].is_finite() {
+                std::array::from_fn(|k| cell_of(b.min[k], k) as u16)
+            } else {
+                [0; 3]
+            }
+        })
+        .collect();
+    // Split the sorted entries at cell boundaries and test the parts on separate threads.
+    let parts = std::thread::available_parallelism()
+        .map_or(1, |n| n.get())
+        .clamp(1, 8);
+    let mut cuts = vec![0];
+    for p in 1..parts {
+        let mut c = (entries.len() * p / parts).max(*cuts.last().unwrap_or(&0));
+        while c > 0 && c < entries.len() && entries[c] >> 32 == entries[c - 1] >> 32 {
+            c += 1;
+        }
+        cuts.push(c);
+    }
+    cuts.push(entries.len());
+    let pairs_in = |run: &[u64]| -> Vec<[usize; 2]> {
+        let mut found = Vec::new();
+        let mut i = 0;
+        while i < run.len() {
+            let cell = run[i] >> 32;
+            let mut j = i + 1;
+            while j < run.len() && run[j] >> 32 == cell {
+                j += 1;
+            }
+            let cc = [
+                (cell % dims[0]) as u16,
+                ((cell / dims[0]) % dims[1]) as u16,
+                (cell / (dims[0] * dims[1])) as u16,
+            ];
+            for x in i..j {
+                let a = run[x] as u32;
+                let (ba, la) = (&boxes[a as usize], low[a as usize]);
+                for &e in &run[x + 1..j] {
+                    let b = e as u32;
+                    let lb = low[b as usize];
+                    if (0..3).any(|k| la[k].max(lb[k]) != cc[k]) || !ba.overlaps(&boxes[b as usize])
+                    {
+                        continue;
+                    }
+                    if pair_meets(mesh, tris[a as usize], tris[b as usize]) {
+                        found.push([a.min(b) as usize, a.max(b) as usize]);
+                    }
+                }
+            }
+            i = j;
+        }
+        found
+    };
+    let mut found: Vec<[usize; 2]> = std::thread::scope(|s| {
+        let handles: Vec<_> = cuts
+            .windows(2)
+            .map(|w| {
+                let run = &entries[w[0]..w[1]];
+                s.spawn(move || pairs_in(run))
+            })
+            .collect();
+        handles
+            .into_iter()
+            .flat_map(|h| h.join().unwrap_or_default())
+            .collect()
+    });
     let test = |a: u32, b: u32, found: &mut Vec<[usize; 2]>| {
         if pair_meets(mesh, tris[a as usize], tris[b as usize]) {
             found.push([a.min(b) as usize, a.max(b) as usize]);
         }
     };
-    let mut i = 0;
-    while i < entries.len() {
-        let cell = entries[i] >> 32;
-        let mut j = i + 1;
-        while j < entries.len() && entries[j] >> 32 == cell {
-            j += 1;
-        }
-        for x in i..j {
-            let a = entries[x] as u32;
-            let ba = &boxes[a as usize];
-            for &e in &entries[x + 1..j] {
-                let b = e as u32;
-                let bb = &boxes[b as usize];
-                if !ba.overlaps(bb) {
-                    continue;
-                }
-                // Test only in the cell of the lowest corner of the overlap.
-                let c: [u64; 3] = std::array::from_fn(|k| cell_of(ba.min[k].max(bb.min[k]), k));
-                if cell_id(c) == cell {
-                    test(a, b, &mut found);
-                }
-            }
-        }
-        i = j;
-    }
     // Large triangles against everything else (each unordered pair once).
     for (n, &a) in big.iter().enumerate() {
         let ba = &boxes[a as usize];
