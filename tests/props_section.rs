@@ -99,3 +99,68 @@ fn cut_through_a_ring_of_vertices() {
     // The loop runs counter-clockwise seen from +z (material on the left): positive area.
     assert!(s.area > 0.0);
 }
+
+#[test]
+fn hollow_section_subtracts_the_hole() {
+    // Regular n-gon of circumradius R: J = A R^2 (2 + cos a) / 6 with a = 2 pi / n and
+    // A = n R^2 sin(a) / 2 (derived in props_mass.rs), I_x = I_y = J / 2 by symmetry.
+    // A hollow section is the outer polygon minus the inner one (second moments add over
+    // areas). As n grows, I_x -> pi (R^4 - r^4) / 4 (Roark's Formulas for Stress and
+    // Strain, 8th ed., Table A.1, hollow circle; from memory).
+    let (ro, ri, n) = (20.0, 16.0, 256usize);
+    let outer = props_support::ngon(n, ro, Point2::origin());
+    let inner = props_support::ngon(n, ri, Point2::origin());
+    let mesh = props_support::tube(&outer, &inner, 0.0, 30.0);
+    let slice = Slice::cut(&mesh, 12.0).unwrap();
+    assert_eq!(slice.loops.len(), 2);
+    let s = SectionProps::of_slice(&slice).unwrap();
+    let a = std::f64::consts::TAU / n as f64;
+    let ix = |r: f64| {
+        let area = n as f64 * r * r * a.sin() / 2.0;
+        area * r * r * (2.0 + a.cos()) / 12.0
+    };
+    let area = |r: f64| n as f64 * r * r * a.sin() / 2.0;
+    assert_eq!(s.loops, 2);
+    assert!(close(s.area, area(ro) - area(ri), 1e-10));
+    assert!(close(s.ixx, ix(ro) - ix(ri), 1e-10));
+    assert!(close(s.iyy, ix(ro) - ix(ri), 1e-10));
+    let pi = std::f64::consts::PI;
+    assert!(close(s.ixx, pi * (ro.powi(4) - ri.powi(4)) / 4.0, 1e-3));
+    // The mass properties see the hole too: volume = section area x length.
+    let p = spanwright::props::MassProps::of_mesh(&mesh, 1.0).unwrap();
+    assert!(close(p.volume, s.area * 30.0, 1e-10));
+}
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(48))]
+    #[test]
+    fn any_cut_of_a_prism_is_its_polygon(
+        angle in 0.0f64..360.0,
+        dx in -50.0f64..50.0,
+        dy in -50.0f64..50.0,
+        z in 0.0f64..=40.0,
+        n in 3usize..40,
+    ) {
+        // Property: every cut of a straight prism inside its length, including cuts
+        // through its end faces' vertices, has the area and centroid of the polygon
+        // (elementary geometry; polygon area by the shoelace formula).
+        let rot = Rotation2::new(angle.to_radians());
+        let poly: Vec<Point2<f64>> = props_support::ngon(n, 10.0, Point2::origin())
+            .iter()
+            .map(|p| rot * p + nalgebra::Vector2::new(dx, dy))
+            .collect();
+        let mesh = prism(&poly, Point2::new(dx, dy), 0.0, 40.0);
+        let z = if z == 0.0 { 1e-9 } else { z };
+        let s = SectionProps::of_slice(&Slice::cut(&mesh, z).unwrap()).unwrap();
+        let shoelace: f64 = (0..n)
+            .map(|i| {
+                let (p, q) = (poly[i], poly[(i + 1) % n]);
+                p.x * q.y - q.x * p.y
+            })
+            .sum::<f64>()
+            / 2.0;
+        proptest::prop_assert!((s.area - shoelace).abs() < 1e-9 * shoelace);
+        proptest::prop_assert!((s.cx - dx).abs() < 1e-9 && (s.cy - dy).abs() < 1e-9);
+        proptest::prop_assert!((s.ixx - s.iyy).abs() < 1e-9 * s.ixx);
+    }
+}

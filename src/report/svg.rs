@@ -294,3 +294,20 @@ pub fn minmax(v: &[f64]) -> (f64, f64) {
             (a.min(x), b.max(x))
         })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ticks_cover_the_range_with_round_steps() {
+        let t = ticks(37.0, 281.0, 6);
+        assert_eq!(t, vec![50.0, 100.0, 150.0, 200.0, 250.0]);
+        let t = ticks(-0.3, 0.7, 5);
+        assert!(t.contains(&0.0) && t.len() >= 4);
+        assert_eq!(ticks(1.0, 1.0, 5), vec![1.0]);
+        assert_eq!(escape("a<b & \"c\""), "a&lt;b &amp; &quot;c&quot;");
+        assert_eq!(label(12.5), "12.5");
+        assert_eq!(label(0.0), "0");
+    }
+}

@@ -177,3 +177,31 @@ pub fn sphere(r: f64, n: usize) -> TriMesh {
     }
     m
 }
+
+/// A closed tube between `z0` and `z1`: outer ring counter-clockwise, inner ring (the
+/// hole) clockwise, annular caps. Both rings have the same point count.
+pub fn tube(outer: &[Point2<f64>], inner: &[Point2<f64>], z0: f64, z1: f64) -> TriMesh {
+    let n = outer.len() as u32;
+    let mut m = TriMesh::new();
+    // 0: outer bottom, n: outer top, 2n: inner bottom, 3n: inner top.
+    for (ring, z) in [(outer, z0), (outer, z1), (inner, z0), (inner, z1)] {
+        for p in ring {
+            m.push_vertex(Point3::new(p.x, p.y, z));
+        }
+    }
+    for k in 0..n {
+        let k1 = (k + 1) % n;
+        // Outer wall faces out (ring counter-clockwise, as in `stack`).
+        m.triangles.push([k, k1, n + k1]);
+        m.triangles.push([k, n + k1, n + k]);
+        // Inner wall faces the hole: reversed.
+        m.triangles.push([2 * n + k, 3 * n + k1, 2 * n + k1]);
+        m.triangles.push([2 * n + k, 3 * n + k, 3 * n + k1]);
+        // Bottom annulus faces -z, top faces +z.
+        m.triangles.push([k, 2 * n + k1, k1]);
+        m.triangles.push([k, 2 * n + k, 2 * n + k1]);
+        m.triangles.push([n + k, n + k1, 3 * n + k1]);
+        m.triangles.push([n + k, 3 * n + k1, 3 * n + k]);
+    }
+    m
+}
