@@ -255,25 +255,29 @@ fn atomic_write_leaves_no_temp_file() {
     assert!(e.to_string().contains("b.json"));
 }
 
-#[test]
-fn cli_reports_an_stl() {
-    // Round trip through stl_io (reference reader/writer) and the binary.
-    let dir = tempfile::tempdir().unwrap();
-    let blade = demo_blade(60.0, 400.0, 70.0, 30.0, 25.0, 3.0, 12, 40);
-    let tris: Vec<stl_io::Triangle> = (0..blade.len())
+/// Writes a mesh as binary STL with stl_io (reference writer).
+fn write_stl(mesh: &spanwright::mesh::TriMesh, path: &std::path::Path) {
+    let tris: Vec<stl_io::Triangle> = (0..mesh.len())
         .map(|t| {
-            let c = blade.corners(t);
-            let n = blade.scaled_normal(t).normalize();
+            let c = mesh.corners(t);
+            let n = mesh.scaled_normal(t).normalize();
             stl_io::Triangle {
                 normal: stl_io::Normal::new([n.x as f32, n.y as f32, n.z as f32]),
                 vertices: c.map(|p| stl_io::Vertex::new([p.x as f32, p.y as f32, p.z as f32])),
             }
         })
         .collect();
-    let stl = dir.path().join("demo.stl");
-    let mut f = std::fs::File::create(&stl).unwrap();
+    let mut f = std::fs::File::create(path).unwrap();
     stl_io::write_stl(&mut f, tris.iter()).unwrap();
-    drop(f);
+}
+
+#[test]
+fn cli_reports_an_stl() {
+    // Round trip through stl_io (reference reader/writer) and the binary.
+    let dir = tempfile::tempdir().unwrap();
+    let blade = demo_blade(60.0, 400.0, 70.0, 30.0, 25.0, 3.0, 12, 40);
+    let stl = dir.path().join("demo.stl");
+    write_stl(&blade, &stl);
     let out = dir.path().join("reports");
     let run = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
         .args([
@@ -316,6 +320,42 @@ fn cli_reports_an_stl() {
             parse_xml(&text);
         }
     }
+    // Two blades 90 degrees apart about the rotor axis: the centres of mass (radius rho
+    // each) add to a vector of length rho sqrt(2), so the total centre sits at rho / sqrt(2)
+    // and the static imbalance is 2 m rho / sqrt(2) = sqrt(2) m rho (plane geometry).
+    let quarter = nalgebra::Rotation3::from_axis_angle(
+        &nalgebra::Vector3::y_axis(),
+        std::f64::consts::FRAC_PI_2,
+    );
+    let other = blade.transformed(&quarter.to_homogeneous());
+    let stl2 = dir.path().join("other.stl");
+    write_stl(&other, &stl2);
+    let two = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
+        .args([
+            "report",
+            stl.to_str().unwrap(),
+            stl2.to_str().unwrap(),
+            "--json",
+            "--no-files",
+        ])
+        .output()
+        .unwrap();
+    assert_eq!(
+        two.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&two.stderr)
+    );
+    let v: Value = serde_json::from_slice(&two.stdout).unwrap();
+    let m = v["parts"][0]["mass"].as_f64().unwrap();
+    let c = &v["parts"][0]["centroid"];
+    let rho = c[0].as_f64().unwrap().hypot(c[2].as_f64().unwrap());
+    let imb = v["balance"]["imbalance"].as_f64().unwrap();
+    assert!(
+        (imb - 2f64.sqrt() * m * rho).abs() < 1e-4 * imb,
+        "{imb} vs {}",
+        2f64.sqrt() * m * rho
+    );
     // Bad input: an unknown material is exit code 2 with a message naming it.
     let bad = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
         .args([

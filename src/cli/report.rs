@@ -12,9 +12,12 @@ use spanwright::report::{self, write_atomic, Pictures, Report, ReportInput, STEP
 /// Arguments of `spanwright report`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
-    /// The part: an STL file (one blade in the blade frame, mm), or a design file
-    /// (.toml or .csv) whose parts are built first.
-    input: PathBuf,
+    /// The part: a design file (.toml or .csv) whose parts are built first, or STL files
+    /// (mm). Sections and stress are for the first part, which must be one whole blade in
+    /// the blade frame; with several STL files (the parts of a rotor, each placed about the
+    /// rotor axis) the static balance is reported too.
+    #[arg(required = true, num_args = 1..)]
+    input: Vec<PathBuf>,
     /// Material preset: pla, petg, abs, asa, pa12 (nylon), pc, al6061.
     #[arg(long, default_value = "pla")]
     material: String,
@@ -112,15 +115,30 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
             args.cuts
         );
     }
-    let (name, parts, design) = if is_stl(&args.input) {
-        let part = spanwright::fit::read_stl_part(&args.input)?;
-        (part.name.clone(), vec![part], None)
-    } else {
-        let design = spanwright::design::load(&args.input)?;
+    let first = &args.input[0];
+    let (name, parts, design) = if args.input.iter().all(|p| is_stl(p)) {
+        let mut parts = Vec::new();
+        for p in &args.input {
+            parts.push(spanwright::fit::read_stl_part(p)?);
+        }
+        (parts[0].name.clone(), parts, None)
+    } else if args.input.len() == 1 {
+        let design = spanwright::design::load(first)?;
         let parts = spanwright::pipeline::build_parts(&design)
-            .with_context(|| format!("building the parts of {}", args.input.display()))?;
+            .with_context(|| format!("building the parts of {}", first.display()))?;
         (design.name.clone(), parts, Some(design))
+    } else {
+        anyhow::bail!(
+            "{} inputs given: give one design file, or one or more STL files",
+            args.input.len()
+        );
     };
+    let source = args
+        .input
+        .iter()
+        .map(|p| p.display().to_string())
+        .collect::<Vec<_>>()
+        .join(", ");
     let design_blades = design
         .as_ref()
         .and_then(|d| d.tables.get("rotor"))
@@ -150,7 +168,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
     };
     let input = ReportInput {
         name: name.clone(),
-        source: Some(args.input.display().to_string()),
+        source: Some(source),
         parts: &parts,
         stations: design.as_ref().map(|d| d.stations.as_slice()),
         material,
@@ -174,7 +192,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         bar.set_position(step);
         bar.set_message(msg.to_string());
     })
-    .with_context(|| format!("reporting on {}", args.input.display()))?;
+    .with_context(|| format!("reporting on {}", first.display()))?;
     bar.finish_and_clear();
     let json = serde_json::to_string_pretty(&rep).context("encoding the JSON report")?;
     let mut written = Vec::new();
