@@ -539,3 +539,41 @@ proptest! {
         prop_assert!(((rep.volume - v0) / v0).abs() < 1e-9, "{} vs {}", rep.volume, v0);
     }
 }
+
+#[test]
+fn fold_across_an_edge_intersects() {
+    // A tetrahedron squashed flat: apex moved into the base plane, inside the base
+    // triangle. Every edge is still used twice, but the side faces fold back onto the
+    // base (coplanar neighbours on the same side of their shared edge).
+    let mut m = TriMesh::new();
+    for p in [
+        [0.0, 0.0, 0.0],
+        [1.0, 0.0, 0.0],
+        [0.0, 1.0, 0.0],
+        [0.0, 0.0, 1.0],
+    ] {
+        m.push_vertex(Point3::from(p));
+    }
+    m.triangles = vec![[0, 2, 1], [0, 1, 3], [1, 2, 3], [0, 3, 2]];
+    assert!(check_solid(&m, &opts()).is_ok());
+    m.vertices[3] = Point3::new(0.25, 0.25, 0.0);
+    let rep = check_solid(&m, &opts());
+    let Some(Finding::SelfIntersection(l)) = rep
+        .findings
+        .iter()
+        .find(|f| matches!(f, Finding::SelfIntersection(_)))
+    else {
+        panic!("{rep}");
+    };
+    // The base (triangle 0) overlaps each of the three flattened sides.
+    assert!(
+        l.items.contains(&[0, 1]) && l.items.contains(&[0, 2]) && l.items.contains(&[0, 3]),
+        "{rep}"
+    );
+    assert!(
+        rep.findings
+            .iter()
+            .any(|f| matches!(f, Finding::ZeroVolume { .. })),
+        "{rep}"
+    );
+}

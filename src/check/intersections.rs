@@ -8,7 +8,7 @@
 //! spans very many cells (long cap triangles, say) are kept out of the grid and tested
 //! against all others by box overlap.
 
-use super::tritri::{corner_pair_meets, disjoint_pair_meets};
+use super::tritri::{corner_pair_meets, disjoint_pair_meets, edge_pair_meets};
 use crate::mesh::TriMesh;
 use nalgebra::Vector3;
 
@@ -31,7 +31,8 @@ impl Boxed {
 
 /// All intersecting pairs `(i, j)`, `i < j`, sorted, among the triangles `t` with
 /// `active[t]` (vertex indices in range, distinct, non-zero area). Pairs sharing an edge
-/// are not tested; pairs sharing one vertex count when they meet anywhere else.
+/// count only when folded flat onto each other; pairs sharing one vertex count when they
+/// meet anywhere else.
 pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
     let tris = &mesh.triangles;
     let ids: Vec<u32> = (0..tris.len() as u32)
@@ -216,7 +217,15 @@ fn pair_meets(mesh: &TriMesh, a: [u32; 3], b: [u32; 3]) -> bool {
             let rb = [b[kb], b[(kb + 1) % 3], b[(kb + 2) % 3]];
             corner_pair_meets(&ra.map(p), &rb.map(p))
         }
-        // Neighbours across an edge (or duplicates, reported as over-used edges).
+        2 => {
+            // Neighbours across an edge: rotate so the corner off the edge comes first.
+            let off_a = (0..3).find(|&i| !b.contains(&a[i])).unwrap_or(0);
+            let off_b = (0..3).find(|&j| !a.contains(&b[j])).unwrap_or(0);
+            let ra = [a[off_a], a[(off_a + 1) % 3], a[(off_a + 2) % 3]];
+            let rb = [b[off_b], b[(off_b + 1) % 3], b[(off_b + 2) % 3]];
+            edge_pair_meets(&ra.map(p), &rb.map(p))
+        }
+        // Duplicates (reported as over-used edges).
         _ => false,
     }
 }

@@ -139,7 +139,7 @@ pub fn check_solid(mesh: &TriMesh, opts: &CheckOptions) -> CheckReport {
     for &t in &use_tri {
         let a = 0.5 * mesh.scaled_normal(t as usize).norm();
         area += a;
-        if !(a > threshold) {
+        if a.is_nan() || a <= threshold {
             degenerate.push(t as usize, cap);
             active[t as usize] = false;
         }

@@ -77,6 +77,24 @@ pub(crate) fn corner_pair_meets(p: &[V; 3], q: &[V; 3]) -> bool {
     }
 }
 
+/// True when the triangles `p` and `q`, which share exactly the edge between `p[1]`,
+/// `p[2]` and `q[1]`, `q[2]` (in either order), overlap beyond that edge. Two triangles
+/// in different planes meet only on the line where the planes cross, and each meets that
+/// line only along the shared edge; so they overlap beyond it exactly when they are
+/// coplanar and their free corners `p[0]`, `q[0]` lie on the same side of the edge (the
+/// pair is folded flat onto itself). Both must be non-degenerate.
+pub(crate) fn edge_pair_meets(p: &[V; 3], q: &[V; 3]) -> bool {
+    let (u, w) = (p[1], p[2]);
+    let e = w - u;
+    let (x, y) = (p[0] - u, q[0] - u);
+    let n = e.cross(&x);
+    let scale = e.amax().max(x.amax()).max(y.amax());
+    if n.dot(&y).abs() > PLANE_EPS * n.norm() * scale {
+        return false;
+    }
+    n.dot(&e.cross(&y)) > 0.0
+}
+
 /// True when direction `d` (in, or projected on, the plane with normal `n = a x b`) lies
 /// in the closed cone spanned by `a` and `b`.
 fn in_cone(a: &V, b: &V, n: &V, d: &V) -> bool {
@@ -244,5 +262,17 @@ mod tests {
             &[o, v(0.0, 1.0, 0.0), v(1.0, 1.0, 0.0)],
             &wall
         ));
+    }
+
+    #[test]
+    fn edge_pairs() {
+        // Shared edge from (0,0,0) to (1,0,0); free corner of p at (0.5, 1, 0).
+        let (u, w) = (v(0.0, 0.0, 0.0), v(1.0, 0.0, 0.0));
+        let p = [v(0.5, 1.0, 0.0), u, w];
+        // Flat continuation across the edge, and a bent one: only the edge in common.
+        assert!(!edge_pair_meets(&p, &[v(0.5, -1.0, 0.0), w, u]));
+        assert!(!edge_pair_meets(&p, &[v(0.5, 0.2, 1.0), w, u]));
+        // Folded flat back onto p: they overlap.
+        assert!(edge_pair_meets(&p, &[v(0.2, 0.5, 0.0), w, u]));
     }
 }
