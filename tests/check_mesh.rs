@@ -577,3 +577,79 @@ fn fold_across_an_edge_intersects() {
         "{rep}"
     );
 }
+
+/// True when `check_solid` reports the two triangles of `m` as intersecting.
+fn reports_intersection(m: &TriMesh) -> bool {
+    check_solid(m, &opts())
+        .findings
+        .iter()
+        .any(|f| matches!(f, Finding::SelfIntersection(_)))
+}
+
+/// parry3d's GJK-based intersection test on the two triangles, each scaled by `s` about
+/// its own centroid (s < 1 shrinks, s > 1 grows).
+fn parry_meets(p: [Point3<f64>; 3], q: [Point3<f64>; 3], s: f64) -> bool {
+    use parry3d::math::{Pose, Vector};
+    use parry3d::query::intersection_test;
+    use parry3d::shape::Triangle;
+    let tri = |t: [Point3<f64>; 3]| {
+        let c = Point3::from((t[0].coords + t[1].coords + t[2].coords) / 3.0);
+        let v = t.map(|x| {
+            let y = c + (x - c) * s;
+            Vector::new(y.x as f32, y.y as f32, y.z as f32)
+        });
+        Triangle::new(v[0], v[1], v[2])
+    };
+    intersection_test(&Pose::IDENTITY, &tri(p), &Pose::IDENTITY, &tri(q))
+        .map(|r| r.intersecting)
+        .unwrap_or(false)
+}
+
+fn coord() -> impl Strategy<Value = f64> {
+    (-1000i32..=1000).prop_map(|i| i as f64 / 1024.0)
+}
+
+fn point() -> impl Strategy<Value = Point3<f64>> {
+    (coord(), coord(), coord()).prop_map(|(x, y, z)| Point3::new(x, y, z))
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(400))]
+    /// The pair test agrees with parry3d's independent GJK intersection test wherever
+    /// the answer is robust: triangles still meeting when shrunk by 0.1 % must be
+    /// reported, triangles still apart when grown by 0.1 % must not.
+    #[test]
+    fn pair_test_agrees_with_parry3d(ps in proptest::array::uniform6(point())) {
+        let mut m = TriMesh::new();
+        for p in ps {
+            m.push_vertex(p);
+        }
+        m.triangles = vec![[0, 1, 2], [3, 4, 5]];
+        prop_assume!(m.scaled_normal(0).norm() > 1e-3 && m.scaled_normal(1).norm() > 1e-3);
+        let (p, q) = ([ps[0], ps[1], ps[2]], [ps[3], ps[4], ps[5]]);
+        let ours = reports_intersection(&m);
+        if parry_meets(p, q, 0.999) {
+            prop_assert!(ours, "missed: {:?}", ps);
+        }
+        if !parry_meets(p, q, 1.001) {
+            prop_assert!(!ours, "false positive: {:?}", ps);
+        }
+    }
+
+    /// Pairs sharing one vertex: overlapping beyond the vertex (parry3d still finds the
+    /// triangles meeting after both shrink about their centroids, which frees the shared
+    /// vertex) must be reported.
+    #[test]
+    fn corner_pairs_agree_with_parry3d(ps in proptest::array::uniform5(point())) {
+        let mut m = TriMesh::new();
+        for p in ps {
+            m.push_vertex(p);
+        }
+        m.triangles = vec![[0, 1, 2], [0, 3, 4]];
+        prop_assume!(m.scaled_normal(0).norm() > 1e-3 && m.scaled_normal(1).norm() > 1e-3);
+        let ours = reports_intersection(&m);
+        if parry_meets([ps[0], ps[1], ps[2]], [ps[0], ps[3], ps[4]], 0.999) {
+            prop_assert!(ours, "missed: {:?}", ps);
+        }
+    }
+}
