@@ -370,3 +370,33 @@ fn cli_reports_an_stl() {
     assert_eq!(bad.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&bad.stderr).contains("balsa"));
 }
+
+#[test]
+fn a_part_across_the_axis_is_refused_with_a_reason() {
+    // A blade turned half a revolution about the rotor axis lies at negative z: not one
+    // blade in the blade frame (crate conventions), so no sections or stress.
+    let blade = demo_blade(60.0, 400.0, 70.0, 30.0, 25.0, 3.0, 6, 20);
+    let half = nalgebra::Rotation3::from_axis_angle(&nalgebra::Vector3::y_axis(), 3.0);
+    let parts = [Part {
+        name: "turned".into(),
+        mesh: blade.transformed(&half.to_homogeneous()),
+    }];
+    let input = ReportInput {
+        name: "turned".into(),
+        source: None,
+        parts: &parts,
+        stations: None,
+        material: Material::preset("pla").unwrap(),
+        fill: Fill::SOLID,
+        load: None,
+        extra_radii: vec![],
+        stress_cuts: 11,
+        picture_cuts: 3,
+    };
+    let e = report::build(&input, &mut |_, _| {}).unwrap_err();
+    let msg = e.to_string();
+    assert!(
+        msg.contains("turned") && msg.contains("blade frame"),
+        "{msg}"
+    );
+}

@@ -9,6 +9,26 @@
 //! * [`Stress`]: centrifugal and flap-bending stress along the span, safety factor and
 //!   tip deflection. **An estimate, not a certification**: see [`CAUTIONS`].
 
+//!
+//! ```
+//! use nalgebra::Point3;
+//! use spanwright::mesh::TriMesh;
+//! use spanwright::props::{MassProps, Material, SectionProps, Slice};
+//!
+//! // A unit-edge tetrahedron standing on the z = 0 plane (outward triangles).
+//! let mut m = TriMesh::new();
+//! for p in [[0.0, 0.0, 0.0], [10.0, 0.0, 0.0], [0.0, 10.0, 0.0], [0.0, 0.0, 10.0]] {
+//!     m.push_vertex(Point3::new(p[0], p[1], p[2]));
+//! }
+//! m.triangles = vec![[0, 2, 1], [0, 1, 3], [0, 3, 2], [1, 2, 3]];
+//! let pla = Material::preset("pla").unwrap();
+//! let p = MassProps::of_mesh(&m, pla.density_g_mm3()).unwrap();
+//! assert!((p.volume - 1000.0 / 6.0).abs() < 1e-9);
+//! // The cut at half height is a right triangle with legs of 5 mm.
+//! let s = SectionProps::of_slice(&Slice::cut(&m, 5.0).unwrap()).unwrap();
+//! assert!((s.area - 12.5).abs() < 1e-9);
+//! ```
+
 mod balance;
 mod mass;
 mod material;

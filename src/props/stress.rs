@@ -243,8 +243,8 @@ fn moment(spread: ThrustSpread, t: f64, r0: f64, r1: f64, r: f64) -> f64 {
 }
 
 impl StressTable {
-    /// Estimates stresses of one blade `mesh` (closed, outward, blade frame) at the
-    /// ascending `radii` (mm; see [`span_radii`]); the root is clamped at the first radius.
+    /// Estimates stresses of one blade `mesh` (closed, outward, blade frame) at `radii`
+    /// (mm, sorted here; see [`span_radii`]); the root is clamped at the smallest radius.
     pub fn estimate(
         mesh: &TriMesh,
         radii: &[f64],
@@ -253,6 +253,10 @@ impl StressTable {
         load: &LoadCase,
     ) -> Result<StressTable, StressError> {
         load.validate()?;
+        let mut radii = radii.to_vec();
+        radii.retain(|r| r.is_finite());
+        radii.sort_by(f64::total_cmp);
+        radii.dedup();
         let props = MassProps::of_mesh(mesh, 1.0).ok_or(StressError::NoVolume)?;
         let bb = mesh.bounding_box().ok_or(StressError::NoVolume)?;
         let (r0, r1) = (bb.min.z, bb.max.z);
@@ -263,7 +267,7 @@ impl StressTable {
         let thrust = load.thrust_per_blade(r1);
         let mut rows = Vec::with_capacity(radii.len());
         let mut curvature = Vec::with_capacity(radii.len());
-        for &r in radii {
+        for &r in &radii {
             let slice = Slice::cut(mesh, r)?;
             let sec = SectionProps::of_slice(&slice).ok_or(StressError::EmptySection(r))?;
             let out = Outboard::of_mesh(mesh, r);

@@ -58,6 +58,21 @@ pub enum ReportError {
     /// A part encloses no volume.
     #[error("part `{0}` encloses no volume: its mesh is empty, open or inside-out (check and repair it)")]
     NoVolume(String),
+    /// The first part crosses the rotor axis plane z = 0, so it is not one blade in the
+    /// blade frame.
+    #[error(
+        "part `{part}` spans z = {min:.3} to {max:.3} mm: sections and stress need one blade \
+         in the blade frame (span along +z from the rotor axis, root at small positive z; \
+         see the conventions). Give a single blade, or put it first"
+    )]
+    NotABlade {
+        /// Part name.
+        part: String,
+        /// Smallest z, mm.
+        min: f64,
+        /// Largest z, mm.
+        max: f64,
+    },
     /// A cut failed.
     #[error("part `{part}`: {source}")]
     Slice {
@@ -102,6 +117,15 @@ pub fn build(
     };
     progress(1, "section properties");
     let mesh = &first.mesh;
+    if let Some(bb) = mesh.bounding_box() {
+        if bb.min.z < 0.0 {
+            return Err(ReportError::NotABlade {
+                part: first.name.clone(),
+                min: bb.min.z,
+                max: bb.max.z,
+            });
+        }
+    }
     let span = span_radii(mesh, 2);
     let (r0, r1) = (span[0], span[1]);
     let mut radii: Vec<f64> = match input.stations {
