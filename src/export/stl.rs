@@ -119,14 +119,24 @@ pub fn solid_name(name: &str) -> String {
 pub fn push_f32(out: &mut String, x: f32) {
     use std::fmt::Write as _;
     let x = if x == 0.0 { 0.0 } else { x }; // no "-0"
-    let s = format!("{x:e}");
-    let (mant, exp) = s.split_once('e').unwrap_or((s.as_str(), "0"));
-    let exp: i32 = exp.parse().unwrap_or(0);
-    out.push_str(mant);
-    if !mant.contains('.') {
+    let start = out.len();
+    let _ = write!(out, "{x:e}");
+    let Some(e_at) = out[start..].find('e').map(|k| start + k) else {
+        return;
+    };
+    let exp: i32 = out[e_at + 1..].parse().unwrap_or(0);
+    let has_point = out[start..e_at].contains('.');
+    out.truncate(e_at);
+    if !has_point {
         out.push_str(".0");
     }
-    let _ = write!(out, "e{}{:02}", if exp < 0 { '-' } else { '+' }, exp.abs());
+    out.push('e');
+    out.push(if exp < 0 { '-' } else { '+' });
+    let a = exp.unsigned_abs();
+    if a < 10 {
+        out.push('0');
+    }
+    let _ = write!(out, "{a}");
 }
 
 /// Writes all parts as one ASCII STL solid named `name` (see [`solid_name`]):

@@ -167,7 +167,7 @@ pub fn write_3mf(
     let model = model_xml(parts, placements);
     let opts = SimpleFileOptions::default()
         .compression_method(CompressionMethod::Deflated)
-        .compression_level(Some(6))
+        .compression_level(Some(1))
         .last_modified_time(DateTime::default())
         .unix_permissions(0o644)
         .system(zip::System::Unix);
