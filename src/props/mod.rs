@@ -6,7 +6,7 @@
 //! * [`Balance`]: static imbalance of a rotor made of several parts.
 //! * [`Slice`] and [`SectionProps`]: cuts of the mesh by planes `z = r` and their area,
 //!   centroid and second moments.
-//! * [`Stress`]: centrifugal and flap-bending stress along the span, safety factor and
+//! * [`StressTable`]: centrifugal and flap-bending stress along the span, safety factor and
 //!   tip deflection. **An estimate, not a certification**: see [`CAUTIONS`].
 
 //!

@@ -39,8 +39,9 @@ pub fn stack_svg(name: &str, slices: &[Slice], standalone: bool) -> String {
     svg.dashed(map(0.0, y0), map(0.0, y1), "#aaaaaa");
     let n = slices.len();
     for (i, s) in slices.iter().enumerate() {
+        // Root blue (first colour) through to tip grey (last colour).
         let colour =
-            PALETTE[(i * (PALETTE.len() - 1)) / n.max(2).saturating_sub(1).max(1) % PALETTE.len()];
+            PALETTE[(i * (PALETTE.len() - 1) / n.saturating_sub(1).max(1)).min(PALETTE.len() - 1)];
         for ring in &s.loops {
             let pts: Vec<(f64, f64)> = ring.iter().map(|p| map(p.x, p.y)).collect();
             svg.polyline(&pts, colour, 1.0, true);
@@ -52,7 +53,7 @@ pub fn stack_svg(name: &str, slices: &[Slice], standalone: bool) -> String {
         11.0,
         "start",
         &format!(
-            "{n} sections from r = {:.1} mm to {:.1} mm; x chordwise (mm), y downstream (mm); scale {:.3} px/mm",
+            "{n} sections from r = {:.1} mm (blue) to {:.1} mm (grey); x chordwise (mm), y downstream (mm); scale {:.3} px/mm",
             slices.first().map_or(0.0, |s| s.radius),
             slices.last().map_or(0.0, |s| s.radius),
             scale
