@@ -46,7 +46,20 @@ pub fn cosine_stations(n: usize) -> Vec<f64> {
         .collect()
 }
 
-/// Removes consecutive duplicates (closer than `1e-12` relative to the extent).
+/// The points without consecutive duplicates (closer than `1e-12`), borrowed when there
+/// are none.
+pub(crate) fn dedup_cow(points: &[Point2<f64>]) -> std::borrow::Cow<'_, [Point2<f64>]> {
+    if points
+        .windows(2)
+        .all(|w| (w[1] - w[0]).norm_squared() > 1e-24)
+    {
+        std::borrow::Cow::Borrowed(points)
+    } else {
+        std::borrow::Cow::Owned(dedup(points))
+    }
+}
+
+/// Removes consecutive duplicates (closer than `1e-12`).
 pub(crate) fn dedup(points: &[Point2<f64>]) -> Vec<Point2<f64>> {
     let mut out: Vec<Point2<f64>> = Vec::with_capacity(points.len());
     for &p in points {
@@ -254,17 +267,20 @@ impl Section {
     /// same `n` returns the same points (to rounding).
     pub fn resample(&self, n: usize) -> Result<Section, ResampleError> {
         let n = n.max(3);
-        let pts = dedup(self.points());
+        let pts = dedup_cow(self.points());
         if pts.len() < 5 {
             return Err(ResampleError::TooFewPoints(pts.len()));
         }
         let sp = Spline2::fit(&pts).ok_or(ResampleError::TooFewPoints(pts.len()))?;
         // The leading-edge point is a data point; find its index after de-duplication.
         let le_point = self.points()[self.leading_edge_index()];
-        let le_k = pts
-            .iter()
-            .position(|p| (p - le_point).norm() < 1e-12)
-            .ok_or(ResampleError::Degenerate)?;
+        let le_k = if pts.len() == self.points().len() {
+            self.leading_edge_index()
+        } else {
+            pts.iter()
+                .position(|p| (p - le_point).norm() < 1e-12)
+                .ok_or(ResampleError::Degenerate)?
+        };
         if le_k == 0 || le_k + 1 >= pts.len() {
             return Err(ResampleError::Degenerate);
         }

@@ -33,34 +33,31 @@ impl Spline2 {
             }
             s.push(s[s.len() - 1] + d);
         }
+        // Natural end conditions; the interior second derivatives solve a tridiagonal
+        // system, eliminated in place (Thomas algorithm). Row r belongs to point r + 1;
+        // its sub- and super-diagonal are the neighbouring parameter steps.
         let mut m = vec![Vector2::zeros(); n];
         if n > 2 {
-            // Tridiagonal system for the interior second derivatives (natural ends).
             let k = n - 2;
-            let mut diag = vec![0.0; k];
-            let mut rhs = vec![Vector2::zeros(); k];
-            let mut sub = vec![0.0; k];
+            let mut diag = Vec::with_capacity(k);
             for i in 1..n - 1 {
                 let h0 = s[i] - s[i - 1];
                 let h1 = s[i + 1] - s[i];
-                diag[i - 1] = 2.0 * (h0 + h1);
-                sub[i - 1] = h0;
-                rhs[i - 1] =
-                    6.0 * ((points[i + 1] - points[i]) / h1 - (points[i] - points[i - 1]) / h0);
+                diag.push(2.0 * (h0 + h1));
+                m[i] = ((points[i + 1] - points[i]) / h1 - (points[i] - points[i - 1]) / h0) * 6.0;
             }
-            // Thomas algorithm; the super-diagonal of row i equals h1 = sub of row i+1.
-            for i in 1..k {
-                let w = sub[i] / diag[i - 1];
-                diag[i] -= w * sub[i];
-                let prev = rhs[i - 1];
-                rhs[i] -= prev * w;
+            for r in 1..k {
+                let sub = s[r + 1] - s[r];
+                let w = sub / diag[r - 1];
+                diag[r] -= w * sub;
+                let prev = m[r];
+                m[r + 1] -= prev * w;
             }
-            let mut x = vec![Vector2::zeros(); k];
-            x[k - 1] = rhs[k - 1] / diag[k - 1];
-            for i in (0..k - 1).rev() {
-                x[i] = (rhs[i] - x[i + 1] * sub[i + 1]) / diag[i];
+            m[k] /= diag[k - 1];
+            for r in (0..k - 1).rev() {
+                let next = m[r + 2];
+                m[r + 1] = (m[r + 1] - next * (s[r + 2] - s[r + 1])) / diag[r];
             }
-            m[1..n - 1].copy_from_slice(&x);
         }
         Some(Self {
             s,
@@ -156,7 +153,8 @@ impl Spline2 {
         for _ in 0..60 {
             let (a, b) = (1.0 - u, u);
             let f = p0.x * a + p1.x * b + (m0.x * (a * a * a - a) + m1.x * (b * b * b - b)) * k - x;
-            if f == 0.0 {
+            // 1e-15 chord in x: far below any use, and saves the confirming iteration.
+            if f.abs() < 1e-15 {
                 break;
             }
             let d = p1.x - p0.x + (m1.x * (3.0 * b * b - 1.0) - m0.x * (3.0 * a * a - 1.0)) * k;
@@ -172,7 +170,7 @@ impl Spline2 {
             } else {
                 0.5 * (lo + hi)
             };
-            if hi - lo < 1e-15 || step.abs() < 1e-15 {
+            if hi - lo < 1e-15 || step.abs() < 1e-14 {
                 break;
             }
         }
