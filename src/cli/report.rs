@@ -292,6 +292,19 @@ fn summary(rep: &Report, written: &[PathBuf]) {
             b.imbalance, b.offset, b.mass_spread
         );
     }
+    if !rep.sections.is_empty() {
+        println!("  sections (mm, mm2, mm4, deg):");
+        println!(
+            "  {:>9} {:>9} {:>11} {:>11} {:>11} {:>7}",
+            "r", "area", "Ixx", "Iyy", "Ixy", "angle"
+        );
+        for s in &rep.sections {
+            println!(
+                "  {:>9.2} {:>9.2} {:>11.4e} {:>11.4e} {:>11.4e} {:>7.2}",
+                s.radius, s.area, s.ixx, s.iyy, s.ixy, s.angle
+            );
+        }
+    }
     if let Some(t) = &rep.stress {
         println!(
             "  stress at {} rpm, {} m/s: smallest safety factor {:.2} at r = {:.1} mm ({} the required {}), tip deflection {:.2} mm",
