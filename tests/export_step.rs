@@ -267,6 +267,9 @@ fn header_is_quoted_deterministic_and_in_millimetres() {
     );
     assert!(text.contains("PRODUCT('test prism','test prism',''"));
     assert!(text.contains("MANIFOLD_SOLID_BREP('blade 1',"));
+    // ISO 10303-514 (advanced boundary representation): faces are ADVANCED_FACE.
+    assert_eq!(text.matches(" = ADVANCED_FACE(").count(), 5);
+    assert!(!text.contains("FACE_SURFACE("));
     assert!(text.trim_end().ends_with("END-ISO-10303-21;"));
     // truck-stepio's reader (ruststep 0.4) does not accept the standard's doubled
     // apostrophe inside strings; without one it reads the file.

@@ -97,7 +97,10 @@ fn check_skin(skin: &Skin) -> Result<(), ExportError> {
                 format!("expected {} (control points + degree + 1)", n + p + 1),
             ));
         }
-        if let Some(i) = knots.windows(2).position(|w| !(w[1] >= w[0])) {
+        if let Some(i) = knots
+            .windows(2)
+            .position(|w| !w[0].is_finite() || !w[1].is_finite() || w[1] < w[0])
+        {
             return Err(bad(
                 key,
                 format!("knot {} = {}", i + 1, knots[i + 1]),

@@ -122,7 +122,8 @@ fn header_section(file_name: &str, h: &StepHeader) -> String {
     )
 }
 
-/// The whole STEP text of `solids` (each with a name) in one product. Units are
+/// The whole STEP text of `solids` (each with a name) in one product, faces written as
+/// ADVANCED_FACE. Units are
 /// millimetres (truck-stepio writes `SI_UNIT(.MILLI.,.METRE.)`), uncertainty 1e-6 mm.
 /// `file_name` goes into FILE_NAME. Deterministic: the same input gives the same text.
 pub fn step_text(solids: &[(String, Solid)], header: &StepHeader, file_name: &str) -> String {
@@ -158,7 +159,10 @@ pub fn step_text(solids: &[(String, Solid)], header: &StepHeader, file_name: &st
         rest = &rest[k + BREP.len()..];
     }
     out.push_str(rest);
-    out
+    // An ADVANCED_BREP_SHAPE_REPRESENTATION holds advanced faces only (ISO 10303-514,
+    // also required by AP214); truck writes the supertype FACE_SURFACE with the same
+    // attributes, so the subtype name is exact.
+    out.replace(" = FACE_SURFACE(", " = ADVANCED_FACE(")
 }
 
 /// Writes `solids` (name, solid) to `path` as one STEP file, atomically. The file name in
