@@ -159,17 +159,27 @@ pub fn support_subset(vertices: &[Point3<f64>], count: usize) -> Vec<usize> {
         dirs.push(e);
         dirs.push(-e);
     }
-    let mut keep: Vec<usize> = dirs
-        .iter()
-        .filter_map(|d| {
-            vertices
-                .iter()
-                .enumerate()
-                .filter(|(_, v)| v.coords.iter().all(|c| c.is_finite()))
-                .max_by(|a, b| a.1.coords.dot(d).total_cmp(&b.1.coords.dot(d)))
-                .map(|(i, _)| i)
-        })
-        .collect();
+    // Directions as separate coordinate arrays; one pass over the vertices with the
+    // directions in the inner loop (vectorises well).
+    let dx: Vec<f64> = dirs.iter().map(|d| d.x).collect();
+    let dy: Vec<f64> = dirs.iter().map(|d| d.y).collect();
+    let dz: Vec<f64> = dirs.iter().map(|d| d.z).collect();
+    let mut best = vec![f64::NEG_INFINITY; dirs.len()];
+    let mut arg = vec![usize::MAX; dirs.len()];
+    for (i, v) in vertices.iter().enumerate() {
+        if !v.coords.iter().all(|c| c.is_finite()) {
+            continue;
+        }
+        let (x, y, z) = (v.x, v.y, v.z);
+        for k in 0..dx.len() {
+            let d = x * dx[k] + y * dy[k] + z * dz[k];
+            if d > best[k] {
+                best[k] = d;
+                arg[k] = i;
+            }
+        }
+    }
+    let mut keep: Vec<usize> = arg.into_iter().filter(|&i| i != usize::MAX).collect();
     keep.sort_unstable();
     keep.dedup();
     keep

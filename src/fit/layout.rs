@@ -219,13 +219,35 @@ fn shape(part: &Part, rotation: Matrix3<f64>) -> Shape {
         .iter()
         .fold((f64::MAX, f64::MIN), |(a, b), p| (a.min(p.z), b.max(p.z)));
     let poly = circumscribed(&hull::convex_hull(&p2), 64);
-    let b = bbox(&poly);
-    Shape {
-        rotation,
-        poly: shifted(&poly, -b[0], -b[1]),
-        offset: [b[0], b[1]],
-        z0,
-        size: [b[2] - b[0], b[3] - b[1], z1 - z0],
+    Shape::new(rotation, poly, z0, z1 - z0)
+}
+
+impl Shape {
+    fn new(rotation: Matrix3<f64>, poly: Vec<P2>, z0: f64, height: f64) -> Shape {
+        let b = bbox(&poly);
+        Shape {
+            rotation,
+            poly: shifted(&poly, -b[0], -b[1]),
+            offset: [b[0], b[1]],
+            z0,
+            size: [b[2] - b[0], b[3] - b[1], height],
+        }
+    }
+
+    /// The same part turned by `t` about the vertical: the footprint of the turned part
+    /// is the turned footprint, so the polygon turns and nothing is re-projected.
+    fn turned(&self, t: f64) -> Shape {
+        let (c, s) = (t.cos(), t.sin());
+        let poly: Vec<P2> = self
+            .poly
+            .iter()
+            .map(|p| {
+                let (x, y) = (p[0] + self.offset[0], p[1] + self.offset[1]);
+                [c * x - s * y, s * x + c * y]
+            })
+            .collect();
+        let rot = Rotation3::from_axis_angle(&Vector3::z_axis(), t).into_inner() * self.rotation;
+        Shape::new(rot, poly, self.z0, self.size[2])
     }
 }
 
@@ -307,12 +329,17 @@ pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result
         }
     };
     let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
-    let mut fits = Vec::with_capacity(parts.len());
+    let mut fits: Vec<Fit> = Vec::with_capacity(parts.len());
     let mut unplaced = Vec::new();
     let mut shapes: Vec<(usize, Shape, f64)> = Vec::new();
     let mut alone: Vec<Placed> = Vec::new();
     for (i, part) in parts.iter().enumerate() {
-        let f = fit_part(&part.name, &part.mesh, printer, &opts.fit)?;
+        // Copies of one mesh (the blades of a rotor) share one search.
+        let same = (0..i).find(|&j| parts[j].mesh == part.mesh);
+        let f = match same {
+            Some(j) => fits[j].clone(),
+            None => fit_part(&part.name, &part.mesh, printer, &opts.fit)?,
+        };
         fits.push(f.clone());
         if !f.fits {
             unplaced.push((i, f));
@@ -329,9 +356,7 @@ pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result
             } else {
                 0.0
             };
-            let rot =
-                Rotation3::from_axis_angle(&Vector3::z_axis(), t).into_inner() * base.rotation;
-            let s = shape(part, rot);
+            let s = base.turned(t);
             if s.size[0] <= ra + 1e-9
                 && s.size[1] <= rb + 1e-9
                 && best.as_ref().is_none_or(|bs| s.size[1] < bs.size[1])
@@ -370,10 +395,8 @@ pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result
     for (i, s, _) in shapes {
         let mut variants = vec![s];
         if opts.flips {
-            let r = Rotation3::from_axis_angle(&Vector3::z_axis(), std::f64::consts::PI)
-                .into_inner()
-                * variants[0].rotation;
-            variants.push(shape(&parts[i], r));
+            let flipped = variants[0].turned(std::f64::consts::PI);
+            variants.push(flipped);
         }
         // (plate, y, x, variant)
         let mut best: Option<(usize, f64, f64, usize)> = None;
