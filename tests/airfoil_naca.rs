@@ -33,7 +33,7 @@ fn naca0012_ordinates_match_the_handbook() {
 /// station is the mean-line point (NACA Report 460 construction).
 fn raw_mean_line(d: &Designation) -> Vec<(f64, f64)> {
     let raw = d.raw_outline(241);
-    let n = (raw.len() + 1) / 2;
+    let n = raw.len().div_ceil(2);
     (0..n)
         .map(|i| {
             let (u, l) = (raw[n - 1 - i], raw[n - 1 + i]);

@@ -62,7 +62,7 @@ impl Section {
         let r = with_structure(self, n)?;
         let (x, t, _) = distributions(&r);
         let (current, _) = refined_max(&x, &t);
-        if !(current > 0.0) {
+        if current.is_nan() || current <= 0.0 {
             return Err(SectionError::Parameter {
                 what: "current thickness",
                 value: current,

@@ -31,6 +31,8 @@ const STANDARD: [(f64, f64, f64); 5] = [
 ];
 
 /// `(p, m, k1, k2/k1)` of the reflexed mean lines 221 to 251 (common published table).
+// 0.3180 is a tabulated m, not an approximation of 1/pi.
+#[allow(clippy::approx_constant)]
 const REFLEXED: [(f64, f64, f64, f64); 4] = [
     (0.10, 0.1300, 51.990, 0.000764),
     (0.15, 0.2170, 15.793, 0.00677),

@@ -167,7 +167,7 @@ pub fn normalize_with_frame(
     let mut t_le = farthest_parameter(&sp, te);
     let mut le = sp.eval(t_le);
     let mut chord = (te - le).norm();
-    if !(chord > 0.0) || !chord.is_finite() {
+    if chord.is_nan() || chord <= 0.0 || !chord.is_finite() {
         return Err(ResampleError::Degenerate);
     }
     // Snap to a data point lying on the leading edge already.

@@ -28,7 +28,7 @@ impl Spline2 {
         s.push(0.0);
         for w in points.windows(2) {
             let d = (w[1] - w[0]).norm();
-            if !(d > 0.0) || !d.is_finite() {
+            if d.is_nan() || d <= 0.0 || !d.is_finite() {
                 return None;
             }
             s.push(s[s.len() - 1] + d);
