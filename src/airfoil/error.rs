@@ -96,13 +96,13 @@ pub enum SectionError {
         cause: ResampleError,
     },
     /// A name that is neither a designation nor a file found in the search directories.
-    #[error("section `{name}` not found: {detail}. Valid names: a NACA 4-digit designation (`naca2412`, `NACA 0012`), a 5-digit one with a tabulated mean line (`naca23012`; 210..250, reflexed 221..251), either with `-closed` for the sharp-trailing-edge variant (`naca0012-closed`), or a section file given by path or by name in {dirs} (with or without `.dat`/`.txt`){available}")]
+    #[error("section `{name}` not found: {detail}. Valid names: a NACA 4-digit designation (`naca2412`, `NACA 0012`), a 5-digit one with a tabulated mean line (`naca23012`; 210..250, reflexed 221..251), either with `-closed` for the sharp-trailing-edge variant (`naca0012-closed`), or a section file given by path{dirs}{available}")]
     NotFound {
         /// The name as given.
         name: String,
         /// Why it did not match.
         detail: String,
-        /// The search directories, listed.
+        /// ` or by name ... in <the search directories>`, or empty without any.
         dirs: String,
         /// Section files that exist in the search directories, listed (may be empty).
         available: String,

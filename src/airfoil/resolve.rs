@@ -28,26 +28,27 @@ pub fn resolve(name: &str, search_dirs: &[&Path]) -> Result<Section, SectionErro
     }
     let detail = match parsed {
         Parsed::Invalid(why) => why,
+        _ if search_dirs.is_empty() => {
+            format!("it is no designation and no file `{name}` exists")
+        }
         _ => format!(
-            "it is no designation and no file `{name}` exists{}",
-            if search_dirs.is_empty() {
-                String::new()
-            } else {
-                " there or in the search directories".into()
-            }
+            "it is no designation, and no file `{name}` exists as a path or in the search directories"
         ),
     };
     Err(SectionError::NotFound {
         name: name.into(),
         detail,
         dirs: if search_dirs.is_empty() {
-            "no search directory".into()
+            String::new()
         } else {
-            search_dirs
-                .iter()
-                .map(|d| format!("`{}`", d.display()))
-                .collect::<Vec<_>>()
-                .join(", ")
+            format!(
+                " or by name (with or without `.dat`/`.txt`) in {}",
+                search_dirs
+                    .iter()
+                    .map(|d| format!("`{}`", d.display()))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            )
         },
         available: available(search_dirs),
     })
