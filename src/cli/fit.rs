@@ -124,7 +124,18 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         None => "command line".to_string(),
     };
     let spec = match &file_spec {
-        Some(f) => cli_spec.or(f),
+        Some(f) => {
+            // A bed given on the command line replaces the file's bed as a whole.
+            let mut f = f.clone();
+            if cli_spec.preset.is_some() || cli_spec.volume.is_some() || cli_spec.diameter.is_some()
+            {
+                f.preset = None;
+                f.volume = None;
+                f.diameter = None;
+                f.height = None;
+            }
+            cli_spec.or(&f)
+        }
         None => cli_spec,
     };
     if spec.preset.is_none() && spec.volume.is_none() && spec.diameter.is_none() {

@@ -1,4 +1,46 @@
 //! Printer fit: build volumes, orientation search, plate layouts, printability.
+//!
+//! * [`PrinterSpec`] / [`Printer`]: the build volume (box or round bed), margin from the
+//!   walls and top, clearance between parts, nozzle and minimum feature size, in mm;
+//!   generic size presets ([`PRESETS`]); read from a design file's `[printer]` table with
+//!   `design.table::<PrinterSpec>("printer")` and [`PrinterSpec::scaled`].
+//! * [`fit_part`]: does one part fit, in which orientation (angles and matrix), with what
+//!   gaps; if not, the smallest overshoot found and a uniform scale that fits. The search
+//!   is a branch and bound over "down" directions with the yaw solved exactly by rotating
+//!   calipers; its angular-resolution guarantee and the exact check on every vertex are
+//!   described in [`search`].
+//! * [`layout`]: several parts on as few plates as the heuristic finds, clearance kept;
+//!   [`Layout::plate_parts`] gives each plate's placed meshes for
+//!   `crate::export::write_parts`, and [`plate_svg`] a top view.
+//! * [`printability`]: trailing-edge and section thickness along the span against the
+//!   nozzle and the minimum feature size.
+//!
+//! ```
+//! use spanwright::fit::{fit_part, FitOptions, PrinterSpec};
+//! use spanwright::mesh::TriMesh;
+//! use nalgebra::Point3;
+//!
+//! // A 100 x 4 x 4 mm bar (a closed box mesh) and a 80 x 80 x 10 mm volume: it fits only
+//! // diagonally, lying down.
+//! let mut bar = TriMesh::new();
+//! for i in 0..8u32 {
+//!     bar.push_vertex(Point3::new(
+//!         if i & 1 != 0 { 100.0 } else { 0.0 },
+//!         if i & 2 != 0 { 4.0 } else { 0.0 },
+//!         if i & 4 != 0 { 4.0 } else { 0.0 },
+//!     ));
+//! }
+//! bar.triangles = vec![
+//!     [0, 2, 1], [1, 2, 3], [4, 5, 6], [5, 7, 6], [0, 1, 4], [1, 5, 4],
+//!     [2, 6, 3], [3, 6, 7], [0, 4, 2], [2, 4, 6], [1, 3, 5], [3, 7, 5],
+//! ];
+//! let printer = PrinterSpec { volume: Some([80.0, 80.0, 10.0]), margin: Some(0.0), ..Default::default() }
+//!     .resolve("example")?;
+//! let fit = fit_part("bar", &bar, &printer, &FitOptions::DEFAULT)?;
+//! assert!(fit.fits);
+//! assert!(fit.size[0] > 60.0 && fit.size[1] > 60.0); // diagonal
+//! # Ok::<(), spanwright::fit::FitError>(())
+//! ```
 
 pub mod hull;
 mod layout;

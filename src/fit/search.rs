@@ -369,13 +369,16 @@ fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOption
     }
 }
 
+/// Triangles of one normal direction: summed scaled normal, `(triangle, area)` pairs.
+type Group = (Vector3<f64>, Vec<(usize, f64)>);
+
 /// Large flat faces of the mesh that lie on its convex hull: `(outward normal, area)`.
 fn flats(mesh: &TriMesh) -> Vec<(Vector3<f64>, f64)> {
-    let mut groups: HashMap<[i32; 3], (Vector3<f64>, Vec<(usize, f64)>)> = HashMap::new();
+    let mut groups: HashMap<[i32; 3], Group> = HashMap::new();
     for t in 0..mesh.len() {
         let n = mesh.scaled_normal(t);
         let len = n.norm();
-        if !(len > 0.0) || !len.is_finite() {
+        if len.is_nan() || len <= 0.0 || !len.is_finite() {
             continue;
         }
         let u = n / len;
@@ -388,14 +391,14 @@ fn flats(mesh: &TriMesh) -> Vec<(Vector3<f64>, f64)> {
         g.0 += n;
         g.1.push((t, 0.5 * len));
     }
-    let mut list: Vec<(Vector3<f64>, Vec<(usize, f64)>, f64)> = groups
+    let mut list: Vec<(Group, f64)> = groups
         .into_values()
-        .map(|(n, tris)| {
-            let area = tris.iter().map(|x| x.1).sum();
-            (n, tris, area)
+        .map(|g| {
+            let area = g.1.iter().map(|x| x.1).sum();
+            (g, area)
         })
         .collect();
-    list.sort_by(|p, q| q.2.total_cmp(&p.2));
+    list.sort_by(|p, q| q.1.total_cmp(&p.1));
     list.truncate(12);
     let size = mesh
         .bounding_box()
@@ -404,7 +407,7 @@ fn flats(mesh: &TriMesh) -> Vec<(Vector3<f64>, f64)> {
         .max(1e-9);
     let tol = 1e-6 * size;
     list.into_iter()
-        .filter_map(|(n, tris, _)| {
+        .filter_map(|((n, tris), _)| {
             let n = n.try_normalize(0.0)?;
             let support = mesh
                 .vertices
@@ -532,7 +535,7 @@ fn overhang_and_contact(mesh: &TriMesh, pl: &Placement) -> (f64, f64) {
         let [a, b, c] = t.map(|i| placed[i as usize]);
         let n = (b - a).cross(&(c - a));
         let len = n.norm();
-        if !(len > 0.0) {
+        if len.is_nan() || len <= 0.0 {
             continue;
         }
         let nz = n.z / len;
