@@ -1,10 +1,12 @@
 //! Speed of the writers: each mesh writer on a ~100k-triangle mesh (into memory, so the
-//! disk does not count), and the STEP path (B-rep build + text) of a 20-station skin.
+//! disk does not count), and the STEP path (B-rep build + text, and to a file) of a
+//! 20-station lofted skin.
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use nalgebra::{Point3, Vector3};
+use spanwright::airfoil::{Naca4, TrailingEdge};
 use spanwright::export::{
-    step_solid, step_text, write_3mf, write_obj, write_stl, write_stl_ascii, StepHeader,
+    step_solid, step_text, write_3mf, write_obj, write_step, write_stl, write_stl_ascii, StepHeader,
 };
 use spanwright::loft::Skin;
 use spanwright::mesh::{Part, TriMesh};
@@ -61,41 +63,32 @@ fn sphere(n: usize) -> TriMesh {
     m
 }
 
-fn clamped(n: usize, p: usize) -> Vec<f64> {
-    let spans = n - p;
-    let mut k = vec![0.0; p + 1];
-    k.extend((1..spans).map(|i| i as f64 / spans as f64));
-    k.extend(vec![1.0; p + 1]);
-    k
-}
-
-/// A 20-station skin (demo data, invented): an elliptic section (61 cubic control
-/// points, blunt trailing edge) shrinking and twisting from root to tip.
+/// A 20-station blade (demo data, invented) lofted by the project's lofter: NACA 4412
+/// with its blunt trailing edge, 121 points per section, chord 80 -> 40 mm, twist
+/// 20 -> 5 degrees, radius 50 -> 500 mm.
 fn skin20() -> Skin {
-    let (nu, nv) = (61, 20);
-    let tau = std::f64::consts::TAU;
-    let control = (0..nu)
-        .map(|i| {
-            let t = 0.05 + (tau - 0.1) * i as f64 / (nu - 1) as f64;
-            (0..nv)
-                .map(|j| {
-                    let s = j as f64 / (nv - 1) as f64;
-                    let (chord, twist) = (60.0 - 30.0 * s, 0.5 - 0.4 * s);
-                    let (x, y) = (0.5 * chord * t.cos(), 0.06 * chord * t.sin());
-                    let (c, sn) = (twist.cos(), twist.sin());
-                    Point3::new(x * c - y * sn, x * sn + y * c, 50.0 + 450.0 * s)
+    let sec = Naca4::from_digits("4412", TrailingEdge::Open)
+        .unwrap()
+        .section("naca4412", 121)
+        .unwrap();
+    let rings: Vec<Vec<Point3<f64>>> = (0..20)
+        .map(|l| {
+            let s = l as f64 / 19.0;
+            let (c, th, z) = (
+                80.0 - 40.0 * s,
+                (20.0 - 15.0 * s).to_radians(),
+                50.0 + 450.0 * s,
+            );
+            sec.points()
+                .iter()
+                .map(|p| {
+                    let (u, v) = ((p.x - 0.25) * c, p.y * c);
+                    Point3::new(u * th.cos() - v * th.sin(), u * th.sin() + v * th.cos(), z)
                 })
                 .collect()
         })
         .collect();
-    Skin {
-        degree_u: 3,
-        degree_v: 3,
-        knots_u: clamped(nu, 3),
-        knots_v: clamped(nv, 3),
-        control,
-        u_le: 0.5,
-    }
+    Skin::interpolate(&rings, sec.leading_edge_index()).unwrap()
 }
 
 fn writers(c: &mut Criterion) {
@@ -137,6 +130,16 @@ fn writers(c: &mut Criterion) {
             black_box(step_text(&[("blade".into(), solid)], &header, "blade.step"))
         })
     });
+    let dir = std::env::temp_dir().join(format!("spanwright-bench-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let path = dir.join("blade.step");
+    c.bench_function("step 20 stations to file (atomic)", |b| {
+        b.iter(|| {
+            let solid = step_solid(black_box(&skin)).unwrap();
+            write_step(&path, &[("blade".into(), solid)], &header).unwrap();
+        })
+    });
+    let _ = std::fs::remove_dir_all(&dir);
 }
 
 criterion_group!(benches, writers);
