@@ -129,3 +129,33 @@ fn too_big_exit_1_and_bad_input_exit_2() {
     let (code, _, err) = run(dir.path(), &["junk.stl", "--printer", "small-180"]);
     assert_eq!(code, 2, "{err}");
 }
+
+#[test]
+fn design_file_printer_table_and_override() {
+    // The example design carries `[printer] volume = [220, 220, 250]` (mm).
+    let design = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/garden-turbine.toml");
+    let dir = tempfile::tempdir().unwrap();
+    let d = design.to_str().unwrap();
+    let (code, out, err) = run(dir.path(), &[d, "--no-files", "--json"]);
+    assert!(code == 0 || code == 1, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["printer"]["volume"]["x"], 220.0, "{out}");
+    assert!(v["parts"][0]["triangles"].as_u64().unwrap() > 100);
+    // Three blades ([rotor] blades = 3) laid out when the blade fits.
+    if v["fits"] == true {
+        let n: usize = v["plates"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|p| p.as_array().unwrap().len())
+            .sum();
+        assert_eq!(n, 3);
+    }
+    let (_, out, err) = run(
+        dir.path(),
+        &[d, "--no-files", "--json", "--printer", "large-300"],
+    );
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap_or_else(|_| panic!("{err}"));
+    assert_eq!(v["printer"]["volume"]["x"], 300.0);
+    assert_eq!(v["printer"]["margin"], 5.0);
+}

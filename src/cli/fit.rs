@@ -7,6 +7,7 @@ use spanwright::fit::{
     PrintabilityOptions, Printer, PrinterSpec, Volume,
 };
 use spanwright::mesh::Part;
+use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
@@ -227,22 +228,36 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
             "files": written.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
             "caution": CAUTION,
         });
-        println!("{}", serde_json::to_string_pretty(&v)?);
+        emit(&format!("{}\n", serde_json::to_string_pretty(&v)?));
     } else if !ctx.quiet {
-        print_text(&printer, &parts, &fits, &checks, lay.as_ref(), &written);
+        let mut text = print_text(&printer, &parts, &fits, &checks, lay.as_ref(), &written);
         if let Some(te) = design_te {
             if checks.iter().any(|c| !c.te_short.is_empty()) {
-                println!(
+                let _ = writeln!(
+                    text,
                     "note: the design asks for [blade] min-te-thickness = {te} mm, yet the mesh's trailing edge is thinner: the thickening has not been applied to this mesh"
                 );
             }
         }
+        if is_stl(&args.input) {
+            let _ = writeln!(
+                text,
+                "note: printability reads the file's z axis as the span (the blade frame of spanwright's own files)"
+            );
+        }
+        emit(&text);
     }
     Ok(if all_fit {
         ExitCode::SUCCESS
     } else {
         ExitCode::from(super::EXIT_CHECK_FAILED)
     })
+}
+
+/// Writes to standard output; a closed pipe (as with `| head`) is not an error.
+fn emit(text: &str) {
+    use std::io::Write;
+    let _ = std::io::stdout().lock().write_all(text.as_bytes());
 }
 
 fn rows(m: &nalgebra::Matrix3<f64>) -> [[f64; 3]; 3] {
@@ -283,48 +298,57 @@ fn print_text(
     checks: &[Printability],
     lay: Option<&fit::Layout>,
     written: &[PathBuf],
-) {
+) -> String {
+    let mut s = String::new();
     let (a, b, h) = printer.available();
-    match printer.volume {
-        Volume::Box { x, y, z } => println!(
+    let _ = match printer.volume {
+        Volume::Box { x, y, z } => writeln!(
+            s,
             "printer: box {x} x {y} x {z} mm, margin {} mm (usable {a:.1} x {b:.1} x {h:.1} mm), clearance {} mm",
             printer.margin, printer.clearance
         ),
-        Volume::Round { diameter, height } => println!(
+        Volume::Round { diameter, height } => writeln!(
+            s,
             "printer: round bed {diameter} mm, height {height} mm, margin {} mm (usable diameter {a:.1}, height {h:.1} mm), clearance {} mm",
             printer.margin, printer.clearance
         ),
-    }
+    };
     for ((p, f), c) in parts.iter().zip(fits).zip(checks) {
         let ang = f.placement.angles_deg();
-        println!();
-        println!(
+        let _ = writeln!(s);
+        let _ = writeln!(
+            s,
             "{}: {}",
             p.name,
             if f.fits { "FITS" } else { "DOES NOT FIT" }
         );
-        println!(
+        let _ = writeln!(
+            s,
             "  rotation: {:.2} deg about x, then {:.2} about y, then {:.2} about z",
             ang[0], ang[1], ang[2]
         );
         for r in rows(&f.placement.rotation) {
-            println!("    [{:9.6} {:9.6} {:9.6}]", r[0], r[1], r[2]);
+            let _ = writeln!(s, "    [{:9.6} {:9.6} {:9.6}]", r[0], r[1], r[2]);
         }
-        println!(
+        let _ = writeln!(
+            s,
             "  size on the bed: {:.2} x {:.2} x {:.2} mm; gap to walls x {:.2}, y {:.2}, top {:.2} mm",
             f.size[0], f.size[1], f.size[2], f.wall_gap[0], f.wall_gap[1], f.wall_gap[2]
         );
         if !f.fits {
-            println!(
+            let _ = writeln!(
+            s,
                 "  smallest overshoot found: {:.2} mm; a uniform scale of {:.4} fits this orientation",
                 f.overshoot, f.scale_to_fit
             );
         }
-        println!(
+        let _ = writeln!(
+            s,
             "  overhang (faces down, over 45 deg from vertical): {:.0} mm^2; resting on the bed: {:.0} mm^2",
             f.overhang_area, f.bed_contact
         );
-        println!(
+        let _ = writeln!(
+            s,
             "  search: {:.2} deg resolution; any orientation with {:.2} mm to spare on every axis is found{}",
             f.resolution_deg,
             f.guarantee,
@@ -333,28 +357,30 @@ fn print_text(
         let findings = c.findings();
         if findings.is_empty() {
             if let (Some((_, te)), Some((_, th))) = (c.min_te(), c.min_thickness()) {
-                println!(
+                let _ = writeln!(
+            s,
                     "  printability: thinnest trailing edge {:.2} mm, thinnest section {:.2} mm: ok for a {:.2} mm nozzle",
                     te.te_thickness, th.thickness, c.nozzle
                 );
             }
         }
-        for s in findings {
-            println!("  printability: {s}");
+        for line in findings {
+            let _ = writeln!(s, "  printability: {line}");
         }
     }
     if let Some(l) = lay {
-        println!();
+        let _ = writeln!(s);
         let n: usize = l.plates.iter().map(|p| p.parts.len()).sum();
-        println!("{n} parts on {} plate(s):", l.plates.len());
+        let _ = writeln!(s, "{n} parts on {} plate(s):", l.plates.len());
         for (k, p) in l.plates.iter().enumerate() {
             let names: Vec<&str> = p.parts.iter().map(|x| x.name.as_str()).collect();
-            println!("  plate {}: {}", k + 1, names.join(", "));
+            let _ = writeln!(s, "  plate {}: {}", k + 1, names.join(", "));
         }
     }
     for w in written {
-        println!("wrote {}", w.display());
+        let _ = writeln!(s, "wrote {}", w.display());
     }
-    println!();
-    println!("{CAUTION}");
+    let _ = writeln!(s);
+    let _ = writeln!(s, "{CAUTION}");
+    s
 }

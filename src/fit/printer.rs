@@ -316,6 +316,20 @@ mod tests {
     }
 
     #[test]
+    fn reads_toml_table_with_our_keys() {
+        let spec: PrinterSpec =
+            toml::from_str("volume = [8.5, 8.5, 9.0]\nmargin = 0.2\nmin-feature = 0.04\n").unwrap();
+        // Inches to millimetres: 25.4 mm per inch (exact by definition, NIST SP 811).
+        let p = spec.scaled(25.4).resolve("t").unwrap();
+        assert!(matches!(p.volume, Volume::Box { x, .. } if (x - 215.9).abs() < 1e-9));
+        assert!((p.margin - 5.08).abs() < 1e-12 && (p.min_feature - 1.016).abs() < 1e-12);
+        let e = toml::from_str::<PrinterSpec>("bed-size = 3")
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("bed-size"), "{e}");
+    }
+
+    #[test]
     fn errors_name_key_and_fix() {
         let e = PrinterSpec {
             preset: Some("medium".into()),
