@@ -253,12 +253,15 @@ fn unzip(bytes: &[u8]) -> Vec<(String, String)> {
         .collect()
 }
 
+/// One `<object>`: type, name, vertices, triangles.
+type Object = (String, String, Vec<[f64; 3]>, Vec<[usize; 3]>);
+
 /// Model part parsed with quick-xml.
 #[derive(Default)]
 struct Model {
     unit: String,
     ns: String,
-    objects: Vec<(String, String, Vec<[f64; 3]>, Vec<[usize; 3]>)>,
+    objects: Vec<Object>,
     items: Vec<(String, Option<String>)>,
 }
 
