@@ -387,7 +387,7 @@ fn threemf_package_and_model() {
             assert_eq!(*v, [p.x, p.y, p.z]);
         }
     }
-    // Triangle count equals the STL's facet count.
+    // Triangle count equals the STL's facet count (parsed from the binary layout).
     let stl = dir.path().join("two.stl");
     write_parts(&stl, Format::Stl, &parts).unwrap();
     let b = std::fs::read(stl).unwrap();
@@ -395,6 +395,10 @@ fn threemf_package_and_model() {
         tri_total as u32,
         u32::from_le_bytes([b[80], b[81], b[82], b[83]])
     );
+    // Vertex count equals the number of distinct STL corners (stl_io indexes them).
+    let indexed = stl_io::read_stl(&mut Cursor::new(&b)).unwrap();
+    let vert_total: usize = m.objects.iter().map(|o| o.2.len()).sum();
+    assert_eq!(vert_total, indexed.vertices.len());
 }
 
 #[test]
