@@ -123,8 +123,33 @@ fn seg_dist(p: [f64; 2], a: [f64; 2], b: [f64; 2]) -> f64 {
     ((p[0] - a[0] - t * dx).powi(2) + (p[1] - a[1] - t * dy).powi(2)).sqrt()
 }
 
-/// Smallest distance between two separated convex polygons (vertex to edge, both ways).
+/// True when `v` lies inside or on the counter-clockwise convex polygon `poly`.
+fn inside(v: [f64; 2], poly: &[[f64; 2]]) -> bool {
+    (0..poly.len()).all(|i| {
+        let (a, b) = (poly[i], poly[(i + 1) % poly.len()]);
+        (b[0] - a[0]) * (v[1] - a[1]) - (b[1] - a[1]) * (v[0] - a[0]) >= 0.0
+    })
+}
+
+/// Smallest distance between two convex polygons (vertex to edge, both ways); 0 when one
+/// holds a vertex of the other.
 fn hull_gap(p: &[[f64; 2]], q: &[[f64; 2]]) -> f64 {
+    if p.iter().any(|&v| inside(v, q)) || q.iter().any(|&v| inside(v, p)) {
+        return 0.0;
+    }
+    // Crossing edges (two convex polygons can cross with no vertex inside the other).
+    let side = |a: [f64; 2], b: [f64; 2], c: [f64; 2]| {
+        (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])
+    };
+    for i in 0..p.len() {
+        let (a, b) = (p[i], p[(i + 1) % p.len()]);
+        for j in 0..q.len() {
+            let (c, d) = (q[j], q[(j + 1) % q.len()]);
+            if side(a, b, c) * side(a, b, d) < 0.0 && side(c, d, a) * side(c, d, b) < 0.0 {
+                return 0.0;
+            }
+        }
+    }
     let mut d = f64::MAX;
     for (a, b) in [(p, q), (q, p)] {
         for &v in a {
@@ -291,4 +316,29 @@ fn round_bed_and_unplaceable_part() {
     assert_eq!(l.unplaced[0].0, 3);
     assert_eq!(l.plates.len(), 1);
     check(&l, &parts, &p);
+}
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(12))]
+    #[test]
+    fn random_parts_keep_apart_and_inside(
+        dims in proptest::collection::vec((5.0f64..90.0, 5.0f64..60.0, 2.0f64..25.0, -3.0f64..3.0, -3.0f64..3.0), 2..8),
+        x in 120.0f64..250.0, y in 120.0f64..250.0, margin in 0.0f64..5.0, clearance in 0.0f64..6.0,
+    ) {
+        let parts: Vec<Part> = dims
+            .iter()
+            .enumerate()
+            .map(|(k, &(a, b, c, r1, r2))| Part {
+                name: format!("p{k}"),
+                mesh: box_mesh(a, b, c).transformed(
+                    &nalgebra::Rotation3::from_euler_angles(r1, r2, 0.5 * r1).to_homogeneous(),
+                ),
+            })
+            .collect();
+        let p = printer(x, y, 60.0, margin, clearance);
+        let l = layout(&parts, &p, &LayoutOptions::DEFAULT).unwrap();
+        let placed: usize = l.plates.iter().map(|pl| pl.parts.len()).sum();
+        proptest::prop_assert_eq!(placed + l.unplaced.len(), parts.len());
+        check(&l, &parts, &p);
+    }
 }
