@@ -319,7 +319,8 @@ fn two_disjoint_boxes_are_two_components() {
 
 #[test]
 fn overlapping_boxes_intersect() {
-    // Two unit boxes, the second shifted by (0.5, 0.5, 0.5): their faces cross.
+    // Two unit boxes, the second shifted by (0.5, 0.5, 0.5): their faces cross (by
+    // construction: the corner (1, 1, 1) of the first lies inside the second).
     let mut m = box_mesh(Vector3::new(1.0, 1.0, 1.0));
     let mut other = box_mesh(Vector3::new(1.0, 1.0, 1.0));
     other.translate(Vector3::new(0.5, 0.5, 0.5));
@@ -400,7 +401,9 @@ fn collinear_sliver_is_degenerate() {
 
 #[test]
 fn three_triangles_on_one_edge_are_non_manifold() {
-    // A fin on edge (0, 1) of a box: the edge borders three triangles.
+    // A fin on edge (0, 1) of a box: the edge borders three triangles, which no
+    // 2-manifold allows (common practice: each edge of a closed 2-manifold borders
+    // exactly two faces). truck-meshalgo calls the same mesh irregular.
     let mut m = box_mesh(Vector3::new(1.0, 1.0, 1.0));
     let tip = m.push_vertex(Point3::new(0.5, -1.0, -1.0));
     m.triangles.push([0, 1, tip]);
@@ -421,7 +424,9 @@ fn three_triangles_on_one_edge_are_non_manifold() {
 
 #[test]
 fn bow_tie_vertex_is_non_manifold() {
-    // Two boxes touching at one shared vertex index: two fans of triangles meet there.
+    // Two boxes touching at one shared vertex index: two fans of triangles meet there,
+    // so the neighbourhood of the vertex is not a disc (common practice: the link of a
+    // 2-manifold vertex is one cycle).
     let mut m = box_mesh(Vector3::new(1.0, 1.0, 1.0));
     let mut other = box_mesh(Vector3::new(1.0, 1.0, 1.0));
     other.translate(Vector3::new(1.0, 1.0, 1.0));
@@ -445,6 +450,7 @@ fn bow_tie_vertex_is_non_manifold() {
 
 #[test]
 fn broken_indices_stop_early() {
+    // An index past the vertex list cannot name a vertex (definition of an indexed mesh).
     let mut m = box_mesh(Vector3::new(1.0, 1.0, 1.0));
     m.triangles[3] = [5, 99, 6];
     let rep = check_solid(&m, &opts());
@@ -455,6 +461,7 @@ fn broken_indices_stop_early() {
 
 #[test]
 fn report_serialises_to_json() {
+    // Read back with serde_json (a general-purpose JSON reader).
     let mut m = box_mesh(Vector3::new(1.0, 1.0, 1.0));
     m.triangles.remove(1);
     let rep = check_solid(&m, &opts());

@@ -16,6 +16,8 @@ use nalgebra::Vector3;
 const MAX_CELLS_PER_AXIS: f64 = 1024.0;
 /// Triangles whose box spans more cells than this are tested outside the grid.
 const MAX_CELLS_PER_TRIANGLE: u64 = 512;
+/// Grid entries from which the pair tests are spread over threads.
+const PARALLEL_ENTRIES: usize = 1 << 17;
 
 #[derive(Clone, Copy)]
 struct Boxed {
@@ -116,9 +118,14 @@ pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize;
         })
         .collect();
     // Split the sorted entries at cell boundaries and test the parts on separate threads.
-    let parts = std::thread::available_parallelism()
-        .map_or(1, |n| n.get())
-        .clamp(1, 8);
+    // Small meshes stay on this thread: spawning costs more than it saves.
+    let parts = if entries.len() < PARALLEL_ENTRIES {
+        1
+    } else {
+        std::thread::available_parallelism()
+            .map_or(1, |n| n.get())
+            .clamp(1, 8)
+    };
     let mut cuts = vec![0];
     for p in 1..parts {
         let mut c = (entries.len() * p / parts).max(*cuts.last().unwrap_or(&0));
@@ -161,19 +168,23 @@ pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize;
         }
         found
     };
-    let mut found: Vec<[usize; 2]> = std::thread::scope(|s| {
-        let handles: Vec<_> = cuts
-            .windows(2)
-            .map(|w| {
-                let run = &entries[w[0]..w[1]];
-                s.spawn(move || pairs_in(run))
-            })
-            .collect();
-        handles
-            .into_iter()
-            .flat_map(|h| h.join().unwrap_or_default())
-            .collect()
-    });
+    let mut found: Vec<[usize; 2]> = if parts == 1 {
+        pairs_in(&entries)
+    } else {
+        std::thread::scope(|s| {
+            let handles: Vec<_> = cuts
+                .windows(2)
+                .map(|w| {
+                    let run = &entries[w[0]..w[1]];
+                    s.spawn(move || pairs_in(run))
+                })
+                .collect();
+            handles
+                .into_iter()
+                .flat_map(|h| h.join().unwrap_or_default())
+                .collect()
+        })
+    };
     let test = |a: u32, b: u32, found: &mut Vec<[usize; 2]>| {
         if pair_meets(mesh, tris[a as usize], tris[b as usize]) {
             found.push([a.min(b) as usize, a.max(b) as usize]);
