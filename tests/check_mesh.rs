@@ -660,3 +660,40 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn thin_walls_are_not_intersections() {
+    // Faces 1e-4 mm apart on a 100 mm part (a thin trailing edge, say) are separate
+    // surfaces: a solid, not a self-intersection. Volume abc (elementary geometry).
+    let slab = box_mesh(Vector3::new(100.0, 10.0, 1e-4));
+    let rep = check_solid(&slab, &opts());
+    assert!(rep.is_ok(), "{rep}");
+    assert!((rep.volume - 0.1).abs() < 1e-12);
+    // A sharp wedge: a triangular prism whose edge angle is 0.01 degree.
+    let half = (0.005f64).to_radians().tan() * 50.0;
+    let mut m = TriMesh::new();
+    for p in [
+        [0.0, 0.0, 0.0],
+        [50.0, half, 0.0],
+        [50.0, -half, 0.0],
+        [0.0, 0.0, 20.0],
+        [50.0, half, 20.0],
+        [50.0, -half, 20.0],
+    ] {
+        m.push_vertex(Point3::from(p));
+    }
+    m.triangles = vec![
+        [0, 1, 2],
+        [3, 5, 4],
+        [0, 3, 4],
+        [0, 4, 1],
+        [1, 4, 5],
+        [1, 5, 2],
+        [2, 5, 3],
+        [2, 3, 0],
+    ];
+    let rep = check_solid(&m, &opts());
+    assert!(rep.is_ok(), "{rep}");
+    // Prism volume: base area (50 * 2 half / 2) times height 20.
+    assert!((rep.volume - 50.0 * half * 20.0).abs() < 1e-12 * 50.0 * 20.0);
+}

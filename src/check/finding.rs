@@ -273,7 +273,7 @@ impl fmt::Display for Finding {
             Finding::Components { sizes } => {
                 write!(
                     f,
-                    "{} separate components (a part must be one piece); triangles per component: ",
+                    "several components: {} separate pieces (a part must be one piece); triangles per piece: ",
                     sizes.count
                 )?;
                 list(f, sizes, ", ", |f, s| write!(f, "{s}"))
