@@ -342,3 +342,34 @@ proptest::proptest! {
         check(&l, &parts, &p);
     }
 }
+
+#[test]
+fn round_bed_uses_the_whole_circle() {
+    // Elementary packing: five 50 x 50 tiles, 5 mm apart, fit the usable circle of radius
+    // 95 mm as a cross: a row of three (x from -80 to 80, y from -25 to 25; farthest corner
+    // sqrt(80^2 + 25^2) = 83.8 mm) and one tile above and one below the middle (corner
+    // sqrt(25^2 + 80^2) = 83.8 mm). The inscribed square (side 134 mm) holds only four.
+    let p = PrinterSpec {
+        diameter: Some(200.0),
+        height: Some(50.0),
+        margin: Some(5.0),
+        clearance: Some(5.0),
+        ..Default::default()
+    }
+    .resolve("test")
+    .unwrap();
+    let tiles: Vec<Part> = (0..5)
+        .map(|k| Part {
+            name: format!("t{k}"),
+            mesh: box_mesh(50.0, 50.0, 5.0),
+        })
+        .collect();
+    let l = layout(&tiles, &p, &LayoutOptions::DEFAULT).unwrap();
+    check(&l, &tiles, &p);
+    assert_eq!(
+        l.plates.len(),
+        1,
+        "{:?}",
+        l.plates.iter().map(|p| p.parts.len()).collect::<Vec<_>>()
+    );
+}

@@ -14,9 +14,11 @@
 //! `R (1 / cos(pi / 64) - 1)` = 0.12 % of R larger than the hull), so clearance kept
 //! between footprints is kept between the parts. Parts only touch the plate at z >= 0,
 //! so footprints that keep apart keep the solids apart.
-//! Round beds: parts are packed in the square inscribed in the usable circle; a part
-//! that fits the bed only outside that square gets a plate of its own, centred as
-//! [`super::fit_part`] placed it.
+//! Round beds: the same search with every footprint vertex also kept inside the usable
+//! circle (for a fixed x, that is an interval of y, found exactly), with more candidate
+//! x positions across the bed. A part that finds no spot even on an empty plate (it fits
+//! only as [`super::fit_part`] placed it, e.g. diagonally or tilted) gets a plate of its
+//! own in that placement.
 
 use super::hull::{self, P2};
 use super::search::{fit_part, Fit, FitOptions, Placement};
@@ -315,6 +317,69 @@ fn lowest_y(poly: &[P2], x: f64, y0: f64, y1: f64, obstacles: &[Vec<P2>], c: f64
     (y <= y1 && ok).then_some(y)
 }
 
+/// Bottom `y` range in which `poly` (box at the origin) shifted to `x` stays inside the
+/// circle of radius `r` about the origin, if any.
+fn in_circle(poly: &[P2], x: f64, r: f64) -> Option<(f64, f64)> {
+    let (mut lo, mut hi) = (f64::MIN, f64::MAX);
+    for v in poly {
+        let u = v[0] + x;
+        if u.abs() > r {
+            return None;
+        }
+        let h = (r * r - u * u).sqrt();
+        lo = lo.max(-h - v[1]);
+        hi = hi.min(h - v[1]);
+    }
+    (lo <= hi).then_some((lo, hi))
+}
+
+/// The lowest, then leftmost, free spot `(y, x, variant)` for a part among `obstacles`.
+fn spot(
+    variants: &[Shape],
+    obstacles: &[Vec<P2>],
+    rect: [f64; 4],
+    c: f64,
+    circle: Option<f64>,
+) -> Option<(f64, f64, usize)> {
+    let mut best: Option<(f64, f64, usize)> = None;
+    for (vi, v) in variants.iter().enumerate() {
+        let mut xs = vec![rect[0]];
+        for q in obstacles {
+            let qb = bbox(q);
+            xs.push(qb[2] + c);
+            xs.push(qb[0]);
+        }
+        if circle.is_some() {
+            // Round bed: also across the bed, the centred spot included.
+            let span = rect[2] - rect[0] - v.size[0];
+            xs.extend((0..=16).map(|k| rect[0] + span * k as f64 / 16.0));
+        }
+        for x in xs {
+            if x < rect[0] - 1e-9 || x + v.size[0] > rect[2] + 1e-9 {
+                continue;
+            }
+            let (mut y0, mut y1) = (rect[1], rect[3] - v.size[1]);
+            if let Some(r) = circle {
+                let Some((lo, hi)) = in_circle(&v.poly, x, r) else {
+                    continue;
+                };
+                y0 = y0.max(lo);
+                y1 = y1.min(hi);
+            }
+            if let Some(y) = lowest_y(&v.poly, x, y0, y1, obstacles, c) {
+                let better = match best {
+                    None => true,
+                    Some((by, bx, _)) => y < by - 1e-9 || (y < by + 1e-9 && x < bx),
+                };
+                if better {
+                    best = Some((y, x, vi));
+                }
+            }
+        }
+    }
+    best
+}
+
 /// Lays parts out on as few plates as the heuristic finds (see the module docs).
 pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result<Layout, FitError> {
     let (a, _, _) = printer.available();
@@ -324,8 +389,8 @@ pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result
     let rect = match printer.volume {
         Volume::Box { x, y, .. } => [m, m, x - m, y - m],
         Volume::Round { .. } => {
-            let s = 0.5 * a / 2f64.sqrt();
-            [-s, -s, s, s]
+            let r = 0.5 * a;
+            [-r, -r, r, r]
         }
     };
     let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
@@ -391,6 +456,10 @@ pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result
         }
     }
     shapes.sort_by(|p, q| q.2.total_cmp(&p.2).then(p.0.cmp(&q.0)));
+    let circle = match printer.volume {
+        Volume::Round { .. } => Some(0.5 * a),
+        Volume::Box { .. } => None,
+    };
     let mut plates: Vec<(Plate, Vec<Vec<P2>>)> = Vec::new();
     for (i, s, _) in shapes {
         let mut variants = vec![s];
@@ -398,45 +467,39 @@ pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result
             let flipped = variants[0].turned(std::f64::consts::PI);
             variants.push(flipped);
         }
-        // (plate, y, x, variant)
-        let mut best: Option<(usize, f64, f64, usize)> = None;
-        'plates: for (pi, (_, obstacles)) in plates.iter().enumerate() {
-            for (vi, v) in variants.iter().enumerate() {
-                let mut xs = vec![rect[0]];
-                for q in obstacles {
-                    let qb = bbox(q);
-                    xs.push(qb[2] + c);
-                    xs.push(qb[0]);
-                }
-                for x in xs {
-                    if x < rect[0] - 1e-9 || x + v.size[0] > rect[2] + 1e-9 {
-                        continue;
-                    }
-                    if let Some(y) =
-                        lowest_y(&v.poly, x, rect[1], rect[3] - v.size[1], obstacles, c)
-                    {
-                        let better = match best {
-                            None => true,
-                            Some((bp, by, bx, _)) => {
-                                pi == bp && (y < by - 1e-9 || (y < by + 1e-9 && x < bx))
-                            }
-                        };
-                        if better {
-                            best = Some((pi, y, x, vi));
-                        }
-                    }
-                }
-            }
-            if best.is_some() {
-                break 'plates;
+        let mut found = None;
+        for (pi, (_, obstacles)) in plates.iter().enumerate() {
+            if let Some(b) = spot(&variants, obstacles, rect, c, circle) {
+                found = Some((pi, b));
+                break;
             }
         }
-        let (pi, y, x, vi) = match best {
-            Some(b) => b,
-            None => {
+        if found.is_none() {
+            if let Some(b) = spot(&variants, &[], rect, c, circle) {
                 plates.push((Plate::default(), Vec::new()));
-                (plates.len() - 1, rect[1], rect[0], 0)
+                found = Some((plates.len() - 1, b));
             }
+        }
+        let Some((pi, (y, x, vi))) = found else {
+            // Fits the volume only as the single-part search placed it.
+            let f = &fits[i];
+            let pts: Vec<P2> = parts[i]
+                .mesh
+                .vertices
+                .iter()
+                .map(|v| {
+                    let q = f.placement.apply(v);
+                    [q.x, q.y]
+                })
+                .collect();
+            alone.push(Placed {
+                part: i,
+                name: parts[i].name.clone(),
+                placement: f.placement,
+                footprint: hull::convex_hull(&pts),
+                size: f.size,
+            });
+            continue;
         };
         let v = &variants[vi];
         let poly = shifted(&v.poly, x, y);
