@@ -123,6 +123,13 @@ fn box_with_margin_axis_aligned() {
     assert!((f.size[2] - 20.0).abs() < 1e-9, "{:?}", f.size);
     assert!((f.wall_gap[0] - 5.0).abs() < 1e-9 && (f.wall_gap[1] - 5.0).abs() < 1e-9);
     assert!(f.bed_contact > 100.0 * 50.0 - 1e-6, "{}", f.bed_contact);
+    // Resting on a face, a box has no face pointing down other than the one on the bed.
+    assert!(f.overhang_area.abs() < 1e-9, "{}", f.overhang_area);
+    // The angles reproduce the matrix: R = Rz(c) Ry(b) Rx(a) (nalgebra's convention for
+    // roll, pitch, yaw about fixed axes).
+    let [a, b, c] = f.placement.angles_deg().map(f64::to_radians);
+    let r = Rotation3::from_euler_angles(a, b, c);
+    assert!((r.matrix() - f.placement.rotation).abs().max() < 1e-12);
 }
 
 #[test]
@@ -237,6 +244,113 @@ fn brute_best_slack(mesh: &TriMesh, p: &Printer, dirs: usize, yaws: usize) -> f6
         }
     }
     best
+}
+
+/// Smallest enclosing circle radius by brute force over the circles through two or three
+/// points (a smallest enclosing circle passes through two or three of them: elementary
+/// geometry), independent of the library's Welzl algorithm.
+fn brute_circle(p: &[[f64; 2]]) -> f64 {
+    let covers = |c: [f64; 2], r: f64| {
+        p.iter().all(|q| {
+            ((q[0] - c[0]).powi(2) + (q[1] - c[1]).powi(2)).sqrt() <= r * (1.0 + 1e-12) + 1e-12
+        })
+    };
+    let mut best = f64::MAX;
+    for i in 0..p.len() {
+        for j in i + 1..p.len() {
+            let c = [0.5 * (p[i][0] + p[j][0]), 0.5 * (p[i][1] + p[j][1])];
+            let r = 0.5 * ((p[i][0] - p[j][0]).powi(2) + (p[i][1] - p[j][1]).powi(2)).sqrt();
+            if r < best && covers(c, r) {
+                best = r;
+            }
+            for k in j + 1..p.len() {
+                let (ax, ay, bx, by, cx, cy) =
+                    (p[i][0], p[i][1], p[j][0], p[j][1], p[k][0], p[k][1]);
+                let d = 2.0 * (ax * (by - cy) + bx * (cy - ay) + cx * (ay - by));
+                if d.abs() < 1e-12 {
+                    continue;
+                }
+                let ux = ((ax * ax + ay * ay) * (by - cy)
+                    + (bx * bx + by * by) * (cy - ay)
+                    + (cx * cx + cy * cy) * (ay - by))
+                    / d;
+                let uy = ((ax * ax + ay * ay) * (cx - bx)
+                    + (bx * bx + by * by) * (ax - cx)
+                    + (cx * cx + cy * cy) * (bx - ax))
+                    / d;
+                let r = ((ax - ux).powi(2) + (ay - uy).powi(2)).sqrt();
+                if r < best && covers([ux, uy], r) {
+                    best = r;
+                }
+            }
+        }
+    }
+    best
+}
+
+/// Brute force for a round bed: the largest smallest slack over a grid of down
+/// directions (yaw does not matter on a round bed).
+fn brute_best_slack_round(mesh: &TriMesh, p: &Printer, dirs: usize) -> f64 {
+    let (d, _, h) = p.available();
+    let golden = std::f64::consts::PI * (3.0 - 5f64.sqrt());
+    let mut best = f64::MIN;
+    for i in 0..dirs {
+        let z = 1.0 - 2.0 * (i as f64 + 0.5) / dirs as f64;
+        let rr = (1.0 - z * z).sqrt();
+        let up = Vector3::new(
+            rr * (golden * i as f64).cos(),
+            rr * (golden * i as f64).sin(),
+            z,
+        );
+        let seed = if up.x.abs() < 0.9 {
+            Vector3::x()
+        } else {
+            Vector3::y()
+        };
+        let b1 = (seed - up * seed.dot(&up)).normalize();
+        let b2 = up.cross(&b1);
+        let pts: Vec<[f64; 2]> = mesh
+            .vertices
+            .iter()
+            .map(|v| [b1.dot(&v.coords), b2.dot(&v.coords)])
+            .collect();
+        let (lo, hi) = mesh
+            .vertices
+            .iter()
+            .fold((f64::MAX, f64::MIN), |(l, hh), v| {
+                let t = up.dot(&v.coords);
+                (l.min(t), hh.max(t))
+            });
+        best = best.max((d - 2.0 * brute_circle(&pts)).min(h - (hi - lo)));
+    }
+    best
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(16))]
+    #[test]
+    fn round_bed_fit_is_sound_and_no_fit_is_complete(
+        a in 10.0f64..150.0, b in 2.0f64..40.0, c in 1.0f64..20.0,
+        rx in -3.2f64..3.2, ry in -1.6f64..1.6,
+        diameter in 40.0f64..160.0, height in 5.0f64..80.0, margin in 0.0f64..3.0,
+    ) {
+        let mesh = box_mesh(a, b, c).transformed(&Rotation3::from_euler_angles(rx, ry, 0.0).to_homogeneous());
+        let p = PrinterSpec {
+            diameter: Some(diameter),
+            height: Some(height),
+            margin: Some(margin),
+            ..Default::default()
+        }
+        .resolve("test")
+        .unwrap();
+        let f = fit_part("p", &mesh, &p, &FitOptions::DEFAULT).unwrap();
+        if f.fits {
+            assert_inside(&mesh, &f, &p);
+        } else {
+            let best = brute_best_slack_round(&mesh, &p, 3000);
+            prop_assert!(best < f.guarantee, "brute force found slack {best} >= {}", f.guarantee);
+        }
+    }
 }
 
 proptest! {
