@@ -251,7 +251,7 @@ impl Blade {
     /// The region a radius falls in.
     pub fn region(&self, r: f64) -> Region {
         let first = self.radii[0];
-        if r > self.tip_radius() {
+        if r > self.tip_radius() && self.tip.shape == TipShape::Round {
             Region::Tip
         } else if r >= first || self.root.is_none() {
             Region::Airfoil
@@ -476,9 +476,10 @@ impl Blade {
             let k = (((b - a) / max_spacing).ceil() as usize)
                 .max(min_steps)
                 .max(1);
-            for i in 1..=k {
+            for i in 1..k {
                 out.push(a + (b - a) * i as f64 / k as f64);
             }
+            out.push(b);
         };
         out.push(self.skin_start());
         if let Some(root) = &self.root {

@@ -164,10 +164,51 @@ pub fn resolve_sections(design: &Design) -> Result<(Vec<Section>, Vec<TeChange>)
         }
     }
     if errors.is_empty() {
+        make_trailing_edges_consistent(&mut out, design, &mut te_changes)?;
         Ok((out, te_changes))
     } else {
         Err(PipelineError::Sections(errors))
     }
+}
+
+/// A blade's trailing edge is either sharp at every station or blunt at every station:
+/// where sharp and blunt sections mix, the sharp ones are opened to the thinnest blunt
+/// trailing edge (as a fraction of chord), so the trailing-edge face never pinches to
+/// zero width between stations, where the spanwise spline could let the upper and lower
+/// trailing edges cross.
+fn make_trailing_edges_consistent(
+    sections: &mut [Section],
+    design: &Design,
+    te_changes: &mut Vec<TeChange>,
+) -> Result<(), PipelineError> {
+    const SHARP: f64 = 1e-9;
+    let thinnest_blunt = sections
+        .iter()
+        .map(Section::te_gap)
+        .filter(|&g| g > SHARP)
+        .fold(f64::INFINITY, f64::min);
+    if !thinnest_blunt.is_finite() {
+        return Ok(());
+    }
+    let n = design.blade.points_per_side;
+    for (s, st) in sections.iter_mut().zip(&design.stations) {
+        if s.te_gap() <= SHARP {
+            let t = crate::airfoil::thicken_te(s, thinnest_blunt, n).map_err(|e| {
+                PipelineError::Sections(vec![format!(
+                    "{}: section '{}': {e}",
+                    st.origin, st.section
+                )])
+            })?;
+            te_changes.push(TeChange {
+                radius: st.radius,
+                before: t.te_before * st.chord,
+                after: t.te_after * st.chord,
+                added_area: t.area_change() * st.chord * st.chord,
+            });
+            *s = t.section;
+        }
+    }
+    Ok(())
 }
 
 /// Builds the blade of a design up to its tessellation.

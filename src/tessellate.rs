@@ -169,12 +169,23 @@ fn refine(
                 .iter()
                 .map(|f| Basis::at(knots, p, t0 + f * (t1 - t0)))
                 .collect();
+            // Aft of the leading-edge region, a chord must also stay well inside the
+            // local thickness, or near a thin trailing edge it could cut through the
+            // opposite surface (the outline would cross itself).
+            let mid = 0.5 * (t0 + t1);
+            let mirror = (dir == 0
+                && (mid - skin.u_le).abs() > 0.25 * skin.u_le.min(1.0 - skin.u_le))
+            .then(|| Basis::at(knots, p, mirror_u(mid, skin.u_le)));
             let needs_split = other.basis.iter().any(|ob| {
                 let a = eval(&basis[i], ob);
                 let b = eval(&basis[i + 1], ob);
+                let limit = match &mirror {
+                    Some(mb) => tol.min(0.25 * (eval(&tests[1], ob) - eval(mb, ob)).norm()),
+                    None => tol,
+                };
                 tests
                     .iter()
-                    .any(|tb| dist_to_segment(&eval(tb, ob), &a, &b) > tol)
+                    .any(|tb| dist_to_segment(&eval(tb, ob), &a, &b) > limit)
             });
             if needs_split {
                 next.push(0.5 * (t0 + t1));
@@ -189,6 +200,17 @@ fn refine(
         changed = true;
     }
     changed
+}
+
+/// The parameter on the opposite surface at about the same chord station: maps the
+/// upper side `[0, u_le]` linearly onto the lower side `[1, u_le]` and back (trailing
+/// edge to trailing edge, leading edge to leading edge).
+fn mirror_u(u: f64, u_le: f64) -> f64 {
+    if u <= u_le {
+        1.0 - (1.0 - u_le) * u / u_le
+    } else {
+        u_le * (1.0 - u) / (1.0 - u_le)
+    }
 }
 
 /// Uniform subdivision of `[a, b]` into `k` intervals (end points included).
@@ -337,7 +359,15 @@ pub fn mesh_from_grid(
     let mut index = vec![vec![0u32; nv]; nu];
     for (i, bu) in ua.basis.iter().enumerate() {
         for (j, bv) in va.basis.iter().enumerate() {
-            index[i][j] = mesh.push_vertex(skin.eval_basis(bu, bv));
+            let mut p = skin.eval_basis(bu, bv);
+            // The end rows lie in their cap planes exactly (the clamped end control
+            // points share one z); snap away the rounding of the basis sum.
+            if j == 0 {
+                p.z = skin.control[0][0].z;
+            } else if j == nv - 1 {
+                p.z = skin.control[0][skin.control[0].len() - 1].z;
+            }
+            index[i][j] = mesh.push_vertex(p);
         }
     }
     for j in 0..nv {
