@@ -36,6 +36,12 @@ impl Boxed {
 /// count only when folded flat onto each other; pairs sharing one vertex count when they
 /// meet anywhere else.
 pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
+    search(mesh, active, PARALLEL_ENTRIES)
+}
+
+/// [`self_intersections`], spreading the pair tests over threads from `parallel_from`
+/// grid entries on.
+fn search(mesh: &TriMesh, active: &[bool], parallel_from: usize) -> Vec<[usize; 2]> {
     let tris = &mesh.triangles;
     let ids: Vec<u32> = (0..tris.len() as u32)
         .filter(|&t| active[t as usize])
@@ -119,7 +125,7 @@ pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize;
         .collect();
     // Split the sorted entries at cell boundaries and test the parts on separate threads.
     // Small meshes stay on this thread: spawning costs more than it saves.
-    let parts = if entries.len() < PARALLEL_ENTRIES {
+    let parts = if entries.len() < parallel_from {
         1
     } else {
         std::thread::available_parallelism()
@@ -238,5 +244,83 @@ fn pair_meets(mesh: &TriMesh, a: [u32; 3], b: [u32; 3]) -> bool {
         }
         // Duplicates (reported as over-used edges).
         _ => false,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use nalgebra::Point3;
+    use std::f64::consts::PI;
+
+    /// A UV sphere with every vertex moved by up to `jitter` (deterministic LCG), plus one
+    /// large triangle through the middle that spans many grid cells.
+    fn crumpled(nu: u32, nv: u32, jitter: f64) -> TriMesh {
+        let mut seed = 12345u64;
+        let mut rnd = || {
+            seed = seed
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (seed >> 11) as f64 / (1u64 << 53) as f64 - 0.5
+        };
+        let mut m = TriMesh::new();
+        m.push_vertex(Point3::new(0.0, 0.0, 1.0));
+        for j in 1..nv {
+            let phi = PI * j as f64 / nv as f64;
+            for i in 0..nu {
+                let th = 2.0 * PI * i as f64 / nu as f64;
+                let p = Point3::new(phi.sin() * th.cos(), phi.sin() * th.sin(), phi.cos());
+                m.push_vertex(p + Vector3::new(rnd(), rnd(), rnd()) * jitter);
+            }
+        }
+        m.push_vertex(Point3::new(0.0, 0.0, -1.0));
+        let ring = |j: u32, i: u32| 1 + (j - 1) * nu + i % nu;
+        let south = (m.vertices.len() - 1) as u32;
+        for i in 0..nu {
+            m.triangles.push([0, ring(1, i), ring(1, i + 1)]);
+            m.triangles
+                .push([south, ring(nv - 1, i + 1), ring(nv - 1, i)]);
+        }
+        for j in 1..nv - 1 {
+            for i in 0..nu {
+                let (a, b, c, d) = (
+                    ring(j, i),
+                    ring(j, i + 1),
+                    ring(j + 1, i),
+                    ring(j + 1, i + 1),
+                );
+                m.triangles.push([a, c, d]);
+                m.triangles.push([a, d, b]);
+            }
+        }
+        let a = m.push_vertex(Point3::new(-1.5, -1.5, 0.1));
+        let b = m.push_vertex(Point3::new(1.5, -1.5, -0.1));
+        let c = m.push_vertex(Point3::new(0.0, 1.5, 0.05));
+        m.triangles.push([a, b, c]);
+        m
+    }
+
+    #[test]
+    fn grid_finds_exactly_the_pairs_of_an_exhaustive_search() {
+        // Reference: testing every pair of triangles (no broad phase at all).
+        let m = crumpled(40, 20, 0.08);
+        let active = vec![true; m.len()];
+        let mut all = Vec::new();
+        for i in 0..m.len() {
+            for j in i + 1..m.len() {
+                if pair_meets(&m, m.triangles[i], m.triangles[j]) {
+                    all.push([i, j]);
+                }
+            }
+        }
+        assert!(all.len() > 20, "the crumpled mesh should cross itself");
+        // The large triangle cuts the sphere.
+        assert!(all.iter().any(|p| p[1] == m.len() - 1));
+        assert_eq!(search(&m, &active, usize::MAX), all);
+        assert_eq!(search(&m, &active, 0), all);
+        // And a smooth sphere has none.
+        let smooth = crumpled(40, 20, 0.0);
+        let inner: Vec<bool> = (0..smooth.len()).map(|t| t + 1 < smooth.len()).collect();
+        assert!(search(&smooth, &inner, 0).is_empty());
     }
 }
