@@ -378,3 +378,29 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn bad_meshes_are_errors_not_panics() {
+    let p = printer_box(100.0, 100.0, 100.0, 1.0);
+    let mut m = box_mesh(10.0, 10.0, 10.0);
+    m.triangles.push([0, 1, 99]);
+    let e = fit_part("broken", &m, &p, &FitOptions::DEFAULT)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("broken") && e.contains("99") && e.contains("8 vertices"),
+        "{e}"
+    );
+    let e = fit_part("empty", &TriMesh::new(), &p, &FitOptions::DEFAULT)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("empty"), "{e}");
+    // All vertices in one point: fits, nothing to measure.
+    let mut dot = TriMesh::new();
+    for _ in 0..3 {
+        dot.push_vertex(Point3::new(1.0, 2.0, 3.0));
+    }
+    dot.triangles.push([0, 1, 2]);
+    let f = fit_part("dot", &dot, &p, &FitOptions::DEFAULT).unwrap();
+    assert!(f.fits && f.size == [0.0; 3]);
+}

@@ -86,6 +86,18 @@ pub enum FitError {
         /// What is wrong and how to fix it.
         why: String,
     },
+    /// A triangle names a vertex the mesh does not have.
+    #[error("part \"{part}\": triangle {triangle} names vertex {vertex}, but the mesh has {count} vertices; rebuild or repair the mesh")]
+    BadIndex {
+        /// The part.
+        part: String,
+        /// Index of the triangle.
+        triangle: usize,
+        /// The vertex index named.
+        vertex: u32,
+        /// Number of vertices in the mesh.
+        count: usize,
+    },
     /// A part has no usable vertices.
     #[error("part \"{0}\" has no finite vertices; check the mesh file")]
     EmptyPart(String),

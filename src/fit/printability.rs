@@ -137,11 +137,16 @@ impl Printability {
     }
 }
 
-/// Segments where the plane z = `z` cuts the mesh, as planar point pairs.
+/// Segments where the plane z = `z` cuts the mesh, as planar point pairs (triangles
+/// naming missing vertices are skipped).
 pub fn slice(mesh: &TriMesh, z: f64) -> Vec<[P2; 2]> {
     let mut out = Vec::new();
-    for t in 0..mesh.len() {
-        let c = mesh.corners(t);
+    let count = mesh.vertices.len();
+    for tri in &mesh.triangles {
+        if tri.iter().any(|&v| v as usize >= count) {
+            continue; // a broken triangle cuts nothing
+        }
+        let c = tri.map(|v| mesh.vertices[v as usize]);
         let mut pts: Vec<P2> = Vec::with_capacity(2);
         for k in 0..3 {
             let (a, b) = (c[k], c[(k + 1) % 3]);

@@ -557,6 +557,17 @@ pub fn fit_part(
     printer: &Printer,
     opts: &FitOptions,
 ) -> Result<Fit, FitError> {
+    let count = mesh.vertices.len();
+    for (t, tri) in mesh.triangles.iter().enumerate() {
+        if let Some(&v) = tri.iter().find(|&&v| v as usize >= count) {
+            return Err(FitError::BadIndex {
+                part: name.to_string(),
+                triangle: t,
+                vertex: v,
+                count,
+            });
+        }
+    }
     let verts: Vec<Point3<f64>> = mesh
         .vertices
         .iter()
