@@ -493,6 +493,16 @@ fn failed_writes_leave_nothing() {
             "{e}"
         );
     }
+    // The stream writers called directly refuse it too, without panicking.
+    let mut sink = Vec::new();
+    for e in [
+        spanwright::export::write_stl(&mut sink, &broken),
+        spanwright::export::write_stl_ascii(&mut sink, "x", &broken),
+        spanwright::export::write_obj(&mut sink, &broken),
+        spanwright::export::write_3mf(&mut sink, &broken, None),
+    ] {
+        assert_eq!(e.unwrap_err().kind(), std::io::ErrorKind::InvalidInput);
+    }
     let mut nan = parts();
     nan[0].mesh.vertices[5].y = f64::NAN;
     let e = write_parts(&dir.path().join("nan.obj"), Format::Obj, &nan).unwrap_err();

@@ -41,3 +41,10 @@ pub fn check_parts(parts: &[Part], distinct_corners: bool) -> Result<(), ExportE
     }
     Ok(())
 }
+
+/// [`check_parts`] for the stream writers: the error as an `InvalidInput` I/O error, so
+/// a writer called directly on a broken mesh fails instead of panicking.
+pub(crate) fn check_io(parts: &[Part], distinct_corners: bool) -> std::io::Result<()> {
+    check_parts(parts, distinct_corners)
+        .map_err(|e| std::io::Error::new(std::io::ErrorKind::InvalidInput, e.to_string()))
+}

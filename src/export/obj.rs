@@ -7,8 +7,10 @@ use std::io::{self, Write};
 /// vertices (`v x y z`, millimetres, shortest decimal that reads back to the same `f64`)
 /// and its triangles (`f a b c`, 1-based indices counted over the whole file, counter-
 /// clockwise seen from outside). Names are made of printable ASCII without spaces (see
-/// [`super::solid_name`]).
+/// [`super::solid_name`]). A broken mesh (see [`super::check_parts`]) is an
+/// `InvalidInput` error.
 pub fn write_obj(w: &mut dyn Write, parts: &[Part]) -> io::Result<()> {
+    super::mesh_check::check_io(parts, false)?;
     writeln!(w, "# OBJ written by spanwright; units: millimetres")?;
     let mut base: u64 = 1;
     let mut line = String::with_capacity(128);

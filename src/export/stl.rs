@@ -81,9 +81,10 @@ impl Write for HeaderPatch<'_> {
 /// little-endian), then 50 bytes per facet (normal, three vertices as little-endian f32,
 /// a zero attribute count). Written through stl_io.
 ///
-/// Indices must be in range (see [`super::check_parts`]); more than `u32::MAX` facets is
-/// an `InvalidInput` error.
+/// A broken mesh (see [`super::check_parts`]) or more than `u32::MAX` facets is an
+/// `InvalidInput` error.
 pub fn write_stl(w: &mut dyn Write, parts: &[Part]) -> io::Result<()> {
+    super::mesh_check::check_io(parts, false)?;
     let tris = facets(parts);
     if u32::try_from(tris.len()).is_err() {
         return Err(io::Error::new(
@@ -142,8 +143,10 @@ pub fn push_f32(out: &mut String, x: f32) {
 /// Writes all parts as one ASCII STL solid named `name` (see [`solid_name`]):
 /// `solid`, then per facet `facet normal`, `outer loop`, three `vertex` lines, `endloop`,
 /// `endfacet`, and `endsolid`. Numbers are the same `f32` values the binary file holds,
-/// formatted by [`push_f32`].
+/// formatted by [`push_f32`]. A broken mesh (see [`super::check_parts`]) is an
+/// `InvalidInput` error.
 pub fn write_stl_ascii(w: &mut dyn Write, name: &str, parts: &[Part]) -> io::Result<()> {
+    super::mesh_check::check_io(parts, false)?;
     let name = solid_name(name);
     writeln!(w, "solid {name}")?;
     let mut line = String::with_capacity(256);

@@ -157,13 +157,16 @@ pub fn model_xml(parts: &[Part], placements: Option<&[Matrix4<f64>]>) -> String 
 /// time (1980-01-01 00:00:00, the zip epoch), fixed permissions and a fixed compression
 /// level, so the same input gives the same bytes.
 ///
-/// Check the meshes with [`super::check_parts`] (distinct corners) and the placements
-/// with [`check_placements`] first.
+/// A broken mesh ([`super::check_parts`] with distinct corners) or placement
+/// ([`check_placements`]) is an `InvalidInput` error.
 pub fn write_3mf(
     w: &mut dyn Write,
     parts: &[Part],
     placements: Option<&[Matrix4<f64>]>,
 ) -> io::Result<()> {
+    super::mesh_check::check_io(parts, true)?;
+    super::check_placements(parts, placements)
+        .map_err(|e| io::Error::new(io::ErrorKind::InvalidInput, e.to_string()))?;
     let model = model_xml(parts, placements);
     let opts = SimpleFileOptions::default()
         .compression_method(CompressionMethod::Deflated)
