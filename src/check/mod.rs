@@ -6,6 +6,13 @@
 //! offending triangles, edges, vertices or triangle pairs. Writers call it before writing
 //! and refuse a mesh whose report is not [`CheckReport::is_ok`].
 //!
+//! Self-intersection means any common point of two triangles other than what they are
+//! meant to share: crossing and touching both count (two parts touching along a face
+//! are reported), triangles sharing one vertex count when they meet anywhere else, and
+//! neighbours sharing an edge count when folded flat onto each other. Signed distances to
+//! a plane below `1e-12` of the local size count as zero. Degenerate triangles are
+//! reported as such and left out of this test.
+//!
 //! ```
 //! use spanwright::check::{check_solid, CheckOptions, Grade};
 //! use spanwright::mesh::TriMesh;
