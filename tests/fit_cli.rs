@@ -159,3 +159,51 @@ fn design_file_printer_table_and_override() {
     assert_eq!(v["printer"]["volume"]["x"], 300.0);
     assert_eq!(v["printer"]["margin"], 5.0);
 }
+
+#[test]
+fn assembled_rotor_as_one_part() {
+    // A 10 x 4 x 100 mm bar spanning z = 0..100 (blade frame), three copies turned about
+    // y by 120 degrees: its tips (the corners at z = 100) are at least
+    // sqrt(3) x 100 = 173.2 mm apart (equilateral triangle of circumradius 100), more than
+    // the 155.9 mm space diagonal of a 90 mm cube (elementary geometry), so it cannot fit
+    // that cube; lying flat it fits a 250 x 250 x 50 volume (footprint within radius
+    // sqrt(100^2 + 5^2) = 100.1 mm of the axis).
+    let dir = tempfile::tempdir().unwrap();
+    write_box_stl(&dir.path().join("bar.stl"), 10.0, 4.0, 100.0);
+    let (code, out, err) = run(
+        dir.path(),
+        &[
+            "bar.stl",
+            "--volume",
+            "250,250,50",
+            "--margin",
+            "0",
+            "--copies",
+            "3",
+            "--assembled",
+            "--json",
+            "--no-files",
+        ],
+    );
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["assembled"]["fits"], true, "{out}");
+    assert_eq!(v["assembled"]["blades"], 3);
+    let (_, out, err) = run(
+        dir.path(),
+        &[
+            "bar.stl",
+            "--volume",
+            "90,90,90",
+            "--margin",
+            "0",
+            "--copies",
+            "3",
+            "--assembled",
+            "--json",
+            "--no-files",
+        ],
+    );
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap_or_else(|_| panic!("{err}"));
+    assert_eq!(v["assembled"]["fits"], false, "{out}");
+}

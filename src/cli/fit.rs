@@ -49,6 +49,10 @@ pub struct Args {
     /// Do not write plate files.
     #[arg(long)]
     no_files: bool,
+    /// Also check whether the blades assembled around the rotor axis (y, blade frame) fit
+    /// as one part: the copies turned by 360/N degrees each, without a hub.
+    #[arg(long)]
+    assembled: bool,
     /// Print the report as JSON on standard output.
     #[arg(long)]
     json: bool,
@@ -169,6 +173,12 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         .map(|p| fit::fit_part(&p.name, &p.mesh, &printer, &fit_opts))
         .collect::<Result<_, _>>()?;
     let all_fit = fits.iter().all(|f| f.fits);
+    let assembled = if args.assembled {
+        let rotor = assemble(&parts, copies);
+        Some(fit::fit_part("rotor", &rotor, &printer, &fit_opts)?)
+    } else {
+        None
+    };
     let lay = if all_fit {
         Some(layout(
             &plate_input,
@@ -225,6 +235,16 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
                 "translation": [x.placement.translation.x, x.placement.translation.y, x.placement.translation.z],
                 "size": x.size,
             })).collect::<Vec<_>>()).collect::<Vec<_>>()),
+            "assembled": assembled.as_ref().map(|f| serde_json::json!({
+                "blades": copies,
+                "fits": f.fits,
+                "angles_deg": f.placement.angles_deg(),
+                "rotation": rows(&f.placement.rotation),
+                "size": f.size,
+                "wall_gap": f.wall_gap,
+                "overshoot": f.overshoot,
+                "scale_to_fit": finite(f.scale_to_fit),
+            })),
             "files": written.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
             "caution": CAUTION,
         });
@@ -239,12 +259,28 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
                 );
             }
         }
+        if let Some(f) = &assembled {
+            let _ = writeln!(
+                text,
+                "assembled rotor ({copies} blades about the y axis, no hub): {}; size {:.1} x {:.1} x {:.1} mm{}",
+                if f.fits { "FITS as one part" } else { "does not fit as one part" },
+                f.size[0],
+                f.size[1],
+                f.size[2],
+                if f.fits {
+                    String::new()
+                } else {
+                    format!(", overshoot {:.1} mm, scale {:.3} fits", f.overshoot, f.scale_to_fit)
+                }
+            );
+        }
         if is_stl(&args.input) {
             let _ = writeln!(
                 text,
                 "note: printability reads the file's z axis as the span (the blade frame of spanwright's own files)"
             );
         }
+        let _ = writeln!(text, "\n{CAUTION}");
         emit(&text);
     }
     Ok(if all_fit {
@@ -252,6 +288,23 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
     } else {
         ExitCode::from(super::EXIT_CHECK_FAILED)
     })
+}
+
+/// The parts repeated `n` times about the rotor axis (the y axis of the blade frame, see
+/// `spanwright::conventions`), turned by 360/n degrees each, as one mesh.
+fn assemble(parts: &[Part], n: usize) -> spanwright::mesh::TriMesh {
+    let mut out = spanwright::mesh::TriMesh::new();
+    for k in 0..n {
+        let turn = nalgebra::Rotation3::from_axis_angle(
+            &nalgebra::Vector3::y_axis(),
+            std::f64::consts::TAU * k as f64 / n as f64,
+        )
+        .to_homogeneous();
+        for p in parts {
+            out.append(&p.mesh.transformed(&turn));
+        }
+    }
+    out
 }
 
 /// Writes to standard output; a closed pipe (as with `| head`) is not an error.
@@ -380,7 +433,5 @@ fn print_text(
     for w in written {
         let _ = writeln!(s, "wrote {}", w.display());
     }
-    let _ = writeln!(s);
-    let _ = writeln!(s, "{CAUTION}");
     s
 }
