@@ -267,9 +267,7 @@ pub fn grid_parameters(skin: &Skin, opts: &TessellationOptions) -> (Vec<f64>, Ve
                         us[i] + fu * (us[i + 1] - us[i]),
                         vs[j] + fv * (vs[j + 1] - vs[j]),
                     );
-                    let (t1, t2) = cell_triangles(a, b, c, d);
-                    dist_to_triangle(&q, t1[0], t1[1], t1[2])
-                        .min(dist_to_triangle(&q, t2[0], t2[1], t2[2]))
+                    dist_to_cell(&q, [a, b, c, d])
                 })
                 .fold(0.0, f64::max);
                 if worst > tol {
@@ -299,26 +297,64 @@ fn insert_midpoints(params: &[f64], split: &[bool]) -> Vec<f64> {
 }
 
 /// The two triangles of a grid cell `a b c d` (counter-clockwise in `(u, v)`), split
-/// along the shorter diagonal.
-fn cell_triangles<'a, T>(a: &'a T, b: &'a T, c: &'a T, d: &'a T) -> ([&'a T; 3], [&'a T; 3])
-where
-    T: CellPoint,
-{
-    if a.dist2(c) <= b.dist2(d) {
-        ([a, b, c], [a, c, d])
+/// along the shorter diagonal, as corner indices 0..4 of `[a, b, c, d]`.
+fn cell_split(
+    a: &Point3<f64>,
+    b: &Point3<f64>,
+    c: &Point3<f64>,
+    d: &Point3<f64>,
+) -> [[usize; 3]; 2] {
+    if (a - c).norm_squared() <= (b - d).norm_squared() {
+        [[0, 1, 2], [0, 2, 3]]
     } else {
-        ([a, b, d], [b, c, d])
+        [[0, 1, 3], [1, 2, 3]]
     }
 }
 
-trait CellPoint {
-    fn dist2(&self, other: &Self) -> f64;
+/// Distance from `q` to the nearer of a cell's two triangles.
+fn dist_to_cell(q: &Point3<f64>, corners: [&Point3<f64>; 4]) -> f64 {
+    cell_split(corners[0], corners[1], corners[2], corners[3])
+        .iter()
+        .map(|t| dist_to_triangle(q, corners[t[0]], corners[t[1]], corners[t[2]]))
+        .fold(f64::INFINITY, f64::min)
 }
 
-impl CellPoint for Point3<f64> {
-    fn dist2(&self, other: &Self) -> f64 {
-        (self - other).norm_squared()
+/// Measured largest distance from the skin to its grid mesh: the skin is sampled at
+/// `k x k` points inside every cell (`k >= 1`), and each sample's distance to the cell's
+/// two triangles is taken. The nearest point of the whole mesh can only be nearer, so
+/// this is an upper bound of the sampled surface-to-mesh distance.
+pub fn max_deviation(skin: &Skin, us: &[f64], vs: &[f64], k: usize) -> f64 {
+    let k = k.max(1);
+    let ua = Axis::new(&skin.knots_u, skin.degree_u, us.to_vec());
+    let va = Axis::new(&skin.knots_v, skin.degree_v, vs.to_vec());
+    let grid: Vec<Vec<Point3<f64>>> = ua
+        .basis
+        .iter()
+        .map(|bu| va.basis.iter().map(|bv| skin.eval_basis(bu, bv)).collect())
+        .collect();
+    let mut worst: f64 = 0.0;
+    for i in 0..us.len() - 1 {
+        for j in 0..vs.len() - 1 {
+            let corners = [
+                &grid[i][j],
+                &grid[i + 1][j],
+                &grid[i + 1][j + 1],
+                &grid[i][j + 1],
+            ];
+            for a in 0..k {
+                for b in 0..k {
+                    let fu = (a as f64 + 0.5) / k as f64;
+                    let fv = (b as f64 + 0.5) / k as f64;
+                    let q = skin.eval(
+                        us[i] + fu * (us[i + 1] - us[i]),
+                        vs[j] + fv * (vs[j + 1] - vs[j]),
+                    );
+                    worst = worst.max(dist_to_cell(&q, corners));
+                }
+            }
+        }
     }
+    worst
 }
 
 /// Tessellates the skin into a closed, outward-oriented triangle mesh.
@@ -397,13 +433,10 @@ pub fn mesh_from_grid(
                 mesh.vertices[c as usize],
                 mesh.vertices[d as usize],
             );
-            let (t1, t2) = if (pa - pc).norm_squared() <= (pb - pd).norm_squared() {
-                ([a, b, c], [a, c, d])
-            } else {
-                ([a, b, d], [b, c, d])
-            };
-            push(&mut mesh, t1);
-            push(&mut mesh, t2);
+            let q = [a, b, c, d];
+            for t in cell_split(&pa, &pb, &pc, &pd) {
+                push(&mut mesh, [q[t[0]], q[t[1]], q[t[2]]]);
+            }
         }
     }
     // Caps: the boundary loop of row j, without the aliased duplicate.
