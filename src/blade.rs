@@ -164,6 +164,16 @@ impl Blade {
         if face < 0.0 {
             return Err(RootError::BehindAxis(face).into());
         }
+        let mut root = root;
+        let first = self.radii[0];
+        let centre = self.place(
+            &[Point2::origin()],
+            first,
+            self.twist.eval(first),
+            self.sweep.eval(first),
+            self.prebend.eval(first),
+        )[0];
+        root.centre = Some([centre.x, centre.y]);
         self.root = Some(root);
         let (shank, air) = (self.shank_outline(), self.airfoil_outline(self.radii[0]));
         let travel = shank
@@ -291,6 +301,9 @@ impl Blade {
         let air = self.airfoil_outline(self.radii[0]);
         let gap = (air[0] - air[air.len() - 1]).norm();
         let (d, t) = (root.shank_diameter, root.thickness());
+        let flat = root
+            .flat_depth
+            .map_or(f64::INFINITY, |depth| 0.5 * t - depth);
         let m = 2 * n - 1;
         (0..m)
             .map(|k| {
@@ -300,14 +313,92 @@ impl Blade {
                     (k - (n - 1), -1.0)
                 };
                 let x = xs[i];
-                let y = if i == n - 1 {
+                let mut y = if i == n - 1 {
                     0.5 * gap
                 } else {
                     t * (x * (1.0 - x)).max(0.0).sqrt()
                 };
+                if sign < 0.0 {
+                    // The flat against rotation clips the lower (pressure) side.
+                    y = y.min(flat);
+                }
                 Point2::new((x - 0.5) * d, sign * y)
             })
             .collect()
+    }
+
+    /// Transition outline at parameter `s` (0 at the shank end, 1 at the first station),
+    /// physical coordinates.
+    ///
+    /// The outline is a width `w(s)` times a normalised shape (outline divided by its
+    /// width: shank diameter or chord), plus the Hermite slope term that continues the
+    /// blade's spanwise slope. With the Hermite weight `H(s) = 3s² - 2s³` (zero slope at
+    /// both ends):
+    /// * the width is blended geometrically, `w = d^(1-H) c^H`;
+    /// * the normalised shape is blended linearly, `(1-g) N_shank + g N_airfoil`, with `g`
+    ///   chosen so its area is the geometric mean `Â_shank^(1-H) Â_airfoil^H`.
+    ///
+    /// The section area `w² Â` then follows `A_shank^(1-H) A_airfoil^H`, monotone in `s`
+    /// by construction (no waist and no bulge), up to the slope term (checked in
+    /// [`Blade::with_root`]). Position and spanwise slope match the shank (zero slope) and
+    /// the first station (the blade's own slope) at the ends. The trailing-edge points are
+    /// held the first station's trailing-edge gap apart (Hermite in the gap), so a blunt
+    /// trailing edge keeps its printable thickness all along the transition.
+    fn transition_outline(&self, s: f64) -> Vec<Point2<f64>> {
+        let first = self.radii[0];
+        let Some(root) = self.root.as_ref() else {
+            return self.airfoil_outline(first);
+        };
+        let l = root.transition_length;
+        let (hw, h11) = (3.0 * s * s - 2.0 * s * s * s, s * s * s - s * s);
+        let shank = self.shank_outline();
+        let air = self.airfoil_outline(first);
+        let slope = self.airfoil_outline_slope(first, 1.0);
+        let (d, c) = (root.shank_diameter, self.chord.eval(first));
+        let n0: Vec<Point2<f64>> = shank.iter().map(|p| p / d).collect();
+        let n1: Vec<Point2<f64>> = air.iter().map(|p| p / c).collect();
+        let mid: Vec<Point2<f64>> = n0
+            .iter()
+            .zip(&n1)
+            .map(|(a, b)| Point2::from((a.coords + b.coords) * 0.5))
+            .collect();
+        let (a0, a1) = (polygon_area(&n0), polygon_area(&n1));
+        // Area of the linear blend is quadratic in g (polarisation of the shoelace form).
+        let mixed = 2.0 * polygon_area(&mid) - 0.5 * (a0 + a1);
+        let q = |g: f64| (1.0 - g) * (1.0 - g) * a0 + 2.0 * g * (1.0 - g) * mixed + g * g * a1;
+        let target = a0.powf(1.0 - hw) * a1.powf(hw);
+        let (mut lo, mut hi) = (0.0f64, 1.0f64);
+        let falling = a1 < a0;
+        for _ in 0..64 {
+            let g = 0.5 * (lo + hi);
+            if (q(g) > target) == falling {
+                lo = g;
+            } else {
+                hi = g;
+            }
+        }
+        let g = if hw <= 0.0 {
+            0.0
+        } else if hw >= 1.0 {
+            1.0
+        } else {
+            0.5 * (lo + hi)
+        };
+        let w = d.powf(1.0 - hw) * c.powf(hw);
+        let mut pts: Vec<Point2<f64>> = (0..n0.len())
+            .map(|k| {
+                Point2::from(
+                    (n0[k].coords * (1.0 - g) + n1[k].coords * g) * w + slope[k] * (h11 * l),
+                )
+            })
+            .collect();
+        let last = pts.len() - 1;
+        let gap = air[0].y - air[last].y;
+        let half = (0.5 * (gap + h11 * l * (slope[0].y - slope[last].y))).max(0.0);
+        let centre = 0.5 * (pts[0].y + pts[last].y);
+        pts[0].y = centre + half;
+        pts[last].y = centre - half;
+        pts
     }
 
     /// Physical outline, twist (degrees), sweep and prebend (mm) at radius `r`.
@@ -328,25 +419,10 @@ impl Blade {
                 self.prebend.eval(first),
             ),
             Region::Transition => {
-                // Cubic Hermite from the shank (zero slope) to the first station (its
-                // slope): continuous position and slope at both ends.
                 let l = self.root.as_ref().map_or(1.0, |s| s.transition_length);
                 let s = ((r - (first - l)) / l).clamp(0.0, 1.0);
-                let (h00, h01, h11) = (
-                    2.0 * s * s * s - 3.0 * s * s + 1.0,
-                    -2.0 * s * s * s + 3.0 * s * s,
-                    s * s * s - s * s,
-                );
-                let shank = self.shank_outline();
-                let air = self.airfoil_outline(first);
-                let slope = self.airfoil_outline_slope(first, 1.0);
-                let pts = (0..air.len())
-                    .map(|k| {
-                        Point2::from(
-                            shank[k].coords * h00 + air[k].coords * h01 + slope[k] * (h11 * l),
-                        )
-                    })
-                    .collect();
+                let h11 = s * s * s - s * s;
+                let pts = self.transition_outline(s);
                 let h = 1e-5 * (last - first);
                 let cont = |f: &Monotone| f.eval(first) + h11 * l * Self::slope(f, first, h);
                 (

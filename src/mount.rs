@@ -42,7 +42,11 @@ pub fn add_mount_features(
         lo = lo.inf(p);
         hi = hi.sup(p);
     }
-    let c = Point3::new(0.5 * (lo.x + hi.x), 0.5 * (lo.y + hi.y), 0.0);
+    // The blade records the exact centre (a flat moves the box's middle).
+    let c = match root.centre {
+        Some([x, y]) => Point3::new(x, y, 0.0),
+        None => Point3::new(0.5 * (lo.x + hi.x), 0.5 * (lo.y + hi.y), 0.0),
+    };
     let dirs: Vec<(Vector3<f64>, f64)> = pts
         .iter()
         .map(|p| {

@@ -53,10 +53,18 @@ pub struct RootSpec {
     /// common practice).
     #[serde(default = "default_min_wall")]
     pub min_wall: f64,
+    /// Depth of an optional flat on the shank's lower (pressure) side, against rotation
+    /// in the hub, mm. It runs along the straight shank and fades out through the
+    /// transition.
+    pub flat_depth: Option<f64>,
     /// Optional flange plate at the root face.
     pub flange: Option<FlangeSpec>,
     /// Optional coaxial blind bore from the root face.
     pub bore: Option<BoreSpec>,
+    /// Shank centre in the blade frame (x, y), mm: set by
+    /// [`crate::blade::Blade::with_root`] for the mount features.
+    #[serde(skip)]
+    pub(crate) centre: Option<[f64; 2]>,
 }
 
 fn default_min_wall() -> f64 {
@@ -160,6 +168,14 @@ pub enum RootError {
         /// How to fix it.
         fix: &'static str,
     },
+    /// The flat takes away too much of the shank.
+    #[error("root.flat-depth = {depth:.2} mm is too deep: at most {most:.2} mm (a quarter of the shank thickness) keeps the shank round enough to carry its load; make the flat shallower")]
+    FlatTooDeep {
+        /// Depth given, mm.
+        depth: f64,
+        /// Deepest flat allowed, mm.
+        most: f64,
+    },
     /// The flange and its fillet do not leave any straight shank.
     #[error("root.flange.thickness + root.flange.fillet = {height:.2} mm must be less than root.shank-length = {shank:.2} mm; lengthen the shank or thin the flange")]
     FlangeTooLong {
@@ -186,6 +202,7 @@ impl RootSpec {
         self.shank_length *= k;
         self.transition_length *= k;
         self.min_wall *= k;
+        self.flat_depth = self.flat_depth.map(|t| t * k);
         if let Some(f) = &mut self.flange {
             f.diameter *= k;
             f.thickness *= k;
@@ -224,6 +241,19 @@ impl RootSpec {
             });
         }
         let small = self.shank_diameter.min(self.thickness());
+        // Radial room on the flat side: half the thickness less the flat's depth.
+        let mut half_small = 0.5 * small;
+        if let Some(depth) = self.flat_depth {
+            positive("flat-depth", depth)?;
+            let left = 0.5 * self.thickness() - depth;
+            if left < 0.25 * self.thickness() {
+                return Err(RootError::FlatTooDeep {
+                    depth,
+                    most: 0.25 * self.thickness(),
+                });
+            }
+            half_small = half_small.min(left);
+        }
         if let Some(f) = &self.flange {
             positive("flange.diameter", f.diameter)?;
             positive("flange.thickness", f.thickness)?;
@@ -256,13 +286,13 @@ impl RootSpec {
                     value: b.point_angle,
                 });
             }
-            let wall = 0.5 * (small - b.diameter);
+            let wall = half_small - 0.5 * b.diameter;
             if wall < self.min_wall {
                 return Err(RootError::ThinWall {
                     what: "root.bore.diameter",
                     wall,
                     min: self.min_wall,
-                    fix: "use a smaller bore or a larger shank",
+                    fix: "use a smaller bore, a shallower flat or a larger shank",
                 });
             }
             let wall_end = self.shank_length - (b.depth + self.bore_point_depth());
@@ -288,4 +318,53 @@ impl RootSpec {
             }
         })
     }
+}
+
+impl RootSpec {
+    /// The mounting features that exist only in the mesh (STL, 3MF, OBJ), not in the STEP
+    /// solid, which carries the skin (shank, flat, transition, blade) alone: `"flange"`
+    /// (the STEP skin then starts at the top of the flange's fillet) and `"bore"`.
+    /// Empty when the STEP solid is complete. The build command prints these.
+    pub fn mesh_only_features(&self) -> Vec<&'static str> {
+        let mut out = Vec::new();
+        if self.flange.is_some() {
+            out.push("flange");
+        }
+        if self.bore.is_some() {
+            out.push("bore");
+        }
+        out
+    }
+}
+
+/// SVG picture of the section outlines seen from the tip (along the span): the root
+/// face, `n` sections along the transition (at least 2: its two ends) and every
+/// station, drawn at one scale with [`crate::report::stack_svg`] (root blue to tip
+/// grey). Without a root it shows the stations alone.
+pub fn transition_svg(blade: &crate::blade::Blade, n: usize) -> String {
+    use crate::props::Slice;
+    let mut radii = vec![blade.root_face()];
+    if let Some(root) = blade.root() {
+        let (a, b) = (
+            blade.root_radius() - root.transition_length,
+            blade.root_radius(),
+        );
+        let k = n.max(2) - 1;
+        radii.extend((0..=k).map(|i| a + (b - a) * i as f64 / k as f64));
+    }
+    radii.extend(blade.station_radii().iter().copied());
+    radii.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
+    let slices: Vec<Slice> = radii
+        .iter()
+        .map(|&r| Slice {
+            radius: r,
+            loops: vec![blade
+                .ring(r)
+                .points
+                .iter()
+                .map(|p| nalgebra::Point2::new(p.x, p.y))
+                .collect()],
+        })
+        .collect();
+    crate::report::stack_svg("root transition", &slices, true)
 }
