@@ -259,3 +259,30 @@ pub fn build(design: &Design, opts: &BuildOptions) -> Result<Model, PipelineErro
 pub fn build_parts(design: &Design) -> Result<Vec<Part>, PipelineError> {
     Ok(vec![build(design, &BuildOptions::default())?.part()])
 }
+
+/// Builds the blade and assembles the rotor of the design's `[rotor]` table (blades
+/// pitched, coned and spaced about the rotor axis, plus the `[rotor.hub]` body when
+/// given). A design without a `[rotor]` table is an error naming the table.
+pub fn build_rotor(
+    design: &Design,
+    opts: &BuildOptions,
+) -> Result<crate::rotor::Rotor, PipelineError> {
+    let Some(spec) = crate::rotor::RotorSpec::from_design(design)? else {
+        return Err(DesignError::one(design.problem(
+            "rotor",
+            "no [rotor] table: add one with `blades` and `hub-radius` (mm) to assemble a rotor",
+        ))
+        .into());
+    };
+    let model = build(design, opts)?;
+    let mut blade_opts = design.blade.clone();
+    blade_opts.tolerance = opts.tolerance.unwrap_or(blade_opts.tolerance);
+    Ok(crate::rotor::assemble(
+        &model.name,
+        &model.part(),
+        &spec,
+        &blade_opts,
+        model.blade.root_face(),
+        design,
+    )?)
+}

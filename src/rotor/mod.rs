@@ -5,8 +5,11 @@
 //! [`DraftTable`] of stations, with the ideal power coefficient and graded [`Remark`]s.
 //! The formulas live in [`optimum`]; [`bem`] estimates the power of the blade as written.
 
+mod assembly;
 pub mod bem;
 mod draft;
+mod hand;
+mod hub;
 mod line;
 pub mod optimum;
 mod remark;
@@ -16,6 +19,11 @@ pub use draft::{
     draft, rotor_rpm, station_radii, DraftError, DraftStation, DraftTable, CL_HIGH, CSV_HEADER,
     LINE_SAMPLES, TIP_SPEED_CAUTION, TSR_SMALL_TURBINE, TSR_USUAL, TWIST_LIMIT,
 };
+pub use assembly::{assemble, blade_transform, place_blades, Rotor, RotorSpec, MAX_BLADES};
+pub use hand::{
+    check_hand, hand_description, hand_radii, HandOptions, HandReport, Side, StationHand,
+};
+pub use hub::{circle_sides, Hub, HubSpec};
 pub use line::Line;
 pub use remark::{index_list, Grade, Remark};
 pub use spec::{

@@ -1,0 +1,375 @@
+//! Rotation sense and flow side, checked on the finished mesh.
+//!
+//! The check reads the geometry only, never the design's flags, so a blade built or
+//! mirrored the wrong way is caught. At each radius the blade mesh is cut by the plane
+//! across its span (in the blade's own frame, undoing the assembly's rigid transform);
+//! in the cut:
+//!
+//! * the **chord** joins the two cut points farthest apart;
+//! * the **leading edge** is the chord end nearer the section's greatest thickness
+//!   (airfoils are thickest ahead of mid-chord: NACA 4-digit sections at 30 % chord,
+//!   Abbott and von Doenhoff, *Theory of Wing Sections*, 1959, section 6.4);
+//! * the **camber** is the mean of the mid-points between upper and lower surface along
+//!   the chord, measured from the chord line; the side it bulges toward is the suction
+//!   side (positive camber lifts toward the convex side).
+//!
+//! The leading edge must point along the blade's motion (`omega x r`, omega along -y for
+//! a counter-clockwise rotor seen from upstream, +y for clockwise), and the suction side
+//! must face downstream (+y) for a turbine (pressure side to the wind) or upstream for a
+//! propeller or fan. Symmetric sections have no camber; their flow side is reported as
+//! undetermined rather than passed or failed.
+
+use super::assembly::RotorSpec;
+use crate::design::{Design, Flow, Rotation};
+use crate::mesh::TriMesh;
+use nalgebra::{Matrix4, Point2, Point3, Vector2, Vector3};
+use std::fmt;
+
+/// Tolerances of [`check_hand`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct HandOptions {
+    /// The leading edge leads when the cosine between its direction and the motion
+    /// exceeds this. Default `0.0` (any angle under 90 degrees).
+    pub min_lead: f64,
+    /// Mean camber (fraction of chord) below which the flow side is undetermined.
+    /// Default `0.005`.
+    pub min_camber: f64,
+}
+
+impl HandOptions {
+    /// The defaults (see the fields).
+    pub const DEFAULT: HandOptions = HandOptions {
+        min_lead: 0.0,
+        min_camber: 0.005,
+    };
+}
+
+impl Default for HandOptions {
+    fn default() -> Self {
+        Self::DEFAULT
+    }
+}
+
+/// The flow side found at one station.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Side {
+    /// The pressure side faces the way the mode needs.
+    Right,
+    /// The pressure side faces the wrong way.
+    Wrong,
+    /// The section is (nearly) symmetric or edge-on to the flow: no side to tell.
+    Undetermined,
+}
+
+/// What the cut at one radius shows.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StationHand {
+    /// Radius along the blade's span, mm.
+    pub radius: f64,
+    /// Chord measured on the cut, mm (0 when the plane misses the blade).
+    pub chord: f64,
+    /// Cosine between the leading-edge direction and the motion (1 = leads squarely).
+    pub lead: f64,
+    /// Mean camber toward downstream, fraction of chord (positive: suction side
+    /// downstream).
+    pub camber_downstream: f64,
+    /// The flow side.
+    pub side: Side,
+}
+
+/// The graded result of [`check_hand`]: every station, and the indices (into
+/// [`HandReport::stations`]) that fail.
+#[derive(Debug, Clone, PartialEq)]
+pub struct HandReport {
+    /// Rotation sense checked against.
+    pub rotation: Rotation,
+    /// Flow mode checked against.
+    pub flow: Flow,
+    /// One entry per radius asked for.
+    pub stations: Vec<StationHand>,
+    /// Stations whose leading edge trails.
+    pub trailing: Vec<usize>,
+    /// Stations whose pressure side faces the wrong way.
+    pub wrong_side: Vec<usize>,
+    /// Stations whose flow side could not be told (symmetric sections).
+    pub undetermined: Vec<usize>,
+    /// Radii where the plane missed the blade.
+    pub missed: Vec<usize>,
+}
+
+impl HandReport {
+    /// True when no station trails, faces the wrong way or was missed.
+    pub fn is_ok(&self) -> bool {
+        self.trailing.is_empty() && self.wrong_side.is_empty() && self.missed.is_empty()
+    }
+}
+
+fn radii_list(stations: &[StationHand], idx: &[usize]) -> String {
+    idx.iter()
+        .map(|&i| format!("#{i} (r = {:.1} mm)", stations[i].radius))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+impl fmt::Display for HandReport {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let n = self.stations.len();
+        if self.is_ok() {
+            write!(
+                f,
+                "rotation sense and flow side: ok at {} of {n} stations",
+                n - self.undetermined.len()
+            )?;
+        } else {
+            write!(f, "rotation sense and flow side: FAILED")?;
+        }
+        if !self.trailing.is_empty() {
+            write!(
+                f,
+                "\n  leading edge trails the motion at {}: the blade is mirrored for this rotation sense; check [blade] rotation",
+                radii_list(&self.stations, &self.trailing)
+            )?;
+        }
+        if !self.wrong_side.is_empty() {
+            let want = match self.flow {
+                Flow::Turbine => "upstream (turbine)",
+                Flow::Propeller => "downstream (propeller or fan)",
+            };
+            write!(
+                f,
+                "\n  pressure side does not face {want} at {}: check [blade] flow",
+                radii_list(&self.stations, &self.wrong_side)
+            )?;
+        }
+        if !self.missed.is_empty() {
+            write!(
+                f,
+                "\n  no section cut at {}",
+                radii_list(&self.stations, &self.missed)
+            )?;
+        }
+        if !self.undetermined.is_empty() {
+            write!(
+                f,
+                "\n  note: symmetric section, flow side not told at {}",
+                radii_list(&self.stations, &self.undetermined)
+            )?;
+        }
+        Ok(())
+    }
+}
+
+/// Radii to check on a blade: the design's stations strictly inside the span and the
+/// midpoints between neighbouring stations, mm.
+pub fn hand_radii(stations: &[f64]) -> Vec<f64> {
+    let mut out = Vec::new();
+    for (i, w) in stations.windows(2).enumerate() {
+        if i > 0 {
+            out.push(w[0]);
+        }
+        out.push(0.5 * (w[0] + w[1]));
+    }
+    out
+}
+
+/// Segments of the cut of `mesh` by the plane z = `r` (vertices on the plane count as
+/// above it, so every crossing is found once), as (x, y) pairs.
+fn cut(mesh: &TriMesh, r: f64) -> Vec<(Point2<f64>, Point2<f64>)> {
+    let mut out = Vec::new();
+    for t in 0..mesh.len() {
+        let c = mesh.corners(t);
+        let mut pts = Vec::with_capacity(2);
+        for k in 0..3 {
+            let (a, b) = (c[k], c[(k + 1) % 3]);
+            if (a.z >= r) != (b.z >= r) {
+                let s = (r - a.z) / (b.z - a.z);
+                let p = a + (b - a) * s;
+                pts.push(Point2::new(p.x, p.y));
+            }
+        }
+        if pts.len() == 2 {
+            out.push((pts[0], pts[1]));
+        }
+    }
+    out
+}
+
+/// Checks, on `mesh` placed by the rigid transform `frame` (blade frame to rotor
+/// coordinates; the identity for a blade on its own), that at every radius in `radii`
+/// (mm along the span) the leading edge leads for `rotation` and the pressure side
+/// faces the right way for `flow`.
+pub fn check_hand(
+    mesh: &TriMesh,
+    frame: &Matrix4<f64>,
+    radii: &[f64],
+    rotation: Rotation,
+    flow: Flow,
+    opts: &HandOptions,
+) -> HandReport {
+    let inv = frame.try_inverse().unwrap_or_else(Matrix4::identity);
+    let local = mesh.transformed(&inv);
+    let omega = match rotation {
+        Rotation::Ccw => -Vector3::y(),
+        Rotation::Cw => Vector3::y(),
+    };
+    let omega = inv.transform_vector(&omega);
+    let axis_point = inv.transform_point(&Point3::origin());
+    let flow_dir = inv.transform_vector(&Vector3::y());
+    let flow2 = Vector2::new(flow_dir.x, flow_dir.y);
+    let mut report = HandReport {
+        rotation,
+        flow,
+        stations: Vec::new(),
+        trailing: Vec::new(),
+        wrong_side: Vec::new(),
+        undetermined: Vec::new(),
+        missed: Vec::new(),
+    };
+    for (i, &r) in radii.iter().enumerate() {
+        let segs = cut(&local, r);
+        let Some(st) = station(&segs, r, &omega, &axis_point, &flow2, flow, opts) else {
+            report.stations.push(StationHand {
+                radius: r,
+                chord: 0.0,
+                lead: 0.0,
+                camber_downstream: 0.0,
+                side: Side::Undetermined,
+            });
+            report.missed.push(i);
+            continue;
+        };
+        if st.lead <= opts.min_lead {
+            report.trailing.push(i);
+        }
+        match st.side {
+            Side::Wrong => report.wrong_side.push(i),
+            Side::Undetermined => report.undetermined.push(i),
+            Side::Right => {}
+        }
+        report.stations.push(st);
+    }
+    report
+}
+
+fn station(
+    segs: &[(Point2<f64>, Point2<f64>)],
+    r: f64,
+    omega: &Vector3<f64>,
+    axis_point: &Point3<f64>,
+    flow2: &Vector2<f64>,
+    flow: Flow,
+    opts: &HandOptions,
+) -> Option<StationHand> {
+    if segs.len() < 3 {
+        return None;
+    }
+    let pts: Vec<Point2<f64>> = segs.iter().flat_map(|s| [s.0, s.1]).collect();
+    let (mut best, mut a, mut b) = (0.0, pts[0], pts[0]);
+    for (i, p) in pts.iter().enumerate() {
+        for q in &pts[i + 1..] {
+            let d = (p - q).norm_squared();
+            if d > best {
+                (best, a, b) = (d, *p, *q);
+            }
+        }
+    }
+    let chord = best.sqrt();
+    if chord <= 0.0 {
+        return None;
+    }
+    let e = (b - a) / chord;
+    let nrm = Vector2::new(-e.y, e.x);
+    // Thickness and mid-line across the chord at 5 % steps.
+    let (mut thickest, mut s_thick, mut mean_sum, mut mean_n) = (0.0, 0.5, 0.0, 0);
+    for k in 1..20 {
+        let s = chord * k as f64 / 20.0;
+        let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
+        for (p, q) in segs {
+            let (sp, sq) = ((p - a).dot(&e), (q - a).dot(&e));
+            if (sp - s) * (sq - s) < 0.0 || (sp == s && sq != s) {
+                let w = (s - sp) / (sq - sp);
+                let t = (p + (q - p) * w - a).dot(&nrm);
+                lo = lo.min(t);
+                hi = hi.max(t);
+            }
+        }
+        if hi > lo {
+            if hi - lo > thickest {
+                thickest = hi - lo;
+                s_thick = k as f64 / 20.0;
+            }
+            mean_sum += 0.5 * (hi + lo);
+            mean_n += 1;
+        }
+    }
+    let (le, te) = if s_thick <= 0.5 { (a, b) } else { (b, a) };
+    let centre = Point3::new(0.5 * (a.x + b.x), 0.5 * (a.y + b.y), r);
+    let v = omega.cross(&(centre - axis_point));
+    let v2 = Vector2::new(v.x, v.y);
+    let lead = if v2.norm() > 0.0 {
+        (le - te).normalize().dot(&v2.normalize())
+    } else {
+        0.0
+    };
+    let camber = if mean_n > 0 {
+        mean_sum / mean_n as f64 / chord
+    } else {
+        0.0
+    };
+    let across = if flow2.norm() > 0.0 {
+        nrm.dot(&flow2.normalize())
+    } else {
+        0.0
+    };
+    let camber_downstream = camber * across;
+    let side = if camber.abs() < opts.min_camber || across.abs() < 0.1 {
+        Side::Undetermined
+    } else {
+        let suction_downstream = camber_downstream > 0.0;
+        let wanted = matches!(flow, Flow::Turbine);
+        if suction_downstream == wanted {
+            Side::Right
+        } else {
+            Side::Wrong
+        }
+    };
+    Some(StationHand {
+        radius: r,
+        chord,
+        lead,
+        camber_downstream,
+        side,
+    })
+}
+
+/// Words for the user on how the rotor turns and which way its blades face, e.g.
+/// "3 blades, 120 degrees apart; turns counter-clockwise seen from upstream (from the
+/// side the wind comes from); leading edges lead; pressure sides face the wind".
+pub fn hand_description(spec: &RotorSpec, design: &Design) -> String {
+    let sense = match design.blade.rotation {
+        Rotation::Ccw => "counter-clockwise",
+        Rotation::Cw => "clockwise",
+    };
+    let (from, sides) = match design.blade.flow {
+        Flow::Turbine => (
+            "from the side the wind comes from",
+            "pressure sides face the wind, suction sides face downwind",
+        ),
+        Flow::Propeller => (
+            "from the side the air is drawn from",
+            "suction sides face upstream, pressure sides push the air downstream",
+        ),
+    };
+    let spacing = 360.0 / f64::from(spec.blades.max(1));
+    let blades = if spec.blades == 1 {
+        "1 blade".to_string()
+    } else {
+        let spacing = if spacing.fract() == 0.0 {
+            format!("{spacing:.0}")
+        } else {
+            format!("{spacing:.2}")
+        };
+        format!("{} blades, {spacing} degrees apart", spec.blades)
+    };
+    format!("{blades}; turns {sense} seen from upstream ({from}); leading edges lead; {sides}")
+}
