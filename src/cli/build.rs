@@ -5,7 +5,8 @@ use anyhow::Context as _;
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::{self, Design};
 use spanwright::export::{self, Format};
-use spanwright::pipeline::{self, BuildOptions, Model};
+use spanwright::pipeline::{self, BuildOptions, Model, TeChange};
+use spanwright::tessellate::max_deviation;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 use std::time::Instant;
@@ -83,13 +84,16 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         .with_context(|| format!("cannot create the output folder {}", args.out.display()))?;
     let mut written = Vec::new();
     for format in &formats {
-        let path = args
-            .out
-            .join(format!("{}.{}", model.name, format.extension()));
+        let stem = match format {
+            Format::StlAscii => format!("{}-ascii", model.name),
+            _ => model.name.clone(),
+        };
+        let path = args.out.join(format!("{stem}.{}", format.extension()));
         write_format(&model, *format, &path)?;
         written.push(path);
     }
-    let summary = Summary::of(&model, &written, started.elapsed().as_secs_f64());
+    let tolerance = args.tolerance.unwrap_or(design.blade.tolerance);
+    let summary = Summary::of(&model, tolerance, &written, started.elapsed().as_secs_f64());
     if args.json {
         println!("{}", serde_json::to_string_pretty(&summary)?);
     } else if !ctx.quiet {
@@ -122,6 +126,9 @@ struct Summary {
     triangles: usize,
     vertices: usize,
     volume_mm3: f64,
+    tolerance_mm: f64,
+    measured_deviation_mm: f64,
+    trailing_edges_opened: Vec<TeChange>,
     area_mm2: f64,
     bounding_box_mm: [[f64; 3]; 2],
     files: Vec<String>,
@@ -129,7 +136,7 @@ struct Summary {
 }
 
 impl Summary {
-    fn of(model: &Model, files: &[PathBuf], seconds: f64) -> Summary {
+    fn of(model: &Model, tolerance: f64, files: &[PathBuf], seconds: f64) -> Summary {
         let mesh = model.mesh();
         let bb = mesh.bounding_box().expect("a built blade has vertices");
         Summary {
@@ -139,6 +146,14 @@ impl Summary {
             triangles: mesh.len(),
             vertices: mesh.vertices.len(),
             volume_mm3: mesh.signed_volume(),
+            tolerance_mm: tolerance,
+            measured_deviation_mm: max_deviation(
+                &model.skin,
+                &model.tessellation.us,
+                &model.tessellation.vs,
+                2,
+            ),
+            trailing_edges_opened: model.te_changes.clone(),
             area_mm2: mesh.area(),
             bounding_box_mm: [bb.min.into(), bb.max.into()],
             files: files.iter().map(|p| p.display().to_string()).collect(),
@@ -157,11 +172,31 @@ impl Summary {
             self.triangles, self.vertices
         );
         println!(
+            "  deviation from the exact surface: {:.4} mm measured (tolerance {} mm)",
+            self.measured_deviation_mm, self.tolerance_mm
+        );
+        println!(
             "  volume {:.1} mm³ ({:.2} cm³), surface {:.1} mm²",
             self.volume_mm3,
             self.volume_mm3 / 1000.0,
             self.area_mm2
         );
+        let opened = &self.trailing_edges_opened;
+        if !opened.is_empty() {
+            let fold = |f: fn(&TeChange) -> f64, pick: fn(f64, f64) -> f64, start: f64| {
+                opened.iter().map(f).fold(start, pick)
+            };
+            println!(
+                "  trailing edge opened for printing at {} of {} stations: {:.3}..{:.3} mm -> {:.3} mm (section area +{:.2}..{:.2} mm²)",
+                opened.len(),
+                self.stations,
+                fold(|t| t.before, f64::min, f64::INFINITY),
+                fold(|t| t.before, f64::max, 0.0),
+                fold(|t| t.after, f64::max, 0.0),
+                fold(|t| t.added_area, f64::min, f64::INFINITY),
+                fold(|t| t.added_area, f64::max, 0.0),
+            );
+        }
         println!(
             "  box x {:.1}..{:.1}, y {:.1}..{:.1}, z {:.1}..{:.1} mm",
             lo[0], hi[0], lo[1], hi[1], lo[2], hi[2]
