@@ -24,6 +24,17 @@
 //! orientation has a ratio below the reported best minus `L eps / s`. The guarantee is
 //! stated in the report in millimetres ([`Fit::guarantee`]).
 //!
+//! Besides the cells, the part's own axes and the normals of its large flat faces on
+//! the hull are tried as down directions, so parts that fit only just, face down, are
+//! found whatever the resolution.
+//!
+//! # Preference
+//! Once a fit exists, the placement printed is chosen among fitting down directions (300
+//! spread over the sphere, the flat faces, the search's best, each refined by a small
+//! pattern search) by [`score`]: low height first, then a flat face on the bed, then
+//! room to spare. Each direction's yaw maximises the room to spare (smallest largest
+//! extent-to-space ratio); the part is centred on the bed.
+//!
 //! # Exactness
 //! The search runs on a subset of the convex hull's vertices (extremes along many
 //! directions, [`super::hull::support_subset`]): extents on a subset are never larger than
