@@ -222,7 +222,8 @@ impl Hub {
             let start = pts.len();
             for i in 0..n {
                 let a = TAU * i as f64 / n as f64;
-                pts.push(Point2::new(c.x + r * a.cos(), c.y + r * a.sin()));
+                // From +z (w) toward +x (u): the mirror x -> -x maps the set onto itself.
+                pts.push(Point2::new(c.x + r * a.sin(), c.y + r * a.cos()));
             }
             ranges.push(start..pts.len());
         }

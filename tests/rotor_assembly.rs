@@ -1,0 +1,493 @@
+//! Rotor assembly, rotation sense and flow side, and the hub body, against elementary
+//! geometry and the conventions of `spanwright::conventions`.
+
+use nalgebra::{Matrix4, Point3, Vector3};
+use spanwright::check::{check_solid, CheckOptions};
+use spanwright::design::{parse_toml_str, Design, Flow, Rotation};
+use spanwright::mesh::TriMesh;
+use spanwright::pipeline::{build, build_rotor, BuildOptions};
+use spanwright::rotor::{check_hand, hand_description, hand_radii, HandOptions, RotorSpec, Side};
+use std::f64::consts::PI;
+
+/// A small invented demo blade (not a real design), cheap to build in a debug test.
+fn design(rotation: &str, flow: &str, section: &str, twist: (f64, f64), rotor: &str) -> Design {
+    let text = format!(
+        r#"
+        name = "demo"
+        [blade]
+        section = "{section}"
+        flow = "{flow}"
+        rotation = "{rotation}"
+        points-per-side = 40
+        tolerance = 0.05
+        [[station]]
+        radius = 40
+        chord = 30
+        twist = {t0}
+        [[station]]
+        radius = 80
+        chord = 24
+        twist = {tm}
+        [[station]]
+        radius = 120
+        chord = 16
+        twist = {t1}
+        [rotor]
+        {rotor}
+        "#,
+        t0 = twist.0,
+        tm = 0.5 * (twist.0 + twist.1),
+        t1 = twist.1,
+    );
+    parse_toml_str(&text, None).expect("valid demo design")
+}
+
+const ROTOR: &str = r#"
+        blades = 3
+        hub-radius = 30
+        pitch = 4
+        cone = 5
+        azimuth-offset = 10
+        [rotor.hub]
+        thickness = 12
+        bore = 8
+        bolt-count = 3
+        bolt-diameter = 4
+        bolt-circle = 30
+"#;
+
+/// Vertices sorted lexicographically, to compare meshes whose vertex order may differ.
+/// The sort key is rounded to 1e-6 mm so that rounding noise (1e-15) in one coordinate
+/// does not reorder points; the values compared are the exact ones.
+fn sorted(vs: impl Iterator<Item = Point3<f64>>) -> Vec<[f64; 3]> {
+    let mut v: Vec<[f64; 3]> = vs.map(|p| [p.x, p.y, p.z]).collect();
+    let key = |p: &[f64; 3]| p.map(|c| (c * 1e6).round() as i64);
+    v.sort_by_key(key);
+    v
+}
+
+/// Volume centroid of a closed mesh: signed tetrahedra from the origin, each weighted
+/// by its volume, centroid (0 + a + b + c) / 4 (divergence theorem, elementary).
+fn centroid(m: &TriMesh) -> Point3<f64> {
+    let (mut v, mut c) = (0.0, Vector3::zeros());
+    for t in 0..m.len() {
+        let [a, b, cc] = m.corners(t);
+        let dv = a.coords.dot(&b.coords.cross(&cc.coords)) / 6.0;
+        v += dv;
+        c += (a.coords + b.coords + cc.coords) * (dv / 4.0);
+    }
+    Point3::from(c / v)
+}
+
+#[test]
+fn clockwise_rotor_is_the_mirror_of_the_counter_clockwise_one() {
+    // Conventions: a clockwise rotor is the mirror image (x -> -x) of the
+    // counter-clockwise one; pitch, cone and azimuth are defined so that this holds
+    // blade by blade (a mirror conjugates a rotation about y or z into its inverse and
+    // leaves a rotation about x unchanged: elementary linear algebra).
+    let ccw = build_rotor(
+        &design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR),
+        &BuildOptions::default(),
+    )
+    .expect("ccw rotor");
+    let cw = build_rotor(
+        &design("cw", "turbine", "naca4412", (20.0, 5.0), ROTOR),
+        &BuildOptions::default(),
+    )
+    .expect("cw rotor");
+    let (a, b) = (ccw.parts(), cw.parts());
+    assert_eq!(a.len(), 4);
+    assert_eq!(b.len(), 4);
+    for (pa, pb) in a.iter().zip(&b) {
+        let mirrored = sorted(pa.mesh.vertices.iter().map(|p| Point3::new(-p.x, p.y, p.z)));
+        let other = sorted(pb.mesh.vertices.iter().copied());
+        assert_eq!(mirrored.len(), other.len(), "{}", pa.name);
+        let worst = mirrored
+            .iter()
+            .zip(&other)
+            .map(|(p, q)| (0..3).map(|i| (p[i] - q[i]).abs()).fold(0.0, f64::max))
+            .fold(0.0, f64::max);
+        assert!(worst < 1e-9, "{}: vertices differ by {worst} mm", pa.name);
+        assert_eq!(pa.mesh.triangles.len(), pb.mesh.triangles.len());
+    }
+}
+
+#[test]
+fn assembled_volume_is_blades_times_blade_volume_plus_hub() {
+    // Rigid motions preserve volume (elementary), and the envelope appends separate
+    // bodies, so V = B V_blade + V_hub.
+    let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
+    let blade = build(&d, &BuildOptions::default()).expect("blade");
+    let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+    let vb = blade.mesh().signed_volume();
+    let vh = rotor.hub.as_ref().expect("hub").mesh.signed_volume();
+    for p in &rotor.blades {
+        assert!(
+            (p.mesh.signed_volume() / vb - 1.0).abs() < 1e-9,
+            "{}",
+            p.name
+        );
+        assert!(
+            check_solid(&p.mesh, &CheckOptions::DEFAULT).is_ok(),
+            "{}",
+            p.name
+        );
+    }
+    let total = rotor.envelope().signed_volume();
+    let expected = 3.0 * vb + vh;
+    assert!(
+        (total / expected - 1.0).abs() < 1e-9,
+        "{total} vs {expected}"
+    );
+}
+
+#[test]
+fn blades_are_spaced_evenly_in_the_sense_of_rotation() {
+    // Elementary geometry: a rigid rotation about the axis by 360/B moves each blade's
+    // centre of mass by 360/B in azimuth. Counter-clockwise seen from upstream means
+    // from +z toward -x (conventions: the blade as built moves toward -x at +z).
+    for (sense, sign) in [("ccw", -1.0), ("cw", 1.0)] {
+        for blades in [2u32, 3, 5] {
+            let rotor_text = format!("blades = {blades}\nhub-radius = 30\ncone = 3\npitch = 2");
+            let d = design(sense, "turbine", "naca4412", (20.0, 5.0), &rotor_text);
+            let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+            assert_eq!(rotor.blades.len(), blades as usize);
+            let angles: Vec<f64> = rotor
+                .blades
+                .iter()
+                .map(|p| {
+                    let c = centroid(&p.mesh);
+                    c.x.atan2(c.z).to_degrees()
+                })
+                .collect();
+            let r0 = {
+                let c = centroid(&rotor.blades[0].mesh);
+                (c.x * c.x + c.z * c.z).sqrt()
+            };
+            for (k, p) in rotor.blades.iter().enumerate() {
+                let c = centroid(&p.mesh);
+                assert!(((c.x * c.x + c.z * c.z).sqrt() - r0).abs() < 1e-9);
+                let want = sign * 360.0 * k as f64 / blades as f64 + angles[0];
+                let diff = (angles[k] - want + 540.0).rem_euclid(360.0) - 180.0;
+                assert!(
+                    diff.abs() < 1e-9,
+                    "{sense} B={blades} blade {k}: {diff} degrees off"
+                );
+            }
+        }
+    }
+}
+
+#[test]
+fn cone_tilts_blades_downstream_about_the_root() {
+    // Rotation by the cone angle b about the x-parallel line through (0, 0, z_p) moves a
+    // point (x, y, z) to (x, y cos b + (z - z_p) sin b, z_p + (z - z_p) cos b - y sin b)
+    // (elementary rotation, tilting +z toward +y: downstream).
+    let flat = build_rotor(
+        &design(
+            "ccw",
+            "turbine",
+            "naca4412",
+            (20.0, 5.0),
+            "blades = 1\nhub-radius = 30",
+        ),
+        &BuildOptions::default(),
+    )
+    .expect("flat");
+    let coned = build_rotor(
+        &design(
+            "ccw",
+            "turbine",
+            "naca4412",
+            (20.0, 5.0),
+            "blades = 1\nhub-radius = 30\ncone = 8",
+        ),
+        &BuildOptions::default(),
+    )
+    .expect("coned");
+    let (p, q) = (
+        centroid(&flat.blades[0].mesh),
+        centroid(&coned.blades[0].mesh),
+    );
+    let (s, c) = 8f64.to_radians().sin_cos();
+    let zp = 40.0; // root face = first station (no [root] table)
+    let want = Point3::new(p.x, p.y * c + (p.z - zp) * s, zp + (p.z - zp) * c - p.y * s);
+    assert!((q - want).norm() < 1e-9, "{q} vs {want}");
+    assert!(q.y > p.y + 3.0, "coned blade moved downstream");
+}
+
+/// Leading and trailing edge of a mesh cut by z = r: the cut points farthest apart,
+/// the one at smaller x first (as in tests/pipeline.rs).
+fn chord_line_at(mesh: &TriMesh, r: f64) -> (Point3<f64>, Point3<f64>) {
+    let mut pts = Vec::new();
+    for t in 0..mesh.len() {
+        let c = mesh.corners(t);
+        for k in 0..3 {
+            let (a, b) = (c[k], c[(k + 1) % 3]);
+            if (a.z - r) * (b.z - r) < 0.0 {
+                let s = (r - a.z) / (b.z - a.z);
+                pts.push(a + (b - a) * s);
+            }
+        }
+    }
+    let mut best = (0.0, pts[0], pts[0]);
+    for a in &pts {
+        for b in &pts {
+            let d = (a - b).norm();
+            if d > best.0 {
+                best = (d, *a, *b);
+            }
+        }
+    }
+    if best.1.x < best.2.x {
+        (best.1, best.2)
+    } else {
+        (best.2, best.1)
+    }
+}
+
+#[test]
+fn pitch_adds_to_twist() {
+    // Conventions: pitch turns the leading edge upstream like twist, about the stacking
+    // axis, so the chord makes twist + pitch with the plane of rotation. A symmetric,
+    // closed NACA 0012 section makes the chord line the section's longest diameter.
+    for pitch in [-6.0, 0.0, 7.0] {
+        let d = design(
+            "ccw",
+            "turbine",
+            "naca0012-closed",
+            (10.0, 10.0),
+            &format!("blades = 2\nhub-radius = 30\npitch = {pitch}"),
+        );
+        let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+        let (le, te) = chord_line_at(&rotor.blades[0].mesh, 100.0);
+        let angle = (te.y - le.y).atan2(te.x - le.x).to_degrees();
+        assert!(
+            (angle - (10.0 + pitch)).abs() < 0.1,
+            "pitch {pitch}: chord at {angle}"
+        );
+        // The stacking axis stays put: the quarter-chord point is at x = y = 0.
+        let quarter = le + (te - le) * 0.25;
+        assert!(quarter.x.abs() < 0.1 && quarter.y.abs() < 0.1, "{quarter}");
+    }
+}
+
+#[test]
+fn hand_check_passes_for_every_sense_and_mode() {
+    // Kinematics: a point at r moves along omega x r; conventions: omega along -y for a
+    // counter-clockwise rotor seen from upstream; the turbine's pressure side faces -y,
+    // the propeller's suction side faces -y.
+    for rot in ["ccw", "cw"] {
+        for flow in ["turbine", "propeller"] {
+            let d = design(rot, flow, "naca4412", (20.0, 5.0), ROTOR);
+            let radii = hand_radii(&[40.0, 80.0, 120.0]);
+            let blade = build(&d, &BuildOptions::default()).expect("blade");
+            let single = check_hand(
+                blade.mesh(),
+                &Matrix4::identity(),
+                &radii,
+                d.blade.rotation,
+                d.blade.flow,
+                &HandOptions::DEFAULT,
+            );
+            assert!(single.is_ok(), "{rot} {flow}: {single}");
+            assert!(single.undetermined.is_empty(), "{rot} {flow}: {single}");
+            assert!(single
+                .stations
+                .iter()
+                .all(|s| s.lead > 0.9 && s.side == Side::Right));
+            let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+            for (p, m) in rotor.blades.iter().zip(&rotor.transforms) {
+                let r = check_hand(
+                    &p.mesh,
+                    m,
+                    &radii,
+                    rotor.rotation,
+                    rotor.flow,
+                    &HandOptions::DEFAULT,
+                );
+                assert!(r.is_ok(), "{rot} {flow} {}: {r}", p.name);
+            }
+            // The same blade checked against the other sense trails everywhere.
+            let other = match d.blade.rotation {
+                Rotation::Ccw => Rotation::Cw,
+                Rotation::Cw => Rotation::Ccw,
+            };
+            let wrong = check_hand(
+                blade.mesh(),
+                &Matrix4::identity(),
+                &radii,
+                other,
+                d.blade.flow,
+                &HandOptions::DEFAULT,
+            );
+            assert_eq!(wrong.trailing.len(), radii.len(), "{wrong}");
+        }
+    }
+}
+
+#[test]
+fn mirrored_blade_fails_loudly() {
+    // A blade mirrored in x without changing the design: the leading edge trails at
+    // every station. Mirrored in y (flow side flipped): the pressure side faces
+    // downstream at every station while the leading edge still leads.
+    let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
+    let blade = build(&d, &BuildOptions::default()).expect("blade");
+    let radii = hand_radii(&[40.0, 80.0, 120.0]);
+    let mirror_x = blade
+        .mesh()
+        .transformed(&Matrix4::new_nonuniform_scaling(&Vector3::new(
+            -1.0, 1.0, 1.0,
+        )));
+    let r = check_hand(
+        &mirror_x,
+        &Matrix4::identity(),
+        &radii,
+        Rotation::Ccw,
+        Flow::Turbine,
+        &HandOptions::DEFAULT,
+    );
+    assert!(!r.is_ok());
+    assert_eq!(r.trailing, (0..radii.len()).collect::<Vec<_>>(), "{r}");
+    let text = r.to_string();
+    assert!(text.contains("FAILED") && text.contains("trails"), "{text}");
+    let mirror_y = blade
+        .mesh()
+        .transformed(&Matrix4::new_nonuniform_scaling(&Vector3::new(
+            1.0, -1.0, 1.0,
+        )));
+    let r = check_hand(
+        &mirror_y,
+        &Matrix4::identity(),
+        &radii,
+        Rotation::Ccw,
+        Flow::Turbine,
+        &HandOptions::DEFAULT,
+    );
+    assert!(r.trailing.is_empty(), "{r}");
+    assert_eq!(r.wrong_side, (0..radii.len()).collect::<Vec<_>>(), "{r}");
+}
+
+#[test]
+fn symmetric_sections_leave_the_side_undetermined() {
+    // A symmetric section has no camber (NACA 00xx, Report 460): no flow side to tell.
+    let d = design(
+        "ccw",
+        "turbine",
+        "naca0012",
+        (20.0, 5.0),
+        "blades = 2\nhub-radius = 30",
+    );
+    let blade = build(&d, &BuildOptions::default()).expect("blade");
+    let radii = hand_radii(&[40.0, 80.0, 120.0]);
+    let r = check_hand(
+        blade.mesh(),
+        &Matrix4::identity(),
+        &radii,
+        Rotation::Ccw,
+        Flow::Turbine,
+        &HandOptions::DEFAULT,
+    );
+    assert!(r.is_ok(), "{r}");
+    assert_eq!(r.undetermined.len(), radii.len(), "{r}");
+}
+
+#[test]
+fn hub_is_a_solid_of_the_right_genus_and_volume() {
+    // Exact volume: pi (R^2 - r_b^2 - n r_h^2) t (elementary). Each circle is an
+    // inscribed polygon whose area is short of the circle's by at most perimeter x
+    // sagitta <= 2 pi r tol, so |V_mesh - V_exact| <= t tol 2 pi (R + r_b + n r_h).
+    let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
+    let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+    let hub = rotor.hub_shape.as_ref().expect("hub");
+    assert_eq!(hub.genus(), 4, "bore + 3 bolt holes");
+    let mesh = &rotor.hub.as_ref().expect("hub part").mesh;
+    let report = check_solid(mesh, &CheckOptions::DEFAULT.with_expected_genus(Some(4)));
+    assert!(report.is_ok(), "{report}");
+    let (rr, t, rb, rh, n) = (30.0, 12.0, 4.0, 2.0, 3.0);
+    let exact = PI * (rr * rr - rb * rb - n * rh * rh) * t;
+    let tol = d.blade.tolerance;
+    let bound = t * tol * 2.0 * PI * (rr + rb + n * rh);
+    let v = mesh.signed_volume();
+    assert!((v - exact).abs() <= bound, "{v} vs {exact} (bound {bound})");
+    assert!((hub.exact_volume() - exact).abs() < 1e-9);
+    // Thickness along the rotor axis and diameter across it.
+    let bb = mesh.bounding_box().expect("box");
+    assert!((bb.size().y - t).abs() < 1e-12);
+    assert!((bb.size().x - 2.0 * rr).abs() < 2.0 * tol);
+    // Without bore and bolts the disc is genus 0.
+    let plain = build_rotor(
+        &design(
+            "ccw",
+            "turbine",
+            "naca4412",
+            (20.0, 5.0),
+            "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10",
+        ),
+        &BuildOptions::default(),
+    )
+    .expect("plain");
+    let m = &plain.hub.as_ref().expect("hub").mesh;
+    let report = check_solid(m, &CheckOptions::DEFAULT.with_expected_genus(Some(0)));
+    assert!(report.is_ok(), "{report}");
+}
+
+#[test]
+fn bad_rotor_tables_name_their_key() {
+    let cases = [
+        ("blades = 0\nhub-radius = 30", "rotor.blades"),
+        ("blades = 3\nhub-radius = -1", "rotor.hub-radius"),
+        ("blades = 3\nhub-radius = 30\ncone = 60", "rotor.cone"),
+        ("blades = 3\nhub-radius = 30\npitch = 95", "rotor.pitch"),
+        ("blades = 3\nhub-radius = 30\nspin = 2", "rotor.spin"),
+        ("blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10\nbore = 59", "rotor.hub.bore"),
+        (
+            "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10\nbolt-count = 4\nbolt-diameter = 5",
+            "rotor.hub.bolt-circle",
+        ),
+        (
+            "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10\nbolt-count = 12\nbolt-diameter = 8\nbolt-circle = 30",
+            "rotor.hub.bolt-circle",
+        ),
+    ];
+    for (table, key) in cases {
+        let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), table);
+        let e = RotorSpec::from_design(&d).expect_err(table).to_string();
+        assert!(e.contains(key), "{table}: {e}");
+        let e = build_rotor(&d, &BuildOptions::default())
+            .err()
+            .expect("fails")
+            .to_string();
+        assert!(e.contains(key), "{table}: {e}");
+    }
+    // No [rotor] table at all.
+    let mut d = design(
+        "ccw",
+        "turbine",
+        "naca4412",
+        (20.0, 5.0),
+        "blades = 3\nhub-radius = 30",
+    );
+    d.tables.remove("rotor");
+    let e = build_rotor(&d, &BuildOptions::default())
+        .err()
+        .expect("fails")
+        .to_string();
+    assert!(e.contains("rotor") && e.contains("blades"), "{e}");
+}
+
+#[test]
+fn description_words() {
+    let d = design("cw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
+    let spec = RotorSpec::from_design(&d).expect("valid").expect("table");
+    let s = hand_description(&spec, &d);
+    assert!(s.contains("3 blades, 120 degrees apart"), "{s}");
+    assert!(s.contains("turns clockwise seen from upstream"), "{s}");
+    assert!(s.contains("pressure sides face the wind"), "{s}");
+    let d = design("ccw", "propeller", "naca4412", (20.0, 5.0), ROTOR);
+    let s = hand_description(&spec, &d);
+    assert!(
+        s.contains("counter-clockwise") && s.contains("suction sides face upstream"),
+        "{s}"
+    );
+}
