@@ -342,8 +342,9 @@ impl Blade {
     /// by construction (no waist and no bulge), up to the slope term (checked in
     /// [`Blade::with_root`]). Position and spanwise slope match the shank (zero slope) and
     /// the first station (the blade's own slope) at the ends. The trailing-edge points are
-    /// held the first station's trailing-edge gap apart (Hermite in the gap), so a blunt
-    /// trailing edge keeps its printable thickness all along the transition.
+    /// held the first station's trailing-edge gap apart (Hermite in the gap, never below
+    /// the first station's gap), so a blunt trailing edge keeps its printable thickness
+    /// all along the transition.
     fn transition_outline(&self, s: f64) -> Vec<Point2<f64>> {
         let first = self.radii[0];
         let Some(root) = self.root.as_ref() else {
@@ -394,7 +395,10 @@ impl Blade {
             .collect();
         let last = pts.len() - 1;
         let gap = air[0].y - air[last].y;
-        let half = (0.5 * (gap + h11 * l * (slope[0].y - slope[last].y))).max(0.0);
+        // Never thinner than the first station's gap (where the gap grows outward the
+        // slope term would dip below it; the kink that leaves in the gap's slope is
+        // that growth rate, tiny for a gap held to a printable thickness).
+        let half = (0.5 * (gap + h11 * l * (slope[0].y - slope[last].y))).max(0.5 * gap);
         let centre = 0.5 * (pts[0].y + pts[last].y);
         pts[0].y = centre + half;
         pts[last].y = centre - half;
