@@ -1,0 +1,71 @@
+//! The main job's speed: design table to binary STL, and how tessellation time grows
+//! with the triangle count.
+//!
+//! Run with `cargo bench --bench pipeline`. The design is a 10-station blade resampled to
+//! 200 points per side (the reference case).
+
+use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
+use spanwright::design::parse_toml_str;
+use spanwright::export::write_stl;
+use spanwright::pipeline::{build, resolve_sections, BuildOptions};
+use spanwright::tessellate::{tessellate, TessellationOptions};
+use std::hint::black_box;
+
+fn design_text() -> String {
+    let mut s = String::from("name = \"bench\"\n[blade]\nsection = \"naca4412\"\npoints-per-side = 200\ntolerance = 0.01\n");
+    for i in 0..10 {
+        let t = i as f64 / 9.0;
+        s += &format!(
+            "[[station]]\nradius = {}\nchord = {}\ntwist = {}\nsection = \"{}\"\n",
+            40.0 + 240.0 * t,
+            60.0 - 35.0 * t,
+            25.0 - 22.0 * t,
+            if i < 3 { "naca4415" } else { "naca4412" }
+        );
+    }
+    s
+}
+
+fn table_to_stl(c: &mut Criterion) {
+    let text = design_text();
+    c.bench_function("table_to_stl_10_stations_200_pts_0.01mm", |b| {
+        b.iter(|| {
+            let design = parse_toml_str(black_box(&text), None).unwrap();
+            let model = build(&design, &BuildOptions::default()).unwrap();
+            let mut bytes = Vec::with_capacity(model.mesh().len() * 50 + 84);
+            write_stl(&mut bytes, &[model.part()]).unwrap();
+            bytes.len()
+        })
+    });
+    let design = parse_toml_str(&text, None).unwrap();
+    c.bench_function("stage_sections", |b| {
+        b.iter(|| resolve_sections(black_box(&design)).unwrap())
+    });
+    let model = build(&design, &BuildOptions::default()).unwrap();
+    c.bench_function("stage_tessellate_0.01mm", |b| {
+        b.iter(|| tessellate(black_box(&model.skin), &TessellationOptions::DEFAULT).unwrap())
+    });
+}
+
+fn growth(c: &mut Criterion) {
+    let design = parse_toml_str(&design_text(), None).unwrap();
+    let model = build(&design, &BuildOptions::default()).unwrap();
+    let mut group = c.benchmark_group("tessellate_growth");
+    group.sample_size(10);
+    for tol in [0.05, 0.01, 0.002, 0.0005, 0.0001, 0.00002] {
+        let opts = TessellationOptions {
+            tolerance: tol,
+            ..TessellationOptions::DEFAULT
+        };
+        let n = tessellate(&model.skin, &opts).unwrap().mesh.len();
+        group.bench_with_input(
+            BenchmarkId::new(format!("{n}_triangles"), tol),
+            &opts,
+            |b, o| b.iter(|| tessellate(black_box(&model.skin), o).unwrap().mesh.len()),
+        );
+    }
+    group.finish();
+}
+
+criterion_group!(benches, table_to_stl, growth);
+criterion_main!(benches);
