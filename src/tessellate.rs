@@ -406,10 +406,11 @@ pub fn mesh_from_grid(
             index[i][j] = mesh.push_vertex(p);
         }
     }
-    for j in 0..nv {
-        let (first, last) = (index[0][j], index[nu - 1][j]);
-        if (mesh.vertices[first as usize] - mesh.vertices[last as usize]).norm() <= 1e-9 {
-            index[nu - 1][j] = first;
+    // Where the trailing edge is sharp, the last column is the first one.
+    let first_column = index[0].clone();
+    for (last, first) in index[nu - 1].iter_mut().zip(first_column) {
+        if (mesh.vertices[first as usize] - mesh.vertices[*last as usize]).norm() <= 1e-9 {
+            *last = first;
         }
     }
     let outward = skin.orientation() > 0.0;
