@@ -409,6 +409,7 @@ fn hub_is_a_solid_of_the_right_genus_and_volume() {
     let tol = d.blade.tolerance;
     let bound = t * tol * 2.0 * PI * (rr + rb + n * rh);
     let v = mesh.signed_volume();
+    eprintln!("plain hub: mesh {v:.3} mm³, exact {exact:.3} mm³, bound {bound:.3}");
     assert!((v - exact).abs() <= bound, "{v} vs {exact} (bound {bound})");
     assert!((hub.exact_volume() - exact).abs() < 1e-9);
     // Thickness along the rotor axis and diameter across it.
@@ -490,4 +491,192 @@ fn description_words() {
         s.contains("counter-clockwise") && s.contains("suction sides face upstream"),
         "{s}"
     );
+}
+
+/// Shank diameter of the socket demo, mm.
+const SHANK: f64 = 11.0;
+
+/// A demo blade with a round shank (invented data): root face at 70 - 25 - 20 = 25 mm.
+fn socket_design(rotation: &str, hub: &str) -> Design {
+    let text = format!(
+        r#"
+        name = "socketed"
+        [blade]
+        section = "naca4412"
+        rotation = "{rotation}"
+        points-per-side = 40
+        tolerance = 0.05
+        [[station]]
+        radius = 70
+        chord = 30
+        twist = 20
+        [[station]]
+        radius = 110
+        chord = 24
+        twist = 10
+        [[station]]
+        radius = 150
+        chord = 16
+        twist = 4
+        [root]
+        shank-diameter = {SHANK}
+        shank-length = 20
+        transition-length = 25
+        [rotor]
+        blades = 3
+        hub-radius = 35
+        pitch = 3
+        azimuth-offset = 15
+        [rotor.hub]
+        {hub}
+        "#
+    );
+    parse_toml_str(&text, None).expect("valid demo design")
+}
+
+const SOCKET_HUB: &str =
+    "thickness = 14\nbore = 8\nbolt-count = 3\nbolt-diameter = 4\nbolt-circle = 30";
+
+#[test]
+fn hub_sockets_hold_the_shanks_with_clearance() {
+    // The socket is a cylinder of the shank diameter + clearance (0.3 mm default) along
+    // the blade's span axis, floor half the clearance below the root face: every blade
+    // vertex inside the hub's radius lies within the shank radius (plus the shank's
+    // trailing-edge allowance) of the socket axis and
+    // beyond the root face (elementary geometry), and blades and hub neither cross nor
+    // touch, so the envelope's only finding is its four components.
+    for rot in ["ccw", "cw"] {
+        let d = socket_design(rot, SOCKET_HUB);
+        let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+        let hub = rotor.hub_shape.as_ref().expect("hub");
+        let sockets = hub.sockets.as_ref().expect("sockets");
+        assert!((sockets.radius - 0.5 * (SHANK + 0.3)).abs() < 1e-12);
+        assert!((sockets.floor - (25.0 - 0.15)).abs() < 1e-12);
+        for (p, m) in rotor.blades.iter().zip(&rotor.transforms) {
+            let axis = m.transform_vector(&Vector3::z());
+            assert!(
+                axis.y.abs() < 1e-12,
+                "socket axes lie in the plane of rotation"
+            );
+            for v in &p.mesh.vertices {
+                if v.x * v.x + v.z * v.z < 35.0 * 35.0 {
+                    let along = v.coords.dot(&axis);
+                    let off = (v.coords - axis * along).norm();
+                    // The shank's two trailing-edge points are held the airfoil's
+                    // trailing-edge gap apart (src/root.rs), up to half that gap (0.04
+                    // mm here) off the circle.
+                    assert!(
+                        off <= 0.5 * SHANK + 0.05,
+                        "{}: {off} mm off the socket axis",
+                        p.name
+                    );
+                    assert!(along >= 25.0 - 1e-9, "{}: below the root face", p.name);
+                }
+            }
+        }
+        let mesh = &rotor.hub.as_ref().expect("hub").mesh;
+        let report = check_solid(mesh, &CheckOptions::DEFAULT.with_expected_genus(Some(4)));
+        assert!(report.is_ok(), "{rot}: {report}");
+        let env = check_solid(
+            &rotor.envelope(),
+            &CheckOptions::DEFAULT.with_expected_genus(None),
+        );
+        assert_eq!(env.components, 4, "{env}");
+        assert!(
+            env.findings
+                .iter()
+                .all(|f| matches!(f, spanwright::check::Finding::Components { .. })),
+            "{rot}: {env}"
+        );
+    }
+}
+
+#[test]
+fn socketed_hub_volume_matches_the_disc_minus_holes() {
+    // Exact: pi (R^2 - r_b^2 - n r_h^2) t minus B sockets, each the integral over the
+    // socket disc of (sqrt(R^2 - a^2) - floor) (elementary; checked here against an
+    // independent Simpson sum in a). Mesh error bound: each polygon's area deficit is at
+    // most perimeter x sagitta (tol), giving t tol 2 pi (r_b + n r_h) for the face
+    // holes and B (R - floor) 2 pi r_s tol for the socket walls; each rim facet with
+    // angular extent dt lies within R (1 - cos(dt / 2)) of the cylinder, so the rim adds
+    // at most the sum of facet area x that gap (measured on the mesh).
+    let d = socket_design("ccw", SOCKET_HUB);
+    let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+    let hub = rotor.hub_shape.as_ref().expect("hub");
+    let s = hub.sockets.as_ref().expect("sockets");
+    let (rr, t, tol) = (35.0, 14.0, d.blade.tolerance);
+    let (rs, fl) = (s.radius, s.floor);
+    let steps = 20_000;
+    let mut socket = 0.0;
+    for i in 0..steps {
+        // Midpoint rule in a, integrand 2 sqrt(rs^2 - a^2) (sqrt(R^2 - a^2) - floor).
+        let a = -rs + (i as f64 + 0.5) * 2.0 * rs / steps as f64;
+        socket += 2.0 * (rs * rs - a * a).sqrt() * ((rr * rr - a * a).sqrt() - fl) * 2.0 * rs
+            / steps as f64;
+    }
+    let exact = PI * (rr * rr - 16.0 - 3.0 * 4.0) * t - 3.0 * socket;
+    assert!(
+        (hub.exact_volume() - exact).abs() < 1e-3 * socket,
+        "{} vs {exact}",
+        hub.exact_volume()
+    );
+    let mesh = &rotor.hub.as_ref().expect("hub").mesh;
+    let mut rim = 0.0;
+    for k in 0..mesh.len() {
+        let c = mesh.corners(k);
+        if c.iter().all(|p| (p.x.hypot(p.z) - rr).abs() < 1e-9) {
+            let th: Vec<f64> = c.iter().map(|p| p.x.atan2(p.z)).collect();
+            let mut dt: f64 = 0.0;
+            for i in 0..3 {
+                let x = (th[i] - th[(i + 1) % 3]).abs();
+                dt = dt.max(x.min(2.0 * PI - x));
+            }
+            rim += 0.5 * mesh.scaled_normal(k).norm() * rr * (1.0 - (0.5 * dt).cos());
+        }
+    }
+    let bound =
+        t * tol * 2.0 * PI * (rr + 4.0 + 3.0 * 2.0) + 3.0 * (rr - fl) * 2.0 * PI * rs * tol + rim;
+    let v = mesh.signed_volume();
+    eprintln!(
+        "socketed hub: mesh {v:.3} mm³, exact {exact:.3} mm³, bound {bound:.3} (rim {rim:.3})"
+    );
+    assert!((v - exact).abs() <= bound, "{v} vs {exact} (bound {bound})");
+}
+
+#[test]
+fn socket_problems_name_their_key() {
+    let cases = [
+        ("thickness = 10", "rotor.hub.thickness"),
+        ("thickness = 14\nbore = 49", "rotor.hub.bore"),
+        ("thickness = 14\ndiameter = 40", "rotor.hub.diameter"),
+        ("thickness = 14\ndiameter = 100", "rotor.hub.diameter"),
+        (
+            "thickness = 14\nbolt-count = 6\nbolt-diameter = 4\nbolt-circle = 50",
+            "rotor.hub.bolt-circle",
+        ),
+    ];
+    for (hub, key) in cases {
+        let d = socket_design("ccw", hub);
+        let e = build_rotor(&d, &BuildOptions::default())
+            .err()
+            .expect("fails")
+            .to_string();
+        assert!(e.contains(key), "{hub}: {e}");
+    }
+    // Radial sockets and a cone do not go together.
+    let mut d = socket_design("ccw", "thickness = 14");
+    if let Some(t) = d.tables.get_mut("rotor").and_then(|t| t.as_table_mut()) {
+        t.insert("cone".into(), toml::Value::Float(4.0));
+    }
+    let e = build_rotor(&d, &BuildOptions::default())
+        .err()
+        .expect("fails")
+        .to_string();
+    assert!(e.contains("rotor.cone"), "{e}");
+    // Without sockets the coned rotor builds.
+    let mut d = socket_design("ccw", "thickness = 14\nsockets = false");
+    if let Some(t) = d.tables.get_mut("rotor").and_then(|t| t.as_table_mut()) {
+        t.insert("cone".into(), toml::Value::Float(4.0));
+    }
+    assert!(build_rotor(&d, &BuildOptions::default()).is_ok());
 }

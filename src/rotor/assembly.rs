@@ -115,7 +115,7 @@ impl RotorSpec {
             );
         }
         if let Some(h) = &self.hub {
-            h.resolve(self.hub_radius, design)?;
+            h.resolve(self, design.blade.rotation, design)?;
         }
         Ok(())
     }
@@ -192,17 +192,7 @@ pub fn assemble(
 ) -> Result<Rotor, DesignError> {
     let (blades, transforms) = place_blades(blade, spec, blade_opts.rotation, root_face);
     let hub_shape = match &spec.hub {
-        Some(h) => {
-            let mut hub = h.resolve(spec.hub_radius, design)?;
-            // Bolt holes between blades: half a blade spacing past the first blade in
-            // the sense of rotation (the hub measures angles from +z toward +x).
-            let half = spec.azimuth_offset + 180.0 / f64::from(spec.blades);
-            hub.bolt_phase = match blade_opts.rotation {
-                Rotation::Ccw => -half,
-                Rotation::Cw => half,
-            };
-            Some(hub)
-        }
+        Some(h) => Some(h.resolve(spec, blade_opts.rotation, design)?),
         None => None,
     };
     let hub = hub_shape

@@ -21,11 +21,19 @@
 //! through-hole adds one to the genus: [`Hub::genus`] is the bore (0 or 1) plus the bolt
 //! count, for [`crate::check::check_solid`].
 //!
-//! Not built (yet): radial sockets for the blade shanks; blades are placed by the
-//! assembly and overlap the hub only where their roots reach inside its radius.
+//! **Blade sockets** (when the design has a `[root]` shank and `sockets` is on): one
+//! radial blind hole per blade in the plane of rotation, of the shank diameter plus
+//! `socket-clearance`, from the rim down to half the clearance below the blade's root
+//! face, so the placed blade sits in its socket with the clearance all round. The rim is
+//! a constrained Delaunay triangulation of the unrolled cylinder with the socket
+//! openings (the exact intersection of the socket and rim cylinders, sampled) as holes;
+//! each socket wall is a quad strip from its opening to its floor, closed by a fan.
+//! Sockets are radial, so a coned rotor (`rotor.cone` not 0) cannot have them.
 
-use crate::design::{Design, DesignError};
+use super::assembly::RotorSpec;
+use crate::design::{Design, DesignError, Rotation};
 use crate::mesh::{Part, TriMesh};
+use crate::root::RootSpec;
 use nalgebra::{Point2, Point3, Vector3};
 use serde::Deserialize;
 use std::f64::consts::{PI, TAU};
@@ -52,10 +60,62 @@ pub struct HubSpec {
     /// widths, common practice).
     #[serde(default = "default_min_wall")]
     pub min_wall: f64,
+    /// Cut a radial socket for each blade's round shank (needs a `[root]` table; default
+    /// true).
+    #[serde(default = "default_true")]
+    pub sockets: bool,
+    /// Socket diameter minus shank diameter, mm (default 0.3, a printed slip fit: common
+    /// practice, from memory). The socket floor sits half of it below the root face.
+    #[serde(default = "default_clearance")]
+    pub socket_clearance: f64,
 }
 
 fn default_min_wall() -> f64 {
     0.8
+}
+
+fn default_true() -> bool {
+    true
+}
+
+fn default_clearance() -> f64 {
+    0.3
+}
+
+/// Radial blind sockets, one per blade, in the plane of rotation.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Sockets {
+    /// Socket radius (shank radius plus half the clearance), mm.
+    pub radius: f64,
+    /// Distance of the socket floors from the rotor axis, mm.
+    pub floor: f64,
+    /// Socket axis angles from +z toward +x, degrees, one per blade.
+    pub angles: Vec<f64>,
+}
+
+/// Angle from +z toward +x (the hub's angles) of azimuth `phi` (degrees, in the sense
+/// of rotation, see [`super::assembly`]).
+fn hub_angle(rotation: Rotation, phi: f64) -> f64 {
+    match rotation {
+        Rotation::Ccw => -phi,
+        Rotation::Cw => phi,
+    }
+}
+
+/// Distance from `p` to the segment `a`-`b` (plane).
+fn seg_dist(p: Point2<f64>, a: Point2<f64>, b: Point2<f64>) -> f64 {
+    let ab = b - a;
+    let s = ((p - a).dot(&ab) / ab.norm_squared()).clamp(0.0, 1.0);
+    (p - (a + ab * s)).norm()
+}
+
+/// Socket axis from the floor to the rim, in the face plane (u, w) = (x, z).
+fn socket_axis(angle_deg: f64, floor: f64, rim: f64) -> (Point2<f64>, Point2<f64>) {
+    let (s, c) = angle_deg.to_radians().sin_cos();
+    (
+        Point2::new(floor * s, floor * c),
+        Point2::new(rim * s, rim * c),
+    )
 }
 
 /// A validated hub in millimetres.
@@ -69,9 +129,13 @@ pub struct Hub {
     pub bore_radius: Option<f64>,
     /// Bolt holes: count, hole radius (mm), bolt circle radius (mm).
     pub bolts: Option<(u32, f64, f64)>,
-    /// Angle of the first bolt hole from +z toward +x, degrees (the assembly puts it
-    /// between the first two blades).
+    /// Angle of the first bolt hole from +z toward +x, degrees (half a blade spacing
+    /// past the first blade in the sense of rotation).
     pub bolt_phase: f64,
+    /// Blade sockets, when cut.
+    pub sockets: Option<Sockets>,
+    /// Angle of the rim's first vertex from +z toward +x, degrees (between sockets).
+    pub rim_start: f64,
 }
 
 impl HubSpec {
@@ -83,12 +147,20 @@ impl HubSpec {
         self.bolt_diameter = self.bolt_diameter.map(|v| v * k);
         self.bolt_circle = self.bolt_circle.map(|v| v * k);
         self.min_wall *= k;
+        self.socket_clearance *= k;
         self
     }
 
-    /// Checks the hub (lengths in mm) and resolves its defaults; `hub_radius` is
-    /// `rotor.hub-radius` in mm. Problems name `rotor.hub.<key>` in `design`'s file.
-    pub fn resolve(&self, hub_radius: f64, design: &Design) -> Result<Hub, DesignError> {
+    /// Checks the hub (lengths in mm) against the rotor (`rotor`, in mm) and the blade's
+    /// `[root]` table, and resolves its defaults and the angles of its holes for
+    /// `rotation`. Problems name `rotor.<key>` or `rotor.hub.<key>` in `design`'s file.
+    pub fn resolve(
+        &self,
+        rotor: &RotorSpec,
+        rotation: Rotation,
+        design: &Design,
+    ) -> Result<Hub, DesignError> {
+        let hub_radius = rotor.hub_radius;
         let bad = |key: &str, msg: String| DesignError::one(design.problem(key, msg));
         let positive = |key: &str, v: f64| {
             if v > 0.0 && v.is_finite() {
@@ -166,12 +238,163 @@ impl HubSpec {
             }
             Some((n, rh, rc))
         };
+        let blades = rotor.blades.max(1);
+        let between = hub_angle(rotation, rotor.azimuth_offset + 180.0 / f64::from(blades));
+        let root = design
+            .table::<RootSpec>("root")?
+            .map(|r| r.to_mm(design.length_to_mm));
+        let sockets = match (&root, self.sockets) {
+            (Some(root), true) => {
+                Some(self.sockets(root, rotor, rotation, design, (radius, thickness, rb, wall))?)
+            }
+            _ => None,
+        };
+        if let (Some(s), Some((n, rh, rc))) = (&sockets, bolts) {
+            for k in 0..n {
+                let a = (between + 360.0 * f64::from(k) / f64::from(n)).to_radians();
+                let p = Point2::new(rc * a.sin(), rc * a.cos());
+                for &angle in &s.angles {
+                    let (f, e) = socket_axis(angle, s.floor, radius);
+                    let left = seg_dist(p, f, e) - rh - s.radius;
+                    if left < wall {
+                        return Err(bad(
+                            "rotor.hub.bolt-circle",
+                            format!(
+                                "bolt hole {} comes within {left:.2} mm of a blade socket, under rotor.hub.min-wall = {wall:.2} mm; change bolt-circle, bolt-diameter or bolt-count",
+                                k + 1
+                            ),
+                        ));
+                    }
+                }
+            }
+        }
         Ok(Hub {
             radius,
             thickness,
             bore_radius,
             bolts,
-            bolt_phase: 0.0,
+            bolt_phase: between,
+            rim_start: if sockets.is_some() { between } else { 0.0 },
+            sockets,
+        })
+    }
+
+    /// Resolves and checks the blade sockets; `disc` = (radius, thickness, bore radius,
+    /// min wall), mm.
+    fn sockets(
+        &self,
+        root: &RootSpec,
+        rotor: &RotorSpec,
+        rotation: Rotation,
+        design: &Design,
+        disc: (f64, f64, f64, f64),
+    ) -> Result<Sockets, DesignError> {
+        let (radius, thickness, rb, wall) = disc;
+        let bad = |key: &str, msg: String| Err(DesignError::one(design.problem(key, msg)));
+        let clearance = self.socket_clearance;
+        if !(clearance >= 0.0 && clearance.is_finite()) {
+            return bad(
+                "rotor.hub.socket-clearance",
+                format!("{clearance}: give a clearance of zero or more millimetres"),
+            );
+        }
+        if rotor.cone != 0.0 {
+            return bad(
+                "rotor.cone",
+                format!(
+                    "{} degrees: hub sockets are cut radially in the plane of rotation; set cone = 0, or rotor.hub.sockets = false",
+                    rotor.cone
+                ),
+            );
+        }
+        if root.flange.is_some() {
+            return bad(
+                "rotor.hub.sockets",
+                "the blade root has a flange (root.flange), which a round socket cannot take; remove the flange or set rotor.hub.sockets = false".into(),
+            );
+        }
+        let Some(st) = design.stations.first() else {
+            return bad("rotor.hub.sockets", "the design has no stations".into());
+        };
+        let off = st.sweep.hypot(st.prebend);
+        if off > 0.25 * clearance {
+            return bad(
+                "rotor.hub.sockets",
+                format!(
+                    "the shank is centred {off:.2} mm off the stacking axis (first station sweep and prebend), more than a quarter of rotor.hub.socket-clearance = {clearance:.2} mm; set them to 0 at the first station or set rotor.hub.sockets = false"
+                ),
+            );
+        }
+        let face = st.radius - root.transition_length - root.shank_length;
+        let socket_radius = 0.5 * (root.shank_diameter.max(root.thickness()) + clearance);
+        let floor = face - 0.5 * clearance;
+        if radius <= face {
+            return bad(
+                "rotor.hub.diameter",
+                format!(
+                    "the hub's rim at radius {radius:.2} mm does not reach the blade's root face at {face:.2} mm, so no socket can hold the shank; enlarge the hub or lengthen root.shank-length"
+                ),
+            );
+        }
+        if radius > face + root.shank_length {
+            return bad(
+                "rotor.hub.diameter",
+                format!(
+                    "the hub's rim at radius {radius:.2} mm reaches past the round shank (root face {face:.2} mm + root.shank-length {:.2} mm); make the hub smaller or the shank longer",
+                    root.shank_length
+                ),
+            );
+        }
+        if socket_radius + wall > 0.5 * thickness {
+            return bad(
+                "rotor.hub.thickness",
+                format!(
+                    "{thickness:.2} mm leaves {:.2} mm over the {:.2} mm socket, under rotor.hub.min-wall = {wall:.2} mm; make the hub at least {:.2} mm thick",
+                    0.5 * thickness - socket_radius,
+                    2.0 * socket_radius,
+                    2.0 * (socket_radius + wall)
+                ),
+            );
+        }
+        if floor - rb < wall {
+            return bad(
+                "rotor.hub.bore",
+                format!(
+                    "the socket floors at radius {floor:.2} mm leave {:.2} mm to the bore, under rotor.hub.min-wall = {wall:.2} mm; use a smaller bore or a longer shank",
+                    floor - rb
+                ),
+            );
+        }
+        let blades = rotor.blades.max(1);
+        let angles: Vec<f64> = (0..blades)
+            .map(|k| {
+                hub_angle(
+                    rotation,
+                    rotor.azimuth_offset + 360.0 * f64::from(k) / f64::from(blades),
+                )
+            })
+            .collect();
+        if blades > 1 {
+            let (a0, a1) = (
+                socket_axis(angles[0], floor, radius),
+                socket_axis(angles[1], floor, radius),
+            );
+            let gap =
+                seg_dist(a0.0, a1.0, a1.1).min(seg_dist(a1.0, a0.0, a0.1)) - 2.0 * socket_radius;
+            if gap < wall {
+                return bad(
+                    "rotor.blades",
+                    format!(
+                        "{blades} sockets of {:.2} mm leave {gap:.2} mm between neighbours at their floors, under rotor.hub.min-wall = {wall:.2} mm; use fewer blades, a thinner shank or a longer shank",
+                        2.0 * socket_radius
+                    ),
+                );
+            }
+        }
+        Ok(Sockets {
+            radius: socket_radius,
+            floor,
+            angles,
         })
     }
 }
@@ -199,10 +422,15 @@ impl Hub {
     pub fn exact_volume(&self) -> f64 {
         let holes = self.bore_radius.map_or(0.0, |r| r * r)
             + self.bolts.map_or(0.0, |(n, r, _)| n as f64 * r * r);
-        PI * (self.radius * self.radius - holes) * self.thickness
+        let disc = PI * (self.radius * self.radius - holes) * self.thickness;
+        disc - self.sockets.as_ref().map_or(0.0, |s| {
+            s.angles.len() as f64 * socket_volume(self.radius, s.radius, s.floor)
+        })
     }
 
-    /// The closed mesh; circles deviate at most `tol` (mm) from the exact ones.
+    /// The closed mesh; circles deviate at most `tol` (mm) from the exact ones. With
+    /// sockets, rim triangles may span more than one side of the rim polygon, and their
+    /// gap to the cylinder grows with their angular extent `dt` as `R (1 - cos(dt / 2))`.
     pub fn mesh(&self, tol: f64) -> TriMesh {
         // Loops in the face plane (u, w) = (x, z): outer rim first, then holes.
         let mut loops: Vec<(Point2<f64>, f64)> = vec![(Point2::origin(), self.radius)];
@@ -217,11 +445,16 @@ impl Hub {
         }
         let mut pts: Vec<Point2<f64>> = Vec::new();
         let mut ranges = Vec::new();
-        for (c, r) in &loops {
+        for (k, (c, r)) in loops.iter().enumerate() {
             let n = circle_sides(*r, tol);
             let start = pts.len();
+            let a0 = if k == 0 {
+                self.rim_start.to_radians()
+            } else {
+                0.0
+            };
             for i in 0..n {
-                let a = TAU * i as f64 / n as f64;
+                let a = a0 + TAU * i as f64 / n as f64;
                 // From +z (w) toward +x (u): the mirror x -> -x maps the set onto itself.
                 pts.push(Point2::new(c.x + r * a.sin(), c.y + r * a.cos()));
             }
@@ -242,6 +475,10 @@ impl Hub {
             push_facing(&mut mesh, [t[0] + np, t[1] + np, t[2] + np], -Vector3::y());
         }
         for (k, range) in ranges.iter().enumerate() {
+            if k == 0 && self.sockets.is_some() {
+                self.rim_with_sockets(&mut mesh, ranges[0].len(), np, tol);
+                continue;
+            }
             let centre = loops[k].0;
             let outward = if k == 0 { 1.0 } else { -1.0 };
             let (s, e) = (range.start as u32, range.end as u32);
@@ -257,6 +494,96 @@ impl Hub {
         mesh
     }
 
+    /// The rim (outer cylinder) with the socket openings: a constrained Delaunay
+    /// triangulation of the unrolled cylinder (U = R (theta - rim_start), y), seam at
+    /// `rim_start` between sockets, and each socket's wall (a quad strip from its
+    /// opening on the rim to its floor) and floor (a fan). Rim vertices `0..n` (top) and
+    /// `np..np + n` (bottom) are already in `mesh`.
+    fn rim_with_sockets(&self, mesh: &mut TriMesh, n: usize, np: u32, tol: f64) {
+        use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
+        let Some(sockets) = &self.sockets else {
+            return;
+        };
+        let (rr, h) = (self.radius, 0.5 * self.thickness);
+        let start = self.rim_start.to_radians();
+        let unroll = |theta: f64| rr * (theta - start).rem_euclid(TAU);
+        // 2-D points of the unrolled rim and the mesh vertex each stands for.
+        let mut flat: Vec<Point2<f64>> = Vec::new();
+        let mut index: Vec<u32> = Vec::new();
+        let mut edges: Vec<[usize; 2]> = Vec::new();
+        for (y, base) in [(h, 0u32), (-h, np)] {
+            let first = flat.len();
+            for j in 0..=n {
+                flat.push(Point2::new(rr * TAU * j as f64 / n as f64, y));
+                index.push(base + (j % n) as u32);
+                if j > 0 {
+                    edges.push([flat.len() - 2, flat.len() - 1]);
+                }
+            }
+            if y < 0.0 {
+                edges.push([0, first]);
+                edges.push([n, first + n]);
+            }
+        }
+        let m = circle_sides(sockets.radius, tol);
+        let mut holes: Vec<std::ops::Range<usize>> = Vec::new();
+        for &angle in &sockets.angles {
+            let psi = angle.to_radians();
+            let d = Vector3::new(psi.sin(), 0.0, psi.cos());
+            let e = Vector3::new(psi.cos(), 0.0, -psi.sin());
+            let first_flat = flat.len();
+            let opening = mesh.vertices.len() as u32;
+            let mut floor_ring = Vec::with_capacity(m);
+            for i in 0..m {
+                let t = TAU * i as f64 / m as f64;
+                let (a, b) = (sockets.radius * t.sin(), sockets.radius * t.cos());
+                let along = (rr * rr - a * a).sqrt();
+                mesh.push_vertex(Point3::from(d * along + e * a + Vector3::y() * b));
+                floor_ring.push(Point3::from(d * sockets.floor + e * a + Vector3::y() * b));
+                flat.push(Point2::new(unroll(psi + (a / rr).asin()), b));
+                index.push(opening + i as u32);
+                edges.push([first_flat + i, first_flat + (i + 1) % m]);
+            }
+            holes.push(first_flat..flat.len());
+            let floor = mesh.vertices.len() as u32;
+            for q in floor_ring {
+                mesh.push_vertex(q);
+            }
+            let centre = mesh.push_vertex(Point3::from(d * sockets.floor));
+            for i in 0..m as u32 {
+                let j = (i + 1) % m as u32;
+                let (o0, o1, f0, f1) = (opening + i, opening + j, floor + i, floor + j);
+                // The wall faces the socket's axis; the floor faces up the socket.
+                let mid =
+                    (mesh.vertices[o0 as usize].coords + mesh.vertices[f1 as usize].coords) * 0.5;
+                let out = -(mid - d * mid.dot(&d));
+                push_facing(mesh, [o0, o1, f1], out);
+                push_facing(mesh, [o0, f1, f0], out);
+                push_facing(mesh, [centre, f0, f1], d);
+            }
+        }
+        let vertices: Vec<SPoint<f64>> = flat.iter().map(|p| SPoint::new(p.x, p.y)).collect();
+        let Ok(cdt) =
+            ConstrainedDelaunayTriangulation::<SPoint<f64>>::bulk_load_cdt(vertices, edges)
+        else {
+            return;
+        };
+        let polys: Vec<&[Point2<f64>]> = holes.iter().map(|r| &flat[r.clone()]).collect();
+        for face in cdt.inner_faces() {
+            let [a, b, c] = face.vertices().map(|v| v.fix().index());
+            let q = Point2::from((flat[a].coords + flat[b].coords + flat[c].coords) / 3.0);
+            if polys.iter().any(|p| inside(p, &q)) {
+                continue;
+            }
+            let t = [index[a], index[b], index[c]];
+            let c3 = (mesh.vertices[t[0] as usize].coords
+                + mesh.vertices[t[1] as usize].coords
+                + mesh.vertices[t[2] as usize].coords)
+                / 3.0;
+            push_facing(mesh, t, Vector3::new(c3.x, 0.0, c3.z));
+        }
+    }
+
     /// The hub as a named part.
     pub fn part(&self, name: &str, tol: f64) -> Part {
         Part {
@@ -264,6 +591,27 @@ impl Hub {
             mesh: self.mesh(tol),
         }
     }
+}
+
+/// Volume of one radial socket: a cylinder of radius `rs` along a radius of the disc,
+/// from the floor plane at `floor` out to the rim cylinder of radius `rr`:
+/// `V = integral over a^2 + b^2 <= rs^2 of (sqrt(rr^2 - a^2) - floor) da db`
+/// `  = integral_{-pi/2}^{pi/2} 2 rs^2 cos^2(p) (sqrt(rr^2 - rs^2 sin^2 p) - floor) dp`
+/// (a = rs sin p), by Simpson's rule on 512 panels (the integrand is smooth and
+/// periodic-like, so the error is far below a micrometre cubed for hub sizes).
+pub fn socket_volume(rr: f64, rs: f64, floor: f64) -> f64 {
+    let f = |p: f64| {
+        let (s, c) = p.sin_cos();
+        2.0 * rs * rs * c * c * ((rr * rr - rs * rs * s * s).max(0.0).sqrt() - floor)
+    };
+    let k = 512;
+    let (a, b) = (-0.5 * PI, 0.5 * PI);
+    let step = (b - a) / k as f64;
+    let mut sum = f(a) + f(b);
+    for i in 1..k {
+        sum += f(a + step * i as f64) * if i % 2 == 1 { 4.0 } else { 2.0 };
+    }
+    sum * step / 3.0
 }
 
 /// Pushes triangle `t`, reversed if needed so its normal has a positive component along

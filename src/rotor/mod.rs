@@ -15,15 +15,15 @@ pub mod optimum;
 mod remark;
 mod spec;
 
+pub use assembly::{assemble, blade_transform, place_blades, Rotor, RotorSpec, MAX_BLADES};
 pub use draft::{
     draft, rotor_rpm, station_radii, DraftError, DraftStation, DraftTable, CL_HIGH, CSV_HEADER,
     LINE_SAMPLES, TIP_SPEED_CAUTION, TSR_SMALL_TURBINE, TSR_USUAL, TWIST_LIMIT,
 };
-pub use assembly::{assemble, blade_transform, place_blades, Rotor, RotorSpec, MAX_BLADES};
 pub use hand::{
     check_hand, hand_description, hand_radii, HandOptions, HandReport, Side, StationHand,
 };
-pub use hub::{circle_sides, Hub, HubSpec};
+pub use hub::{circle_sides, socket_volume, Hub, HubSpec, Sockets};
 pub use line::Line;
 pub use remark::{index_list, Grade, Remark};
 pub use spec::{
