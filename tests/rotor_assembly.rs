@@ -456,8 +456,7 @@ fn bad_rotor_tables_name_their_key() {
         let e = RotorSpec::from_design(&d).expect_err(table).to_string();
         assert!(e.contains(key), "{table}: {e}");
         let e = build_rotor(&d, &BuildOptions::default())
-            .err()
-            .expect("fails")
+            .expect_err("fails")
             .to_string();
         assert!(e.contains(key), "{table}: {e}");
     }
@@ -471,8 +470,7 @@ fn bad_rotor_tables_name_their_key() {
     );
     d.tables.remove("rotor");
     let e = build_rotor(&d, &BuildOptions::default())
-        .err()
-        .expect("fails")
+        .expect_err("fails")
         .to_string();
     assert!(e.contains("rotor") && e.contains("blades"), "{e}");
 }
@@ -658,8 +656,7 @@ fn socket_problems_name_their_key() {
     for (hub, key) in cases {
         let d = socket_design("ccw", hub);
         let e = build_rotor(&d, &BuildOptions::default())
-            .err()
-            .expect("fails")
+            .expect_err("fails")
             .to_string();
         assert!(e.contains(key), "{hub}: {e}");
     }
@@ -669,8 +666,7 @@ fn socket_problems_name_their_key() {
         t.insert("cone".into(), toml::Value::Float(4.0));
     }
     let e = build_rotor(&d, &BuildOptions::default())
-        .err()
-        .expect("fails")
+        .expect_err("fails")
         .to_string();
     assert!(e.contains("rotor.cone"), "{e}");
     // Without sockets the coned rotor builds.
