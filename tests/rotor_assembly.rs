@@ -676,3 +676,26 @@ fn socket_problems_name_their_key() {
     }
     assert!(build_rotor(&d, &BuildOptions::default()).is_ok());
 }
+
+#[test]
+fn example_rotors_turn_the_way_their_files_say() {
+    // The shipped examples (invented demo data): every placed blade's leading edge
+    // leads along omega x r and its pressure side faces the way its mode needs (the
+    // conventions; kinematics of a rigid rotation).
+    for (file, blades) in [
+        ("examples/garden-turbine.toml", 3),
+        ("examples/desk-fan.toml", 5),
+    ] {
+        let d = spanwright::design::load(std::path::Path::new(file)).expect("example loads");
+        let rotor = build_rotor(&d, &BuildOptions::default()).expect("example rotor");
+        assert_eq!(rotor.blades.len(), blades, "{file}");
+        let reports = rotor.check_hand(&HandOptions::DEFAULT);
+        assert_eq!(reports.len(), blades);
+        for r in &reports {
+            assert!(r.is_ok() && r.undetermined.is_empty(), "{file}: {r}");
+        }
+        let spec = RotorSpec::from_design(&d).expect("valid").expect("table");
+        let words = hand_description(&spec, &d);
+        assert!(words.contains(&format!("{blades} blades")), "{words}");
+    }
+}

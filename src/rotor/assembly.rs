@@ -18,9 +18,11 @@
 //! With these choices the clockwise rotor is exactly the mirror image (x -> -x) of the
 //! counter-clockwise one, blade by blade.
 
+use super::hand::{check_hand, hand_radii, HandOptions, HandReport};
 use super::hub::{Hub, HubSpec};
 use crate::design::{Design, DesignError, Flow, Rotation};
 use crate::mesh::{Part, TriMesh};
+use crate::pipeline::Model;
 use nalgebra::{Matrix4, Rotation3, Translation3, Vector3};
 use serde::Deserialize;
 
@@ -140,6 +142,8 @@ pub struct Rotor {
     pub hub: Option<Part>,
     /// The hub's geometry, when asked for (for its genus and exact volume).
     pub hub_shape: Option<Hub>,
+    /// The design's station radii, mm (where [`Rotor::check_hand`] looks).
+    pub station_radii: Vec<f64>,
 }
 
 /// The rigid transform of blade `k` (see the module docs); `pivot` is the cone pivot's
@@ -180,17 +184,21 @@ pub fn place_blades(
 }
 
 /// Assembles the rotor of a built blade: blades placed by [`blade_transform`] (cone
-/// pivot at `root_face`, mm) and the hub body when the spec has one, meshed to the
-/// blade's tolerance. Hub problems name `rotor.hub.<key>` in `design`'s file.
+/// pivot at the blade's root face) and the hub body when the spec has one, meshed to
+/// `blade_opts.tolerance`. Hub problems name `rotor.hub.<key>` in `design`'s file.
 pub fn assemble(
-    name: &str,
-    blade: &Part,
+    model: &Model,
     spec: &RotorSpec,
     blade_opts: &crate::design::BladeOptions,
-    root_face: f64,
     design: &Design,
 ) -> Result<Rotor, DesignError> {
-    let (blades, transforms) = place_blades(blade, spec, blade_opts.rotation, root_face);
+    let name = model.name.as_str();
+    let (blades, transforms) = place_blades(
+        &model.part(),
+        spec,
+        blade_opts.rotation,
+        model.blade.root_face(),
+    );
     let hub_shape = match &spec.hub {
         Some(h) => Some(h.resolve(spec, blade_opts.rotation, design)?),
         None => None,
@@ -207,10 +215,23 @@ pub fn assemble(
         transforms,
         hub,
         hub_shape,
+        station_radii: model.blade.station_radii().to_vec(),
     })
 }
 
 impl Rotor {
+    /// The rotation-sense and flow-side check of every placed blade (see
+    /// [`super::hand`]), at the stations strictly inside the span and midway between
+    /// stations ([`super::hand_radii`]).
+    pub fn check_hand(&self, opts: &HandOptions) -> Vec<HandReport> {
+        let radii = hand_radii(&self.station_radii);
+        self.blades
+            .iter()
+            .zip(&self.transforms)
+            .map(|(p, m)| check_hand(&p.mesh, m, &radii, self.rotation, self.flow, opts))
+            .collect()
+    }
+
     /// Every body: the blades, then the hub (one object each in multi-body files).
     pub fn parts(&self) -> Vec<Part> {
         let mut out = self.blades.clone();
