@@ -17,6 +17,18 @@
 //!
 //! With these choices the clockwise rotor is exactly the mirror image (x -> -x) of the
 //! counter-clockwise one, blade by blade.
+//!
+//! ```
+//! use spanwright::rotor::HandOptions;
+//! let design = spanwright::design::load(std::path::Path::new("examples/desk-fan.toml"))?;
+//! let rotor = spanwright::pipeline::build_rotor(&design, &Default::default())?;
+//! assert_eq!(rotor.blades.len(), 5);
+//! for report in rotor.check_hand(&HandOptions::DEFAULT) {
+//!     assert!(report.is_ok(), "{report}");
+//! }
+//! println!("{:.0} mm³ in {} bodies", rotor.envelope().signed_volume(), rotor.parts().len());
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
 
 use super::hand::{check_hand, hand_radii, HandOptions, HandReport};
 use super::hub::{Hub, HubSpec};
@@ -27,7 +39,7 @@ use nalgebra::{Matrix4, Rotation3, Translation3, Vector3};
 use serde::Deserialize;
 
 /// The `[rotor]` table of a design file (lengths in the file's unit until
-/// [`RotorSpec::to_mm`]; angles in degrees).
+/// [`RotorSpec::to_mm`]; angles always in degrees, whatever the file's angle unit).
 #[derive(Debug, Clone, PartialEq, Deserialize)]
 #[serde(rename_all = "kebab-case", deny_unknown_fields)]
 pub struct RotorSpec {
