@@ -201,9 +201,17 @@ impl Blade {
             }
         });
         if !monotone {
-            let min_area = areas.iter().copied().fold(f64::INFINITY, f64::min);
+            let (lo, hi) = (start.min(end), start.max(end));
+            let worst = areas
+                .iter()
+                .copied()
+                .max_by(|a, b| {
+                    let off = |x: f64| (lo - x).max(x - hi);
+                    off(*a).total_cmp(&off(*b))
+                })
+                .unwrap_or(start);
             return Err(RootError::Waist {
-                min_area,
+                min_area: worst,
                 start,
                 end,
             }
@@ -331,17 +339,18 @@ impl Blade {
     /// physical coordinates.
     ///
     /// The outline is a width `w(s)` times a normalised shape (outline divided by its
-    /// width: shank diameter or chord), plus the Hermite slope term that continues the
-    /// blade's spanwise slope. With the Hermite weight `H(s) = 3s² - 2s³` (zero slope at
-    /// both ends):
+    /// width: shank diameter or chord), plus the Hermite slope term `h11(s) l dP/dr` that
+    /// continues the blade's spanwise slope. With the Hermite weight
+    /// `H(s) = 3s² - 2s³` (zero slope at both ends):
     /// * the width is blended geometrically, `w = d^(1-H) c^H`;
     /// * the normalised shape is blended linearly, `(1-g) N_shank + g N_airfoil`, with `g`
-    ///   chosen so its area is the geometric mean `Â_shank^(1-H) Â_airfoil^H`.
+    ///   chosen so the section area follows a cubic Hermite law in `log(area)` from the
+    ///   shank's area (zero slope) to the first station's (the blade's own slope).
     ///
-    /// The section area `w² Â` then follows `A_shank^(1-H) A_airfoil^H`, monotone in `s`
-    /// by construction (no waist and no bulge), up to the slope term (checked in
-    /// [`Blade::with_root`]). Position and spanwise slope match the shank (zero slope) and
-    /// the first station (the blade's own slope) at the ends. The trailing-edge points are
+    /// The area is then monotone whenever a C1 monotone law exists (checked in
+    /// [`Blade::with_root`]): no waist and no bulge. Position and spanwise slope match the
+    /// shank (zero slope) and the first station (the blade's own slope) at the ends, as
+    /// `g` runs from 0 to 1 with zero slope at both ends. The trailing-edge points are
     /// held the first station's trailing-edge gap apart (Hermite in the gap, never below
     /// the first station's gap), so a blunt trailing edge keeps its printable thickness
     /// all along the transition.
@@ -358,41 +367,46 @@ impl Blade {
         let (d, c) = (root.shank_diameter, self.chord.eval(first));
         let n0: Vec<Point2<f64>> = shank.iter().map(|p| p / d).collect();
         let n1: Vec<Point2<f64>> = air.iter().map(|p| p / c).collect();
-        let mid: Vec<Point2<f64>> = n0
-            .iter()
-            .zip(&n1)
-            .map(|(a, b)| Point2::from((a.coords + b.coords) * 0.5))
-            .collect();
-        let (a0, a1) = (polygon_area(&n0), polygon_area(&n1));
-        // Area of the linear blend is quadratic in g (polarisation of the shoelace form).
-        let mixed = 2.0 * polygon_area(&mid) - 0.5 * (a0 + a1);
-        let q = |g: f64| (1.0 - g) * (1.0 - g) * a0 + 2.0 * g * (1.0 - g) * mixed + g * g * a1;
-        let target = a0.powf(1.0 - hw) * a1.powf(hw);
-        let (mut lo, mut hi) = (0.0f64, 1.0f64);
-        let falling = a1 < a0;
-        for _ in 0..64 {
-            let g = 0.5 * (lo + hi);
-            if (q(g) > target) == falling {
-                lo = g;
-            } else {
-                hi = g;
-            }
-        }
+        let w = d.powf(1.0 - hw) * c.powf(hw);
+        let blend = |g: f64| -> Vec<Point2<f64>> {
+            (0..n0.len())
+                .map(|k| {
+                    Point2::from(
+                        (n0[k].coords * (1.0 - g) + n1[k].coords * g) * w + slope[k] * (h11 * l),
+                    )
+                })
+                .collect()
+        };
+        // Area law: cubic Hermite in log(area), zero slope at the shank, the blade's own
+        // relative area change at the first station (so the area, like the outline, is
+        // C1 there). Monotone when that slope agrees in sign with the change from shank
+        // to first station and is at most three times its mean (Fritsch & Carlson,
+        // "Monotone piecewise cubic interpolation", SIAM J. Numer. Anal. 17, 1980);
+        // `with_root` checks the result.
+        let (a0, a1) = (polygon_area(&shank), polygon_area(&air));
+        let h = 1e-5 * (self.tip_radius() - first);
+        let rel_slope = (polygon_area(&self.airfoil_outline(first + h)) / a1).ln() / h;
+        let target = (a0.ln() * (1.0 - hw) + a1.ln() * hw + h11 * l * rel_slope).exp();
         let g = if hw <= 0.0 {
             0.0
         } else if hw >= 1.0 {
             1.0
         } else {
+            // The blend's area is quadratic in g, from near a0 to near a1: bisection.
+            let (q0, q1) = (polygon_area(&blend(0.0)), polygon_area(&blend(1.0)));
+            let rising = q1 > q0;
+            let (mut lo, mut hi) = (0.0f64, 1.0f64);
+            for _ in 0..60 {
+                let g = 0.5 * (lo + hi);
+                if (polygon_area(&blend(g)) < target) == rising {
+                    lo = g;
+                } else {
+                    hi = g;
+                }
+            }
             0.5 * (lo + hi)
         };
-        let w = d.powf(1.0 - hw) * c.powf(hw);
-        let mut pts: Vec<Point2<f64>> = (0..n0.len())
-            .map(|k| {
-                Point2::from(
-                    (n0[k].coords * (1.0 - g) + n1[k].coords * g) * w + slope[k] * (h11 * l),
-                )
-            })
-            .collect();
+        let mut pts = blend(g);
         let last = pts.len() - 1;
         let gap = air[0].y - air[last].y;
         // Never thinner than the first station's gap (where the gap grows outward the

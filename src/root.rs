@@ -147,9 +147,9 @@ pub enum RootError {
         travel: f64,
     },
     /// The section area does not vary monotonically along the transition.
-    #[error("the transition pinches (section area dips to {min_area:.1} mm² between {start:.1} and {end:.1} mm²); choose a shank diameter closer to the root chord's size or a longer transition")]
+    #[error("the transition's section area is not monotone (it reaches {min_area:.1} mm² between the shank's {start:.1} mm² and the first station's {end:.1} mm²): the shank's area must differ from the first station's in the sense the blade's area changes there (usually: larger, as the blade tapers outward), by enough for the transition's length; change root.shank-diameter (a larger shank as a rule) or shorten root.transition-length")]
     Waist {
-        /// Smallest area found, mm².
+        /// The area farthest outside the range from shank to first station, mm².
         min_area: f64,
         /// Shank area, mm².
         start: f64,

@@ -392,6 +392,26 @@ fn flange_smaller_than_the_shank() {
 }
 
 #[test]
+fn shank_smaller_than_a_tapering_first_station_is_refused() {
+    // Shank area pi 12² / 4 = 113 mm² below the first station's 0.685 * 0.12 * 40² =
+    // 131.5 mm² (Report 460 integral) while the blade's area falls outward: no monotone
+    // C1 area law joins them, so the root is refused with what to change.
+    let (e, msg) = root_error(&design(
+        "[root]\nshank-diameter = 12\nshank-length = 20\ntransition-length = 30\n",
+        40,
+        0.05,
+    ));
+    match e {
+        RootError::Waist { start, end, .. } => {
+            near_rel(start, PI * 36.0, 2e-3, "shank area");
+            near_rel(end, 0.68508 * 0.12 * 1600.0, 1e-2, "first station area");
+        }
+        other => panic!("{other:?}"),
+    }
+    assert!(msg.contains("root.shank-diameter"), "{msg}");
+}
+
+#[test]
 fn other_root_errors() {
     let (e, _) = root_error(&design(&root(20.0, "flat-depth = 6\n"), 40, 0.05));
     assert!(matches!(e, RootError::FlatTooDeep { .. }), "{e:?}");
