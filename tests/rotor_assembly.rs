@@ -85,30 +85,36 @@ fn clockwise_rotor_is_the_mirror_of_the_counter_clockwise_one() {
     // counter-clockwise one; pitch, cone and azimuth are defined so that this holds
     // blade by blade (a mirror conjugates a rotation about y or z into its inverse and
     // leaves a rotation about x unchanged: elementary linear algebra).
-    let ccw = build_rotor(
-        &design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR),
-        &BuildOptions::default(),
-    )
-    .expect("ccw rotor");
-    let cw = build_rotor(
-        &design("cw", "turbine", "naca4412", (20.0, 5.0), ROTOR),
-        &BuildOptions::default(),
-    )
-    .expect("cw rotor");
-    let (a, b) = (ccw.parts(), cw.parts());
-    assert_eq!(a.len(), 4);
-    assert_eq!(b.len(), 4);
-    for (pa, pb) in a.iter().zip(&b) {
-        let mirrored = sorted(pa.mesh.vertices.iter().map(|p| Point3::new(-p.x, p.y, p.z)));
-        let other = sorted(pb.mesh.vertices.iter().copied());
-        assert_eq!(mirrored.len(), other.len(), "{}", pa.name);
-        let worst = mirrored
-            .iter()
-            .zip(&other)
-            .map(|(p, q)| (0..3).map(|i| (p[i] - q[i]).abs()).fold(0.0, f64::max))
-            .fold(0.0, f64::max);
-        assert!(worst < 1e-9, "{}: vertices differ by {worst} mm", pa.name);
-        assert_eq!(pa.mesh.triangles.len(), pb.mesh.triangles.len());
+    let pairs = [
+        (
+            design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR),
+            design("cw", "turbine", "naca4412", (20.0, 5.0), ROTOR),
+        ),
+        (
+            socket_design("ccw", SOCKET_HUB),
+            socket_design("cw", SOCKET_HUB),
+        ),
+    ];
+    for (dccw, dcw) in pairs {
+        let ccw = build_rotor(&dccw, &BuildOptions::default()).expect("ccw rotor");
+        let cw = build_rotor(&dcw, &BuildOptions::default()).expect("cw rotor");
+        let (a, b) = (ccw.parts(), cw.parts());
+        assert_eq!(a.len(), 4);
+        assert_eq!(b.len(), 4);
+        for (pa, pb) in a.iter().zip(&b) {
+            let mirrored = sorted(pa.mesh.vertices.iter().map(|p| Point3::new(-p.x, p.y, p.z)));
+            let other = sorted(pb.mesh.vertices.iter().copied());
+            assert_eq!(mirrored.len(), other.len(), "{}", pa.name);
+            let worst = mirrored
+                .iter()
+                .zip(&other)
+                .map(|(p, q)| (0..3).map(|i| (p[i] - q[i]).abs()).fold(0.0, f64::max))
+                .fold(0.0, f64::max);
+            assert!(worst < 1e-9, "{}: vertices differ by {worst} mm", pa.name);
+            assert_eq!(pa.mesh.triangles.len(), pb.mesh.triangles.len());
+            let (va, vb) = (pa.mesh.signed_volume(), pb.mesh.signed_volume());
+            assert!((va / vb - 1.0).abs() < 1e-12, "{}: {va} vs {vb}", pa.name);
+        }
     }
 }
 
