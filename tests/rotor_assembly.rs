@@ -705,3 +705,53 @@ fn example_rotors_turn_the_way_their_files_say() {
         assert!(words.contains(&format!("{blades} blades")), "{words}");
     }
 }
+
+#[test]
+fn hubs_over_a_range_of_blades_bolts_and_tolerances_are_solids() {
+    // Every combination must pass the mesh checks (closed, oriented, no self-
+    // intersection) with genus = bore + bolt holes (Euler: V - E + F = 2 - 2g).
+    use spanwright::rotor::HubSpec;
+    let d = socket_design("ccw", "thickness = 14");
+    let mut built = 0;
+    for blades in 1..=5u32 {
+        for (bolts, circle) in [(0u32, 0.0), (2, 30.0), (5, 28.0)] {
+            for (tol, offset, bore) in [(0.05, 0.0, Some(8.0)), (0.01, 37.0, None)] {
+                let hub = HubSpec {
+                    thickness: 14.0,
+                    diameter: None,
+                    bore,
+                    bolt_count: bolts,
+                    bolt_diameter: (bolts > 0).then_some(3.0),
+                    bolt_circle: (bolts > 0).then_some(circle),
+                    min_wall: 0.8,
+                    sockets: true,
+                    socket_clearance: 0.3,
+                };
+                let spec = RotorSpec {
+                    blades,
+                    hub_radius: 35.0,
+                    pitch: 0.0,
+                    cone: 0.0,
+                    azimuth_offset: offset,
+                    hub: Some(hub.clone()),
+                };
+                let case = format!("B={blades} bolts={bolts} tol={tol} offset={offset}");
+                let resolved = hub
+                    .resolve(&spec, Rotation::Ccw, &d)
+                    .unwrap_or_else(|e| panic!("{case}: {e}"));
+                assert_eq!(
+                    resolved.sockets.as_ref().map(|s| s.angles.len()),
+                    Some(blades as usize)
+                );
+                let genus = u32::from(bore.is_some()) + bolts;
+                let report = check_solid(
+                    &resolved.mesh(tol),
+                    &CheckOptions::DEFAULT.with_expected_genus(Some(genus)),
+                );
+                assert!(report.is_ok(), "{case}: {report}");
+                built += 1;
+            }
+        }
+    }
+    assert_eq!(built, 30);
+}
