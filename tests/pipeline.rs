@@ -140,8 +140,14 @@ fn twist_rotates_the_chord_about_the_stacking_point() {
     let (f, chord) = (0.3, 40.0);
     let le_exact = (-f * chord * c, -f * chord * s);
     let te_exact = ((1.0 - f) * chord * c, (1.0 - f) * chord * s);
-    assert!((le.x - le_exact.0).abs() < 0.02 && (le.y - le_exact.1).abs() < 0.02, "{le} vs {le_exact:?}");
-    assert!((te.x - te_exact.0).abs() < 0.02 && (te.y - te_exact.1).abs() < 0.02, "{te} vs {te_exact:?}");
+    assert!(
+        (le.x - le_exact.0).abs() < 0.02 && (le.y - le_exact.1).abs() < 0.02,
+        "{le} vs {le_exact:?}"
+    );
+    assert!(
+        (te.x - te_exact.0).abs() < 0.02 && (te.y - te_exact.1).abs() < 0.02,
+        "{te} vs {te_exact:?}"
+    );
     let angle = (te.y - le.y).atan2(te.x - le.x).to_degrees();
     assert!((angle - 30.0).abs() < 0.05, "chord angle {angle}");
 }
@@ -170,13 +176,20 @@ fn parry3d_mass_properties_agree() {
     );
     assert_solid(&m);
     let mesh = m.mesh();
-    let verts: Vec<parry3d::math::Vector> =
-        mesh.vertices.iter().map(|p| parry3d::math::Vector::new(p.x as f32, p.y as f32, p.z as f32)).collect();
+    let verts: Vec<parry3d::math::Vector> = mesh
+        .vertices
+        .iter()
+        .map(|p| parry3d::math::Vector::new(p.x as f32, p.y as f32, p.z as f32))
+        .collect();
     // parry3d 0.31 works in f32 (glam types); density 1 gives mass = volume.
-    let props = parry3d::mass_properties::MassProperties::from_trimesh(1.0, &verts, &mesh.triangles);
+    let props =
+        parry3d::mass_properties::MassProperties::from_trimesh(1.0, &verts, &mesh.triangles);
     let ours = mesh.signed_volume();
     let theirs = props.mass() as f64;
-    assert!((ours / theirs - 1.0).abs() < 2e-3, "ours {ours} parry3d {theirs}");
+    assert!(
+        (ours / theirs - 1.0).abs() < 2e-3,
+        "ours {ours} parry3d {theirs}"
+    );
 }
 
 #[test]
@@ -203,5 +216,69 @@ fn truck_retessellation_of_the_exact_solid_agrees() {
     poly.put_together_same_attrs(1e-6);
     let theirs = poly.volume();
     let ours = m.mesh().signed_volume();
-    assert!((ours / theirs - 1.0).abs() < 2e-3, "ours {ours} truck {theirs}");
+    assert!(
+        (ours / theirs - 1.0).abs() < 2e-3,
+        "ours {ours} truck {theirs}"
+    );
+}
+
+#[test]
+fn cambered_designations_keep_their_published_chord_line() {
+    // NACA Report 460: upper surface x_u = x - y_t sin(theta), y_u = y_c + y_t cos(theta),
+    // lower with the signs of y_t flipped, in the frame whose chord line runs from the
+    // mean line's origin to the trailing edge. At zero twist the blade section must be
+    // that outline scaled by the chord (highest and lowest ordinates within 0.02 mm).
+    let (c, m, p, t) = (100.0, 0.04, 0.4, 0.15);
+    let model = model(
+        r#"
+        [blade]
+        section = "naca4415"
+        points-per-side = 160
+        tolerance = 0.002
+        [[station]]
+        radius = 100
+        chord = 100
+        twist = 0
+        [[station]]
+        radius = 200
+        chord = 100
+        twist = 0
+        "#,
+    );
+    let (mut hi, mut lo) = (f64::MIN, f64::MAX);
+    for i in 0..=20000 {
+        let x = i as f64 / 20000.0;
+        let yt = 5.0
+            * t
+            * (0.2969 * x.sqrt() - 0.1260 * x - 0.3516 * x * x + 0.2843 * x.powi(3)
+                - 0.1015 * x.powi(4));
+        let (yc, dyc) = if x < p {
+            (
+                m / (p * p) * (2.0 * p * x - x * x),
+                2.0 * m / (p * p) * (p - x),
+            )
+        } else {
+            let q = (1.0 - p) * (1.0 - p);
+            (
+                m / q * ((1.0 - 2.0 * p) + 2.0 * p * x - x * x),
+                2.0 * m / q * (p - x),
+            )
+        };
+        let th = dyc.atan();
+        hi = hi.max(yc + yt * th.cos());
+        lo = lo.min(yc - yt * th.cos());
+    }
+    let mesh = model.mesh();
+    let ys = mesh
+        .vertices
+        .iter()
+        .filter(|v| (v.z - 150.0).abs() < 60.0)
+        .map(|v| v.y);
+    let (top, bottom) = ys.fold((f64::MIN, f64::MAX), |(a, b), y| (a.max(y), b.min(y)));
+    assert!((top - hi * c).abs() < 0.02, "highest {top} vs {}", hi * c);
+    assert!(
+        (bottom - lo * c).abs() < 0.02,
+        "lowest {bottom} vs {}",
+        lo * c
+    );
 }
