@@ -407,6 +407,11 @@ fn hub_is_a_solid_of_the_right_genus_and_volume() {
     let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
     let hub = rotor.hub_shape.as_ref().expect("hub");
     assert_eq!(hub.genus(), 4, "bore + 3 bolt holes");
+    assert_eq!(rotor.expected_genus(), vec![0, 0, 0, 4]);
+    for (p, g) in rotor.parts().iter().zip(rotor.expected_genus()) {
+        let r = check_solid(&p.mesh, &CheckOptions::DEFAULT.with_expected_genus(Some(g)));
+        assert!(r.is_ok(), "{}: {r}", p.name);
+    }
     let mesh = &rotor.hub.as_ref().expect("hub part").mesh;
     let report = check_solid(mesh, &CheckOptions::DEFAULT.with_expected_genus(Some(4)));
     assert!(report.is_ok(), "{report}");

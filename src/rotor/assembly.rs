@@ -251,6 +251,15 @@ impl Rotor {
         out
     }
 
+    /// The genus each body of [`Rotor::parts`] must have, in the same order, for
+    /// [`crate::check::CheckOptions::with_expected_genus`]: 0 for a blade (its root bore
+    /// is blind), the hub's through-holes for the hub.
+    pub fn expected_genus(&self) -> Vec<u32> {
+        let mut out = vec![0; self.blades.len()];
+        out.extend(self.hub_shape.as_ref().map(Hub::genus));
+        out
+    }
+
     /// All bodies in one mesh, for printer-fit checks only: the bodies are appended, not
     /// united, so where blades and hub overlap the mesh is not a single valid solid.
     pub fn envelope(&self) -> TriMesh {
