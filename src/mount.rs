@@ -35,8 +35,8 @@ pub fn add_mount_features(
     mesh.triangles.drain(cap);
     let pts: Vec<Point3<f64>> = ring.iter().map(|&i| mesh.vertices[i as usize]).collect();
     let z_ring = pts[0].z;
-    // Shank centre: middle of the ring's bounding box (the ring is a circle or an
-    // ellipse centred on the stacking axis).
+    // Shank centre: recorded by the blade; else the middle of the ring's bounding box
+    // (a circle or an ellipse centred on the stacking axis).
     let (mut lo, mut hi) = (pts[0], pts[0]);
     for p in &pts {
         lo = lo.inf(p);

@@ -11,23 +11,36 @@
 //!
 //! * **Shank**: a circle of `shank-diameter` (an ellipse when `shank-thickness` is given,
 //!   the thickness measured along the rotor axis) centred on the stacking axis.
-//! * **Transition**: every section point moves on a cubic Hermite path from the shank
-//!   outline (slope zero along the span) to the first station's outline (with the blade's
-//!   own spanwise slope), so position and slope are continuous at both ends (no kink).
-//!   Twist and offsets continue the blade's slope into the transition the same way. The
-//!   shank outline shares the airfoil's point structure (cosine stations; the shank's two
-//!   trailing-edge points are held the airfoil's trailing-edge gap apart, so a blunt
-//!   trailing edge stays blunt, by at most half that gap off the exact circle); upper and
-//!   lower points of a station move at one chordwise position, so thickness never turns
-//!   negative and no section crosses itself. The section area is checked to be monotone
-//!   along the transition (no waist).
-//! * **Mounting features** (mesh only: STEP carries the shank without them): an optional
-//!   flange plate with a fillet at the root face, a coaxial blind bore with a drill-point
-//!   cone, built as surfaces of revolution sharing the skin's root ring. The wall left
-//!   around each hole is checked against `min-wall`.
+//! * **Transition**: the outline is a width (blended geometrically from the shank
+//!   diameter to the chord) times a normalised shape (blended linearly from the shank's
+//!   to the airfoil's), with the blend chosen so the section area follows a cubic Hermite
+//!   law in log(area) from the shank (zero slope) to the first station (the blade's own
+//!   slope); a Hermite slope term continues the blade's spanwise slope. Position and
+//!   slope are continuous at both ends (no kink) and the area is monotone (no waist, no
+//!   bulge), which [`crate::blade::Blade::with_root`] checks on 65 sections. Twist and
+//!   offsets continue the blade's slope into the transition the same way; the shank is
+//!   centred on the stacking axis. The shank outline shares the airfoil's point
+//!   structure (cosine stations, which on a circle are even steps of angle); its two
+//!   trailing-edge points are held the airfoil's trailing-edge gap apart, and that gap
+//!   is kept through the transition (never below the first station's), so a trailing
+//!   edge opened for printing stays printable. Upper and lower points of a station move
+//!   at one chordwise position, so thickness never turns negative and no section
+//!   crosses itself.
+//! * **Flat** (`flat-depth`): the shank's lower (pressure) side is cut flat at
+//!   `thickness/2 - depth` from the axis along the straight shank, against rotation in
+//!   the hub; the transition blends it away. It is part of the skin, so STEP has it.
+//! * **Mounting features** (mesh only: STEP carries the skin without them, see
+//!   [`RootSpec::mesh_only_features`]): an optional flange plate with a fillet at the
+//!   root face, a coaxial blind bore with a drill-point cone, built as surfaces of
+//!   revolution sharing the skin's root ring (see [`crate::mount`]). The wall left
+//!   around the bore (to the shank, the flat, and beyond its point) is checked against
+//!   `min-wall`. Cross holes through the shank are not built yet.
 //! * **Tip**: a flat cap, or a rounded tip that scales the outline down on an elliptic law
 //!   (`sqrt(1 - s^2)`) over `tip-length`, continuing the blade's slope (C1), to 5 % of its
 //!   size, closed by a small flat cap (so no triangle degenerates at a point).
+//!
+//! [`transition_svg`] draws the section outlines from root face to tip, seen along the
+//! span.
 //!
 //! Rules of thumb used as defaults (common practice, not from a standard): a printed wall
 //! of at least two nozzle widths (`min-wall = 0.8` mm for a 0.4 mm nozzle); a heat-set
