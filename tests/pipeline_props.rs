@@ -103,9 +103,9 @@ proptest! {
         let stl = stl_io::read_stl(&mut file).unwrap();
         prop_assert_eq!(stl.faces.len(), mesh.len());
         for (face, tri) in stl.faces.iter().zip(&mesh.triangles) {
-            for k in 0..3 {
-                let v = stl.vertices[face.vertices[k]];
-                let p = mesh.vertices[tri[k] as usize];
+            for (&vi, &ti) in face.vertices.iter().zip(tri) {
+                let v = stl.vertices[vi];
+                let p = mesh.vertices[ti as usize];
                 for (a, b) in [(v[0], p.x), (v[1], p.y), (v[2], p.z)] {
                     prop_assert!((a as f64 - b).abs() <= 1e-4 * (1.0 + b.abs()));
                 }

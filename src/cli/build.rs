@@ -6,6 +6,7 @@ use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::{self, Design};
 use spanwright::export::{self, Format};
 use spanwright::pipeline::{self, BuildOptions, Model, TeChange};
+use spanwright::rotor::{assemble, hand_description, HandOptions, Rotor, RotorSpec};
 use spanwright::tessellate::max_deviation;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -37,6 +38,10 @@ pub struct Args {
     /// Print the summary as JSON.
     #[arg(long)]
     pub json: bool,
+    /// Write the blade only, even when the design has a [rotor] table (which otherwise
+    /// also writes the assembled rotor as <name>-rotor.<format>).
+    #[arg(long)]
+    pub blade_only: bool,
 }
 
 /// Loads a design file (TOML, or CSV with an optional default section).
@@ -70,16 +75,52 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
             tolerance: args.tolerance,
         },
     )?;
-    stages.set("checking the solid");
+    let rotor = match RotorSpec::from_design(&design)? {
+        Some(spec) if !args.blade_only => Some(assemble(&model, &spec, &design.blade, &design)?),
+        _ => None,
+    };
+    stages.set("checking the solids");
     let report = check_solid(model.mesh(), &CheckOptions::DEFAULT);
-    stages.finish();
     if !report.is_ok() {
+        stages.finish();
         eprintln!(
             "{}: the solid failed its checks; nothing was written:\n{report}",
             args.design.display()
         );
         return Ok(ExitCode::from(EXIT_CHECK_FAILED));
     }
+    if let Some(rotor) = &rotor {
+        let hand = rotor.check_hand(&HandOptions::DEFAULT);
+        for (part, genus) in rotor
+            .parts()
+            .iter()
+            .zip(rotor.expected_genus())
+            .skip(rotor.blades.len())
+        {
+            let report = check_solid(
+                &part.mesh,
+                &CheckOptions::DEFAULT.with_expected_genus(Some(genus)),
+            );
+            if !report.is_ok() {
+                stages.finish();
+                eprintln!(
+                    "{}: the {} failed its checks; nothing was written:\n{report}",
+                    args.design.display(),
+                    part.name
+                );
+                return Ok(ExitCode::from(EXIT_CHECK_FAILED));
+            }
+        }
+        if let Some(bad) = hand.iter().find(|h| !h.is_ok()) {
+            stages.finish();
+            eprintln!(
+                "{}: the rotation-sense check failed; nothing was written:\n{bad}",
+                args.design.display()
+            );
+            return Ok(ExitCode::from(EXIT_CHECK_FAILED));
+        }
+    }
+    stages.finish();
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create the output folder {}", args.out.display()))?;
     let mut written = Vec::new();
@@ -91,6 +132,13 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         let path = args.out.join(format!("{stem}.{}", format.extension()));
         write_format(&model, *format, &path)?;
         written.push(path);
+        if let Some(rotor) = &rotor {
+            let path = args
+                .out
+                .join(format!("{stem}-rotor.{}", format.extension()));
+            write_rotor(&model, rotor, *format, &path)?;
+            written.push(path);
+        }
     }
     let tolerance = args.tolerance.unwrap_or(design.blade.tolerance);
     let summary = Summary::of(&model, tolerance, &written, started.elapsed().as_secs_f64());
@@ -98,6 +146,17 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         println!("{}", serde_json::to_string_pretty(&summary)?);
     } else if !ctx.quiet {
         summary.print();
+        if let Some(rotor) = &rotor {
+            println!("  rotor: {}", hand_description(&rotor.spec, &design));
+            if rotor.hub.is_some() && formats.contains(&Format::Step) {
+                println!("  note: the rotor's STEP file holds the blades only; the hub is written as a mesh (STL/3MF/OBJ)");
+            }
+        }
+        if formats.contains(&Format::Step) {
+            if let Some(features) = mesh_only_features(&model) {
+                println!("  note: the STEP solid carries the shank but not {features}; those are in the mesh files only");
+            }
+        }
     }
     Ok(ExitCode::SUCCESS)
 }
@@ -113,6 +172,50 @@ fn write_format(model: &Model, format: Format, path: &Path) -> anyhow::Result<()
             )?;
         }
         _ => export::write_parts(path, format, &[model.part()])?,
+    }
+    Ok(())
+}
+
+/// The root features the mesh has and the exact solid lacks, in words.
+fn mesh_only_features(model: &Model) -> Option<String> {
+    let root = model.blade.root()?;
+    let mut f = Vec::new();
+    if root.flange.is_some() {
+        f.push("the flange");
+    }
+    if root.bore.is_some() {
+        f.push("the bore");
+    }
+    (!f.is_empty()).then(|| f.join(" and "))
+}
+
+/// Writes the assembled rotor: every body in one file (one object each in 3MF and OBJ);
+/// in STEP the exact blade solid placed once per blade.
+fn write_rotor(model: &Model, rotor: &Rotor, format: Format, path: &Path) -> anyhow::Result<()> {
+    match format {
+        Format::Step => {
+            let solid = export::step_solid(&model.skin)?;
+            let solids: Vec<_> = rotor
+                .transforms
+                .iter()
+                .enumerate()
+                .map(|(k, m)| {
+                    let cols: [[f64; 4]; 4] =
+                        std::array::from_fn(|c| std::array::from_fn(|r| m[(r, c)]));
+                    let placed = truck_modeling::builder::transformed(
+                        &solid,
+                        truck_modeling::Matrix4::from(cols),
+                    );
+                    (format!("{}-blade-{}", model.name, k + 1), placed)
+                })
+                .collect();
+            export::write_step(
+                path,
+                &solids,
+                &export::StepHeader::for_design(&format!("{}-rotor", model.name)),
+            )?;
+        }
+        _ => export::write_parts(path, format, &rotor.parts())?,
     }
     Ok(())
 }
