@@ -29,24 +29,55 @@ pub fn add_mount_features(
     root: &RootSpec,
     face: f64,
 ) {
-    if root.flange.is_none() && root.bore.is_none() {
-        return;
+    let grid_vertices = mesh.vertices.len();
+    if root.flange.is_some() || root.bore.is_some() {
+        add_lathe_features(mesh, ring, cap, root, face);
     }
+    if !root.cross_holes.is_empty() && ring.len() > 2 {
+        let c = shank_centre(mesh, ring, root);
+        let r_shank = 0.5 * root.shank_diameter;
+        for h in &root.cross_holes {
+            add_cross_hole(
+                mesh,
+                ring,
+                grid_vertices,
+                c,
+                r_shank,
+                face + h.at,
+                0.5 * h.diameter,
+            );
+        }
+    }
+}
+
+/// The shank centre (x, y; z = 0): recorded by the blade; else the middle of the ring's
+/// bounding box (a circle or an ellipse centred on the stacking axis).
+fn shank_centre(mesh: &TriMesh, ring: &[u32], root: &RootSpec) -> Point3<f64> {
+    if let Some([x, y]) = root.centre {
+        return Point3::new(x, y, 0.0);
+    }
+    let p0 = mesh.vertices[ring[0] as usize];
+    let (mut lo, mut hi) = (p0, p0);
+    for &i in ring {
+        lo = lo.inf(&mesh.vertices[i as usize]);
+        hi = hi.sup(&mesh.vertices[i as usize]);
+    }
+    Point3::new(0.5 * (lo.x + hi.x), 0.5 * (lo.y + hi.y), 0.0)
+}
+
+/// Flange and bore (see [`add_mount_features`]).
+fn add_lathe_features(
+    mesh: &mut TriMesh,
+    ring: &[u32],
+    cap: std::ops::Range<usize>,
+    root: &RootSpec,
+    face: f64,
+) {
     mesh.triangles.drain(cap);
     let pts: Vec<Point3<f64>> = ring.iter().map(|&i| mesh.vertices[i as usize]).collect();
     let z_ring = pts[0].z;
-    // Shank centre: recorded by the blade; else the middle of the ring's bounding box
-    // (a circle or an ellipse centred on the stacking axis).
-    let (mut lo, mut hi) = (pts[0], pts[0]);
-    for p in &pts {
-        lo = lo.inf(p);
-        hi = hi.sup(p);
-    }
     // The blade records the exact centre (a flat moves the box's middle).
-    let c = match root.centre {
-        Some([x, y]) => Point3::new(x, y, 0.0),
-        None => Point3::new(0.5 * (lo.x + hi.x), 0.5 * (lo.y + hi.y), 0.0),
-    };
+    let c = shank_centre(mesh, ring, root);
     let dirs: Vec<(Vector3<f64>, f64)> = pts
         .iter()
         .map(|p| {
@@ -169,4 +200,246 @@ fn fan(mesh: &mut TriMesh, ring: &[u32], apex: u32, c: Point3<f64>) {
         let outward = strip_outward(mesh, ring[k], apex, c);
         push_oriented(mesh, [ring[k], ring[(k + 1) % n], apex], outward);
     }
+}
+
+/// Points per hole loop (entry and exit curves).
+const HOLE_STEPS: usize = 96;
+
+/// Cuts one cross hole (axis along y through the shank axis at height `z_c`, radius
+/// `r_h`) through the skin's straight round shank (radius `r_shank` about `c`).
+///
+/// The skin is the tessellation's structured grid: vertex `(i, j)` (column `i` around
+/// the section, row `j` along the span) is `ring[i] + j`, so the row count is
+/// `ring[1] - ring[0]` and the grid holds the first `grid_vertices` vertices. The band
+/// of rows around the hole is unrolled to `(R theta, z)` (cut at the column farthest
+/// from the hole's two ends), retriangulated by a constrained Delaunay triangulation
+/// of the band's own boundary vertices, its inner grid vertices clear of the hole, and
+/// the hole's entry and exit curves (the exact intersection of the two cylinders,
+/// `HOLE_STEPS` points each) as constrained loops whose insides are left out; a tube of
+/// straight segments parallel to y joins entry and exit. Every boundary edge is shared
+/// with the untouched skin, so the part stays watertight by construction.
+fn add_cross_hole(
+    mesh: &mut TriMesh,
+    ring: &[u32],
+    grid_vertices: usize,
+    c: Point3<f64>,
+    r_shank: f64,
+    z_c: f64,
+    r_h: f64,
+) {
+    use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
+    use std::f64::consts::TAU;
+    let nv = (ring[1] - ring[0]) as usize;
+    if nv < 2 {
+        return;
+    }
+    let nu = ring.len();
+    let vertex = |i: usize, j: usize| ring[i] + j as u32;
+    let zs: Vec<f64> = (0..nv)
+        .map(|j| mesh.vertices[vertex(0, j) as usize].z)
+        .collect();
+    let Some(ja) = (0..nv).rev().find(|&j| zs[j] < z_c - r_h) else {
+        return;
+    };
+    let Some(jb) = (0..nv).find(|&j| zs[j] > z_c + r_h) else {
+        return;
+    };
+    // Columns by angle, starting at the one farthest from the hole's ends (+-y).
+    let theta = |p: &Point3<f64>| (p.y - c.y).atan2(p.x - c.x);
+    let th: Vec<f64> = (0..nu)
+        .map(|i| theta(&mesh.vertices[vertex(i, ja) as usize]))
+        .collect();
+    let ks = (0..nu)
+        .min_by(|&a, &b| th[a].sin().abs().total_cmp(&th[b].sin().abs()))
+        .unwrap_or(0);
+    let wrap = |a: f64| a.rem_euclid(TAU);
+    let orient = if wrap(th[(ks + 1) % nu] - th[ks]) < std::f64::consts::PI {
+        1.0
+    } else {
+        -1.0
+    };
+    let u_of = |a: f64| r_shank * wrap(orient * (a - th[ks]));
+
+    // CDT vertices: (u, z) and the mesh vertex each stands for.
+    let mut uv: Vec<(f64, f64)> = Vec::new();
+    let mut ids: Vec<u32> = Vec::new();
+    let mut edges: Vec<[usize; 2]> = Vec::new();
+    // Boundary loop: bottom row left to right, right side up, top row right to left,
+    // left side down. The cut column stands at u = 0 (left) and u = 2 pi R (right).
+    let mut boundary: Vec<usize> = Vec::new();
+    let push = |uv: &mut Vec<(f64, f64)>, ids: &mut Vec<u32>, p: (f64, f64), id: u32| {
+        uv.push(p);
+        ids.push(id);
+        uv.len() - 1
+    };
+    let col = |t: usize| (ks + t) % nu;
+    let u_col = |t: usize| {
+        if t == 0 {
+            0.0
+        } else if t == nu {
+            r_shank * TAU
+        } else {
+            u_of(th[col(t)])
+        }
+    };
+    for t in 0..=nu {
+        let k = push(&mut uv, &mut ids, (u_col(t), zs[ja]), vertex(col(t), ja));
+        boundary.push(k);
+    }
+    for j in ja + 1..jb {
+        let k = push(&mut uv, &mut ids, (u_col(nu), zs[j]), vertex(col(0), j));
+        boundary.push(k);
+    }
+    for t in (0..=nu).rev() {
+        let k = push(&mut uv, &mut ids, (u_col(t), zs[jb]), vertex(col(t), jb));
+        boundary.push(k);
+    }
+    for j in (ja + 1..jb).rev() {
+        let k = push(&mut uv, &mut ids, (0.0, zs[j]), vertex(col(0), j));
+        boundary.push(k);
+    }
+    for w in 0..boundary.len() {
+        edges.push([boundary[w], boundary[(w + 1) % boundary.len()]]);
+    }
+    let dz_min = TAU * r_h / HOLE_STEPS as f64;
+    // Inner grid vertices clear of the hole (distance from the hole's axis, measured
+    // across x and z since the axis runs along y).
+    for t in 1..nu {
+        for j in ja + 1..jb {
+            let id = vertex(col(t), j);
+            let p = mesh.vertices[id as usize];
+            let dist = ((p.x - c.x).powi(2) + (p.z - z_c).powi(2)).sqrt();
+            if dist > r_h + 0.5 * dz_min {
+                push(&mut uv, &mut ids, (u_col(t), zs[j]), id);
+            }
+        }
+    }
+    // Extra levels between the rows, as dense as the hole's curve, so no triangle
+    // spans a wide angle (its chord would sink into the shank): points on each column's
+    // straight line between the band's two rows, clear of the hole.
+    let dz = (TAU * r_h / HOLE_STEPS as f64).max((zs[jb] - zs[ja]) / 96.0);
+    let levels = ((zs[jb] - zs[ja]) / dz).floor() as usize;
+    for l in 1..levels {
+        let z = zs[ja] + dz * l as f64;
+        if (ja..=jb).any(|j| (zs[j] - z).abs() < 0.5 * dz) {
+            continue;
+        }
+        let f = (z - zs[ja]) / (zs[jb] - zs[ja]);
+        for t in 1..nu {
+            let (a, b) = (
+                mesh.vertices[vertex(col(t), ja) as usize],
+                mesh.vertices[vertex(col(t), jb) as usize],
+            );
+            let p = a + (b - a) * f;
+            let dist = ((p.x - c.x).powi(2) + (p.z - z_c).powi(2)).sqrt();
+            if dist > r_h + dz {
+                let id = mesh.push_vertex(p);
+                push(&mut uv, &mut ids, (u_col(t), z), id);
+            }
+        }
+    }
+    // Entry (+y) and exit (-y) curves: x' = r_h cos(phi), z = z_c + r_h sin(phi),
+    // y' = +-sqrt(R^2 - x'^2) on the shank cylinder.
+    let mut loops: Vec<Vec<usize>> = Vec::new();
+    let mut loop_ids: Vec<Vec<u32>> = Vec::new();
+    for side in [1.0, -1.0] {
+        let mut lp = Vec::with_capacity(HOLE_STEPS);
+        let mut li = Vec::with_capacity(HOLE_STEPS);
+        for k in 0..HOLE_STEPS {
+            let phi = TAU * k as f64 / HOLE_STEPS as f64;
+            let xr = r_h * phi.cos();
+            let yr = side * (r_shank * r_shank - xr * xr).max(0.0).sqrt();
+            let p = Point3::new(c.x + xr, c.y + yr, z_c + r_h * phi.sin());
+            let id = mesh.push_vertex(p);
+            let q = push(&mut uv, &mut ids, (u_of(theta(&p)), p.z), id);
+            lp.push(q);
+            li.push(id);
+        }
+        for k in 0..HOLE_STEPS {
+            edges.push([lp[k], lp[(k + 1) % HOLE_STEPS]]);
+        }
+        loops.push(lp);
+        loop_ids.push(li);
+    }
+    let verts: Vec<SPoint<f64>> = uv.iter().map(|&(u, z)| SPoint::new(u, z)).collect();
+    let n = verts.len();
+    let mut conflict = false;
+    let Ok(cdt) =
+        ConstrainedDelaunayTriangulation::<SPoint<f64>>::try_bulk_load_cdt(verts, edges, |_| {
+            conflict = true
+        })
+    else {
+        return;
+    };
+    if conflict || cdt.num_vertices() != n {
+        return;
+    }
+    // Remove the band's old triangles: grid triangles with every vertex in rows
+    // ja..=jb that reach inside the band.
+    let row = |v: u32| (v as usize) % nv;
+    mesh.triangles.retain(|t| {
+        let grid = t.iter().all(|&v| (v as usize) < grid_vertices);
+        if !grid {
+            return true;
+        }
+        let rows = t.map(row);
+        let (lo, hi) = (
+            rows.iter().copied().min().unwrap_or(0),
+            rows.iter().copied().max().unwrap_or(0),
+        );
+        !(lo >= ja && hi <= jb && hi > ja && lo < jb)
+    });
+    let hole_polys: Vec<Vec<nalgebra::Point2<f64>>> = loops
+        .iter()
+        .map(|lp| {
+            lp.iter()
+                .map(|&k| nalgebra::Point2::new(uv[k].0, uv[k].1))
+                .collect()
+        })
+        .collect();
+    for face in cdt.inner_faces() {
+        let [a, b, cc] = face.vertices().map(|v| v.fix().index());
+        let cu = (uv[a].0 + uv[b].0 + uv[cc].0) / 3.0;
+        let cz = (uv[a].1 + uv[b].1 + uv[cc].1) / 3.0;
+        let q = nalgebra::Point2::new(cu, cz);
+        if hole_polys.iter().any(|poly| inside(poly, &q)) {
+            continue;
+        }
+        let t = [ids[a], ids[b], ids[cc]];
+        let centroid = Point3::from(
+            (mesh.vertices[t[0] as usize].coords
+                + mesh.vertices[t[1] as usize].coords
+                + mesh.vertices[t[2] as usize].coords)
+                / 3.0,
+        );
+        let outward = Vector3::new(centroid.x - c.x, centroid.y - c.y, 0.0);
+        push_oriented(mesh, t, outward);
+    }
+    // The hole's wall: straight segments from entry to exit, facing the hole's axis.
+    let (entry, exit) = (&loop_ids[0], &loop_ids[1]);
+    for k in 0..HOLE_STEPS {
+        let k1 = (k + 1) % HOLE_STEPS;
+        let p = mesh.vertices[entry[k] as usize];
+        let q = mesh.vertices[entry[k1] as usize];
+        let mid = Point3::from((p.coords + q.coords) * 0.5);
+        let outward = Vector3::new(c.x - mid.x, 0.0, z_c - mid.z);
+        push_oriented(mesh, [entry[k], entry[k1], exit[k1]], outward);
+        push_oriented(mesh, [entry[k], exit[k1], exit[k]], outward);
+    }
+}
+
+/// Point-in-polygon by the crossing-number rule (even-odd).
+fn inside(poly: &[nalgebra::Point2<f64>], q: &nalgebra::Point2<f64>) -> bool {
+    let mut c = false;
+    let n = poly.len();
+    for i in 0..n {
+        let (a, b) = (poly[i], poly[(i + 1) % n]);
+        if (a.y > q.y) != (b.y > q.y) {
+            let x = a.x + (q.y - a.y) * (b.x - a.x) / (b.y - a.y);
+            if q.x < x {
+                c = !c;
+            }
+        }
+    }
+    c
 }

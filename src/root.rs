@@ -34,7 +34,8 @@
 //!   root face, a coaxial blind bore with a drill-point cone, built as surfaces of
 //!   revolution sharing the skin's root ring (see [`crate::mount`]). The wall left
 //!   around the bore (to the shank, the flat, and beyond its point) is checked against
-//!   `min-wall`. Cross holes through the shank are not built yet.
+//!   `min-wall`. Cross holes through the straight round shank along the rotor axis are cut
+//!   into the skin's mesh (see [`crate::mount`]); each raises the genus by one.
 //! * **Tip**: a flat cap, or a rounded tip that scales the outline down on an elliptic law
 //!   (`sqrt(1 - s^2)`) over `tip-length`, continuing the blade's slope (C1), to 5 % of its
 //!   size, closed by a small flat cap (so no triangle degenerates at a point).
@@ -74,6 +75,10 @@ pub struct RootSpec {
     pub flange: Option<FlangeSpec>,
     /// Optional coaxial blind bore from the root face.
     pub bore: Option<BoreSpec>,
+    /// Cross holes through the round shank along the rotor axis (y), e.g. for a pin or
+    /// a bolt through the hub; each makes the part one genus higher (mesh only).
+    #[serde(default)]
+    pub cross_holes: Vec<CrossHoleSpec>,
     /// Shank centre in the blade frame (x, y), mm: set by
     /// [`crate::blade::Blade::with_root`] for the mount features.
     #[serde(skip)]
@@ -95,6 +100,17 @@ pub struct FlangeSpec {
     /// Fillet radius between plate and shank, mm (0 for none).
     #[serde(default)]
     pub fillet: f64,
+}
+
+/// A hole through the straight round shank, along the rotor axis (y in the blade frame),
+/// its axis crossing the shank's axis.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(rename_all = "kebab-case", deny_unknown_fields)]
+pub struct CrossHoleSpec {
+    /// Hole diameter, mm.
+    pub diameter: f64,
+    /// Distance of the hole's axis from the root face, mm.
+    pub at: f64,
 }
 
 /// A coaxial blind bore from the root face (bolt or heat-set insert).
@@ -189,6 +205,9 @@ pub enum RootError {
         /// Deepest flat allowed, mm.
         most: f64,
     },
+    /// Cross holes need a round shank without a flat.
+    #[error("root.cross-holes need a round shank without a flat: remove root.shank-thickness and root.flat-depth, or the cross holes")]
+    CrossHoleShank,
     /// The flange and its fillet do not leave any straight shank.
     #[error("root.flange.thickness + root.flange.fillet = {height:.2} mm must be less than root.shank-length = {shank:.2} mm; lengthen the shank or thin the flange")]
     FlangeTooLong {
@@ -224,6 +243,10 @@ impl RootSpec {
         if let Some(b) = &mut self.bore {
             b.diameter *= k;
             b.depth *= k;
+        }
+        for h in &mut self.cross_holes {
+            h.diameter *= k;
+            h.at *= k;
         }
         self
     }
@@ -318,7 +341,91 @@ impl RootSpec {
                 });
             }
         }
+        self.validate_cross_holes()
+    }
+
+    /// Checks the cross holes: round shank without a flat, the wall beside each hole,
+    /// toward the root face (or flange), toward the transition, toward the bore's point
+    /// and between neighbouring holes.
+    fn validate_cross_holes(&self) -> Result<(), RootError> {
+        if self.cross_holes.is_empty() {
+            return Ok(());
+        }
+        if self.flat_depth.is_some()
+            || (self.thickness() - self.shank_diameter).abs() > 1e-9 * self.shank_diameter
+        {
+            return Err(RootError::CrossHoleShank);
+        }
+        let wall = |what, wall: f64, fix| {
+            if wall < self.min_wall {
+                Err(RootError::ThinWall {
+                    what,
+                    wall,
+                    min: self.min_wall,
+                    fix,
+                })
+            } else {
+                Ok(())
+            }
+        };
+        let base = self.flange.as_ref().map_or(0.0, |f| f.thickness + f.fillet);
+        let bore_end = self
+            .bore
+            .as_ref()
+            .map_or(0.0, |b| b.depth + self.bore_point_depth());
+        let mut spans: Vec<(f64, f64)> = Vec::new();
+        for h in &self.cross_holes {
+            if !(h.diameter > 0.0 && h.diameter.is_finite()) {
+                return Err(RootError::NotPositive {
+                    key: "cross-holes.diameter",
+                    value: h.diameter,
+                });
+            }
+            if !h.at.is_finite() {
+                return Err(RootError::NotPositive {
+                    key: "cross-holes.at",
+                    value: h.at,
+                });
+            }
+            let r = 0.5 * h.diameter;
+            wall(
+                "root.cross-holes.diameter",
+                0.5 * self.shank_diameter - r,
+                "the hole breaks out of the shank's sides: use a smaller hole or a larger shank",
+            )?;
+            wall(
+                "root.cross-holes.at (toward the root face or flange)",
+                h.at - r - base,
+                "move the hole away from the root face",
+            )?;
+            wall(
+                "root.cross-holes.at (toward the transition)",
+                self.shank_length - (h.at + r),
+                "move the hole toward the root face or lengthen the shank (holes go through the straight shank only)",
+            )?;
+            if self.bore.is_some() {
+                wall(
+                    "root.cross-holes.at (toward the bore's point)",
+                    h.at - r - bore_end,
+                    "move the hole beyond the bore or make the bore shallower",
+                )?;
+            }
+            for &(lo, hi) in &spans {
+                wall(
+                    "root.cross-holes.at (between two holes)",
+                    (h.at - r - hi).max(lo - (h.at + r)),
+                    "space the holes farther apart",
+                )?;
+            }
+            spans.push((h.at - r, h.at + r));
+        }
         Ok(())
+    }
+
+    /// The genus of the finished part: one per cross hole (pass it to
+    /// [`crate::check::CheckOptions::with_expected_genus`]).
+    pub fn genus(&self) -> u32 {
+        self.cross_holes.len() as u32
     }
 
     /// Axial depth of the bore's drill-point cone, mm.
@@ -336,7 +443,8 @@ impl RootSpec {
 impl RootSpec {
     /// The mounting features that exist only in the mesh (STL, 3MF, OBJ), not in the STEP
     /// solid, which carries the skin (shank, flat, transition, blade) alone: `"flange"`
-    /// (the STEP skin then starts at the top of the flange's fillet) and `"bore"`.
+    /// (the STEP skin then starts at the top of the flange's fillet), `"bore"` and
+    /// `"cross holes"`.
     /// Empty when the STEP solid is complete. The build command prints these.
     pub fn mesh_only_features(&self) -> Vec<&'static str> {
         let mut out = Vec::new();
@@ -345,6 +453,9 @@ impl RootSpec {
         }
         if self.bore.is_some() {
             out.push("bore");
+        }
+        if !self.cross_holes.is_empty() {
+            out.push("cross holes");
         }
         out
     }

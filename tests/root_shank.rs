@@ -466,3 +466,114 @@ fn transition_picture_shows_every_section() {
     }
     assert!(elements > 10);
 }
+
+/// Volume of a drilled cross hole of radius `r` through a cylinder of radius `big_r`,
+/// axes crossing at right angles: V = ∫ 2 sqrt(r² - x²) · 2 sqrt(R² - x²) dx over
+/// |x| < r (elementary calculus: the hole's chord length in z times the shank's chord
+/// length in y), with x = r sin(phi) to make the integrand smooth, by Simpson's rule.
+fn cross_hole_volume(r: f64, big_r: f64) -> f64 {
+    let n = 2000;
+    let h = PI / n as f64;
+    let f = |phi: f64| {
+        let x = r * phi.sin();
+        4.0 * r * phi.cos() * r * phi.cos() * (big_r * big_r - x * x).sqrt()
+    };
+    let mut s = f(-PI / 2.0) + f(PI / 2.0);
+    for i in 1..n {
+        let phi = -PI / 2.0 + h * i as f64;
+        s += if i % 2 == 1 { 4.0 } else { 2.0 } * f(phi);
+    }
+    s * h / 3.0
+}
+
+#[test]
+fn cross_hole_removes_the_drilled_volume_and_adds_one_genus() {
+    // Volume by the integral above within 0.2 %; the mesh's hole is a 96-sided polygon
+    // (inscribed area factor n sin(2 pi / n) / (2 pi) = 0.99929, so 0.07 % smaller).
+    let holed = model(&design(
+        &root(25.0, "cross-holes = [{ diameter = 5, at = 12 }]\n"),
+        120,
+        0.004,
+    ));
+    // check_solid with genus 1: a through hole is one handle (Euler: V - E + F = 2 - 2g).
+    let report = check_solid(
+        holed.mesh(),
+        &CheckOptions::DEFAULT.with_expected_genus(Some(1)),
+    );
+    assert!(report.is_ok(), "{report}");
+    assert_eq!(report.genus, Some(1));
+    let plain = volume(&root(25.0, ""));
+    near_rel(
+        plain - holed.mesh().signed_volume(),
+        cross_hole_volume(2.5, 10.0),
+        2e-3,
+        "cross hole",
+    );
+    assert_eq!(holed.blade.root().expect("root").genus(), 1);
+}
+
+#[test]
+fn two_cross_holes_with_flange_and_bore_are_genus_two() {
+    let m = model(&design(
+        &root(
+            30.0,
+            "flange = { diameter = 34, thickness = 3, fillet = 2 }\n\
+             bore = { diameter = 6.4, depth = 8 }\n\
+             cross-holes = [{ diameter = 4, at = 15 }, { diameter = 3, at = 23 }]\n",
+        ),
+        60,
+        0.02,
+    ));
+    let report = check_solid(
+        m.mesh(),
+        &CheckOptions::DEFAULT.with_expected_genus(Some(2)),
+    );
+    assert!(report.is_ok(), "{report}");
+    assert_eq!(
+        m.blade.root().expect("root").mesh_only_features(),
+        vec!["flange", "bore", "cross holes"]
+    );
+}
+
+#[test]
+fn cross_hole_that_breaks_out_of_the_wall() {
+    // 19 mm hole in a 20 mm shank: 0.5 mm wall each side, 0.3 mm under min-wall 0.8.
+    let (e, msg) = root_error(&design(
+        &root(25.0, "cross-holes = [{ diameter = 19, at = 12 }]\n"),
+        40,
+        0.05,
+    ));
+    assert!(matches!(e, RootError::ThinWall { .. }), "{e:?}");
+    assert!(msg.contains("root.cross-holes.diameter"), "{msg}");
+    assert!(msg.contains("0.50 mm, 0.30 mm under"), "{msg}");
+    // Too near the transition: 5 mm hole at 23 mm of a 25 mm shank leaves -0.5 mm.
+    let (_, msg) = root_error(&design(
+        &root(25.0, "cross-holes = [{ diameter = 5, at = 23 }]\n"),
+        40,
+        0.05,
+    ));
+    assert!(
+        msg.contains("toward the transition") && msg.contains("-0.50 mm"),
+        "{msg}"
+    );
+    // Into the bore's point.
+    let (_, msg) = root_error(&design(
+        &root(
+            25.0,
+            "bore = { diameter = 6, depth = 10 }\ncross-holes = [{ diameter = 4, at = 12 }]\n",
+        ),
+        40,
+        0.05,
+    ));
+    assert!(msg.contains("bore's point"), "{msg}");
+    // Cross holes need a round shank.
+    let (e, _) = root_error(&design(
+        &root(
+            25.0,
+            "flat-depth = 1\ncross-holes = [{ diameter = 4, at = 12 }]\n",
+        ),
+        40,
+        0.05,
+    ));
+    assert_eq!(e, RootError::CrossHoleShank);
+}
