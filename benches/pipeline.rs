@@ -52,7 +52,7 @@ fn growth(c: &mut Criterion) {
     let model = build(&design, &BuildOptions::default()).unwrap();
     let mut group = c.benchmark_group("tessellate_growth");
     group.sample_size(10);
-    for tol in [0.05, 0.01, 0.002, 0.0005, 0.0001, 0.00002] {
+    for tol in [0.1, 0.01, 0.001, 0.0001, 0.00005] {
         let opts = TessellationOptions {
             tolerance: tol,
             ..TessellationOptions::DEFAULT
