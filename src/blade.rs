@@ -161,7 +161,9 @@ impl Blade {
     pub fn with_root(mut self, root: RootSpec) -> Result<Blade, BladeError> {
         root.validate()?;
         let face = self.radii[0] - root.transition_length - root.shank_length;
-        if face < 0.0 {
+        // Lengths that add up to the first station's radius exactly leave a rounding
+        // error, not a part behind the axis.
+        if face < -1e-9 * self.radii[0].abs().max(1.0) {
             return Err(RootError::BehindAxis(face).into());
         }
         let mut root = root;

@@ -36,17 +36,12 @@ pub fn add_mount_features(
     if !root.cross_holes.is_empty() && ring.len() > 2 {
         let c = shank_centre(mesh, ring, root);
         let r_shank = 0.5 * root.shank_diameter;
-        for h in &root.cross_holes {
-            add_cross_hole(
-                mesh,
-                ring,
-                grid_vertices,
-                c,
-                r_shank,
-                face + h.at,
-                0.5 * h.diameter,
-            );
-        }
+        let holes: Vec<(f64, f64)> = root
+            .cross_holes
+            .iter()
+            .map(|h| (face + h.at, 0.5 * h.diameter))
+            .collect();
+        add_cross_holes(mesh, ring, grid_vertices, c, r_shank, &holes);
     }
 }
 
@@ -205,8 +200,9 @@ fn fan(mesh: &mut TriMesh, ring: &[u32], apex: u32, c: Point3<f64>) {
 /// Points per hole loop (entry and exit curves).
 const HOLE_STEPS: usize = 96;
 
-/// Cuts one cross hole (axis along y through the shank axis at height `z_c`, radius
-/// `r_h`) through the skin's straight round shank (radius `r_shank` about `c`).
+/// Cuts cross holes (each `(z_c, r_h)`: axis along y through the shank axis at height
+/// `z_c`, radius `r_h`) through the skin's straight round shank (radius `r_shank` about
+/// `c`), all in one band of the skin.
 ///
 /// The skin is the tessellation's structured grid: vertex `(i, j)` (column `i` around
 /// the section, row `j` along the span) is `ring[i] + j`, so the row count is
@@ -218,14 +214,13 @@ const HOLE_STEPS: usize = 96;
 /// `HOLE_STEPS` points each) as constrained loops whose insides are left out; a tube of
 /// straight segments parallel to y joins entry and exit. Every boundary edge is shared
 /// with the untouched skin, so the part stays watertight by construction.
-fn add_cross_hole(
+fn add_cross_holes(
     mesh: &mut TriMesh,
     ring: &[u32],
     grid_vertices: usize,
     c: Point3<f64>,
     r_shank: f64,
-    z_c: f64,
-    r_h: f64,
+    holes: &[(f64, f64)],
 ) {
     use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
     use std::f64::consts::TAU;
@@ -238,11 +233,28 @@ fn add_cross_hole(
     let zs: Vec<f64> = (0..nv)
         .map(|j| mesh.vertices[vertex(0, j) as usize].z)
         .collect();
-    let Some(ja) = (0..nv).rev().find(|&j| zs[j] < z_c - r_h) else {
+    let z_lo = holes
+        .iter()
+        .map(|h| h.0 - h.1)
+        .fold(f64::INFINITY, f64::min);
+    let z_hi = holes
+        .iter()
+        .map(|h| h.0 + h.1)
+        .fold(f64::NEG_INFINITY, f64::max);
+    let r_min = holes.iter().map(|h| h.1).fold(f64::INFINITY, f64::min);
+    let Some(ja) = (0..nv).rev().find(|&j| zs[j] < z_lo) else {
         return;
     };
-    let Some(jb) = (0..nv).find(|&j| zs[j] > z_c + r_h) else {
+    let Some(jb) = (0..nv).find(|&j| zs[j] > z_hi) else {
         return;
+    };
+    // Distance from a point to the nearest hole's rim, measured across x and z (the
+    // holes' axes run along y): negative inside a hole.
+    let clear = |p: &Point3<f64>| {
+        holes
+            .iter()
+            .map(|&(z_c, r_h)| ((p.x - c.x).powi(2) + (p.z - z_c).powi(2)).sqrt() - r_h)
+            .fold(f64::INFINITY, f64::min)
     };
     // Columns by angle, starting at the one farthest from the hole's ends (+-y).
     let theta = |p: &Point3<f64>| (p.y - c.y).atan2(p.x - c.x);
@@ -286,8 +298,8 @@ fn add_cross_hole(
         let k = push(&mut uv, &mut ids, (u_col(t), zs[ja]), vertex(col(t), ja));
         boundary.push(k);
     }
-    for j in ja + 1..jb {
-        let k = push(&mut uv, &mut ids, (u_col(nu), zs[j]), vertex(col(0), j));
+    for (j, &z) in zs.iter().enumerate().take(jb).skip(ja + 1) {
+        let k = push(&mut uv, &mut ids, (u_col(nu), z), vertex(col(0), j));
         boundary.push(k);
     }
     for t in (0..=nu).rev() {
@@ -301,23 +313,22 @@ fn add_cross_hole(
     for w in 0..boundary.len() {
         edges.push([boundary[w], boundary[(w + 1) % boundary.len()]]);
     }
-    let dz_min = TAU * r_h / HOLE_STEPS as f64;
+    let dz_min = TAU * r_min / HOLE_STEPS as f64;
     // Inner grid vertices clear of the hole (distance from the hole's axis, measured
     // across x and z since the axis runs along y).
     for t in 1..nu {
-        for j in ja + 1..jb {
+        for (j, &z) in zs.iter().enumerate().take(jb).skip(ja + 1) {
             let id = vertex(col(t), j);
             let p = mesh.vertices[id as usize];
-            let dist = ((p.x - c.x).powi(2) + (p.z - z_c).powi(2)).sqrt();
-            if dist > r_h + 0.5 * dz_min {
-                push(&mut uv, &mut ids, (u_col(t), zs[j]), id);
+            if clear(&p) > 0.5 * dz_min {
+                push(&mut uv, &mut ids, (u_col(t), z), id);
             }
         }
     }
     // Extra levels between the rows, as dense as the hole's curve, so no triangle
     // spans a wide angle (its chord would sink into the shank): points on each column's
     // straight line between the band's two rows, clear of the hole.
-    let dz = (TAU * r_h / HOLE_STEPS as f64).max((zs[jb] - zs[ja]) / 96.0);
+    let dz = dz_min.max((zs[jb] - zs[ja]) / 96.0);
     let levels = ((zs[jb] - zs[ja]) / dz).floor() as usize;
     for l in 1..levels {
         let z = zs[ja] + dz * l as f64;
@@ -331,8 +342,7 @@ fn add_cross_hole(
                 mesh.vertices[vertex(col(t), jb) as usize],
             );
             let p = a + (b - a) * f;
-            let dist = ((p.x - c.x).powi(2) + (p.z - z_c).powi(2)).sqrt();
-            if dist > r_h + dz {
+            if clear(&p) > dz {
                 let id = mesh.push_vertex(p);
                 push(&mut uv, &mut ids, (u_col(t), z), id);
             }
@@ -342,7 +352,7 @@ fn add_cross_hole(
     // y' = +-sqrt(R^2 - x'^2) on the shank cylinder.
     let mut loops: Vec<Vec<usize>> = Vec::new();
     let mut loop_ids: Vec<Vec<u32>> = Vec::new();
-    for side in [1.0, -1.0] {
+    for (side, &(z_c, r_h)) in holes.iter().flat_map(|h| [(1.0, h), (-1.0, h)]) {
         let mut lp = Vec::with_capacity(HOLE_STEPS);
         let mut li = Vec::with_capacity(HOLE_STEPS);
         for k in 0..HOLE_STEPS {
@@ -416,15 +426,17 @@ fn add_cross_hole(
         push_oriented(mesh, t, outward);
     }
     // The hole's wall: straight segments from entry to exit, facing the hole's axis.
-    let (entry, exit) = (&loop_ids[0], &loop_ids[1]);
-    for k in 0..HOLE_STEPS {
-        let k1 = (k + 1) % HOLE_STEPS;
-        let p = mesh.vertices[entry[k] as usize];
-        let q = mesh.vertices[entry[k1] as usize];
-        let mid = Point3::from((p.coords + q.coords) * 0.5);
-        let outward = Vector3::new(c.x - mid.x, 0.0, z_c - mid.z);
-        push_oriented(mesh, [entry[k], entry[k1], exit[k1]], outward);
-        push_oriented(mesh, [entry[k], exit[k1], exit[k]], outward);
+    for (h, &(z_c, _)) in holes.iter().enumerate() {
+        let (entry, exit) = (&loop_ids[2 * h], &loop_ids[2 * h + 1]);
+        for k in 0..HOLE_STEPS {
+            let k1 = (k + 1) % HOLE_STEPS;
+            let p = mesh.vertices[entry[k] as usize];
+            let q = mesh.vertices[entry[k1] as usize];
+            let mid = Point3::from((p.coords + q.coords) * 0.5);
+            let outward = Vector3::new(c.x - mid.x, 0.0, z_c - mid.z);
+            push_oriented(mesh, [entry[k], entry[k1], exit[k1]], outward);
+            push_oriented(mesh, [entry[k], exit[k1], exit[k]], outward);
+        }
     }
 }
 

@@ -1,8 +1,9 @@
 //! Property test: random valid root and tip settings (round or elliptical shank, flat,
-//! flange with or without fillet, bore with any drill point, flat or round tip) on random
+//! flange with or without fillet, bore with any drill point, one or two cross holes,
+//! flat or round tip) on random
 //! blades give parts that pass every mesh check of `spanwright::check::check_solid`:
-//! closed, outward, no degenerate triangles, one component, genus 0 and no
-//! self-intersection. Run with `cargo test --release --test root_props` (200 cases).
+//! closed, outward, no degenerate triangles, one component, genus = number of cross
+//! holes and no self-intersection. Run with `cargo test --release --test root_props` (200 cases).
 //!
 //! "Valid" is what the root validation accepts: a transition at least as long as the
 //! largest sideways travel of an outline point (45 degrees, common practice for
@@ -35,6 +36,7 @@ struct RootGen {
     transition: f64,
     face: f64,
     round_tip: bool,
+    holes: Option<(f64, bool)>,
 }
 
 fn unit() -> std::ops::Range<f64> {
@@ -59,13 +61,19 @@ fn gen() -> impl Strategy<Value = RootGen> {
             prop::option::of((unit(), unit(), 0..4usize)),
             prop::option::of((unit(), prop::option::of(unit()), unit())),
         ),
-        (unit(), unit(), unit(), any::<bool>()),
+        (
+            unit(),
+            unit(),
+            unit(),
+            any::<bool>(),
+            prop::option::of((unit(), any::<bool>())),
+        ),
     )
         .prop_map(
             |(
                 (chord, section, twist, stacking, turbine, cw, blunt),
                 (diameter, ellipse, flat, bore, flange),
-                (shank, transition, face, round_tip),
+                (shank, transition, face, round_tip, holes),
             )| RootGen {
                 chord,
                 section,
@@ -83,11 +91,13 @@ fn gen() -> impl Strategy<Value = RootGen> {
                 transition,
                 face,
                 round_tip,
+                holes,
             },
         )
 }
 
-fn design_text(g: &RootGen) -> String {
+/// The design text and the genus its part must have (one per cross hole).
+fn design_text(g: &RootGen) -> (String, u32) {
     let c = 20.0 + 40.0 * g.chord;
     let f = 0.2 + 0.2 * g.stacking;
     // The shank's area at least 1.3 times the first station's, estimated with the
@@ -132,6 +142,20 @@ fn design_text(g: &RootGen) -> String {
         root +=
             &format!("flange = {{ diameter = {dia}, thickness = {thick}, fillet = {fillet} }}\n");
     }
+    // Cross holes (round shank without a flat only) beyond the flange and the bore.
+    let mut genus = 0;
+    if let (Some((u, two)), None, None) = (g.holes, g.ellipse, g.flat) {
+        let hd = (d - 2.0 * min_wall) * (0.15 + 0.45 * u);
+        let mut at = needed + min_wall + 0.5 * hd + 0.01;
+        let mut list = Vec::new();
+        for _ in 0..if two { 2 } else { 1 } {
+            list.push(format!("{{ diameter = {hd}, at = {at} }}"));
+            genus += 1;
+            at += hd + min_wall + 0.01;
+        }
+        needed = at - 0.5 * hd + min_wall;
+        root += &format!("cross-holes = [{}]\n", list.join(", "));
+    }
     let shank = needed + 1.0 + 20.0 * g.shank;
     // Largest sideways travel of an outline point, bounded above: the farther edge of
     // the chord beyond the shank's edge, and half the shank thickness.
@@ -160,7 +184,7 @@ fn design_text(g: &RootGen) -> String {
     if g.round_tip {
         s += "[tip]\nshape = \"round\"\n";
     }
-    s
+    (s, genus)
 }
 
 proptest! {
@@ -168,12 +192,15 @@ proptest! {
 
     #[test]
     fn any_valid_root_gives_a_checked_solid(g in gen()) {
-        let text = design_text(&g);
+        let (text, genus) = design_text(&g);
         let design = parse_toml_str(&text, None).expect("generated designs are valid");
         let model = build(&design, &BuildOptions::default());
         prop_assert!(model.is_ok(), "{}\n{}", model.err().map(|e| e.to_string()).unwrap_or_default(), text);
         let model = model.unwrap();
-        let report = check_solid(model.mesh(), &CheckOptions::DEFAULT);
+        let report = check_solid(
+            model.mesh(),
+            &CheckOptions::DEFAULT.with_expected_genus(Some(genus)),
+        );
         prop_assert!(report.is_ok(), "{}\n{}", report, text);
         prop_assert!(model.mesh().signed_volume() > 0.0);
     }
