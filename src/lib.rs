@@ -29,6 +29,7 @@ pub mod loft;
 pub mod mesh;
 pub mod mount;
 pub mod pipeline;
+pub mod planar;
 pub mod props;
 pub mod report;
 pub mod root;

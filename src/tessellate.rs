@@ -458,11 +458,9 @@ pub fn mesh_from_grid(
     Ok((mesh, root.0, root.1))
 }
 
-/// Constrained Delaunay triangulation of a planar cap (a plane `z = const`) bounded by
-/// the vertex loop `ring`; triangles face +z when `up`, else -z. `None` when the
-/// outline crosses itself.
+/// Triangulation of a planar cap (a plane `z = const`) bounded by the vertex loop
+/// `ring`; triangles face +z when `up`, else -z. `None` when the outline crosses itself.
 fn cap_triangles(mesh: &TriMesh, ring: &[u32], up: bool) -> Option<Vec<[u32; 3]>> {
-    use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
     let pts: Vec<Point2<f64>> = ring
         .iter()
         .map(|&i| {
@@ -470,48 +468,18 @@ fn cap_triangles(mesh: &TriMesh, ring: &[u32], up: bool) -> Option<Vec<[u32; 3]>
             Point2::new(p.x, p.y)
         })
         .collect();
-    let n = pts.len();
-    let vertices: Vec<SPoint<f64>> = pts.iter().map(|p| SPoint::new(p.x, p.y)).collect();
-    let edges: Vec<[usize; 2]> = (0..n).map(|i| [i, (i + 1) % n]).collect();
-    let mut conflict = false;
-    let cdt: ConstrainedDelaunayTriangulation<SPoint<f64>> =
-        ConstrainedDelaunayTriangulation::try_bulk_load_cdt(vertices, edges, |_| conflict = true)
-            .ok()?;
-    if conflict || cdt.num_vertices() != n {
-        return None;
-    }
-    let mut out = Vec::with_capacity(n);
-    for face in cdt.inner_faces() {
-        let [a, b, c] = face.vertices().map(|v| v.fix().index());
-        let centroid = Point2::from((pts[a].coords + pts[b].coords + pts[c].coords) / 3.0);
-        if !inside(&pts, &centroid) {
-            continue;
-        }
-        let area = (pts[b] - pts[a]).perp(&(pts[c] - pts[a]));
-        let t = [ring[a], ring[b], ring[c]];
-        out.push(if (area > 0.0) == up {
-            t
-        } else {
-            [t[0], t[2], t[1]]
-        });
-    }
-    Some(out)
-}
-
-/// Point-in-polygon by the crossing-number rule (even-odd).
-fn inside(poly: &[Point2<f64>], q: &Point2<f64>) -> bool {
-    let mut c = false;
-    let n = poly.len();
-    for i in 0..n {
-        let (a, b) = (poly[i], poly[(i + 1) % n]);
-        if (a.y > q.y) != (b.y > q.y) {
-            let x = a.x + (q.y - a.y) * (b.x - a.x) / (b.y - a.y);
-            if q.x < x {
-                c = !c;
-            }
-        }
-    }
-    c
+    let tris = crate::planar::triangulate(&pts, &[0..pts.len()])?;
+    Some(
+        tris.into_iter()
+            .map(|[a, b, c]| {
+                if up {
+                    [ring[a], ring[b], ring[c]]
+                } else {
+                    [ring[a], ring[c], ring[b]]
+                }
+            })
+            .collect(),
+    )
 }
 
 #[cfg(test)]

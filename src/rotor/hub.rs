@@ -33,6 +33,7 @@
 use super::assembly::RotorSpec;
 use crate::design::{Design, DesignError, Rotation};
 use crate::mesh::{Part, TriMesh};
+use crate::planar::point_in_polygon;
 use crate::root::RootSpec;
 use nalgebra::{Point2, Point3, Vector3};
 use serde::Deserialize;
@@ -572,7 +573,7 @@ impl Hub {
         for face in cdt.inner_faces() {
             let [a, b, c] = face.vertices().map(|v| v.fix().index());
             let q = Point2::from((flat[a].coords + flat[b].coords + flat[c].coords) / 3.0);
-            if polys.iter().any(|p| inside(p, &q)) {
+            if polys.iter().any(|p| point_in_polygon(p, &q)) {
                 continue;
             }
             let t = [index[a], index[b], index[c]];
@@ -625,50 +626,14 @@ fn push_facing(mesh: &mut TriMesh, t: [u32; 3], out: Vector3<f64>) {
     }
 }
 
-/// Constrained Delaunay triangulation of the first loop minus the others (no points are
-/// added: the loops do not cross, so the constraint edges need no splitting).
+/// Triangulation of the first loop minus the others (no points are added: the loops do
+/// not cross, so the constraint edges need no splitting); empty when impossible.
 fn face_triangles(pts: &[Point2<f64>], ranges: &[std::ops::Range<usize>]) -> Vec<[u32; 3]> {
-    use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
-    let vertices: Vec<SPoint<f64>> = pts.iter().map(|p| SPoint::new(p.x, p.y)).collect();
-    let mut edges = Vec::new();
-    for r in ranges {
-        for i in r.clone() {
-            let j = if i + 1 == r.end { r.start } else { i + 1 };
-            edges.push([i, j]);
-        }
-    }
-    let mut out = Vec::new();
-    let Ok(cdt) = ConstrainedDelaunayTriangulation::<SPoint<f64>>::bulk_load_cdt(vertices, edges)
-    else {
-        return out;
-    };
-    let polys: Vec<&[Point2<f64>]> = ranges.iter().map(|r| &pts[r.clone()]).collect();
-    for face in cdt.inner_faces() {
-        let [a, b, c] = face.vertices().map(|v| v.fix().index());
-        let q = Point2::from((pts[a].coords + pts[b].coords + pts[c].coords) / 3.0);
-        let in_disc = inside(polys[0], &q);
-        let in_hole = polys[1..].iter().any(|p| inside(p, &q));
-        if in_disc && !in_hole {
-            out.push([a as u32, b as u32, c as u32]);
-        }
-    }
-    out
-}
-
-/// Point-in-polygon by the crossing-number rule (even-odd).
-fn inside(poly: &[Point2<f64>], q: &Point2<f64>) -> bool {
-    let mut c = false;
-    let n = poly.len();
-    for i in 0..n {
-        let (a, b) = (poly[i], poly[(i + 1) % n]);
-        if (a.y > q.y) != (b.y > q.y) {
-            let x = a.x + (q.y - a.y) * (b.x - a.x) / (b.y - a.y);
-            if q.x < x {
-                c = !c;
-            }
-        }
-    }
-    c
+    crate::planar::triangulate(pts, ranges)
+        .unwrap_or_default()
+        .into_iter()
+        .map(|t| t.map(|i| i as u32))
+        .collect()
 }
 
 #[cfg(test)]
