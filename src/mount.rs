@@ -1,7 +1,8 @@
 //! Mounting features at the root face, built as surfaces of revolution on the skin's
 //! own root ring (so the part stays watertight by construction): a flange plate with a
 //! fillet up to the shank, and a coaxial blind bore with a drill-point cone (or a flat
-//! bottom). These are mesh features; the STEP solid carries the shank without them.
+//! bottom), and cross holes through the straight round shank along the rotor axis. These
+//! are mesh features; the STEP solid carries the shank without them.
 //!
 //! Every surface of revolution reuses the angular positions of the root ring's vertices:
 //! a ring of the lathe is `c + d_k * rho` for the ring's directions `d_k` about the shank
@@ -16,12 +17,19 @@ use nalgebra::{Point3, Vector3};
 const FILLET_STEPS: usize = 8;
 
 /// Replaces the root cap of a tessellated blade by the mounting features of `root`:
-/// the flange (with fillet) below the ring and the bore from the root face.
+/// the flange (with fillet) below the ring and the bore from the root face; then cuts the
+/// cross holes into the skin's straight shank (each raises the genus by one, see
+/// [`RootSpec::genus`]).
+///
+/// Expects the mesh exactly as [`crate::tessellate::tessellate`] left it (the skin's
+/// grid first). Should a hole's band not be found or not triangulate (validated roots
+/// always do), that hole is left out and the part's genus stays lower than
+/// [`RootSpec::genus`], which the solid check then reports.
 ///
 /// `ring` is the skin's root boundary loop (as in
 /// [`crate::tessellate::Tessellation::root_ring`]), `cap` the cap's triangle range,
-/// `face` the radius of the root face (mm). Does nothing when the root has neither
-/// flange nor bore.
+/// `face` the radius of the root face (mm). Does nothing when the root has no flange,
+/// bore or cross hole.
 pub fn add_mount_features(
     mesh: &mut TriMesh,
     ring: &[u32],

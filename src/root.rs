@@ -6,7 +6,25 @@
 //!  root face      shank end        first station                 tip station   tip end
 //!  |<- shank-length ->|<- transition-length ->|<------ blade ------>|<- tip-length ->|
 //!  [flange]  circle (or ellipse)   circle -> airfoil                 airfoil -> small cap
-//!  [bore from the root face]
+//!  [bore from the root face] [cross holes along y] [flat]
+//! ```
+//!
+//! A `[root]` table, lengths in the design's unit:
+//!
+//! ```toml
+//! [root]
+//! shank-diameter = 24
+//! shank-length = 25
+//! transition-length = 30
+//! # shank-thickness = 20      # elliptical shank (along the rotor axis)
+//! # flat-depth = 1.5          # flat against rotation (round or elliptical shank)
+//! # min-wall = 0.8            # default: two 0.4 mm nozzle widths (common practice)
+//! flange = { diameter = 40, thickness = 3, fillet = 2 }
+//! bore = { diameter = 6.4, depth = 10 }   # point-angle = 118 by default
+//! cross-holes = [{ diameter = 4, at = 18 }]   # at: from the root face
+//!
+//! [tip]
+//! shape = "round"             # or "flat" (default); length = half the tip chord
 //! ```
 //!
 //! * **Shank**: a circle of `shank-diameter` (an ellipse when `shank-thickness` is given,
