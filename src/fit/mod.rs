@@ -61,7 +61,7 @@ pub use printer::{
 };
 pub use search::{fit_part, score, Fit, FitOptions, Placement};
 pub use stl_in::read_stl_part;
-pub use svg::{escape, plate_svg};
+pub use svg::plate_svg;
 
 /// Errors of the printer-fit stage.
 #[derive(Debug, thiserror::Error)]

@@ -4,24 +4,8 @@
 
 use super::layout::Plate;
 use super::{Printer, Volume};
+use crate::report::svg::escape;
 use std::fmt::Write;
-
-/// Escapes text for SVG (XML) content and attribute values.
-pub fn escape(text: &str) -> String {
-    let mut out = String::with_capacity(text.len());
-    for ch in text.chars() {
-        match ch {
-            '&' => out.push_str("&amp;"),
-            '<' => out.push_str("&lt;"),
-            '>' => out.push_str("&gt;"),
-            '"' => out.push_str("&quot;"),
-            '\'' => out.push_str("&apos;"),
-            c if (c as u32) < 0x20 && c != '\t' && c != '\n' => out.push(' '),
-            c => out.push(c),
-        }
-    }
-    out
-}
 
 /// Numbers with two decimals, trailing zeros trimmed.
 fn n(v: f64) -> String {

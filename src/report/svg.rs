@@ -5,7 +5,8 @@
 
 use std::fmt::Write;
 
-/// Escapes text for XML content and attribute values.
+/// Escapes text for XML content and attribute values; control characters that XML 1.0
+/// forbids become spaces.
 pub fn escape(s: &str) -> String {
     let mut out = String::with_capacity(s.len());
     for ch in s.chars() {
@@ -15,6 +16,7 @@ pub fn escape(s: &str) -> String {
             '>' => out.push_str("&gt;"),
             '"' => out.push_str("&quot;"),
             '\'' => out.push_str("&apos;"),
+            c if (c as u32) < 0x20 && c != '\t' && c != '\n' => out.push(' '),
             c => out.push(c),
         }
     }
