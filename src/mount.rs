@@ -420,7 +420,10 @@ fn add_cross_holes(
         let cu = (uv[a].0 + uv[b].0 + uv[cc].0) / 3.0;
         let cz = (uv[a].1 + uv[b].1 + uv[cc].1) / 3.0;
         let q = nalgebra::Point2::new(cu, cz);
-        if hole_polys.iter().any(|poly| inside(poly, &q)) {
+        if hole_polys
+            .iter()
+            .any(|poly| crate::planar::point_in_polygon(poly, &q))
+        {
             continue;
         }
         let t = [ids[a], ids[b], ids[cc]];
@@ -446,20 +449,4 @@ fn add_cross_holes(
             push_oriented(mesh, [entry[k], exit[k1], exit[k]], outward);
         }
     }
-}
-
-/// Point-in-polygon by the crossing-number rule (even-odd).
-fn inside(poly: &[nalgebra::Point2<f64>], q: &nalgebra::Point2<f64>) -> bool {
-    let mut c = false;
-    let n = poly.len();
-    for i in 0..n {
-        let (a, b) = (poly[i], poly[(i + 1) % n]);
-        if (a.y > q.y) != (b.y > q.y) {
-            let x = a.x + (q.y - a.y) * (b.x - a.x) / (b.y - a.y);
-            if q.x < x {
-                c = !c;
-            }
-        }
-    }
-    c
 }
