@@ -9,6 +9,7 @@
 
 use crate::airfoil::Section;
 use crate::blade::{Blade, BladeError};
+use crate::check::{check_solid, CheckOptions, CheckReport};
 use crate::design::{Design, DesignError};
 use crate::loft::{LoftError, Skin};
 use crate::mesh::{Part, TriMesh};
@@ -34,6 +35,14 @@ pub enum PipelineError {
     /// An optional table (root, tip, ...) is malformed.
     #[error(transparent)]
     Design(#[from] DesignError),
+    /// The built solid failed its own checks (a part that is never written).
+    #[error("the solid '{name}' failed its checks:\n{report}")]
+    Check {
+        /// Part name.
+        name: String,
+        /// The graded findings.
+        report: Box<CheckReport>,
+    },
 }
 
 /// Options that override the design for one run.
@@ -66,6 +75,19 @@ impl Model {
     /// The closed mesh.
     pub fn mesh(&self) -> &TriMesh {
         &self.tessellation.mesh
+    }
+
+    /// The genus the blade must have: one per cross hole through its shank.
+    pub fn expected_genus(&self) -> u32 {
+        self.blade.root().map_or(0, RootSpec::genus)
+    }
+
+    /// Runs every solid check on the blade mesh (with the genus its features imply).
+    pub fn check(&self) -> CheckReport {
+        check_solid(
+            self.mesh(),
+            &CheckOptions::DEFAULT.with_expected_genus(Some(self.expected_genus())),
+        )
     }
 
     /// The blade as a named part.
@@ -293,9 +315,18 @@ pub fn build(design: &Design, opts: &BuildOptions) -> Result<Model, PipelineErro
     })
 }
 
-/// The printable parts of a design (the blade; more once rotors and hubs are asked for).
+/// The printable parts of a design (the blade), each checked: a part that fails its
+/// checks is an error, never returned.
 pub fn build_parts(design: &Design) -> Result<Vec<Part>, PipelineError> {
-    Ok(vec![build(design, &BuildOptions::default())?.part()])
+    let model = build(design, &BuildOptions::default())?;
+    let report = model.check();
+    if !report.is_ok() {
+        return Err(PipelineError::Check {
+            name: model.name.clone(),
+            report: Box::new(report),
+        });
+    }
+    Ok(vec![model.part()])
 }
 
 /// Builds the blade and assembles the rotor of the design's `[rotor]` table (blades

@@ -80,7 +80,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         _ => None,
     };
     stages.set("checking the solids");
-    let report = check_solid(model.mesh(), &CheckOptions::DEFAULT);
+    let report = model.check();
     if !report.is_ok() {
         stages.finish();
         eprintln!(
@@ -154,7 +154,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         }
         if formats.contains(&Format::Step) {
             if let Some(features) = mesh_only_features(&model) {
-                println!("  note: the STEP solid carries the shank but not {features}; those are in the mesh files only");
+                println!("  note: the STEP solid carries the shank and transition but not the {features} (mesh files only)");
             }
         }
     }
@@ -178,15 +178,8 @@ fn write_format(model: &Model, format: Format, path: &Path) -> anyhow::Result<()
 
 /// The root features the mesh has and the exact solid lacks, in words.
 fn mesh_only_features(model: &Model) -> Option<String> {
-    let root = model.blade.root()?;
-    let mut f = Vec::new();
-    if root.flange.is_some() {
-        f.push("the flange");
-    }
-    if root.bore.is_some() {
-        f.push("the bore");
-    }
-    (!f.is_empty()).then(|| f.join(" and "))
+    let features = model.blade.root()?.mesh_only_features();
+    (!features.is_empty()).then(|| features.join(", "))
 }
 
 /// Writes the assembled rotor: every body in one file (one object each in 3MF and OBJ);

@@ -156,6 +156,8 @@ pub struct Rotor {
     pub hub_shape: Option<Hub>,
     /// The design's station radii, mm (where [`Rotor::check_hand`] looks).
     pub station_radii: Vec<f64>,
+    /// Genus of each blade (one per cross hole through its shank).
+    pub blade_genus: u32,
 }
 
 /// The rigid transform of blade `k` (see the module docs); `pivot` is the cone pivot's
@@ -228,6 +230,7 @@ pub fn assemble(
         hub,
         hub_shape,
         station_radii: model.blade.station_radii().to_vec(),
+        blade_genus: model.expected_genus(),
     })
 }
 
@@ -252,10 +255,10 @@ impl Rotor {
     }
 
     /// The genus each body of [`Rotor::parts`] must have, in the same order, for
-    /// [`crate::check::CheckOptions::with_expected_genus`]: 0 for a blade (its root bore
-    /// is blind), the hub's through-holes for the hub.
+    /// [`crate::check::CheckOptions::with_expected_genus`]: for a blade one per cross
+    /// hole through its shank (its bore is blind), the hub's through-holes for the hub.
     pub fn expected_genus(&self) -> Vec<u32> {
-        let mut out = vec![0; self.blades.len()];
+        let mut out = vec![self.blade_genus; self.blades.len()];
         out.extend(self.hub_shape.as_ref().map(Hub::genus));
         out
     }
