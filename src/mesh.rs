@@ -146,6 +146,34 @@ impl TriMesh {
         }
     }
 
+    /// Drops vertices no triangle uses and renumbers the triangles; the kept vertices
+    /// keep their relative order (a mesh without unused vertices is left unchanged).
+    pub fn compact(&mut self) {
+        let mut used = vec![false; self.vertices.len()];
+        for t in &self.triangles {
+            for &i in t {
+                used[i as usize] = true;
+            }
+        }
+        if used.iter().all(|&u| u) {
+            return;
+        }
+        let mut map = vec![u32::MAX; self.vertices.len()];
+        let mut kept = Vec::with_capacity(self.vertices.len());
+        for (i, p) in self.vertices.iter().enumerate() {
+            if used[i] {
+                map[i] = kept.len() as u32;
+                kept.push(*p);
+            }
+        }
+        for t in &mut self.triangles {
+            for i in t.iter_mut() {
+                *i = map[*i as usize];
+            }
+        }
+        self.vertices = kept;
+    }
+
     /// Appends another mesh (its vertices are not merged with ours).
     pub fn append(&mut self, other: &TriMesh) {
         let off = self.vertices.len() as u32;
@@ -205,6 +233,11 @@ pub(crate) mod tests {
         let m = box_mesh(Vector3::new(2.0, 3.0, 5.0));
         assert!((m.signed_volume() - 30.0).abs() < 1e-12);
         assert!((m.area() - 62.0).abs() < 1e-12);
+        let mut padded = m.clone();
+        padded.push_vertex(Point3::new(9.0, 9.0, 9.0));
+        padded.compact();
+        assert_eq!(padded.vertices.len(), 8);
+        assert!((padded.signed_volume() - 30.0).abs() < 1e-12);
         let mut mirrored = m.clone();
         mirrored.transform(&Matrix4::new_nonuniform_scaling(&Vector3::new(
             -1.0, 1.0, 1.0,

@@ -303,6 +303,9 @@ pub fn build(design: &Design, opts: &BuildOptions) -> Result<Model, PipelineErro
             root,
             blade.root_face(),
         );
+        // Holes leave the skin vertices they cut away unused: drop them so mesh files
+        // list only what the triangles use.
+        tessellation.mesh.compact();
     }
     Ok(Model {
         name: design.name.clone(),

@@ -88,6 +88,7 @@ mod tests {
         assert!(tris.len() == 8, "{} triangles", tris.len());
         // Crossing loops are refused.
         let bow = vec![p(0.0, 0.0), p(1.0, 1.0), p(1.0, 0.0), p(0.0, 1.0)];
-        assert!(triangulate(&bow, &[0..4]).is_none());
+        let outline = 0..4;
+        assert!(triangulate(&bow, &[outline]).is_none());
     }
 }

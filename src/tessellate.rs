@@ -468,7 +468,8 @@ fn cap_triangles(mesh: &TriMesh, ring: &[u32], up: bool) -> Option<Vec<[u32; 3]>
             Point2::new(p.x, p.y)
         })
         .collect();
-    let tris = crate::planar::triangulate(&pts, &[0..pts.len()])?;
+    let outline = 0..pts.len();
+    let tris = crate::planar::triangulate(&pts, std::slice::from_ref(&outline))?;
     Some(
         tris.into_iter()
             .map(|[a, b, c]| {

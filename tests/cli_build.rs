@@ -84,7 +84,8 @@ fn malformed_inputs_exit_2_name_the_place_and_write_nothing() {
     let toml = |body: &str| format!("[blade]\nsection = \"naca4412\"\n{body}");
     let two = "[[station]]\nradius = 40\nchord = 60\ntwist = 25\n[[station]]\nradius = 280\nchord = 25\ntwist = 3\n";
     // (case, files, args, substrings the message must contain)
-    let cases: Vec<(&str, Vec<(&str, String)>, Vec<&str>, Vec<&str>)> = vec![
+    type Case<'a> = (&'a str, Vec<(&'a str, String)>, Vec<&'a str>, Vec<&'a str>);
+    let cases: Vec<Case> = vec![
         ("missing column", vec![("t.csv", "radius,twist,section\n40,25,naca4412\n280,3,naca4412\n".into())], vec!["t.csv"], vec!["t.csv", "chord"]),
         ("decreasing radius", vec![("t.csv", "radius,chord,twist,section\n40,60,25,naca4412\n30,25,3,naca4412\n".into())], vec!["t.csv"], vec!["t.csv:3", "radius"]),
         ("negative chord", vec![("t.csv", "radius,chord,twist,section\n40,-60,25,naca4412\n280,25,3,naca4412\n".into())], vec!["t.csv"], vec!["t.csv:2", "chord"]),

@@ -140,6 +140,13 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
             written.push(path);
         }
     }
+    if model.blade.root().is_some() {
+        // A picture of the root transition: outlines from root face to tip, along the span.
+        let path = args.out.join(format!("{}-transition.svg", model.name));
+        let svg = spanwright::root::transition_svg(&model.blade, 12);
+        export::write_atomic(&path, |w| w.write_all(svg.as_bytes()))?;
+        written.push(path);
+    }
     let tolerance = args.tolerance.unwrap_or(design.blade.tolerance);
     let summary = Summary::of(&model, tolerance, &written, started.elapsed().as_secs_f64());
     if args.json {
@@ -154,7 +161,12 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         }
         if formats.contains(&Format::Step) {
             if let Some(features) = mesh_only_features(&model) {
-                println!("  note: the STEP solid carries the shank and transition but not the {features} (mesh files only)");
+                let start = if model.blade.root().is_some_and(|r| r.flange.is_some()) {
+                    "starts at the top of the flange's fillet and "
+                } else {
+                    ""
+                };
+                println!("  note: the STEP solid {start}carries the shank and transition but not the {features} (mesh files only)");
             }
         }
     }
