@@ -53,6 +53,33 @@ impl TriMesh {
         Self::default()
     }
 
+    /// A closed, outward-oriented box (12 triangles) with corners `lo` and `lo + size`.
+    pub fn cuboid(lo: Point3<f64>, size: Vector3<f64>) -> TriMesh {
+        let mut m = TriMesh::new();
+        for i in 0..8u32 {
+            m.push_vertex(Point3::new(
+                lo.x + if i & 1 != 0 { size.x } else { 0.0 },
+                lo.y + if i & 2 != 0 { size.y } else { 0.0 },
+                lo.z + if i & 4 != 0 { size.z } else { 0.0 },
+            ));
+        }
+        m.triangles = vec![
+            [0, 2, 1],
+            [1, 2, 3], // z = lo.z, facing -z
+            [4, 5, 6],
+            [5, 7, 6], // z = lo.z + size.z
+            [0, 1, 4],
+            [1, 5, 4], // y = lo.y
+            [2, 6, 3],
+            [3, 6, 7], // y = lo.y + size.y
+            [0, 4, 2],
+            [2, 4, 6], // x = lo.x
+            [1, 3, 5],
+            [3, 7, 5], // x = lo.x + size.x
+        ];
+        m
+    }
+
     /// Number of triangles.
     pub fn len(&self) -> usize {
         self.triangles.len()
@@ -200,31 +227,9 @@ pub struct Part {
 pub(crate) mod tests {
     use super::*;
 
-    /// A closed, outward-oriented axis-aligned box mesh (12 triangles), for tests.
+    /// A closed, outward-oriented axis-aligned box mesh at the origin, for tests.
     pub fn box_mesh(size: Vector3<f64>) -> TriMesh {
-        let mut m = TriMesh::new();
-        for i in 0..8u32 {
-            m.push_vertex(Point3::new(
-                if i & 1 != 0 { size.x } else { 0.0 },
-                if i & 2 != 0 { size.y } else { 0.0 },
-                if i & 4 != 0 { size.z } else { 0.0 },
-            ));
-        }
-        m.triangles = vec![
-            [0, 2, 1],
-            [1, 2, 3], // z = 0, normal -z
-            [4, 5, 6],
-            [5, 7, 6], // z = max
-            [0, 1, 4],
-            [1, 5, 4], // y = 0
-            [2, 6, 3],
-            [3, 6, 7], // y = max
-            [0, 4, 2],
-            [2, 4, 6], // x = 0
-            [1, 3, 5],
-            [3, 7, 5], // x = max
-        ];
-        m
+        TriMesh::cuboid(Point3::origin(), size)
     }
 
     #[test]

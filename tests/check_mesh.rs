@@ -11,29 +11,7 @@ use std::f64::consts::PI;
 /// A closed, outward-oriented box with corners (0,0,0) and `size` (12 triangles); vertex
 /// `i` sits at (x, y, z) = (bit 0, bit 1, bit 2 of `i`) * size.
 fn box_mesh(size: Vector3<f64>) -> TriMesh {
-    let mut m = TriMesh::new();
-    for i in 0..8u32 {
-        m.push_vertex(Point3::new(
-            if i & 1 != 0 { size.x } else { 0.0 },
-            if i & 2 != 0 { size.y } else { 0.0 },
-            if i & 4 != 0 { size.z } else { 0.0 },
-        ));
-    }
-    m.triangles = vec![
-        [0, 2, 1],
-        [1, 2, 3],
-        [4, 5, 6],
-        [5, 7, 6],
-        [0, 1, 4],
-        [1, 5, 4],
-        [2, 6, 3],
-        [3, 6, 7],
-        [0, 4, 2],
-        [2, 4, 6],
-        [1, 3, 5],
-        [3, 7, 5],
-    ];
-    m
+    TriMesh::cuboid(Point3::origin(), size)
 }
 
 /// A UV sphere of radius `r`: `nu` points per ring, `nv` bands from pole to pole.

@@ -63,29 +63,7 @@ fn sphere(r: f64, c: Point3<f64>, n: usize) -> TriMesh {
 
 /// A closed, outward-oriented box with corners `lo` and `lo + size`.
 fn cuboid(lo: Point3<f64>, size: Vector3<f64>) -> TriMesh {
-    let mut m = TriMesh::new();
-    for i in 0..8u32 {
-        m.push_vertex(Point3::new(
-            lo.x + if i & 1 != 0 { size.x } else { 0.0 },
-            lo.y + if i & 2 != 0 { size.y } else { 0.0 },
-            lo.z + if i & 4 != 0 { size.z } else { 0.0 },
-        ));
-    }
-    m.triangles = vec![
-        [0, 2, 1],
-        [1, 2, 3],
-        [4, 5, 6],
-        [5, 7, 6],
-        [0, 1, 4],
-        [1, 5, 4],
-        [2, 6, 3],
-        [3, 6, 7],
-        [0, 4, 2],
-        [2, 4, 6],
-        [1, 3, 5],
-        [3, 7, 5],
-    ];
-    m
+    TriMesh::cuboid(lo, size)
 }
 
 fn parts() -> Vec<Part> {

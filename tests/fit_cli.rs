@@ -7,30 +7,18 @@ use std::process::Command;
 
 /// Writes a closed a x b x c box as binary STL with stl_io.
 fn write_box_stl(path: &Path, a: f32, b: f32, c: f32) {
+    let m = spanwright::mesh::TriMesh::cuboid(
+        nalgebra::Point3::origin(),
+        nalgebra::Vector3::new(a as f64, b as f64, c as f64),
+    );
     let v = |i: u32| {
-        stl_io::Vector::new([
-            if i & 1 != 0 { a } else { 0.0 },
-            if i & 2 != 0 { b } else { 0.0 },
-            if i & 4 != 0 { c } else { 0.0 },
-        ])
+        let p = m.vertices[i as usize];
+        stl_io::Vector::new([p.x as f32, p.y as f32, p.z as f32])
     };
-    let tris = [
-        [0, 2, 1],
-        [1, 2, 3],
-        [4, 5, 6],
-        [5, 7, 6],
-        [0, 1, 4],
-        [1, 5, 4],
-        [2, 6, 3],
-        [3, 6, 7],
-        [0, 4, 2],
-        [2, 4, 6],
-        [1, 3, 5],
-        [3, 7, 5],
-    ];
-    let out: Vec<stl_io::Triangle> = tris
+    let out: Vec<stl_io::Triangle> = m
+        .triangles
         .iter()
-        .map(|t: &[u32; 3]| stl_io::Triangle {
+        .map(|t| stl_io::Triangle {
             normal: stl_io::Vector::new([0.0, 0.0, 0.0]),
             vertices: [v(t[0]), v(t[1]), v(t[2])],
         })

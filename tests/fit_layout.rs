@@ -7,29 +7,7 @@ use spanwright::fit::{layout, Layout, LayoutOptions, Printer, PrinterSpec, Volum
 use spanwright::mesh::{Part, TriMesh};
 
 fn box_mesh(a: f64, b: f64, c: f64) -> TriMesh {
-    let mut m = TriMesh::new();
-    for i in 0..8u32 {
-        m.push_vertex(Point3::new(
-            if i & 1 != 0 { a } else { 0.0 },
-            if i & 2 != 0 { b } else { 0.0 },
-            if i & 4 != 0 { c } else { 0.0 },
-        ));
-    }
-    m.triangles = vec![
-        [0, 2, 1],
-        [1, 2, 3],
-        [4, 5, 6],
-        [5, 7, 6],
-        [0, 1, 4],
-        [1, 5, 4],
-        [2, 6, 3],
-        [3, 6, 7],
-        [0, 4, 2],
-        [2, 4, 6],
-        [1, 3, 5],
-        [3, 7, 5],
-    ];
-    m
+    TriMesh::cuboid(Point3::origin(), nalgebra::Vector3::new(a, b, c))
 }
 
 /// Invented blade-like test solid: an elliptic section (thickness 12 % of chord) whose

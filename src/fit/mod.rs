@@ -18,22 +18,11 @@
 //! ```
 //! use spanwright::fit::{fit_part, FitOptions, PrinterSpec};
 //! use spanwright::mesh::TriMesh;
-//! use nalgebra::Point3;
+//! use nalgebra::{Point3, Vector3};
 //!
 //! // A 100 x 4 x 4 mm bar (a closed box mesh) and a 80 x 80 x 10 mm volume: it fits only
 //! // diagonally, lying down.
-//! let mut bar = TriMesh::new();
-//! for i in 0..8u32 {
-//!     bar.push_vertex(Point3::new(
-//!         if i & 1 != 0 { 100.0 } else { 0.0 },
-//!         if i & 2 != 0 { 4.0 } else { 0.0 },
-//!         if i & 4 != 0 { 4.0 } else { 0.0 },
-//!     ));
-//! }
-//! bar.triangles = vec![
-//!     [0, 2, 1], [1, 2, 3], [4, 5, 6], [5, 7, 6], [0, 1, 4], [1, 5, 4],
-//!     [2, 6, 3], [3, 6, 7], [0, 4, 2], [2, 4, 6], [1, 3, 5], [3, 7, 5],
-//! ];
+//! let bar = TriMesh::cuboid(Point3::origin(), Vector3::new(100.0, 4.0, 4.0));
 //! let printer = PrinterSpec { volume: Some([80.0, 80.0, 10.0]), margin: Some(0.0), ..Default::default() }
 //!     .resolve("example")?;
 //! let fit = fit_part("bar", &bar, &printer, &FitOptions::DEFAULT)?;
