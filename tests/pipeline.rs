@@ -1,6 +1,7 @@
 //! The core pipeline against outside references: design text -> closed blade mesh.
 
-use nalgebra::Point3;
+mod support;
+
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::parse_toml_str;
 use spanwright::pipeline::{build, BuildOptions, Model};
@@ -82,38 +83,6 @@ fn tapered_blade_volume_is_the_integral_of_section_area() {
     assert!((v / exact - 1.0).abs() < 1e-3, "volume {v} vs {exact}");
 }
 
-/// The leading and trailing edge of the mesh cut by the plane z = r: the points of the
-/// cut polygon farthest apart (a sharp trailing edge makes them the two edges).
-fn chord_line_at(m: &Model, r: f64) -> (Point3<f64>, Point3<f64>) {
-    let mesh = m.mesh();
-    let mut pts = Vec::new();
-    for t in 0..mesh.len() {
-        let c = mesh.corners(t);
-        for k in 0..3 {
-            let (a, b) = (c[k], c[(k + 1) % 3]);
-            if (a.z - r) * (b.z - r) < 0.0 {
-                let s = (r - a.z) / (b.z - a.z);
-                pts.push(a + (b - a) * s);
-            }
-        }
-    }
-    let mut best = (0.0, pts[0], pts[0]);
-    for a in &pts {
-        for b in &pts {
-            let d = (a - b).norm();
-            if d > best.0 {
-                best = (d, *a, *b);
-            }
-        }
-    }
-    // Leading edge is the one with smaller x (it points toward -x, see conventions).
-    if best.1.x < best.2.x {
-        (best.1, best.2)
-    } else {
-        (best.2, best.1)
-    }
-}
-
 #[test]
 fn twist_rotates_the_chord_about_the_stacking_point() {
     // Conventions: positive twist turns the leading edge toward -y about the stacking
@@ -135,7 +104,7 @@ fn twist_rotates_the_chord_about_the_stacking_point() {
         "#,
     );
     assert_solid(&m);
-    let (le, te) = chord_line_at(&m, 150.0);
+    let (le, te) = support::chord_line_at(m.mesh(), 150.0);
     let (s, c) = 30f64.to_radians().sin_cos();
     let (f, chord) = (0.3, 40.0);
     let le_exact = (-f * chord * c, -f * chord * s);

@@ -1,6 +1,8 @@
 //! Rotor assembly, rotation sense and flow side, and the hub body, against elementary
 //! geometry and the conventions of `spanwright::conventions`.
 
+mod support;
+
 use nalgebra::{Matrix4, Point3, Vector3};
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::{parse_toml_str, Design, Flow, Rotation};
@@ -222,36 +224,6 @@ fn cone_tilts_blades_downstream_about_the_root() {
     assert!(q.y > p.y + 3.0, "coned blade moved downstream");
 }
 
-/// Leading and trailing edge of a mesh cut by z = r: the cut points farthest apart,
-/// the one at smaller x first (as in tests/pipeline.rs).
-fn chord_line_at(mesh: &TriMesh, r: f64) -> (Point3<f64>, Point3<f64>) {
-    let mut pts = Vec::new();
-    for t in 0..mesh.len() {
-        let c = mesh.corners(t);
-        for k in 0..3 {
-            let (a, b) = (c[k], c[(k + 1) % 3]);
-            if (a.z - r) * (b.z - r) < 0.0 {
-                let s = (r - a.z) / (b.z - a.z);
-                pts.push(a + (b - a) * s);
-            }
-        }
-    }
-    let mut best = (0.0, pts[0], pts[0]);
-    for a in &pts {
-        for b in &pts {
-            let d = (a - b).norm();
-            if d > best.0 {
-                best = (d, *a, *b);
-            }
-        }
-    }
-    if best.1.x < best.2.x {
-        (best.1, best.2)
-    } else {
-        (best.2, best.1)
-    }
-}
-
 #[test]
 fn pitch_adds_to_twist() {
     // Conventions: pitch turns the leading edge upstream like twist, about the stacking
@@ -266,7 +238,7 @@ fn pitch_adds_to_twist() {
             &format!("blades = 2\nhub-radius = 30\npitch = {pitch}"),
         );
         let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
-        let (le, te) = chord_line_at(&rotor.blades[0].mesh, 100.0);
+        let (le, te) = support::chord_line_at(&rotor.blades[0].mesh, 100.0);
         let angle = (te.y - le.y).atan2(te.x - le.x).to_degrees();
         assert!(
             (angle - (10.0 + pitch)).abs() < 0.1,
