@@ -106,6 +106,8 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         );
     }
     let mut design_te: Option<f64> = None;
+    // The design's assembled rotor (pitch, cone, hub), when it has a [rotor] table.
+    let mut rotor: Option<spanwright::rotor::Rotor> = None;
     let (parts, file_spec, blades) = if is_stl(&args.input) {
         (vec![fit::read_stl_part(&args.input)?], None, None)
     } else {
@@ -122,6 +124,12 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         design_te = design.blade.min_te_thickness;
         let parts = spanwright::pipeline::build_parts(&design)
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
+        if blades.is_some() {
+            rotor = Some(
+                spanwright::pipeline::build_rotor(&design, &Default::default())
+                    .with_context(|| format!("assembling the rotor of {}", args.input.display()))?,
+            );
+        }
         (parts, spec, blades)
     };
     let origin = match &file_spec {
@@ -156,6 +164,8 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         ..FitOptions::DEFAULT
     };
     let mut plate_input: Vec<Part> = Vec::new();
+    // The hub goes on the plates with the blades.
+    plate_input.extend(rotor.as_ref().and_then(|r| r.hub.clone()));
     for p in &parts {
         for k in 0..copies {
             plate_input.push(Part {
@@ -174,8 +184,11 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         .collect::<Result<_, _>>()?;
     let all_fit = fits.iter().all(|f| f.fits);
     let assembled = if args.assembled {
-        let rotor = assemble(&parts, copies);
-        Some(fit::fit_part("rotor", &rotor, &printer, &fit_opts)?)
+        let envelope = match &rotor {
+            Some(r) => r.envelope(),
+            None => assemble(&parts, copies),
+        };
+        Some(fit::fit_part("rotor", &envelope, &printer, &fit_opts)?)
     } else {
         None
     };
@@ -262,7 +275,12 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         if let Some(f) = &assembled {
             let _ = writeln!(
                 text,
-                "assembled rotor ({copies} blades about the y axis, no hub): {}; size {:.1} x {:.1} x {:.1} mm{}",
+                "assembled rotor ({copies} blades about the y axis{}): {}; size {:.1} x {:.1} x {:.1} mm{}",
+                match &rotor {
+                    Some(r) if r.hub.is_some() => ", with pitch, cone and hub; bodies separate, as assembled",
+                    Some(_) => ", with pitch and cone",
+                    None => ", no hub",
+                },
                 if f.fits { "FITS as one part" } else { "does not fit as one part" },
                 f.size[0],
                 f.size[1],
