@@ -129,7 +129,8 @@ fn design_file_printer_table_and_override() {
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["printer"]["volume"]["x"], 220.0, "{out}");
     assert!(v["parts"][0]["triangles"].as_u64().unwrap() > 100);
-    // Three blades ([rotor] blades = 3) laid out when the blade fits.
+    // Three blades ([rotor] blades = 3) and the hub ([rotor.hub]) laid out when the
+    // blade fits.
     if v["fits"] == true {
         let n: usize = v["plates"]
             .as_array()
@@ -137,7 +138,7 @@ fn design_file_printer_table_and_override() {
             .iter()
             .map(|p| p.as_array().unwrap().len())
             .sum();
-        assert_eq!(n, 3);
+        assert_eq!(n, 4);
     }
     let (_, out, err) = run(
         dir.path(),
