@@ -10,7 +10,7 @@
 //! strips.
 
 use crate::mesh::TriMesh;
-use crate::root::RootSpec;
+use crate::root::{RootError, RootSpec};
 use nalgebra::{Point3, Vector3};
 
 /// Segments of a quarter-circle fillet.
@@ -36,7 +36,7 @@ pub fn add_mount_features(
     cap: std::ops::Range<usize>,
     root: &RootSpec,
     face: f64,
-) {
+) -> Result<(), RootError> {
     let grid_vertices = mesh.vertices.len();
     if root.flange.is_some() || root.bore.is_some() {
         add_lathe_features(mesh, ring, cap, root, face);
@@ -49,8 +49,10 @@ pub fn add_mount_features(
             .iter()
             .map(|h| (face + h.at, 0.5 * h.diameter))
             .collect();
-        add_cross_holes(mesh, ring, grid_vertices, c, r_shank, &holes);
+        add_cross_holes(mesh, ring, grid_vertices, c, r_shank, &holes)
+            .map_err(|reason| RootError::CrossHoleNotCut { reason })?;
     }
+    Ok(())
 }
 
 /// The shank centre (x, y; z = 0): recorded by the blade; else the middle of the ring's
@@ -229,12 +231,12 @@ fn add_cross_holes(
     c: Point3<f64>,
     r_shank: f64,
     holes: &[(f64, f64)],
-) {
+) -> Result<(), &'static str> {
     use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
     use std::f64::consts::TAU;
     let nv = (ring[1] - ring[0]) as usize;
     if nv < 2 {
-        return;
+        return Err("the skin has fewer than two rows along the span");
     }
     let nu = ring.len();
     let vertex = |i: usize, j: usize| ring[i] + j as u32;
@@ -251,10 +253,10 @@ fn add_cross_holes(
         .fold(f64::NEG_INFINITY, f64::max);
     let r_min = holes.iter().map(|h| h.1).fold(f64::INFINITY, f64::min);
     let Some(ja) = (0..nv).rev().find(|&j| zs[j] < z_lo) else {
-        return;
+        return Err("no skin row lies below the holes; move them away from the root face");
     };
     let Some(jb) = (0..nv).find(|&j| zs[j] > z_hi) else {
-        return;
+        return Err("no skin row lies beyond the holes; move them toward the root face");
     };
     // Distance from a point to the nearest hole's rim, measured across x and z (the
     // holes' axes run along y): negative inside a hole.
@@ -387,10 +389,10 @@ fn add_cross_holes(
             conflict = true
         })
     else {
-        return;
+        return Err("the band around the holes could not be triangulated");
     };
     if conflict || cdt.num_vertices() != n {
-        return;
+        return Err("the hole outlines cross the band's grid; give the holes more room from each other and from the transition");
     }
     // Remove the band's old triangles: grid triangles with every vertex in rows
     // ja..=jb that reach inside the band.
@@ -449,4 +451,5 @@ fn add_cross_holes(
             push_oriented(mesh, [entry[k], exit[k1], exit[k]], outward);
         }
     }
+    Ok(())
 }

@@ -302,7 +302,8 @@ pub fn build(design: &Design, opts: &BuildOptions) -> Result<Model, PipelineErro
             cap,
             root,
             blade.root_face(),
-        );
+        )
+        .map_err(|e| PipelineError::Blade(e.into()))?;
         // Holes leave the skin vertices they cut away unused: drop them so mesh files
         // list only what the triangles use.
         tessellation.mesh.compact();
