@@ -99,6 +99,44 @@ impl Model {
     }
 }
 
+/// Steps between neighbouring stations that are steeper than a blade surface can
+/// follow without risk of folding over itself: chord, sweep or prebend changing by more
+/// than the radial step (45 degrees), or twist by more than 5 degrees per millimetre.
+/// Each message names both stations (common practice for lofted surfaces; these are
+/// warnings, the solid checks decide).
+pub fn steep_steps(design: &Design) -> Vec<String> {
+    let mut out = Vec::new();
+    for w in design.stations.windows(2) {
+        let dr = w[1].radius - w[0].radius;
+        let mut what = Vec::new();
+        for (name, a, b) in [
+            ("chord", w[0].chord, w[1].chord),
+            ("sweep", w[0].sweep, w[1].sweep),
+            ("prebend", w[0].prebend, w[1].prebend),
+        ] {
+            if (b - a).abs() > dr {
+                what.push(format!("{name} changes by {:.1} mm", (b - a).abs()));
+            }
+        }
+        if (w[1].twist - w[0].twist).abs() > 5.0 * dr {
+            what.push(format!(
+                "twist changes by {:.1} degrees",
+                (w[1].twist - w[0].twist).abs()
+            ));
+        }
+        if !what.is_empty() {
+            out.push(format!(
+                "{} -> {}: {} over {:.1} mm of span; a step this steep may fold the surface (add stations between, or check the values)",
+                w[0].origin,
+                w[1].origin,
+                what.join(" and "),
+                dr
+            ));
+        }
+    }
+    out
+}
+
 /// Folders searched for section files: the design file's folder, then `profiles/` beside
 /// it and in the working directory.
 pub fn section_dirs(design: &Design) -> Vec<PathBuf> {

@@ -136,5 +136,12 @@ fn a_part_that_fails_its_checks_is_not_written_and_exits_1() {
     let r = run(&[("fold.csv", csv)], &["fold.csv"]);
     assert_eq!(r.code, 1, "{}{}", r.stdout, r.stderr);
     assert!(r.stderr.contains("nothing was written"), "{}", r.stderr);
+    // The steep steps are named as the likely cause, with both rows.
+    assert!(
+        r.stderr
+            .contains("likely cause: fold.csv:3 -> fold.csv:4: twist changes by 165.0 degrees"),
+        "{}",
+        r.stderr
+    );
     assert!(files_in(&r.out).is_empty());
 }

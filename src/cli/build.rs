@@ -68,6 +68,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
     let stages = Stages::new(ctx, 4);
     stages.set("reading the design");
     let design = load_design(&args.design, args.section.as_deref())?;
+    let steep = pipeline::steep_steps(&design);
     stages.set("lofting and meshing");
     let model = pipeline::build(
         &design,
@@ -87,6 +88,9 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
             "{}: the solid failed its checks; nothing was written:\n{report}",
             args.design.display()
         );
+        for s in &steep {
+            eprintln!("likely cause: {s}");
+        }
         return Ok(ExitCode::from(EXIT_CHECK_FAILED));
     }
     if let Some(rotor) = &rotor {
@@ -121,6 +125,11 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         }
     }
     stages.finish();
+    if !ctx.quiet {
+        for s in &steep {
+            eprintln!("warning: {s}");
+        }
+    }
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create the output folder {}", args.out.display()))?;
     let mut written = Vec::new();
