@@ -711,6 +711,7 @@ fn hubs_over_a_range_of_blades_bolts_and_tolerances_are_solids() {
                     cone: 0.0,
                     azimuth_offset: offset,
                     hub: Some(hub.clone()),
+                    one_piece: None,
                 };
                 let case = format!("B={blades} bolts={bolts} tol={tol} offset={offset}");
                 let resolved = hub

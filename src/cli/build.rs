@@ -6,7 +6,7 @@ use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::{self, Design};
 use spanwright::export::{self, Format};
 use spanwright::pipeline::{self, BuildOptions, Model, TeChange};
-use spanwright::rotor::{assemble, hand_description, HandOptions, Rotor, RotorSpec};
+use spanwright::rotor::{assemble, hand_description, one_piece, HandOptions, Rotor, RotorSpec};
 use spanwright::tessellate::max_deviation;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -80,6 +80,16 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
         Some(spec) if !args.blade_only => Some(assemble(&model, &spec, &design.blade, &design)?),
         _ => None,
     };
+    let whole = match rotor
+        .as_ref()
+        .and_then(|r| r.spec.one_piece.as_ref().map(|o| (r, o)))
+    {
+        Some((r, o)) => Some((
+            one_piece(&model, &r.spec, o, &design)?,
+            u32::from(o.bore.is_some()),
+        )),
+        None => None,
+    };
     stages.set("checking the solids");
     let report = model.check();
     if !report.is_ok() {
@@ -115,6 +125,20 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
                 return Ok(ExitCode::from(EXIT_CHECK_FAILED));
             }
         }
+        if let Some((part, genus)) = &whole {
+            let report = check_solid(
+                &part.mesh,
+                &CheckOptions::DEFAULT.with_expected_genus(Some(*genus)),
+            );
+            if !report.is_ok() {
+                stages.finish();
+                eprintln!(
+                    "{}: the one-piece rotor failed its checks; nothing was written:\n{report}",
+                    args.design.display()
+                );
+                return Ok(ExitCode::from(EXIT_CHECK_FAILED));
+            }
+        }
         if let Some(bad) = hand.iter().find(|h| !h.is_ok()) {
             stages.finish();
             eprintln!(
@@ -146,6 +170,13 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
                 .out
                 .join(format!("{stem}-rotor.{}", format.extension()));
             write_rotor(&model, rotor, *format, &path)?;
+            written.push(path);
+        }
+        if let (Some((part, _)), true) = (&whole, format.is_mesh()) {
+            let path = args
+                .out
+                .join(format!("{stem}-rotor-one-piece.{}", format.extension()));
+            export::write_parts(&path, *format, std::slice::from_ref(part))?;
             written.push(path);
         }
     }

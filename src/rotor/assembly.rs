@@ -59,6 +59,8 @@ pub struct RotorSpec {
     pub azimuth_offset: f64,
     /// Optional hub body.
     pub hub: Option<HubSpec>,
+    /// Optional one-piece print: blades joined by a prismatic hub.
+    pub one_piece: Option<super::onepiece::OnePieceSpec>,
 }
 
 /// Largest blade count accepted (a sanity bound, not a design rule).
@@ -69,6 +71,7 @@ impl RotorSpec {
     pub fn to_mm(mut self, k: f64) -> Self {
         self.hub_radius *= k;
         self.hub = self.hub.map(|h| h.to_mm(k));
+        self.one_piece = self.one_piece.map(|o| o.to_mm(k));
         self
     }
 

@@ -11,6 +11,7 @@ mod draft;
 mod hand;
 mod hub;
 mod line;
+mod onepiece;
 pub mod optimum;
 mod remark;
 mod spec;
@@ -25,6 +26,7 @@ pub use hand::{
 };
 pub use hub::{circle_sides, socket_volume, Hub, HubSpec, Sockets};
 pub use line::Line;
+pub use onepiece::{one_piece, OnePieceSpec};
 pub use remark::{index_list, Grade, Remark};
 pub use spec::{
     DraftSpec, LinearRange, Method, Problem, Spacing, DEFAULT_MIN_CHORD_FRACTION, DEFAULT_SECTION,
