@@ -90,6 +90,18 @@ impl Model {
         )
     }
 
+    /// The blade as a named part, after its checks: a part that fails them is an error.
+    pub fn checked_part(&self) -> Result<Part, PipelineError> {
+        let report = self.check();
+        if !report.is_ok() {
+            return Err(PipelineError::Check {
+                name: self.name.clone(),
+                report: Box::new(report),
+            });
+        }
+        Ok(self.part())
+    }
+
     /// The blade as a named part.
     pub fn part(&self) -> Part {
         Part {
@@ -360,15 +372,9 @@ pub fn build(design: &Design, opts: &BuildOptions) -> Result<Model, PipelineErro
 /// The printable parts of a design (the blade), each checked: a part that fails its
 /// checks is an error, never returned.
 pub fn build_parts(design: &Design) -> Result<Vec<Part>, PipelineError> {
-    let model = build(design, &BuildOptions::default())?;
-    let report = model.check();
-    if !report.is_ok() {
-        return Err(PipelineError::Check {
-            name: model.name.clone(),
-            report: Box::new(report),
-        });
-    }
-    Ok(vec![model.part()])
+    Ok(vec![
+        build(design, &BuildOptions::default())?.checked_part()?
+    ])
 }
 
 /// Builds the blade and assembles the rotor of the design's `[rotor]` table (blades

@@ -115,18 +115,18 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         let spec = design
             .table::<PrinterSpec>("printer")?
             .map(|s| s.scaled(design.length_to_mm));
-        let blades = design
-            .tables
-            .get("rotor")
-            .and_then(|t| t.get("blades"))
-            .and_then(|b| b.as_integer())
-            .and_then(|b| usize::try_from(b).ok());
         design_te = design.blade.min_te_thickness;
-        let parts = spanwright::pipeline::build_parts(&design)
+        // One build serves both the checked blade and the rotor assembly.
+        let model = spanwright::pipeline::build(&design, &Default::default())
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
-        if blades.is_some() {
+        let parts = vec![model
+            .checked_part()
+            .with_context(|| format!("building the parts of {}", args.input.display()))?];
+        let rotor_spec = spanwright::rotor::RotorSpec::from_design(&design)?;
+        let blades = rotor_spec.as_ref().map(|s| s.blades as usize);
+        if let Some(spec) = &rotor_spec {
             rotor = Some(
-                spanwright::pipeline::build_rotor(&design, &Default::default())
+                spanwright::rotor::assemble(&model, spec, &design.blade, &design)
                     .with_context(|| format!("assembling the rotor of {}", args.input.display()))?,
             );
         }
