@@ -6,47 +6,11 @@ use nalgebra::Point3;
 use spanwright::fit::{layout, Layout, LayoutOptions, Printer, PrinterSpec, Volume};
 use spanwright::mesh::{Part, TriMesh};
 
+mod support;
+use support::blade;
+
 fn box_mesh(a: f64, b: f64, c: f64) -> TriMesh {
     TriMesh::cuboid(Point3::origin(), nalgebra::Vector3::new(a, b, c))
-}
-
-/// Invented blade-like test solid: an elliptic section (thickness 12 % of chord) whose
-/// chord tapers from `root` to `tip` and twists by `twist` degrees over the span `len`
-/// (z), closed by flat caps.
-fn blade(len: f64, root: f64, tip: f64, twist: f64, rings: usize, around: usize) -> TriMesh {
-    let mut m = TriMesh::new();
-    for k in 0..rings {
-        let f = k as f64 / (rings - 1) as f64;
-        let c = root + (tip - root) * f;
-        let th = (twist * f).to_radians();
-        for i in 0..around {
-            let t = std::f64::consts::TAU * i as f64 / around as f64;
-            let (u, v) = (0.5 * c * t.cos(), 0.06 * c * t.sin());
-            m.push_vertex(Point3::new(
-                u * th.cos() - v * th.sin(),
-                u * th.sin() + v * th.cos(),
-                len * f,
-            ));
-        }
-    }
-    let n = around as u32;
-    for k in 0..rings as u32 - 1 {
-        for i in 0..n {
-            let j = (i + 1) % n;
-            let (a, b, c, d) = (k * n + i, k * n + j, (k + 1) * n + j, (k + 1) * n + i);
-            m.triangles.push([a, b, c]);
-            m.triangles.push([a, c, d]);
-        }
-    }
-    let bottom = m.push_vertex(Point3::new(0.0, 0.0, 0.0));
-    let top = m.push_vertex(Point3::new(0.0, 0.0, len));
-    let last = (rings as u32 - 1) * n;
-    for i in 0..n {
-        let j = (i + 1) % n;
-        m.triangles.push([bottom, j, i]);
-        m.triangles.push([top, last + i, last + j]);
-    }
-    m
 }
 
 fn printer(x: f64, y: f64, z: f64, margin: f64, clearance: f64) -> Printer {
