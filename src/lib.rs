@@ -18,10 +18,12 @@
 //! are written once, in [`conventions`].
 
 pub mod airfoil;
+pub mod assembly;
 pub mod blade;
 pub mod check;
 pub mod conventions;
 pub mod design;
+pub mod draft;
 pub mod export;
 pub mod fit;
 pub mod interp;
@@ -33,5 +35,5 @@ pub mod planar;
 pub mod props;
 pub mod report;
 pub mod root;
-pub mod rotor;
+pub mod svg;
 pub mod tessellate;

@@ -383,8 +383,8 @@ pub fn build_parts(design: &Design) -> Result<Vec<Part>, PipelineError> {
 pub fn build_rotor(
     design: &Design,
     opts: &BuildOptions,
-) -> Result<crate::rotor::Rotor, PipelineError> {
-    let Some(spec) = crate::rotor::RotorSpec::from_design(design)? else {
+) -> Result<crate::assembly::Rotor, PipelineError> {
+    let Some(spec) = crate::assembly::RotorSpec::from_design(design)? else {
         return Err(DesignError::one(design.problem(
             "rotor",
             "no [rotor] table: add one with `blades` and `hub-radius` (mm) to assemble a rotor",
@@ -394,5 +394,10 @@ pub fn build_rotor(
     let model = build(design, opts)?;
     let mut blade_opts = design.blade.clone();
     blade_opts.tolerance = opts.tolerance.unwrap_or(blade_opts.tolerance);
-    Ok(crate::rotor::assemble(&model, &spec, &blade_opts, design)?)
+    Ok(crate::assembly::assemble(
+        &model,
+        &spec,
+        &blade_opts,
+        design,
+    )?)
 }

@@ -58,8 +58,7 @@
 //!   (`sqrt(1 - s^2)`) over `tip-length`, continuing the blade's slope (C1), to 5 % of its
 //!   size, closed by a small flat cap (so no triangle degenerates at a point).
 //!
-//! [`transition_svg`] draws the section outlines from root face to tip, seen along the
-//! span.
+//! The picture of the transition is drawn by [`crate::report::transition_svg`].
 //!
 //! Rules of thumb used as defaults (common practice, not from a standard): a printed wall
 //! of at least two nozzle widths (`min-wall = 0.8` mm for a 0.4 mm nozzle); a heat-set
@@ -483,36 +482,4 @@ impl RootSpec {
         }
         out
     }
-}
-
-/// SVG picture of the section outlines seen from the tip (along the span): the root
-/// face, `n` sections along the transition (at least 2: its two ends) and every
-/// station, drawn at one scale with [`crate::report::stack_svg`] (root blue to tip
-/// grey). Without a root it shows the stations alone.
-pub fn transition_svg(blade: &crate::blade::Blade, n: usize) -> String {
-    use crate::props::Slice;
-    let mut radii = vec![blade.root_face()];
-    if let Some(root) = blade.root() {
-        let (a, b) = (
-            blade.root_radius() - root.transition_length,
-            blade.root_radius(),
-        );
-        let k = n.max(2) - 1;
-        radii.extend((0..=k).map(|i| a + (b - a) * i as f64 / k as f64));
-    }
-    radii.extend(blade.station_radii().iter().copied());
-    radii.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
-    let slices: Vec<Slice> = radii
-        .iter()
-        .map(|&r| Slice {
-            radius: r,
-            loops: vec![blade
-                .ring(r)
-                .points
-                .iter()
-                .map(|p| nalgebra::Point2::new(p.x, p.y))
-                .collect()],
-        })
-        .collect();
-    crate::report::stack_svg("root transition", &slices, true)
 }

@@ -448,7 +448,7 @@ fn other_root_errors() {
 #[test]
 fn transition_picture_shows_every_section() {
     let m = model(&design(&root(20.0, ""), 40, 0.05));
-    let svg = spanwright::root::transition_svg(&m.blade, 8);
+    let svg = spanwright::report::transition_svg(&m.blade, 8);
     // Root face, 8 transition sections (the last is the first station), one more station.
     assert_eq!(svg.matches("<polygon").count(), 1 + 8 + 1, "{svg}");
     // Well-formed XML, read back with quick-xml (a general-purpose XML reader).

@@ -2,11 +2,11 @@
 
 use super::{progress::Stages, Context, EXIT_CHECK_FAILED};
 use anyhow::Context as _;
+use spanwright::assembly::{assemble, hand_description, one_piece, HandOptions, Rotor, RotorSpec};
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::{self, Design};
 use spanwright::export::{self, Format};
 use spanwright::pipeline::{self, BuildOptions, Model, TeChange};
-use spanwright::rotor::{assemble, hand_description, one_piece, HandOptions, Rotor, RotorSpec};
 use spanwright::tessellate::max_deviation;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -183,7 +183,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<ExitCode> {
     if model.blade.root().is_some() {
         // A picture of the root transition: outlines from root face to tip, along the span.
         let path = args.out.join(format!("{}-transition.svg", model.name));
-        let svg = spanwright::root::transition_svg(&model.blade, 12);
+        let svg = spanwright::report::transition_svg(&model.blade, 12);
         export::write_atomic(&path, |w| w.write_all(svg.as_bytes()))?;
         written.push(path);
     }

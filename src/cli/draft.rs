@@ -3,7 +3,9 @@
 
 use anyhow::{bail, Context as _};
 use spanwright::design::Flow;
-use spanwright::rotor::{self, DraftSpec, DraftTable, Grade, LinearRange, Method, Spacing};
+use spanwright::draft::{
+    self as drafting, DraftSpec, DraftTable, LinearRange, Method, Severity, Spacing,
+};
 use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -316,7 +318,7 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
                 Some(ld) => format!(", lift-to-drag {ld}"),
                 None => ", no drag".to_owned(),
             },
-            rotor::optimum::BETZ_LIMIT
+            drafting::optimum::BETZ_LIMIT
         );
         let _ = writeln!(
             err,
@@ -352,7 +354,7 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
         }
     }
     for r in &table.remarks {
-        if r.grade == Grade::Note && ctx.quiet {
+        if r.severity == Severity::Note && ctx.quiet {
             continue;
         }
         let _ = writeln!(err, "{r}");
@@ -362,7 +364,7 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
 /// Runs the subcommand.
 pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
     let spec = spec_from(&args)?;
-    let table = rotor::draft(&spec)?;
+    let table = drafting::draft(&spec)?;
     let to_stdout = args.output.as_deref() == Some(Path::new("-"));
     let target = if to_stdout {
         "standard output".to_owned()

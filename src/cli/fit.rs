@@ -107,7 +107,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
     }
     let mut design_te: Option<f64> = None;
     // The design's assembled rotor (pitch, cone, hub), when it has a [rotor] table.
-    let mut rotor: Option<spanwright::rotor::Rotor> = None;
+    let mut rotor: Option<spanwright::assembly::Rotor> = None;
     let (parts, file_spec, blades) = if is_stl(&args.input) {
         (vec![fit::read_stl_part(&args.input)?], None, None)
     } else {
@@ -122,11 +122,11 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         let parts = vec![model
             .checked_part()
             .with_context(|| format!("building the parts of {}", args.input.display()))?];
-        let rotor_spec = spanwright::rotor::RotorSpec::from_design(&design)?;
+        let rotor_spec = spanwright::assembly::RotorSpec::from_design(&design)?;
         let blades = rotor_spec.as_ref().map(|s| s.blades as usize);
         if let Some(spec) = &rotor_spec {
             rotor = Some(
-                spanwright::rotor::assemble(&model, spec, &design.blade, &design)
+                spanwright::assembly::assemble(&model, spec, &design.blade, &design)
                     .with_context(|| format!("assembling the rotor of {}", args.input.display()))?,
             );
         }

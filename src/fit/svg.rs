@@ -4,7 +4,7 @@
 
 use super::layout::Plate;
 use super::{Printer, Volume};
-use crate::report::svg::escape;
+use crate::svg::escape;
 use std::fmt::Write;
 
 /// Numbers with two decimals, trailing zeros trimmed.

@@ -5,7 +5,7 @@ use std::fmt::Write;
 
 use super::build::Pictures;
 use super::model::Report;
-use super::svg::escape;
+use crate::svg::escape;
 
 fn num(v: f64) -> String {
     if !v.is_finite() {

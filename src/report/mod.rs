@@ -13,7 +13,7 @@ mod model;
 mod planform;
 mod stack;
 mod stress_chart;
-pub mod svg;
+mod transition;
 mod views;
 mod write;
 
@@ -23,5 +23,6 @@ pub use model::{BalanceSummary, PartSummary, Report, Units, SCHEMA, SCHEMA_ID};
 pub use planform::{planform_svg, station_thickness};
 pub use stack::stack_svg;
 pub use stress_chart::stress_svg;
+pub use transition::transition_svg;
 pub use views::{outline_edges, three_view_svg, CREASE_DEGREES};
 pub use write::{write_atomic, WriteError};

@@ -1,7 +1,7 @@
 //! Planform picture: chord, twist and relative thickness against radius.
 
-use super::svg::{Chart, Series, Svg};
 use crate::design::Station;
+use crate::svg::{Chart, Series, Svg};
 
 /// Relative thickness of a station (fraction of chord): the station's own value, else
 /// the last two digits of a NACA 4-digit designation (`naca2412` -> 0.12), else `None`.

@@ -1,8 +1,8 @@
 //! The sections stacked as seen from the tip (looking toward the root, along -z): x to
 //! the right, y (downstream) up.
 
-use super::svg::{minmax, Svg, PALETTE};
 use crate::props::Slice;
+use crate::svg::{minmax, Svg, PALETTE};
 
 /// SVG of the cut outlines, all at the same scale, coloured from root to tip.
 pub fn stack_svg(name: &str, slices: &[Slice], standalone: bool) -> String {

@@ -1,7 +1,7 @@
 //! Stress and safety factor against radius.
 
-use super::svg::{Chart, Series, Svg};
 use crate::props::StressTable;
+use crate::svg::{Chart, Series, Svg};
 
 /// SVG with two charts: stresses (centrifugal, largest tension, largest compression,
 /// allowable) and the safety factor (with the required value) against radius.

@@ -13,8 +13,8 @@ use std::collections::HashMap;
 
 use nalgebra::{Point3, Vector3};
 
-use super::svg::Svg;
 use crate::mesh::TriMesh;
+use crate::svg::Svg;
 
 /// Dihedral angle above which an edge is drawn as a crease, degrees. Default 40.
 pub const CREASE_DEGREES: f64 = 40.0;

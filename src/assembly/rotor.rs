@@ -19,7 +19,7 @@
 //! counter-clockwise one, blade by blade.
 //!
 //! ```
-//! use spanwright::rotor::HandOptions;
+//! use spanwright::assembly::HandOptions;
 //! let design = spanwright::design::load(std::path::Path::new("examples/desk-fan.toml"))?;
 //! let rotor = spanwright::pipeline::build_rotor(&design, &Default::default())?;
 //! assert_eq!(rotor.blades.len(), 5);

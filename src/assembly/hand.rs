@@ -19,7 +19,7 @@
 //! propeller or fan. Symmetric sections have no camber; their flow side is reported as
 //! undetermined rather than passed or failed.
 
-use super::assembly::RotorSpec;
+use super::rotor::RotorSpec;
 use crate::design::{Design, Flow, Rotation};
 use crate::mesh::TriMesh;
 use nalgebra::{Matrix4, Point2, Point3, Vector2, Vector3};

@@ -6,7 +6,7 @@ use std::fmt;
 /// How much a remark matters, from least to most.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, serde::Serialize)]
 #[serde(rename_all = "kebab-case")]
-pub enum Grade {
+pub enum Severity {
     /// Worth knowing; the design is usual.
     Note,
     /// Bears on safety or on how the design is used; read before building.
@@ -15,12 +15,12 @@ pub enum Grade {
     Warning,
 }
 
-impl fmt::Display for Grade {
+impl fmt::Display for Severity {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         f.write_str(match self {
-            Grade::Note => "note",
-            Grade::Caution => "caution",
-            Grade::Warning => "warning",
+            Severity::Note => "note",
+            Severity::Caution => "caution",
+            Severity::Warning => "warning",
         })
     }
 }
@@ -29,7 +29,8 @@ impl fmt::Display for Grade {
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct Remark {
     /// How much it matters.
-    pub grade: Grade,
+    #[serde(rename = "grade")]
+    pub severity: Severity,
     /// What is remarked and what to do about it.
     pub message: String,
     /// Indices (from 0, root first) of the stations concerned; empty when the remark is
@@ -39,18 +40,18 @@ pub struct Remark {
 
 impl Remark {
     /// A remark about the whole design.
-    pub fn new(grade: Grade, message: impl Into<String>) -> Self {
+    pub fn new(severity: Severity, message: impl Into<String>) -> Self {
         Self {
-            grade,
+            severity,
             message: message.into(),
             stations: Vec::new(),
         }
     }
 
     /// A remark about the given stations.
-    pub fn at(grade: Grade, message: impl Into<String>, stations: Vec<usize>) -> Self {
+    pub fn at(severity: Severity, message: impl Into<String>, stations: Vec<usize>) -> Self {
         Self {
-            grade,
+            severity,
             message: message.into(),
             stations,
         }
@@ -59,7 +60,7 @@ impl Remark {
 
 impl fmt::Display for Remark {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{}: {}", self.grade, self.message)?;
+        write!(f, "{}: {}", self.severity, self.message)?;
         if !self.stations.is_empty() {
             write!(f, " (stations {})", index_list(&self.stations))?;
         }

@@ -5,8 +5,8 @@
 use super::bem;
 use super::line::Line;
 use super::optimum::{self, PowerOptions, BETZ_LIMIT, DEFAULT_PANELS};
-use super::remark::{Grade, Remark};
-use super::spec::{DraftSpec, Method, Problem, Spacing};
+use super::remark::{Remark, Severity};
+use super::spec::{BadValue, DraftSpec, Method, Spacing};
 use crate::design::Flow;
 use std::f64::consts::PI;
 use std::io::Write;
@@ -36,7 +36,7 @@ pub const CL_HIGH: f64 = 1.6;
 pub enum DraftError {
     /// One or more values of the spec are unusable.
     #[error("invalid draft input:{}", list(.0))]
-    Invalid(Vec<Problem>),
+    Invalid(Vec<BadValue>),
     /// A propeller or fan was asked for.
     #[error(
         "`flow` = propeller: the optimum-rotor methods here (Betz, Glauert) are for turbines, \
@@ -74,7 +74,7 @@ pub enum DraftError {
     Io(#[from] std::io::Error),
 }
 
-fn list(problems: &[Problem]) -> String {
+fn list(problems: &[BadValue]) -> String {
     problems.iter().map(|p| format!("\n  - {p}")).collect()
 }
 
@@ -193,7 +193,7 @@ fn ideal(spec: &DraftSpec, r: f64) -> (f64, f64, f64) {
 ///
 /// # Example
 /// ```
-/// use spanwright::rotor::{draft, DraftSpec};
+/// use spanwright::draft::{draft, DraftSpec};
 /// // R = 600 mm, hub 90 mm, 3 blades, tip speed ratio 6, Cl 1.0 at 6 degrees.
 /// let table = draft(&DraftSpec::new(600.0, 90.0, 3, 6.0, 1.0, 6.0))?;
 /// assert_eq!(table.stations.len(), 20);
@@ -201,7 +201,7 @@ fn ideal(spec: &DraftSpec, r: f64) -> (f64, f64, f64) {
 /// let mut csv = Vec::new();
 /// table.write_csv(&mut csv)?;
 /// assert!(csv.starts_with(b"radius [mm],chord [mm],twist [deg],section"));
-/// # Ok::<(), spanwright::rotor::DraftError>(())
+/// # Ok::<(), spanwright::draft::DraftError>(())
 /// ```
 ///
 /// # Errors
@@ -305,7 +305,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
     );
     let power_coefficient = if raw_cp > BETZ_LIMIT {
         remarks.push(Remark::new(
-            Grade::Warning,
+            Severity::Warning,
             format!(
                 "the power estimate {raw_cp:.4} came out above the Betz limit 16/27 = {BETZ_LIMIT:.4} \
                  (numerical error); no turbine in an open flow can exceed it (Betz, 1920), so it \
@@ -339,7 +339,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
     });
     if failed > 0 {
         remarks.push(Remark::new(
-            Grade::Note,
+            Severity::Note,
             format!(
                 "the blade-element estimate found no flow balance in {failed} of {} annuli \
                  (counted as producing nothing); its C_P is a lower figure",
@@ -358,7 +358,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
     };
 
     remarks.extend(judge(spec, &stations, &floored, floor, rpm, tip_speed));
-    remarks.sort_by_key(|r| std::cmp::Reverse(r.grade));
+    remarks.sort_by_key(|r| std::cmp::Reverse(r.severity));
     Ok(DraftTable {
         spec: spec.clone(),
         stations,
@@ -385,7 +385,7 @@ fn judge(
     let l = spec.tip_speed_ratio;
     if l < TSR_USUAL.0 || l > TSR_USUAL.1 {
         out.push(Remark::new(
-            Grade::Warning,
+            Severity::Warning,
             format!(
                 "tip speed ratio {l} is outside the usual range {}..{} (common practice): below it \
                  the blades are wide, heavily twisted and slow; above it they are slender, fast \
@@ -395,7 +395,7 @@ fn judge(
         ));
     } else if l < TSR_SMALL_TURBINE.0 || l > TSR_SMALL_TURBINE.1 {
         out.push(Remark::new(
-            Grade::Note,
+            Severity::Note,
             format!(
                 "tip speed ratio {l}: small wind turbines commonly use {}..{} (common practice)",
                 TSR_SMALL_TURBINE.0, TSR_SMALL_TURBINE.1
@@ -404,7 +404,7 @@ fn judge(
     }
     if spec.design_cl > CL_HIGH {
         out.push(Remark::new(
-            Grade::Warning,
+            Severity::Warning,
             format!(
                 "design Cl {} is above {CL_HIGH}, more than most single-element sections give at \
                  small-rotor Reynolds numbers (common practice); check the section's polar",
@@ -414,7 +414,7 @@ fn judge(
     }
     if spec.design_alpha >= spec.stall_alpha {
         out.push(Remark::new(
-            Grade::Warning,
+            Severity::Warning,
             format!(
                 "design angle of attack {}° is at or above the stall angle {}°: the whole blade \
                  would work stalled; take the angle of best lift-to-drag ratio from the polar",
@@ -437,7 +437,7 @@ fn judge(
             .map(|&i| stations[i].solidity)
             .fold(0.0, f64::max);
         out.push(Remark::at(
-            Grade::Warning,
+            Severity::Warning,
             format!(
                 "local solidity B c / (2 pi r) above 1 (up to {worst:.2}): the blades would \
                  overlap in the plane of rotation; raise the hub radius, the tip speed ratio or \
@@ -453,7 +453,7 @@ fn judge(
             .map(|&i| stations[i].twist.abs())
             .fold(0.0, f64::max);
         out.push(Remark::at(
-            Grade::Warning,
+            Severity::Warning,
             format!(
                 "twist above {TWIST_LIMIT}° (up to {worst:.1}°): hard to make and far from \
                  design off the design point; raise the hub radius or linearise the twist"
@@ -469,7 +469,7 @@ fn judge(
             .fold(f64::MIN, f64::max);
         let root_phi = stations.first().map_or(0.0, |s| s.flow_angle);
         out.push(Remark::at(
-            Grade::Warning,
+            Severity::Warning,
             format!(
                 "these stations will stall at the design point: the flow angle (root {root_phi:.1}°) \
                  minus the written twist gives an angle of attack up to {worst:.1}°, above the \
@@ -483,7 +483,7 @@ fn judge(
     let negative = pick(&|s| s.alpha < spec.design_alpha - spec.stall_alpha);
     if !negative.is_empty() {
         out.push(Remark::at(
-            Grade::Note,
+            Severity::Note,
             "the written twist is far above the flow angle here: these stations work at a \
              low or negative angle of attack and carry little load",
             negative,
@@ -491,7 +491,7 @@ fn judge(
     }
     if !floored.is_empty() {
         out.push(Remark::at(
-            Grade::Note,
+            Severity::Note,
             format!(
                 "chord raised to the floor {floor:.2} mm (tip loss or the straight line take it \
                  lower); set `min_chord` to change"
@@ -502,7 +502,7 @@ fn judge(
     if let (Some(n), Some(u)) = (rpm, tip_speed) {
         let v = spec.wind_speed.unwrap_or(0.0);
         out.push(Remark::new(
-            Grade::Caution,
+            Severity::Caution,
             format!(
                 "at {v} m/s the rotor turns about {n:.0} rpm with a tip speed of {u:.1} m/s. A \
                  rotor that loses its load or meets a gust can overspeed, commonly to 1.5 to 2 \
@@ -514,7 +514,7 @@ fn judge(
         ));
         if u > TIP_SPEED_CAUTION {
             out.push(Remark::new(
-                Grade::Caution,
+                Severity::Caution,
                 format!(
                     "tip speed {u:.1} m/s is above {TIP_SPEED_CAUTION} m/s: noise, leading-edge \
                      wear and blade loads rise quickly on small rotors (common practice)"
@@ -523,7 +523,7 @@ fn judge(
         }
     }
     out.push(Remark::new(
-        Grade::Caution,
+        Severity::Caution,
         "this is an aerodynamic draft, not a structural design. Spinning blades store energy \
          and can break and throw parts; printed parts vary in strength with material, print \
          orientation and layer bonding. Provide overspeed protection, keep people out of the \

@@ -17,7 +17,7 @@
 //!       \____/
 //! ```
 
-use super::assembly::{blade_transform, RotorSpec};
+use super::rotor::{blade_transform, RotorSpec};
 use crate::design::{Design, DesignError};
 use crate::mesh::{Part, TriMesh};
 use crate::pipeline::Model;

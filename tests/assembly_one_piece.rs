@@ -1,9 +1,9 @@
 //! A rotor printed as one part: blades joined by a prismatic hub, one closed solid.
 
+use spanwright::assembly::{one_piece, RotorSpec};
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::parse_toml_str;
 use spanwright::pipeline::{build, BuildOptions};
-use spanwright::rotor::{one_piece, RotorSpec};
 use std::f64::consts::PI;
 
 fn design(rotor: &str) -> String {

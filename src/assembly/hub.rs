@@ -30,7 +30,7 @@
 //! each socket wall is a quad strip from its opening to its floor, closed by a fan.
 //! Sockets are radial, so a coned rotor (`rotor.cone` not 0) cannot have them.
 
-use super::assembly::RotorSpec;
+use super::rotor::RotorSpec;
 use crate::design::{Design, DesignError, Rotation};
 use crate::mesh::{Part, TriMesh};
 use crate::planar::point_in_polygon;

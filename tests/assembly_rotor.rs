@@ -4,11 +4,13 @@
 mod support;
 
 use nalgebra::{Matrix4, Point3, Vector3};
+use spanwright::assembly::{
+    check_hand, hand_description, hand_radii, HandOptions, RotorSpec, Side,
+};
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::{parse_toml_str, Design, Flow, Rotation};
 use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{build, build_rotor, BuildOptions};
-use spanwright::rotor::{check_hand, hand_description, hand_radii, HandOptions, RotorSpec, Side};
 use std::f64::consts::PI;
 
 /// A small invented demo blade (not a real design), cheap to build in a debug test.
@@ -687,7 +689,7 @@ fn example_rotors_turn_the_way_their_files_say() {
 fn hubs_over_a_range_of_blades_bolts_and_tolerances_are_solids() {
     // Every combination must pass the mesh checks (closed, oriented, no self-
     // intersection) with genus = bore + bolt holes (Euler: V - E + F = 2 - 2g).
-    use spanwright::rotor::HubSpec;
+    use spanwright::assembly::HubSpec;
     let d = socket_design("ccw", "thickness = 14");
     let mut built = 0;
     for blades in 1..=5u32 {

@@ -179,7 +179,7 @@ pub fn power_coefficient(input: &BemInput, blade: impl Fn(f64) -> (f64, f64)) ->
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::rotor::optimum::{glauert_chord, glauert_flow_angle};
+    use crate::draft::optimum::{glauert_chord, glauert_flow_angle};
 
     #[test]
     fn optimum_annulus_has_the_optimum_inductions() {

@@ -169,10 +169,10 @@ impl DraftSpec {
     }
 
     /// Every problem with the values, all at once (empty when the spec is usable).
-    pub fn problems(&self) -> Vec<Problem> {
+    pub fn problems(&self) -> Vec<BadValue> {
         let mut out = Vec::new();
         let mut bad = |key: &str, value: String, message: String| {
-            out.push(Problem {
+            out.push(BadValue {
                 key: key.to_owned(),
                 value,
                 message,
@@ -311,7 +311,7 @@ impl DraftSpec {
 
 /// One bad value in a [`DraftSpec`].
 #[derive(Debug, Clone, PartialEq)]
-pub struct Problem {
+pub struct BadValue {
     /// The spec key (field name), e.g. `tip_radius`.
     pub key: String,
     /// The value given, as text.
@@ -320,7 +320,7 @@ pub struct Problem {
     pub message: String,
 }
 
-impl fmt::Display for Problem {
+impl fmt::Display for BadValue {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         write!(f, "`{}` = {}: {}", self.key, self.value, self.message)
     }

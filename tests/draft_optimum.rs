@@ -1,13 +1,13 @@
-//! Optimum-rotor design tables (`spanwright::rotor`), checked against published
+//! Optimum-rotor design tables (`spanwright::draft`), checked against published
 //! optimum-rotor theory and independent computations made here.
 //!
 //! Sources named beside each check. Values marked "from memory" were recalled, not read
 //! from the book at hand; their tolerances are loose on purpose.
 
 use spanwright::design::Flow;
-use spanwright::rotor::{
-    self, draft, optimum, DraftError, DraftSpec, Grade, LinearRange, Method, Spacing, CSV_HEADER,
-    LINE_SAMPLES,
+use spanwright::draft::{
+    self as drafting, draft, optimum, DraftError, DraftSpec, LinearRange, Method, Severity,
+    Spacing, CSV_HEADER, LINE_SAMPLES,
 };
 use std::f64::consts::PI;
 use std::process::Command;
@@ -352,7 +352,7 @@ fn linearised_root_stall_is_flagged_with_stations() {
     let w = t
         .remarks
         .iter()
-        .find(|r| r.grade == Grade::Warning && r.message.contains("stall"))
+        .find(|r| r.severity == Severity::Warning && r.message.contains("stall"))
         .expect("a stall warning");
     assert_eq!(w.stations, expect);
 }
@@ -394,11 +394,11 @@ fn solidity_twist_and_speed_ratio_warnings() {
     assert!(t
         .remarks
         .iter()
-        .any(|r| r.grade == Grade::Warning && r.message.contains("tip speed ratio")));
+        .any(|r| r.severity == Severity::Warning && r.message.contains("tip speed ratio")));
     // The usual design raises none of these.
     let ok = draft(&demo()).unwrap();
     assert!(
-        ok.remarks.iter().all(|r| r.grade != Grade::Warning),
+        ok.remarks.iter().all(|r| r.severity != Severity::Warning),
         "{:?}",
         ok.remarks
     );
@@ -415,17 +415,17 @@ fn rotor_speed_and_safety_caution() {
     .unwrap();
     assert!((t.rpm.unwrap() - 954.93).abs() < 0.01);
     assert!((t.tip_speed.unwrap() - 60.0).abs() < 1e-12);
-    assert!((rotor::rotor_rpm(6.0, 10.0, 600.0) - 954.93).abs() < 0.01);
+    assert!((drafting::rotor_rpm(6.0, 10.0, 600.0) - 954.93).abs() < 0.01);
     assert!(t
         .remarks
         .iter()
-        .any(|r| r.grade == Grade::Caution && r.message.contains("955 rpm")));
+        .any(|r| r.severity == Severity::Caution && r.message.contains("955 rpm")));
     assert!(t.remarks.iter().any(|r| r.message.contains("IEC 61400-2")));
 }
 
 #[test]
 fn cosine_spacing_clusters_toward_the_tip() {
-    let r = rotor::station_radii(90.0, 600.0, 12, Spacing::Cosine);
+    let r = drafting::station_radii(90.0, 600.0, 12, Spacing::Cosine);
     assert_eq!((r[0], r[11]), (90.0, 600.0));
     for w in r.windows(3) {
         assert!(
@@ -433,7 +433,7 @@ fn cosine_spacing_clusters_toward_the_tip() {
             "steps must shrink toward the tip: {w:?}"
         );
     }
-    let u = rotor::station_radii(90.0, 600.0, 4, Spacing::Uniform);
+    let u = drafting::station_radii(90.0, 600.0, 4, Spacing::Uniform);
     assert_eq!(u, vec![90.0, 260.0, 430.0, 600.0]);
 }
 
@@ -499,7 +499,7 @@ fn spec_reads_from_toml_with_defaults() {
     )
     .unwrap();
     assert_eq!(spec.method, Method::Betz);
-    assert_eq!(spec.stations, rotor::DEFAULT_STATIONS);
+    assert_eq!(spec.stations, drafting::DEFAULT_STATIONS);
     assert!(toml::from_str::<DraftSpec>("tip_radius = 1.0\nbogus = 2").is_err());
 }
 
