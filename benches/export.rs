@@ -5,6 +5,7 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use nalgebra::{Point3, Vector3};
 use spanwright::airfoil::{Naca4, TrailingEdge};
+use spanwright::check::{certify, CheckOptions};
 use spanwright::export::{
     step_solid, step_text, write_3mf, write_obj, write_step, write_stl, write_stl_ascii, StepHeader,
 };
@@ -92,11 +93,15 @@ fn skin20() -> Skin {
 }
 
 fn writers(c: &mut Criterion) {
-    let parts = vec![Part {
-        name: "sphere".into(),
-        mesh: sphere(112),
-    }];
-    assert!(parts[0].mesh.len() > 100_000);
+    let parts = vec![certify(
+        Part {
+            name: "sphere".into(),
+            mesh: sphere(112),
+        },
+        &CheckOptions::DEFAULT,
+    )
+    .expect("a sphere is a solid")];
+    assert!(parts[0].mesh().len() > 100_000);
     let mut buf: Vec<u8> = Vec::with_capacity(64 << 20);
     c.bench_function("stl binary 100k", |b| {
         b.iter(|| {

@@ -7,7 +7,7 @@
 use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
 use spanwright::design::parse_toml_str;
 use spanwright::export::write_stl;
-use spanwright::pipeline::{build, resolve_sections, BuildOptions};
+use spanwright::pipeline::{build_blade, resolve_sections, run, Options};
 use spanwright::tessellate::{tessellate, TessellationOptions};
 use std::hint::black_box;
 
@@ -31,9 +31,10 @@ fn table_to_stl(c: &mut Criterion) {
     c.bench_function("table_to_stl_10_stations_200_pts_0.01mm", |b| {
         b.iter(|| {
             let design = parse_toml_str(black_box(&text), None).unwrap();
-            let model = build(&design, &BuildOptions::default()).unwrap();
-            let mut bytes = Vec::with_capacity(model.mesh().len() * 50 + 84);
-            write_stl(&mut bytes, &[model.part()]).unwrap();
+            let outcome = run(&design, &Options::default()).unwrap();
+            let blade = outcome.blade_part();
+            let mut bytes = Vec::with_capacity(blade.mesh().len() * 50 + 84);
+            write_stl(&mut bytes, std::slice::from_ref(blade)).unwrap();
             bytes.len()
         })
     });
@@ -41,7 +42,7 @@ fn table_to_stl(c: &mut Criterion) {
     c.bench_function("stage_sections", |b| {
         b.iter(|| resolve_sections(black_box(&design)).unwrap())
     });
-    let model = build(&design, &BuildOptions::default()).unwrap();
+    let model = build_blade(&design, &Options::default()).unwrap();
     c.bench_function("stage_tessellate_0.01mm", |b| {
         b.iter(|| tessellate(black_box(&model.skin), &TessellationOptions::DEFAULT).unwrap())
     });
@@ -49,7 +50,7 @@ fn table_to_stl(c: &mut Criterion) {
 
 fn growth(c: &mut Criterion) {
     let design = parse_toml_str(&design_text(), None).unwrap();
-    let model = build(&design, &BuildOptions::default()).unwrap();
+    let model = build_blade(&design, &Options::default()).unwrap();
     let mut group = c.benchmark_group("tessellate_growth");
     group.sample_size(10);
     for tol in [0.1, 0.01, 0.001, 0.0001, 0.00005] {

@@ -19,6 +19,7 @@
 
 pub mod airfoil;
 pub mod assembly;
+pub mod atomic;
 pub mod blade;
 pub mod check;
 pub mod conventions;

@@ -2,7 +2,8 @@
 //! own root ring (so the part stays watertight by construction): a flange plate with a
 //! fillet up to the shank, and a coaxial blind bore with a drill-point cone (or a flat
 //! bottom), and cross holes through the straight round shank along the rotor axis. These
-//! are mesh features; the STEP solid carries the shank without them.
+//! are mesh features; the exact solid for STEP is built from the same dimensions by the
+//! B-rep writer, which says which of them it carries.
 //!
 //! Every surface of revolution reuses the angular positions of the root ring's vertices:
 //! a ring of the lathe is `c + d_k * rho` for the ring's directions `d_k` about the shank
@@ -10,8 +11,30 @@
 //! strips.
 
 use crate::mesh::TriMesh;
-use crate::root::{RootError, RootSpec};
+use crate::root::RootSpec;
 use nalgebra::{Point3, Vector3};
+
+/// Why a cross hole could not be cut into the meshed shank. Validated roots
+/// ([`RootSpec::validate`]) leave room for every hole, so these are rare; each says what
+/// to change. The part is then not built at all.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, thiserror::Error)]
+pub enum MountError {
+    /// The skin has a single row of vertices along the span.
+    #[error("root.cross-holes: the skin has fewer than two rows along the span; give the blade a longer span or a finer tolerance")]
+    TooFewRows,
+    /// Every skin row lies beyond the holes.
+    #[error("root.cross-holes: no skin row lies between the root face and the holes; move the holes away from the root face (larger `at`)")]
+    NoRowBelow,
+    /// Every skin row lies before the holes.
+    #[error("root.cross-holes: no skin row lies beyond the holes; move the holes toward the root face (smaller `at`) or lengthen root.shank-length")]
+    NoRowBeyond,
+    /// The constrained triangulation of the band failed.
+    #[error("root.cross-holes: the band of skin around the holes could not be triangulated; move the holes apart or change their diameters")]
+    BandNotTriangulated,
+    /// Hole outlines cross the grid lines of the band.
+    #[error("root.cross-holes: the hole outlines cross the band's grid; give the holes more room from each other and from the transition (root.shank-length, `at`)")]
+    OutlinesCrossGrid,
+}
 
 /// Segments of a quarter-circle fillet.
 const FILLET_STEPS: usize = 8;
@@ -23,8 +46,8 @@ const FILLET_STEPS: usize = 8;
 ///
 /// Expects the mesh exactly as [`crate::tessellate::tessellate`] left it (the skin's
 /// grid first). Should a hole's band not be found or not triangulate (validated roots
-/// always do), that hole is left out and the part's genus stays lower than
-/// [`RootSpec::genus`], which the solid check then reports.
+/// always leave room), the whole part is refused with a [`MountError`] saying what to
+/// change; no hole is ever left out silently.
 ///
 /// `ring` is the skin's root boundary loop (as in
 /// [`crate::tessellate::Tessellation::root_ring`]), `cap` the cap's triangle range,
@@ -36,7 +59,7 @@ pub fn add_mount_features(
     cap: std::ops::Range<usize>,
     root: &RootSpec,
     face: f64,
-) -> Result<(), RootError> {
+) -> Result<(), MountError> {
     let grid_vertices = mesh.vertices.len();
     if root.flange.is_some() || root.bore.is_some() {
         add_lathe_features(mesh, ring, cap, root, face);
@@ -49,8 +72,7 @@ pub fn add_mount_features(
             .iter()
             .map(|h| (face + h.at, 0.5 * h.diameter))
             .collect();
-        add_cross_holes(mesh, ring, grid_vertices, c, r_shank, &holes)
-            .map_err(|reason| RootError::CrossHoleNotCut { reason })?;
+        add_cross_holes(mesh, ring, grid_vertices, c, r_shank, &holes)?;
     }
     Ok(())
 }
@@ -231,12 +253,12 @@ fn add_cross_holes(
     c: Point3<f64>,
     r_shank: f64,
     holes: &[(f64, f64)],
-) -> Result<(), &'static str> {
+) -> Result<(), MountError> {
     use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
     use std::f64::consts::TAU;
     let nv = (ring[1] - ring[0]) as usize;
     if nv < 2 {
-        return Err("the skin has fewer than two rows along the span");
+        return Err(MountError::TooFewRows);
     }
     let nu = ring.len();
     let vertex = |i: usize, j: usize| ring[i] + j as u32;
@@ -253,10 +275,10 @@ fn add_cross_holes(
         .fold(f64::NEG_INFINITY, f64::max);
     let r_min = holes.iter().map(|h| h.1).fold(f64::INFINITY, f64::min);
     let Some(ja) = (0..nv).rev().find(|&j| zs[j] < z_lo) else {
-        return Err("no skin row lies below the holes; move them away from the root face");
+        return Err(MountError::NoRowBelow);
     };
     let Some(jb) = (0..nv).find(|&j| zs[j] > z_hi) else {
-        return Err("no skin row lies beyond the holes; move them toward the root face");
+        return Err(MountError::NoRowBeyond);
     };
     // Distance from a point to the nearest hole's rim, measured across x and z (the
     // holes' axes run along y): negative inside a hole.
@@ -389,10 +411,10 @@ fn add_cross_holes(
             conflict = true
         })
     else {
-        return Err("the band around the holes could not be triangulated");
+        return Err(MountError::BandNotTriangulated);
     };
     if conflict || cdt.num_vertices() != n {
-        return Err("the hole outlines cross the band's grid; give the holes more room from each other and from the transition");
+        return Err(MountError::OutlinesCrossGrid);
     }
     // Remove the band's old triangles: grid triangles with every vertex in rows
     // ja..=jb that reach inside the band.

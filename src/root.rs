@@ -241,12 +241,6 @@ pub enum RootError {
         /// Smallest diameter that works, mm.
         needed: f64,
     },
-    /// A cross hole could not be cut into the meshed shank (the part is not written).
-    #[error("a cross hole could not be cut into the shank: {reason}")]
-    CrossHoleNotCut {
-        /// Why, and what to change.
-        reason: &'static str,
-    },
 }
 
 impl RootSpec {

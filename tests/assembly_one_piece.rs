@@ -1,9 +1,7 @@
 //! A rotor printed as one part: blades joined by a prismatic hub, one closed solid.
 
-use spanwright::assembly::{one_piece, RotorSpec};
-use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::parse_toml_str;
-use spanwright::pipeline::{build, BuildOptions};
+use spanwright::pipeline::{run, PartKind};
 use std::f64::consts::PI;
 
 fn design(rotor: &str) -> String {
@@ -44,21 +42,17 @@ fn one_piece_volume_is_blades_plus_prism_minus_bore() {
             None => "[rotor]\nblades = 5\nhub-radius = 20\n[rotor.one-piece]\nthickness = 16\n".into(),
         };
         let d = parse_toml_str(&design(&rotor), None).unwrap();
-        let model = build(&d, &BuildOptions::default()).unwrap();
-        let spec = RotorSpec::from_design(&d).unwrap().unwrap();
-        let part = one_piece(&model, &spec, spec.one_piece.as_ref().unwrap(), &d).unwrap();
-        let report = check_solid(
-            &part.mesh,
-            &CheckOptions::DEFAULT.with_expected_genus(Some(genus)),
-        );
-        assert!(report.is_ok(), "{report}");
+        // The pipeline checks the one-piece rotor with the genus its bore implies.
+        let outcome = run(&d, &Default::default()).unwrap();
+        let part = &outcome.part(PartKind::OnePiece).unwrap().bodies[0];
+        assert_eq!(part.report().genus, Some(genus));
         let b = 5.0;
         let prism = b * 20.0f64.powi(2) * (PI / b).tan() * 16.0;
         let bore_area = bore.map_or(0.0, |dd: f64| {
             // Count the bore's sides from the mesh: vertices on the top face's circle.
             let r = 0.5 * dd;
             let n = part
-                .mesh
+                .mesh()
                 .vertices
                 .iter()
                 .filter(|p| ((p.x * p.x + p.z * p.z).sqrt() - r).abs() < 1e-9)
@@ -66,8 +60,8 @@ fn one_piece_volume_is_blades_plus_prism_minus_bore() {
                 / 2.0;
             0.5 * n * r * r * (2.0 * PI / n).sin()
         });
-        let expected = b * model.mesh().signed_volume() + prism - bore_area * 16.0;
-        let v = part.mesh.signed_volume();
+        let expected = b * outcome.blade_part().mesh().signed_volume() + prism - bore_area * 16.0;
+        let v = part.mesh().signed_volume();
         assert!((v / expected - 1.0).abs() < 1e-9, "{v} vs {expected}");
     }
 }
@@ -102,11 +96,7 @@ fn one_piece_refuses_what_it_cannot_join() {
     ];
     for (rotor, key) in cases {
         let d = parse_toml_str(&design(rotor), None).unwrap();
-        let model = build(&d, &BuildOptions::default()).unwrap();
-        let spec = RotorSpec::from_design(&d).unwrap().unwrap();
-        let err = one_piece(&model, &spec, spec.one_piece.as_ref().unwrap(), &d)
-            .unwrap_err()
-            .to_string();
+        let err = run(&d, &Default::default()).unwrap_err().to_string();
         assert!(err.contains(key), "{rotor}: {err}");
     }
 }

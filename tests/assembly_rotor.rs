@@ -5,13 +5,93 @@ mod support;
 
 use nalgebra::{Matrix4, Point3, Vector3};
 use spanwright::assembly::{
-    check_hand, hand_description, hand_radii, HandOptions, RotorSpec, Side,
+    check_hand, hand_description, hand_radii, BladeFacts, HandOptions, HandReport, Hub, RotorSpec,
+    Side,
 };
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::{parse_toml_str, Design, Flow, Rotation};
-use spanwright::mesh::TriMesh;
-use spanwright::pipeline::{build, build_rotor, BuildOptions};
+use spanwright::mesh::{Part, TriMesh};
+use spanwright::pipeline::{
+    blade_facts, build_blade, read_rotor, run, Options, PartKind, PipelineError,
+};
 use std::f64::consts::PI;
+
+/// The assembled rotor of a design as the pipeline builds it, seen as plain parts.
+#[derive(Debug)]
+struct Built {
+    blades: Vec<Part>,
+    hub: Option<Part>,
+    hub_shape: Option<Hub>,
+    transforms: Vec<Matrix4<f64>>,
+    rotation: Rotation,
+    flow: Flow,
+    station_radii: Vec<f64>,
+}
+
+impl Built {
+    /// Every body, blades first.
+    fn parts(&self) -> Vec<Part> {
+        let mut out = self.blades.clone();
+        out.extend(self.hub.clone());
+        out
+    }
+
+    /// The genus each body of `parts` must have.
+    fn expected_genus(&self) -> Vec<u32> {
+        let mut out = vec![0; self.blades.len()];
+        out.extend(self.hub_shape.as_ref().map(Hub::genus));
+        out
+    }
+
+    /// All bodies appended in one mesh.
+    fn envelope(&self) -> TriMesh {
+        let mut m = TriMesh::new();
+        for p in self.parts() {
+            m.append(&p.mesh);
+        }
+        m
+    }
+
+    /// The rotation-sense check of every placed blade.
+    fn check_hand(&self, opts: &HandOptions) -> Vec<HandReport> {
+        let radii = hand_radii(&self.station_radii);
+        self.blades
+            .iter()
+            .zip(&self.transforms)
+            .map(|(p, m)| check_hand(&p.mesh, m, &radii, self.rotation, self.flow, opts))
+            .collect()
+    }
+}
+
+/// Runs the pipeline and returns its assembled rotor (an error without a `[rotor]`
+/// table).
+fn build_rotor(d: &Design) -> Result<Built, PipelineError> {
+    let outcome = run(d, &Options::default())?;
+    let rotor = outcome.rotor.clone().ok_or_else(|| {
+        PipelineError::from(spanwright::design::DesignError::one(d.problem(
+            "rotor",
+            "no [rotor] table: add one with `blades` and `hub-radius` (mm)",
+        )))
+    })?;
+    let bodies = &outcome.part(PartKind::Rotor).expect("rotor part").bodies;
+    let plain = |b: &spanwright::check::CheckedPart| b.as_part().clone();
+    let hub = outcome.part(PartKind::Hub).map(|h| plain(&h.bodies[0]));
+    let n = rotor.transforms.len();
+    Ok(Built {
+        blades: bodies[..n].iter().map(plain).collect(),
+        hub,
+        hub_shape: rotor.hub.clone(),
+        transforms: rotor.transforms.clone(),
+        rotation: rotor.rotation,
+        flow: rotor.flow,
+        station_radii: rotor.station_radii.clone(),
+    })
+}
+
+/// The design's validated `[rotor]` table.
+fn rotor_spec(d: &Design) -> RotorSpec {
+    read_rotor(d).expect("valid").expect("table")
+}
 
 /// A small invented demo blade (not a real design), cheap to build in a debug test.
 fn design(rotation: &str, flow: &str, section: &str, twist: (f64, f64), rotor: &str) -> Design {
@@ -100,8 +180,8 @@ fn clockwise_rotor_is_the_mirror_of_the_counter_clockwise_one() {
         ),
     ];
     for (dccw, dcw) in pairs {
-        let ccw = build_rotor(&dccw, &BuildOptions::default()).expect("ccw rotor");
-        let cw = build_rotor(&dcw, &BuildOptions::default()).expect("cw rotor");
+        let ccw = build_rotor(&dccw).expect("ccw rotor");
+        let cw = build_rotor(&dcw).expect("cw rotor");
         let (a, b) = (ccw.parts(), cw.parts());
         assert_eq!(a.len(), 4);
         assert_eq!(b.len(), 4);
@@ -127,8 +207,8 @@ fn assembled_volume_is_blades_times_blade_volume_plus_hub() {
     // Rigid motions preserve volume (elementary), and the envelope appends separate
     // bodies, so V = B V_blade + V_hub.
     let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
-    let blade = build(&d, &BuildOptions::default()).expect("blade");
-    let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+    let blade = build_blade(&d, &Options::default()).expect("blade");
+    let rotor = build_rotor(&d).expect("rotor");
     let vb = blade.mesh().signed_volume();
     let vh = rotor.hub.as_ref().expect("hub").mesh.signed_volume();
     for p in &rotor.blades {
@@ -160,7 +240,7 @@ fn blades_are_spaced_evenly_in_the_sense_of_rotation() {
         for blades in [2u32, 3, 5] {
             let rotor_text = format!("blades = {blades}\nhub-radius = 30\ncone = 3\npitch = 2");
             let d = design(sense, "turbine", "naca4412", (20.0, 5.0), &rotor_text);
-            let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+            let rotor = build_rotor(&d).expect("rotor");
             assert_eq!(rotor.blades.len(), blades as usize);
             let angles: Vec<f64> = rotor
                 .blades
@@ -193,27 +273,21 @@ fn cone_tilts_blades_downstream_about_the_root() {
     // Rotation by the cone angle b about the x-parallel line through (0, 0, z_p) moves a
     // point (x, y, z) to (x, y cos b + (z - z_p) sin b, z_p + (z - z_p) cos b - y sin b)
     // (elementary rotation, tilting +z toward +y: downstream).
-    let flat = build_rotor(
-        &design(
-            "ccw",
-            "turbine",
-            "naca4412",
-            (20.0, 5.0),
-            "blades = 1\nhub-radius = 30",
-        ),
-        &BuildOptions::default(),
-    )
+    let flat = build_rotor(&design(
+        "ccw",
+        "turbine",
+        "naca4412",
+        (20.0, 5.0),
+        "blades = 1\nhub-radius = 30",
+    ))
     .expect("flat");
-    let coned = build_rotor(
-        &design(
-            "ccw",
-            "turbine",
-            "naca4412",
-            (20.0, 5.0),
-            "blades = 1\nhub-radius = 30\ncone = 8",
-        ),
-        &BuildOptions::default(),
-    )
+    let coned = build_rotor(&design(
+        "ccw",
+        "turbine",
+        "naca4412",
+        (20.0, 5.0),
+        "blades = 1\nhub-radius = 30\ncone = 8",
+    ))
     .expect("coned");
     let (p, q) = (
         centroid(&flat.blades[0].mesh),
@@ -239,7 +313,7 @@ fn pitch_adds_to_twist() {
             (10.0, 10.0),
             &format!("blades = 2\nhub-radius = 30\npitch = {pitch}"),
         );
-        let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+        let rotor = build_rotor(&d).expect("rotor");
         let (le, te) = support::chord_line_at(&rotor.blades[0].mesh, 100.0);
         let angle = (te.y - le.y).atan2(te.x - le.x).to_degrees();
         assert!(
@@ -261,7 +335,7 @@ fn hand_check_passes_for_every_sense_and_mode() {
         for flow in ["turbine", "propeller"] {
             let d = design(rot, flow, "naca4412", (20.0, 5.0), ROTOR);
             let radii = hand_radii(&[40.0, 80.0, 120.0]);
-            let blade = build(&d, &BuildOptions::default()).expect("blade");
+            let blade = build_blade(&d, &Options::default()).expect("blade");
             let single = check_hand(
                 blade.mesh(),
                 &Matrix4::identity(),
@@ -276,7 +350,7 @@ fn hand_check_passes_for_every_sense_and_mode() {
                 .stations
                 .iter()
                 .all(|s| s.lead > 0.9 && s.side == Side::Right));
-            let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+            let rotor = build_rotor(&d).expect("rotor");
             for (p, m) in rotor.blades.iter().zip(&rotor.transforms) {
                 let r = check_hand(
                     &p.mesh,
@@ -312,7 +386,7 @@ fn mirrored_blade_fails_loudly() {
     // every station. Mirrored in y (flow side flipped): the pressure side faces
     // downstream at every station while the leading edge still leads.
     let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
-    let blade = build(&d, &BuildOptions::default()).expect("blade");
+    let blade = build_blade(&d, &Options::default()).expect("blade");
     let radii = hand_radii(&[40.0, 80.0, 120.0]);
     let mirror_x = blade
         .mesh()
@@ -358,7 +432,7 @@ fn symmetric_sections_leave_the_side_undetermined() {
         (20.0, 5.0),
         "blades = 2\nhub-radius = 30",
     );
-    let blade = build(&d, &BuildOptions::default()).expect("blade");
+    let blade = build_blade(&d, &Options::default()).expect("blade");
     let radii = hand_radii(&[40.0, 80.0, 120.0]);
     let r = check_hand(
         blade.mesh(),
@@ -378,7 +452,7 @@ fn hub_is_a_solid_of_the_right_genus_and_volume() {
     // inscribed polygon whose area is short of the circle's by at most perimeter x
     // sagitta <= 2 pi r tol, so |V_mesh - V_exact| <= t tol 2 pi (R + r_b + n r_h).
     let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
-    let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+    let rotor = build_rotor(&d).expect("rotor");
     let hub = rotor.hub_shape.as_ref().expect("hub");
     assert_eq!(hub.genus(), 4, "bore + 3 bolt holes");
     assert_eq!(rotor.expected_genus(), vec![0, 0, 0, 4]);
@@ -402,16 +476,13 @@ fn hub_is_a_solid_of_the_right_genus_and_volume() {
     assert!((bb.size().y - t).abs() < 1e-12);
     assert!((bb.size().x - 2.0 * rr).abs() < 2.0 * tol);
     // Without bore and bolts the disc is genus 0.
-    let plain = build_rotor(
-        &design(
-            "ccw",
-            "turbine",
-            "naca4412",
-            (20.0, 5.0),
-            "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10",
-        ),
-        &BuildOptions::default(),
-    )
+    let plain = build_rotor(&design(
+        "ccw",
+        "turbine",
+        "naca4412",
+        (20.0, 5.0),
+        "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10",
+    ))
     .expect("plain");
     let m = &plain.hub.as_ref().expect("hub").mesh;
     let report = check_solid(m, &CheckOptions::DEFAULT.with_expected_genus(Some(0)));
@@ -438,11 +509,7 @@ fn bad_rotor_tables_name_their_key() {
     ];
     for (table, key) in cases {
         let d = design("ccw", "turbine", "naca4412", (20.0, 5.0), table);
-        let e = RotorSpec::from_design(&d).expect_err(table).to_string();
-        assert!(e.contains(key), "{table}: {e}");
-        let e = build_rotor(&d, &BuildOptions::default())
-            .expect_err("fails")
-            .to_string();
+        let e = build_rotor(&d).expect_err("fails").to_string();
         assert!(e.contains(key), "{table}: {e}");
     }
     // No [rotor] table at all.
@@ -454,22 +521,20 @@ fn bad_rotor_tables_name_their_key() {
         "blades = 3\nhub-radius = 30",
     );
     d.tables.remove("rotor");
-    let e = build_rotor(&d, &BuildOptions::default())
-        .expect_err("fails")
-        .to_string();
+    let e = build_rotor(&d).expect_err("fails").to_string();
     assert!(e.contains("rotor") && e.contains("blades"), "{e}");
 }
 
 #[test]
 fn description_words() {
     let d = design("cw", "turbine", "naca4412", (20.0, 5.0), ROTOR);
-    let spec = RotorSpec::from_design(&d).expect("valid").expect("table");
-    let s = hand_description(&spec, &d);
+    let spec = rotor_spec(&d);
+    let s = hand_description(&spec, d.blade.rotation, d.blade.flow);
     assert!(s.contains("3 blades, 120 degrees apart"), "{s}");
     assert!(s.contains("turns clockwise seen from upstream"), "{s}");
     assert!(s.contains("pressure sides face the wind"), "{s}");
     let d = design("ccw", "propeller", "naca4412", (20.0, 5.0), ROTOR);
-    let s = hand_description(&spec, &d);
+    let s = hand_description(&spec, d.blade.rotation, d.blade.flow);
     assert!(
         s.contains("counter-clockwise") && s.contains("suction sides face upstream"),
         "{s}"
@@ -530,7 +595,7 @@ fn hub_sockets_hold_the_shanks_with_clearance() {
     // touch, so the envelope's only finding is its four components.
     for rot in ["ccw", "cw"] {
         let d = socket_design(rot, SOCKET_HUB);
-        let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+        let rotor = build_rotor(&d).expect("rotor");
         let hub = rotor.hub_shape.as_ref().expect("hub");
         let sockets = hub.sockets.as_ref().expect("sockets");
         assert!((sockets.radius - 0.5 * (SHANK + 0.3)).abs() < 1e-12);
@@ -584,7 +649,7 @@ fn socketed_hub_volume_matches_the_disc_minus_holes() {
     // angular extent dt lies within R (1 - cos(dt / 2)) of the cylinder, so the rim adds
     // at most the sum of facet area x that gap (measured on the mesh).
     let d = socket_design("ccw", SOCKET_HUB);
-    let rotor = build_rotor(&d, &BuildOptions::default()).expect("rotor");
+    let rotor = build_rotor(&d).expect("rotor");
     let hub = rotor.hub_shape.as_ref().expect("hub");
     let s = hub.sockets.as_ref().expect("sockets");
     let (rr, t, tol) = (35.0, 14.0, d.blade.tolerance);
@@ -640,9 +705,7 @@ fn socket_problems_name_their_key() {
     ];
     for (hub, key) in cases {
         let d = socket_design("ccw", hub);
-        let e = build_rotor(&d, &BuildOptions::default())
-            .expect_err("fails")
-            .to_string();
+        let e = build_rotor(&d).expect_err("fails").to_string();
         assert!(e.contains(key), "{hub}: {e}");
     }
     // Radial sockets and a cone do not go together.
@@ -650,16 +713,21 @@ fn socket_problems_name_their_key() {
     if let Some(t) = d.tables.get_mut("rotor").and_then(|t| t.as_table_mut()) {
         t.insert("cone".into(), toml::Value::Float(4.0));
     }
-    let e = build_rotor(&d, &BuildOptions::default())
-        .expect_err("fails")
-        .to_string();
+    let e = build_rotor(&d).expect_err("fails").to_string();
     assert!(e.contains("rotor.cone"), "{e}");
-    // Without sockets the coned rotor builds.
+    // Without sockets the shanks of the coned blades run into the solid hub disc: the
+    // bodies meet, which is a failed check naming both bodies, not a rotor.
     let mut d = socket_design("ccw", "thickness = 14\nsockets = false");
     if let Some(t) = d.tables.get_mut("rotor").and_then(|t| t.as_table_mut()) {
         t.insert("cone".into(), toml::Value::Float(4.0));
     }
-    assert!(build_rotor(&d, &BuildOptions::default()).is_ok());
+    let e = build_rotor(&d).expect_err("bodies meet");
+    assert!(e.is_failed_check(), "{e}");
+    let e = e.to_string();
+    assert!(
+        e.contains("socketed-blade-1") && e.contains("socketed-hub"),
+        "{e}"
+    );
 }
 
 #[test]
@@ -672,15 +740,15 @@ fn example_rotors_turn_the_way_their_files_say() {
         ("examples/desk-fan.toml", 5),
     ] {
         let d = spanwright::design::load(std::path::Path::new(file)).expect("example loads");
-        let rotor = build_rotor(&d, &BuildOptions::default()).expect("example rotor");
+        let rotor = build_rotor(&d).expect("example rotor");
         assert_eq!(rotor.blades.len(), blades, "{file}");
         let reports = rotor.check_hand(&HandOptions::DEFAULT);
         assert_eq!(reports.len(), blades);
         for r in &reports {
             assert!(r.is_ok() && r.undetermined.is_empty(), "{file}: {r}");
         }
-        let spec = RotorSpec::from_design(&d).expect("valid").expect("table");
-        let words = hand_description(&spec, &d);
+        let spec = rotor_spec(&d);
+        let words = hand_description(&spec, d.blade.rotation, d.blade.flow);
         assert!(words.contains(&format!("{blades} blades")), "{words}");
     }
 }
@@ -691,6 +759,8 @@ fn hubs_over_a_range_of_blades_bolts_and_tolerances_are_solids() {
     // intersection) with genus = bore + bolt holes (Euler: V - E + F = 2 - 2g).
     use spanwright::assembly::HubSpec;
     let d = socket_design("ccw", "thickness = 14");
+    let blade = build_blade(&d, &Options::default()).expect("blade");
+    let facts: BladeFacts = blade_facts(&d, &blade);
     let mut built = 0;
     for blades in 1..=5u32 {
         for (bolts, circle) in [(0u32, 0.0), (2, 30.0), (5, 28.0)] {
@@ -717,7 +787,7 @@ fn hubs_over_a_range_of_blades_bolts_and_tolerances_are_solids() {
                 };
                 let case = format!("B={blades} bolts={bolts} tol={tol} offset={offset}");
                 let resolved = hub
-                    .resolve(&spec, Rotation::Ccw, &d)
+                    .resolve(&spec, &facts)
                     .unwrap_or_else(|e| panic!("{case}: {e}"));
                 assert_eq!(
                     resolved.sockets.as_ref().map(|s| s.angles.len()),

@@ -3,8 +3,9 @@
 
 use nalgebra::{Matrix4, Point3, Vector3};
 use quick_xml::events::Event;
+use spanwright::check::{certify, CheckOptions, CheckedPart};
 use spanwright::export::{
-    write_3mf_file, write_atomic, write_parts, ExportError, Format, STL_HEADER,
+    write_3mf_file, write_atomic, write_mesh, ExportError, Format, MeshFormat, STL_HEADER,
 };
 use spanwright::mesh::{Part, TriMesh};
 use std::collections::HashMap;
@@ -66,7 +67,7 @@ fn cuboid(lo: Point3<f64>, size: Vector3<f64>) -> TriMesh {
     TriMesh::cuboid(lo, size)
 }
 
-fn parts() -> Vec<Part> {
+fn raw_parts() -> Vec<Part> {
     vec![
         Part {
             name: "ball & \"quoted\" <name>".into(),
@@ -79,9 +80,24 @@ fn parts() -> Vec<Part> {
     ]
 }
 
-fn total_triangles(parts: &[Part]) -> usize {
-    parts.iter().map(|p| p.mesh.len()).sum()
+/// The two parts, checked: writers take nothing else.
+fn parts() -> Vec<CheckedPart> {
+    raw_parts()
+        .into_iter()
+        .map(|p| certify(p, &CheckOptions::DEFAULT).expect("a sphere and a box are solids"))
+        .collect()
 }
+
+fn total_triangles(parts: &[CheckedPart]) -> usize {
+    parts.iter().map(|p| p.mesh().len()).sum()
+}
+
+const MESH_FORMATS: [MeshFormat; 4] = [
+    MeshFormat::Stl,
+    MeshFormat::StlAscii,
+    MeshFormat::Obj,
+    MeshFormat::ThreeMf,
+];
 
 fn le_f32(b: &[u8], at: usize) -> f32 {
     f32::from_le_bytes([b[at], b[at + 1], b[at + 2], b[at + 3]])
@@ -92,7 +108,7 @@ fn binary_stl_layout_and_read_back() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("two.stl");
     let parts = parts();
-    write_parts(&path, Format::Stl, &parts).unwrap();
+    write_mesh(&path, MeshFormat::Stl, &parts).unwrap();
     let bytes = std::fs::read(&path).unwrap();
     let n = total_triangles(&parts);
 
@@ -111,7 +127,7 @@ fn binary_stl_layout_and_read_back() {
     // Same specification: the facet normal is a unit vector pointing outward, and the
     // vertices are listed counter-clockwise seen from outside (right-hand rule).
     let centres = [Point3::new(1.0f64, 2.0, 3.0), Point3::new(45.0, 5.0, 15.0)];
-    let n_sphere = parts[0].mesh.len();
+    let n_sphere = parts[0].mesh().len();
     for f in 0..n {
         let o = 84 + 50 * f;
         let v = |k: usize| {
@@ -146,7 +162,7 @@ fn binary_stl_layout_and_read_back() {
     let mesh = stl_io::read_stl(&mut Cursor::new(&bytes)).unwrap();
     assert_eq!(mesh.faces.len(), n);
     mesh.validate().unwrap();
-    let first = parts[0].mesh.corners(0);
+    let first = parts[0].mesh().corners(0);
     let got = mesh.vertices[mesh.faces[0].vertices[0]];
     for k in 0..3 {
         assert_eq!(got[k], first[0][k] as f32);
@@ -158,8 +174,8 @@ fn ascii_stl_matches_binary() {
     let dir = tempfile::tempdir().unwrap();
     let parts = parts();
     let (pb, pa) = (dir.path().join("b.stl"), dir.path().join("a.stl"));
-    write_parts(&pb, Format::Stl, &parts).unwrap();
-    write_parts(&pa, Format::StlAscii, &parts).unwrap();
+    write_mesh(&pb, MeshFormat::Stl, &parts).unwrap();
+    write_mesh(&pa, MeshFormat::StlAscii, &parts).unwrap();
     let text = std::fs::read_to_string(&pa).unwrap();
     // StereoLithography Interface Specification (3D Systems, 1989), ASCII format:
     // "solid name", facets, "endsolid name"; several parts -> one solid named after the file.
@@ -188,34 +204,34 @@ fn obj_reads_back() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("two.obj");
     let parts = parts();
-    write_parts(&path, Format::Obj, &parts).unwrap();
+    write_mesh(&path, MeshFormat::Obj, &parts).unwrap();
     let text = std::fs::read_to_string(&path).unwrap();
     // Wavefront OBJ (common practice): one "o" statement per object.
     assert_eq!(text.lines().filter(|l| l.starts_with("o ")).count(), 2);
     assert!(text.contains("o ball_&_\"quoted\"_<name>\n"));
     // Independent reader: truck-polymesh's OBJ reader (1-based indices).
     let mesh = obj::read(text.as_bytes()).unwrap();
-    let nv: usize = parts.iter().map(|p| p.mesh.vertices.len()).sum();
+    let nv: usize = parts.iter().map(|p| p.mesh().vertices.len()).sum();
     assert_eq!(mesh.positions().len(), nv);
     assert_eq!(mesh.tri_faces().len(), total_triangles(&parts));
     let mut off = 0;
     for p in &parts {
-        for (i, v) in p.mesh.vertices.iter().enumerate() {
+        for (i, v) in p.mesh().vertices.iter().enumerate() {
             let q = mesh.positions()[off + i];
             // Shortest round-trip decimal: positions come back bit for bit.
             assert_eq!([q.x, q.y, q.z], [v.x, v.y, v.z]);
         }
-        off += p.mesh.vertices.len();
+        off += p.mesh().vertices.len();
     }
     // truck-meshalgo's volume of the read-back mesh equals ours (divergence theorem).
-    let ours: f64 = parts.iter().map(|p| p.mesh.signed_volume()).sum();
+    let ours: f64 = parts.iter().map(|p| p.mesh().signed_volume()).sum();
     assert!(
         (mesh.volume() - ours).abs() < 1e-9 * ours.abs(),
         "{} vs {ours}",
         mesh.volume()
     );
     // Elementary geometry: the block's volume is 10 x 20 x 30.
-    assert!((parts[1].mesh.signed_volume() - 6000.0).abs() < 1e-9);
+    assert!((parts[1].mesh().signed_volume() - 6000.0).abs() < 1e-9);
 }
 
 /// The parts of a 3MF package, read with the zip crate.
@@ -292,7 +308,7 @@ fn threemf_package_and_model() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("two.3mf");
     let parts = parts();
-    write_parts(&path, Format::ThreeMf, &parts).unwrap();
+    write_mesh(&path, MeshFormat::ThreeMf, &parts).unwrap();
     let entries = unzip(&std::fs::read(&path).unwrap());
     let names: Vec<_> = entries.iter().map(|e| e.0.as_str()).collect();
     assert_eq!(
@@ -338,12 +354,16 @@ fn threemf_package_and_model() {
         "http://schemas.microsoft.com/3dmanufacturing/core/2015/02"
     );
     assert_eq!(m.objects.len(), 2);
-    assert_eq!(m.objects[0].1, parts[0].name, "names survive XML escaping");
+    assert_eq!(
+        m.objects[0].1,
+        parts[0].name(),
+        "names survive XML escaping"
+    );
     assert_eq!(m.items, vec![("1".into(), None), ("2".into(), None)]);
     let mut tri_total = 0;
     for ((kind, _, verts, tris), part) in m.objects.iter().zip(&parts) {
         assert_eq!(kind, "model");
-        assert_eq!(verts.len(), part.mesh.vertices.len());
+        assert_eq!(verts.len(), part.mesh().vertices.len());
         tri_total += tris.len();
         // Same, ch. 4.1: indices in range, three distinct vertices per triangle, and a
         // manifold, consistently oriented mesh: every edge appears exactly once in each
@@ -361,13 +381,13 @@ fn threemf_package_and_model() {
             assert_eq!(edges.get(&(b, a)), Some(&1), "edge ({a}, {b}) has no twin");
         }
         // Positions come back exactly (shortest round-trip decimals).
-        for (v, p) in verts.iter().zip(&part.mesh.vertices) {
+        for (v, p) in verts.iter().zip(&part.mesh().vertices) {
             assert_eq!(*v, [p.x, p.y, p.z]);
         }
     }
     // Triangle count equals the STL's facet count (parsed from the binary layout).
     let stl = dir.path().join("two.stl");
-    write_parts(&stl, Format::Stl, &parts).unwrap();
+    write_mesh(&stl, MeshFormat::Stl, &parts).unwrap();
     let b = std::fs::read(stl).unwrap();
     assert_eq!(
         tri_total as u32,
@@ -422,20 +442,20 @@ fn same_input_same_bytes() {
     std::fs::create_dir_all(&d1).unwrap();
     std::fs::create_dir_all(&d2).unwrap();
     let parts = parts();
-    for f in [Format::Stl, Format::StlAscii, Format::Obj, Format::ThreeMf] {
-        let name = format!("{}.{}", f.name(), f.extension());
-        write_parts(&d1.join(&name), f, &parts).unwrap();
+    for f in MESH_FORMATS {
+        let name = format!("{}.{}", Format::Mesh(f).name(), f.extension());
+        write_mesh(&d1.join(&name), f, &parts).unwrap();
     }
     // A clock tick later, so a time stamp would show.
     std::thread::sleep(std::time::Duration::from_millis(2100));
-    for f in [Format::Stl, Format::StlAscii, Format::Obj, Format::ThreeMf] {
-        let name = format!("{}.{}", f.name(), f.extension());
-        write_parts(&d2.join(&name), f, &parts.clone()).unwrap();
+    for f in MESH_FORMATS {
+        let name = format!("{}.{}", Format::Mesh(f).name(), f.extension());
+        write_mesh(&d2.join(&name), f, &parts.clone()).unwrap();
         let (x, y) = (
             std::fs::read(d1.join(&name)).unwrap(),
             std::fs::read(d2.join(&name)).unwrap(),
         );
-        assert!(x == y, "{f} differs between two runs");
+        assert!(x == y, "{} differs between two runs", Format::Mesh(f));
     }
 }
 
@@ -459,38 +479,19 @@ fn failed_writes_leave_nothing() {
         "temporary or partial file left behind"
     );
 
-    // A broken mesh is refused before anything is written; the message names the part,
-    // the triangle and the vertex.
-    let mut broken = parts();
+    // A broken mesh never reaches a writer: it cannot become a checked part. The
+    // rejection names the part and the triangle.
+    let mut broken = raw_parts();
     broken[1].mesh.triangles[3] = [0, 1, 99];
-    for f in [Format::Stl, Format::StlAscii, Format::Obj, Format::ThreeMf] {
-        let p = dir.path().join(format!("broken.{}", f.extension()));
-        let e = write_parts(&p, f, &broken).unwrap_err().to_string();
-        assert!(
-            e.contains("'block'") && e.contains("triangle 3") && e.contains("99"),
-            "{e}"
-        );
-    }
-    // The stream writers called directly refuse it too, without panicking.
-    let mut sink = Vec::new();
-    for e in [
-        spanwright::export::write_stl(&mut sink, &broken),
-        spanwright::export::write_stl_ascii(&mut sink, "x", &broken),
-        spanwright::export::write_obj(&mut sink, &broken),
-        spanwright::export::write_3mf(&mut sink, &broken, None),
-    ] {
-        assert_eq!(e.unwrap_err().kind(), std::io::ErrorKind::InvalidInput);
-    }
-    let mut nan = parts();
+    let e = certify(broken.swap_remove(1), &CheckOptions::DEFAULT).unwrap_err();
+    assert_eq!(e.name, "block");
+    assert!(e.to_string().contains("vertex index"), "{e}");
+    let mut nan = raw_parts();
     nan[0].mesh.vertices[5].y = f64::NAN;
-    let e = write_parts(&dir.path().join("nan.obj"), Format::Obj, &nan).unwrap_err();
-    assert!(e.to_string().contains("vertex 5"), "{e}");
+    let e = certify(nan.swap_remove(0), &CheckOptions::DEFAULT).unwrap_err();
+    assert!(e.to_string().contains('5'), "{e}");
     assert!(matches!(
-        write_parts(&dir.path().join("x.step"), Format::Step, &parts()),
-        Err(ExportError::StepFromMesh)
-    ));
-    assert!(matches!(
-        write_parts(&dir.path().join("x.stl"), Format::Stl, &[]),
+        write_mesh(&dir.path().join("x.stl"), MeshFormat::Stl, &[]),
         Err(ExportError::NoParts { .. })
     ));
     assert!(dir_is_empty(dir.path()));

@@ -4,7 +4,7 @@ mod support;
 
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::parse_toml_str;
-use spanwright::pipeline::{build, BuildOptions, Model};
+use spanwright::pipeline::{build_blade, BuiltBlade, Options};
 
 /// Integral of the NACA 4-digit thickness polynomial (NACA Report 460, Jacobs, Ward &
 /// Pinkerton, 1933) over the chord, open trailing edge: area = k t c^2 with
@@ -13,12 +13,12 @@ fn naca4_area_factor() -> f64 {
     10.0 * (0.2969 * 2.0 / 3.0 - 0.1260 / 2.0 - 0.3516 / 3.0 + 0.2843 / 4.0 - 0.1015 / 5.0)
 }
 
-fn model(toml: &str) -> Model {
+fn model(toml: &str) -> BuiltBlade {
     let design = parse_toml_str(toml, None).expect("valid design");
-    build(&design, &BuildOptions::default()).expect("builds")
+    build_blade(&design, &Options::default()).expect("builds")
 }
 
-fn assert_solid(m: &Model) {
+fn assert_solid(m: &BuiltBlade) {
     let report = check_solid(m.mesh(), &CheckOptions::DEFAULT);
     assert!(report.is_ok(), "{report}");
 }

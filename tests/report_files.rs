@@ -165,7 +165,7 @@ fn demo_report(load: Option<LoadCase>, copies: usize) -> (report::Report, report
     let input = ReportInput {
         name: "demo <blade> & co".into(),
         source: None,
-        parts: &parts,
+        parts: &checked(&parts),
         stations: Some(&stations),
         material: Material::preset("petg").unwrap(),
         fill: Fill::DEFAULT,
@@ -240,19 +240,6 @@ fn pictures_parse_as_xml() {
     }
     assert!(html.contains("IEC 61400-2"));
     assert!(!html.contains("<script"));
-}
-
-#[test]
-fn atomic_write_leaves_no_temp_file() {
-    let dir = tempfile::tempdir().unwrap();
-    let path = dir.path().join("a.json");
-    report::write_atomic(&path, b"{}").unwrap();
-    report::write_atomic(&path, b"{\"x\":1}").unwrap();
-    assert_eq!(std::fs::read_to_string(&path).unwrap(), "{\"x\":1}");
-    assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 1);
-    let bad = dir.path().join("missing").join("b.json");
-    let e = report::write_atomic(&bad, b"{}").unwrap_err();
-    assert!(e.to_string().contains("b.json"));
 }
 
 /// Writes a mesh as binary STL with stl_io (reference writer).
@@ -384,7 +371,7 @@ fn a_part_across_the_axis_is_refused_with_a_reason() {
     let input = ReportInput {
         name: "turned".into(),
         source: None,
-        parts: &parts,
+        parts: &checked(&parts),
         stations: None,
         material: Material::preset("pla").unwrap(),
         fill: Fill::SOLID,
@@ -399,4 +386,18 @@ fn a_part_across_the_axis_is_refused_with_a_reason() {
         msg.contains("turned") && msg.contains("blade frame"),
         "{msg}"
     );
+}
+
+/// The parts, checked as the pipeline checks its own (reports take checked parts only).
+fn checked(parts: &[Part]) -> Vec<spanwright::check::CheckedPart> {
+    parts
+        .iter()
+        .map(|p| {
+            spanwright::check::certify(
+                p.clone(),
+                &spanwright::check::CheckOptions::DEFAULT.with_expected_genus(None),
+            )
+            .expect("test parts are solids")
+        })
+        .collect()
 }

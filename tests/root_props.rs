@@ -13,7 +13,7 @@
 use proptest::prelude::*;
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::parse_toml_str;
-use spanwright::pipeline::{build, BuildOptions};
+use spanwright::pipeline::{build_blade, Options};
 
 const SECTIONS: [&str; 4] = ["naca0012", "naca2412", "naca4415", "naca0018"];
 
@@ -194,7 +194,7 @@ proptest! {
     fn any_valid_root_gives_a_checked_solid(g in gen()) {
         let (text, genus) = design_text(&g);
         let design = parse_toml_str(&text, None).expect("generated designs are valid");
-        let model = build(&design, &BuildOptions::default());
+        let model = build_blade(&design, &Options::default());
         prop_assert!(model.is_ok(), "{}\n{}", model.err().map(|e| e.to_string()).unwrap_or_default(), text);
         let model = model.unwrap();
         let report = check_solid(

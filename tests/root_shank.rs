@@ -5,7 +5,7 @@
 use spanwright::blade::{BladeError, Region};
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::parse_toml_str;
-use spanwright::pipeline::{build, BuildOptions, Model, PipelineError};
+use spanwright::pipeline::{build_blade, BuiltBlade, Options, PipelineError};
 use spanwright::root::RootError;
 use std::f64::consts::PI;
 
@@ -32,16 +32,16 @@ fn design(extra: &str, pps: usize, tol: f64) -> String {
     )
 }
 
-fn try_model(text: &str) -> Result<Model, PipelineError> {
+fn try_model(text: &str) -> Result<BuiltBlade, PipelineError> {
     let design = parse_toml_str(text, None).expect("valid design text");
-    build(&design, &BuildOptions::default())
+    build_blade(&design, &Options::default())
 }
 
-fn model(text: &str) -> Model {
+fn model(text: &str) -> BuiltBlade {
     try_model(text).expect("builds")
 }
 
-fn assert_solid(m: &Model) {
+fn assert_solid(m: &BuiltBlade) {
     let report = check_solid(m.mesh(), &CheckOptions::DEFAULT);
     assert!(report.is_ok(), "{report}");
 }

@@ -5,7 +5,7 @@
 use nalgebra::{Point3, Vector2};
 use spanwright::design::parse_toml_str;
 use spanwright::loft::Skin;
-use spanwright::pipeline::{build, BuildOptions, Model};
+use spanwright::pipeline::{build_blade, BuiltBlade, Options};
 use spanwright::tessellate::{max_deviation, mesh_from_grid};
 
 const BLADE: &str = r#"
@@ -28,12 +28,13 @@ chord = 25
 twist = 3
 "#;
 
-fn model(tol: f64) -> Model {
+fn model(tol: f64) -> BuiltBlade {
     let design = parse_toml_str(BLADE, None).unwrap();
-    build(
+    build_blade(
         &design,
-        &BuildOptions {
+        &Options {
             tolerance: Some(tol),
+            ..Options::default()
         },
     )
     .unwrap()

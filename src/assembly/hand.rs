@@ -20,7 +20,7 @@
 //! undetermined rather than passed or failed.
 
 use super::rotor::RotorSpec;
-use crate::design::{Design, Flow, Rotation};
+use crate::design::{Flow, Rotation};
 use crate::mesh::TriMesh;
 use nalgebra::{Matrix4, Point2, Point3, Vector2, Vector3};
 use std::fmt;
@@ -345,12 +345,12 @@ fn station(
 /// Words for the user on how the rotor turns and which way its blades face, e.g.
 /// "3 blades, 120 degrees apart; turns counter-clockwise seen from upstream (from the
 /// side the wind comes from); leading edges lead; pressure sides face the wind".
-pub fn hand_description(spec: &RotorSpec, design: &Design) -> String {
-    let sense = match design.blade.rotation {
+pub fn hand_description(spec: &RotorSpec, rotation: Rotation, flow: Flow) -> String {
+    let sense = match rotation {
         Rotation::Ccw => "counter-clockwise",
         Rotation::Cw => "clockwise",
     };
-    let (from, sides) = match design.blade.flow {
+    let (from, sides) = match flow {
         Flow::Turbine => (
             "from the side the wind comes from",
             "pressure sides face the wind, suction sides face downwind",

@@ -30,8 +30,8 @@
 //! each socket wall is a quad strip from its opening to its floor, closed by a fan.
 //! Sockets are radial, so a coned rotor (`rotor.cone` not 0) cannot have them.
 
-use super::rotor::RotorSpec;
-use crate::design::{Design, DesignError, Rotation};
+use super::rotor::{AssemblyError, BladeFacts, RotorSpec};
+use crate::design::Rotation;
 use crate::mesh::{Part, TriMesh};
 use crate::planar::point_in_polygon;
 use crate::root::RootSpec;
@@ -153,16 +153,12 @@ impl HubSpec {
     }
 
     /// Checks the hub (lengths in mm) against the rotor (`rotor`, in mm) and the blade's
-    /// `[root]` table, and resolves its defaults and the angles of its holes for
-    /// `rotation`. Problems name `rotor.<key>` or `rotor.hub.<key>` in `design`'s file.
-    pub fn resolve(
-        &self,
-        rotor: &RotorSpec,
-        rotation: Rotation,
-        design: &Design,
-    ) -> Result<Hub, DesignError> {
+    /// root, and resolves its defaults and the angles of its holes for the blade's
+    /// rotation sense. Errors name `rotor.<key>` or `rotor.hub.<key>`.
+    pub fn resolve(&self, rotor: &RotorSpec, blade: &BladeFacts) -> Result<Hub, AssemblyError> {
+        let rotation = blade.rotation;
         let hub_radius = rotor.hub_radius;
-        let bad = |key: &str, msg: String| DesignError::one(design.problem(key, msg));
+        let bad = |key: &str, msg: String| AssemblyError::new(key, msg);
         let positive = |key: &str, v: f64| {
             if v > 0.0 && v.is_finite() {
                 Ok(v)
@@ -241,12 +237,9 @@ impl HubSpec {
         };
         let blades = rotor.blades.max(1);
         let between = hub_angle(rotation, rotor.azimuth_offset + 180.0 / f64::from(blades));
-        let root = design
-            .table::<RootSpec>("root")?
-            .map(|r| r.to_mm(design.length_to_mm));
-        let sockets = match (&root, self.sockets) {
+        let sockets = match (&blade.root, self.sockets) {
             (Some(root), true) => {
-                Some(self.sockets(root, rotor, rotation, design, (radius, thickness, rb, wall))?)
+                Some(self.sockets(root, rotor, blade, (radius, thickness, rb, wall))?)
             }
             _ => None,
         };
@@ -286,12 +279,12 @@ impl HubSpec {
         &self,
         root: &RootSpec,
         rotor: &RotorSpec,
-        rotation: Rotation,
-        design: &Design,
+        blade: &BladeFacts,
         disc: (f64, f64, f64, f64),
-    ) -> Result<Sockets, DesignError> {
+    ) -> Result<Sockets, AssemblyError> {
+        let rotation = blade.rotation;
         let (radius, thickness, rb, wall) = disc;
-        let bad = |key: &str, msg: String| Err(DesignError::one(design.problem(key, msg)));
+        let bad = |key: &str, msg: String| Err(AssemblyError::new(key, msg));
         let clearance = self.socket_clearance;
         if !(clearance >= 0.0 && clearance.is_finite()) {
             return bad(
@@ -314,10 +307,7 @@ impl HubSpec {
                 "the blade root has a flange (root.flange), which a round socket cannot take; remove the flange or set rotor.hub.sockets = false".into(),
             );
         }
-        let Some(st) = design.stations.first() else {
-            return bad("rotor.hub.sockets", "the design has no stations".into());
-        };
-        let off = st.sweep.hypot(st.prebend);
+        let off = blade.shank_offset;
         if off > 0.25 * clearance {
             return bad(
                 "rotor.hub.sockets",
@@ -326,7 +316,7 @@ impl HubSpec {
                 ),
             );
         }
-        let face = st.radius - root.transition_length - root.shank_length;
+        let face = blade.root_face;
         let socket_radius = 0.5 * (root.shank_diameter.max(root.thickness()) + clearance);
         let floor = face - 0.5 * clearance;
         if radius <= face {

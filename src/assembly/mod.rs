@@ -11,5 +11,8 @@ pub use hand::{
     check_hand, hand_description, hand_radii, HandOptions, HandReport, Side, StationHand,
 };
 pub use hub::{circle_sides, socket_volume, Hub, HubSpec, Sockets};
-pub use onepiece::{one_piece, OnePieceSpec};
-pub use rotor::{assemble, blade_transform, place_blades, Rotor, RotorSpec, MAX_BLADES};
+pub use onepiece::{one_piece, OnePieceBlade, OnePieceSpec};
+pub use rotor::{
+    assemble, blade_transform, place_blades, rigid, AssemblyError, BladeFacts, Rotor, RotorSpec,
+    MAX_BLADES,
+};

@@ -17,10 +17,8 @@
 //!       \____/
 //! ```
 
-use super::rotor::{blade_transform, RotorSpec};
-use crate::design::{Design, DesignError};
+use super::rotor::{blade_transform, AssemblyError, BladeFacts, RotorSpec};
 use crate::mesh::{Part, TriMesh};
-use crate::pipeline::Model;
 use nalgebra::{Matrix4, Point2, Point3, Vector3};
 use serde::Deserialize;
 use std::f64::consts::{PI, TAU};
@@ -54,15 +52,33 @@ impl OnePieceSpec {
     }
 }
 
-/// Builds the one-piece rotor of a built blade. Problems name `rotor.one-piece.<key>`
-/// (or `rotor.<key>`) in the design's file.
+/// The blade a one-piece rotor is made of: its name, its mesh (in the blade frame) and
+/// the vertex indices of its root ring (the loop the hub's side faces take over, as
+/// [`crate::tessellate::Tessellation::root_ring`]).
+#[derive(Debug, Clone)]
+pub struct OnePieceBlade<'a> {
+    /// Design name; the part is named `<name>-rotor-one-piece`.
+    pub name: &'a str,
+    /// The blade mesh.
+    pub mesh: &'a TriMesh,
+    /// Root ring vertex indices into `mesh`.
+    pub root_ring: &'a [u32],
+    /// The root cap's triangles in `mesh` (replaced by the hub).
+    pub root_cap: std::ops::Range<usize>,
+    /// What the assembly needs to know of the blade.
+    pub facts: &'a BladeFacts,
+}
+
+/// Builds the one-piece rotor of a built blade.
+///
+/// # Errors
+/// [`AssemblyError`] naming `rotor.one-piece.<key>` (or `rotor.<key>`).
 pub fn one_piece(
-    model: &Model,
+    blade: &OnePieceBlade<'_>,
     rotor: &RotorSpec,
     spec: &OnePieceSpec,
-    design: &Design,
-) -> Result<Part, DesignError> {
-    let bad = |key: &str, msg: String| DesignError::one(design.problem(key, msg));
+) -> Result<Part, AssemblyError> {
+    let bad = |key: &str, msg: String| AssemblyError::new(key, msg);
     let b = rotor.blades as usize;
     if b < 3 {
         return Err(bad(
@@ -76,7 +92,7 @@ pub fn one_piece(
             "a one-piece rotor needs cone = 0 (the blade roots must lie in the hub's faces)".into(),
         ));
     }
-    if let Some(root) = model.blade.root() {
+    if let Some(root) = &blade.facts.root {
         let f = root.mesh_only_features();
         if !f.is_empty() {
             return Err(bad(
@@ -85,16 +101,15 @@ pub fn one_piece(
             ));
         }
     }
-    let z0 = model.blade.root_face();
+    let z0 = blade.facts.root_face;
     if (z0 - rotor.hub_radius).abs() > 1e-6 * z0.max(1.0) {
         return Err(bad(
             "rotor.hub-radius",
             format!("{:.3} mm, but the blades' root face is at {:.3} mm: a one-piece rotor needs them equal", rotor.hub_radius, z0),
         ));
     }
-    let tess = &model.tessellation;
-    let ring = &tess.root_ring;
-    let blade_mesh = model.mesh();
+    let ring = blade.root_ring;
+    let blade_mesh = blade.mesh;
     let ring2: Vec<Point2<f64>> = ring
         .iter()
         .map(|&i| {
@@ -106,7 +121,7 @@ pub fn one_piece(
     // Azimuth-only frames (pitch 0) define the hub faces; the blades carry their pitch.
     let mut flat = rotor.clone();
     flat.pitch = 0.0;
-    let rotation = design.blade.rotation;
+    let rotation = blade.facts.rotation;
     let frames: Vec<Matrix4<f64>> = (0..b as u32)
         .map(|k| blade_transform(&flat, rotation, z0, k))
         .collect();
@@ -173,7 +188,7 @@ pub fn one_piece(
     // Blades without their root caps.
     let mut mesh = TriMesh::new();
     let mut cut = blade_mesh.clone();
-    cut.triangles.drain(tess.root_cap.clone());
+    cut.triangles.drain(blade.root_cap.clone());
     let mut rings: Vec<Vec<u32>> = Vec::with_capacity(b);
     for m in &placed {
         let offset = mesh.vertices.len() as u32;
@@ -227,7 +242,7 @@ pub fn one_piece(
     // End polygons (and the bore), in (x, z) of the rotor frame.
     let bore_n = spec
         .bore
-        .map(|d| bore_sides(0.5 * d, design.blade.tolerance));
+        .map(|d| bore_sides(0.5 * d, blade.facts.tolerance));
     let mut bore_rings = Vec::new();
     for (y, up) in [(y_top, true), (y_bot, false)] {
         let mut poly: Vec<(Point3<f64>, u32)> = corners
@@ -278,7 +293,7 @@ pub fn one_piece(
         }
     }
     Ok(Part {
-        name: format!("{}-rotor-one-piece", model.name),
+        name: format!("{}-rotor-one-piece", blade.name),
         mesh,
     })
 }

@@ -18,25 +18,68 @@
 //! With these choices the clockwise rotor is exactly the mirror image (x -> -x) of the
 //! counter-clockwise one, blade by blade.
 //!
+//! The assembly takes plain values from the stages below it (the blade's
+//! [`BladeFacts`] and, for placing bodies, its mesh); the pipeline reads the design's
+//! `[rotor]` table, asks for the assembly, checks every body and names design keys in
+//! errors ([`AssemblyError::key`]).
+//!
 //! ```
-//! use spanwright::assembly::HandOptions;
 //! let design = spanwright::design::load(std::path::Path::new("examples/desk-fan.toml"))?;
-//! let rotor = spanwright::pipeline::build_rotor(&design, &Default::default())?;
-//! assert_eq!(rotor.blades.len(), 5);
-//! for report in rotor.check_hand(&HandOptions::DEFAULT) {
-//!     assert!(report.is_ok(), "{report}");
-//! }
-//! println!("{:.0} mm³ in {} bodies", rotor.envelope().signed_volume(), rotor.parts().len());
+//! let outcome = spanwright::pipeline::run(&design, &Default::default())?;
+//! let rotor = outcome.rotor.as_ref().expect("the desk fan has a [rotor] table");
+//! assert_eq!(rotor.transforms.len(), 5);
 //! # Ok::<(), Box<dyn std::error::Error>>(())
 //! ```
 
 use super::hand::{check_hand, hand_radii, HandOptions, HandReport};
 use super::hub::{Hub, HubSpec};
-use crate::design::{Design, DesignError, Flow, Rotation};
+use crate::design::{Flow, Rotation};
 use crate::mesh::{Part, TriMesh};
-use crate::pipeline::Model;
-use nalgebra::{Matrix4, Rotation3, Translation3, Vector3};
+use crate::root::RootSpec;
+use nalgebra::{IsometryMatrix3, Matrix4, Rotation3, Translation3, Vector3};
 use serde::Deserialize;
+
+/// A rotor setting that cannot be assembled: the design key at fault (as written in a
+/// design file, e.g. `rotor.hub.bore`) and what is wrong with how to fix it. The
+/// pipeline turns it into a design problem naming the file and line.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[error("{key}: {message}")]
+pub struct AssemblyError {
+    /// Key path in the design file.
+    pub key: String,
+    /// What is wrong and how to fix it.
+    pub message: String,
+}
+
+impl AssemblyError {
+    /// An error at `key`.
+    pub fn new(key: &str, message: impl Into<String>) -> Self {
+        Self {
+            key: key.to_string(),
+            message: message.into(),
+        }
+    }
+}
+
+/// What the assembly needs to know of the built blade, as plain values (mm, degrees).
+#[derive(Debug, Clone, PartialEq)]
+pub struct BladeFacts {
+    /// Rotation sense seen from upstream.
+    pub rotation: Rotation,
+    /// Flow mode.
+    pub flow: Flow,
+    /// The blade's root table, when it has one (mm).
+    pub root: Option<RootSpec>,
+    /// Radius of the blade's root face, mm.
+    pub root_face: f64,
+    /// Distance of the first station's stacking point from the stacking axis (its sweep
+    /// and prebend), mm: where the shank is centred.
+    pub shank_offset: f64,
+    /// The design's station radii, mm.
+    pub station_radii: Vec<f64>,
+    /// Mesh tolerance, mm.
+    pub tolerance: f64,
+}
 
 /// The `[rotor]` table of a design file (lengths in the file's unit until
 /// [`RotorSpec::to_mm`]; angles always in degrees, whatever the file's angle unit).
@@ -75,20 +118,13 @@ impl RotorSpec {
         self
     }
 
-    /// Reads and validates the design's `[rotor]` table (in mm); `Ok(None)` without one.
-    /// Problems name `rotor.<key>` in the design's file.
-    pub fn from_design(design: &Design) -> Result<Option<RotorSpec>, DesignError> {
-        let Some(spec) = design.table::<RotorSpec>("rotor")? else {
-            return Ok(None);
-        };
-        let spec = spec.to_mm(design.length_to_mm);
-        spec.validate(design)?;
-        Ok(Some(spec))
-    }
-
-    /// Checks the values (lengths in mm).
-    pub fn validate(&self, design: &Design) -> Result<(), DesignError> {
-        let bad = |key: &str, msg: String| Err(DesignError::one(design.problem(key, msg)));
+    /// Checks the values (lengths in mm) against the blade, and resolves the hub: the
+    /// hub's geometry when the spec asks for one.
+    ///
+    /// # Errors
+    /// [`AssemblyError`] naming the key at fault.
+    pub fn validate(&self, blade: &BladeFacts) -> Result<Option<Hub>, AssemblyError> {
+        let bad = |key: &str, msg: String| Err(AssemblyError::new(key, msg));
         if self.blades < 1 || self.blades > MAX_BLADES {
             return bad(
                 "rotor.blades",
@@ -131,36 +167,29 @@ impl RotorSpec {
                 format!("{}: give an angle in degrees", self.azimuth_offset),
             );
         }
-        if let Some(h) = &self.hub {
-            h.resolve(self, design.blade.rotation, design)?;
+        match &self.hub {
+            Some(h) => h.resolve(self, blade).map(Some),
+            None => Ok(None),
         }
-        Ok(())
     }
 }
 
-/// An assembled rotor in rotor coordinates (mm).
+/// An assembled rotor in rotor coordinates (mm): where each blade goes and the hub.
 #[derive(Debug, Clone)]
 pub struct Rotor {
-    /// Design name.
-    pub name: String,
     /// The rotor settings (mm, degrees).
     pub spec: RotorSpec,
     /// Rotation sense seen from upstream.
     pub rotation: Rotation,
     /// Flow mode.
     pub flow: Flow,
-    /// The placed blades, in order of azimuth (in the sense of rotation).
-    pub blades: Vec<Part>,
-    /// The rigid transform placing blade `k` (blade frame to rotor coordinates).
+    /// The rigid transform placing blade `k` (blade frame to rotor coordinates), in
+    /// order of azimuth (in the sense of rotation).
     pub transforms: Vec<Matrix4<f64>>,
-    /// The hub body, when asked for.
-    pub hub: Option<Part>,
-    /// The hub's geometry, when asked for (for its genus and exact volume).
-    pub hub_shape: Option<Hub>,
+    /// The hub's geometry, when asked for.
+    pub hub: Option<Hub>,
     /// The design's station radii, mm (where [`Rotor::check_hand`] looks).
     pub station_radii: Vec<f64>,
-    /// Genus of each blade (one per cross hole through its shank).
-    pub blade_genus: u32,
 }
 
 /// The rigid transform of blade `k` (see the module docs); `pivot` is the cone pivot's
@@ -200,79 +229,45 @@ pub fn place_blades(
         .unzip()
 }
 
-/// Assembles the rotor of a built blade: blades placed by [`blade_transform`] (cone
-/// pivot at the blade's root face) and the hub body when the spec has one, meshed to
-/// `blade_opts.tolerance`. Hub problems name `rotor.hub.<key>` in `design`'s file.
-pub fn assemble(
-    model: &Model,
-    spec: &RotorSpec,
-    blade_opts: &crate::design::BladeOptions,
-    design: &Design,
-) -> Result<Rotor, DesignError> {
-    let name = model.name.as_str();
-    let (blades, transforms) = place_blades(
-        &model.part(),
-        spec,
-        blade_opts.rotation,
-        model.blade.root_face(),
-    );
-    let hub_shape = match &spec.hub {
-        Some(h) => Some(h.resolve(spec, blade_opts.rotation, design)?),
-        None => None,
-    };
-    let hub = hub_shape
-        .as_ref()
-        .map(|h| h.part(name, blade_opts.tolerance));
+/// Assembles the rotor of a blade: blades placed by [`blade_transform`] (cone pivot at
+/// the blade's root face) and the hub when the spec has one.
+///
+/// # Errors
+/// [`AssemblyError`] naming the `[rotor]` key at fault.
+pub fn assemble(spec: &RotorSpec, blade: &BladeFacts) -> Result<Rotor, AssemblyError> {
+    let hub = spec.validate(blade)?;
+    let transforms = (0..spec.blades)
+        .map(|k| blade_transform(spec, blade.rotation, blade.root_face, k))
+        .collect();
     Ok(Rotor {
-        name: name.to_string(),
         spec: spec.clone(),
-        rotation: blade_opts.rotation,
-        flow: blade_opts.flow,
-        blades,
+        rotation: blade.rotation,
+        flow: blade.flow,
         transforms,
         hub,
-        hub_shape,
-        station_radii: model.blade.station_radii().to_vec(),
-        blade_genus: model.expected_genus(),
+        station_radii: blade.station_radii.clone(),
     })
 }
 
+/// A rigid transform (rotation and translation, as [`blade_transform`] makes) as an
+/// isometry. The 3 x 3 block is taken as it is: it is a rotation by construction.
+pub fn rigid(m: &Matrix4<f64>) -> IsometryMatrix3<f64> {
+    IsometryMatrix3::from_parts(
+        Translation3::new(m[(0, 3)], m[(1, 3)], m[(2, 3)]),
+        Rotation3::from_matrix_unchecked(m.fixed_view::<3, 3>(0, 0).into_owned()),
+    )
+}
+
 impl Rotor {
-    /// The rotation-sense and flow-side check of every placed blade (see
-    /// [`super::hand`]), at the stations strictly inside the span and midway between
-    /// stations ([`super::hand_radii`]).
-    pub fn check_hand(&self, opts: &HandOptions) -> Vec<HandReport> {
+    /// The rotation-sense and flow-side check of every placed blade mesh (`placed[k]`
+    /// is the blade placed by `transforms[k]`; see [`super::hand`]), at the stations
+    /// strictly inside the span and midway between stations ([`super::hand_radii`]).
+    pub fn check_hand(&self, placed: &[&TriMesh], opts: &HandOptions) -> Vec<HandReport> {
         let radii = hand_radii(&self.station_radii);
-        self.blades
+        placed
             .iter()
             .zip(&self.transforms)
-            .map(|(p, m)| check_hand(&p.mesh, m, &radii, self.rotation, self.flow, opts))
+            .map(|(mesh, m)| check_hand(mesh, m, &radii, self.rotation, self.flow, opts))
             .collect()
-    }
-
-    /// Every body: the blades, then the hub (one object each in multi-body files).
-    pub fn parts(&self) -> Vec<Part> {
-        let mut out = self.blades.clone();
-        out.extend(self.hub.clone());
-        out
-    }
-
-    /// The genus each body of [`Rotor::parts`] must have, in the same order, for
-    /// [`crate::check::CheckOptions::with_expected_genus`]: for a blade one per cross
-    /// hole through its shank (its bore is blind), the hub's through-holes for the hub.
-    pub fn expected_genus(&self) -> Vec<u32> {
-        let mut out = vec![self.blade_genus; self.blades.len()];
-        out.extend(self.hub_shape.as_ref().map(Hub::genus));
-        out
-    }
-
-    /// All bodies in one mesh, for printer-fit checks only: the bodies are appended, not
-    /// united, so where blades and hub overlap the mesh is not a single valid solid.
-    pub fn envelope(&self) -> TriMesh {
-        let mut m = TriMesh::new();
-        for p in self.parts() {
-            m.append(&p.mesh);
-        }
-        m
     }
 }

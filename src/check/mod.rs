@@ -3,8 +3,9 @@
 //!
 //! [`check_solid`] runs every check on a [`TriMesh`] and returns a [`CheckReport`] graded
 //! from [`Grade::Broken`] to [`Grade::Solid`], listing each failed check with the
-//! offending triangles, edges, vertices or triangle pairs. Writers call it before writing
-//! and refuse a mesh whose report is not [`CheckReport::is_ok`].
+//! offending triangles, edges, vertices or triangle pairs. [`certify`] runs it and turns a
+//! passing part into a [`CheckedPart`], the only kind of part the writers, the printer
+//! fit and the reports accept.
 //!
 //! Self-intersection means any common point of two triangles other than what they are
 //! meant to share: crossing and touching both count (two parts touching along a face
@@ -30,6 +31,8 @@
 //! assert!((report.volume - 1.0 / 6.0).abs() < 1e-15);
 //! ```
 
+mod apart;
+mod certified;
 mod components;
 mod finding;
 mod grade;
@@ -40,6 +43,8 @@ mod topology;
 mod tritri;
 mod weld;
 
+pub use apart::{interferences, Interference};
+pub use certified::{certify, CheckedPart, Rejected};
 pub use components::components;
 pub use finding::{EdgeUse, Finding, Listed, VertexFans};
 pub use grade::Grade;

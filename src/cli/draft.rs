@@ -2,13 +2,13 @@
 //! `spanwright build` reads.
 
 use anyhow::{bail, Context as _};
+use spanwright::atomic::Batch;
 use spanwright::design::Flow;
 use spanwright::draft::{
     self as drafting, DraftSpec, DraftTable, LinearRange, Method, Severity, Spacing,
 };
 use std::io::Write;
 use std::path::{Path, PathBuf};
-use std::process::ExitCode;
 
 /// Optimum rotor giving the planform.
 #[derive(Debug, Clone, Copy, clap::ValueEnum)]
@@ -245,43 +245,13 @@ fn spec_from(args: &Args) -> anyhow::Result<DraftSpec> {
     Ok(spec)
 }
 
-/// Writes a file atomically with `write`: a temporary file beside `path`, then a rename.
-fn write_atomic(
-    path: &Path,
-    write: impl FnOnce(&mut std::io::BufWriter<std::fs::File>) -> anyhow::Result<()>,
-) -> anyhow::Result<()> {
-    let dir = match path.parent() {
-        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
-        _ => PathBuf::from("."),
-    };
-    std::fs::create_dir_all(&dir)
-        .with_context(|| format!("creating the output folder {}", dir.display()))?;
-    let file_name = path
-        .file_name()
-        .with_context(|| format!("{}: the output path names no file", path.display()))?;
-    let mut tmp_name = std::ffi::OsString::from(".");
-    tmp_name.push(file_name);
-    tmp_name.push(format!(".{}.tmp", std::process::id()));
-    let tmp = dir.join(tmp_name);
-    let result = (|| -> anyhow::Result<()> {
-        let file =
-            std::fs::File::create(&tmp).with_context(|| format!("creating {}", tmp.display()))?;
-        let mut w = std::io::BufWriter::new(file);
-        write(&mut w).with_context(|| format!("writing {}", tmp.display()))?;
-        let file = w
-            .into_inner()
-            .map_err(|e| e.into_error())
-            .with_context(|| format!("writing {}", tmp.display()))?;
-        file.sync_all()
-            .with_context(|| format!("writing {}", tmp.display()))?;
-        std::fs::rename(&tmp, path)
-            .with_context(|| format!("moving {} to {}", tmp.display(), path.display()))?;
-        Ok(())
-    })();
-    if result.is_err() {
-        let _ = std::fs::remove_file(&tmp);
+/// Creates the folder a file goes into, when it has one.
+fn folder_of(path: &Path) -> anyhow::Result<()> {
+    match path.parent() {
+        Some(d) if !d.as_os_str().is_empty() => std::fs::create_dir_all(d)
+            .with_context(|| format!("creating the output folder {}", d.display())),
+        _ => Ok(()),
     }
-    result
 }
 
 /// Prints the summary (unless quiet) and the remarks to standard error.
@@ -362,10 +332,12 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
 }
 
 /// Runs the subcommand.
-pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
+pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<super::Verdict> {
     let spec = spec_from(&args)?;
     let table = drafting::draft(&spec)?;
     let to_stdout = args.output.as_deref() == Some(Path::new("-"));
+    // Both files appear together or not at all.
+    let mut batch = Batch::new();
     let target = if to_stdout {
         "standard output".to_owned()
     } else {
@@ -373,23 +345,25 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
             .output
             .clone()
             .unwrap_or_else(|| Path::new("out").join(format!("{}.csv", spec.name)));
-        write_atomic(&path, |w| Ok(table.write_csv(w)?))?;
+        folder_of(&path)?;
+        batch.write(&path, |w| table.write_csv(w).map_err(std::io::Error::other))?;
         path.display().to_string()
     };
-    if to_stdout {
-        let stdout = std::io::stdout();
-        let mut lock = stdout.lock();
-        table
-            .write_csv(&mut lock)
-            .context("writing the table to standard output")?;
-    }
     if let Some(path) = &args.json {
-        write_atomic(path, |w| {
+        folder_of(path)?;
+        batch.write(path, |w| {
             serde_json::to_writer_pretty(&mut *w, &table)?;
-            writeln!(w)?;
-            Ok(())
+            writeln!(w)
         })?;
     }
+    batch.commit()?;
+    if to_stdout {
+        let mut csv = Vec::new();
+        table
+            .write_csv(&mut csv)
+            .context("writing the table to standard output")?;
+        super::emit(&String::from_utf8_lossy(&csv));
+    }
     report(&table, &args, ctx, &target);
-    Ok(ExitCode::SUCCESS)
+    Ok(super::Verdict::Done)
 }

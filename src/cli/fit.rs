@@ -1,21 +1,27 @@
-//! `spanwright fit`: does each part fit the printer, how to lay it, how many per plate.
+//! `spanwright fit`: does every part fit the printer, how to lay it, how many per plate.
 
+use super::{load, Context, Verdict};
 use anyhow::Context as _;
-use spanwright::export::{write_atomic, write_parts, Format};
+use spanwright::atomic::Batch;
+use spanwright::check::CheckedPart;
+use spanwright::export::{write_mesh_to, MeshFormat};
 use spanwright::fit::{
-    self, layout, plate_svg, printability, Fit, FitOptions, LayoutOptions, Printability,
-    PrintabilityOptions, Printer, PrinterSpec, Volume,
+    self, fit_part, plan_job, plate_svg, FitOptions, JobItem, JobPlan, JobReport, LayoutOptions,
+    Pose, PrintabilityOptions, Printer, PrinterSpec, Volume, MAX_COPIES,
 };
-use spanwright::mesh::Part;
+use spanwright::mesh::TriMesh;
+use spanwright::pipeline::{self, Outcome, PartKind};
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
-use std::process::ExitCode;
 
 /// Arguments of `spanwright fit`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The part: an STL file, or a design file (.toml or .csv) whose parts are built first.
     input: PathBuf,
+    /// Section for every station of a bare CSV table.
+    #[arg(long, short)]
+    section: Option<String>,
     /// Printer size preset: small-180, medium-220, large-300 (boxes) or round-200.
     #[arg(long)]
     printer: Option<String>,
@@ -37,7 +43,8 @@ pub struct Args {
     /// Smallest printable wall, mm (default 0.8).
     #[arg(long)]
     min_feature: Option<f64>,
-    /// Copies of each part to lay out (default: the design's blade count, else 1).
+    /// Copies of the blade (of an STL part) to lay out (default: the design's blade
+    /// count, else 1; at most 1000).
     #[arg(long)]
     copies: Option<usize>,
     /// Angular resolution of the orientation search, degrees.
@@ -49,8 +56,9 @@ pub struct Args {
     /// Do not write plate files.
     #[arg(long)]
     no_files: bool,
-    /// Also check whether the blades assembled around the rotor axis (y, blade frame) fit
-    /// as one part: the copies turned by 360/N degrees each, without a hub.
+    /// Also check whether the assembled rotor fits as one part: the design's real
+    /// assembly (pitch, cone, hub) when it has a [rotor] table, else the copies turned by
+    /// 360/N degrees each about the rotor axis (y, blade frame).
     #[arg(long)]
     assembled: bool,
     /// Print the report as JSON on standard output.
@@ -59,6 +67,100 @@ pub struct Args {
 }
 
 const CAUTION: &str = "Caution: fitting the printer says nothing about strength. Printed blades carry centrifugal and aerodynamic loads; check them against the material's data and follow local codes and licensed engineering practice before running a rotor.";
+
+/// What `fit` reports, for people and scripts.
+#[derive(Debug, serde::Serialize)]
+struct FitSummary {
+    #[serde(flatten)]
+    job: JobReport,
+    assembled: Option<Assembled>,
+    files: Vec<String>,
+    notes: Vec<String>,
+    caution: &'static str,
+}
+
+/// The assembled rotor as one part.
+#[derive(Debug, serde::Serialize)]
+struct Assembled {
+    blades: usize,
+    with_hub: bool,
+    #[serde(flatten)]
+    pose: Pose,
+}
+
+/// Runs the subcommand.
+pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
+    let cli_spec = spec_from_args(&args)?;
+    check_args(&args)?;
+    let stl = load::has_extension(&args.input, "stl");
+    let (parts, outcome, file_spec) = if stl {
+        (vec![load::stl_part(&args.input)?], None, None)
+    } else {
+        let design = load::design(&args.input, args.section.as_deref())?;
+        let spec = design
+            .table::<PrinterSpec>("printer")?
+            .map(|s| s.scaled(design.length_to_mm));
+        let outcome = pipeline::run(&design, &pipeline::Options::default())
+            .with_context(|| format!("building the parts of {}", args.input.display()))?;
+        (Vec::new(), Some(outcome), spec)
+    };
+    let printer = resolve_printer(&args, cli_spec, file_spec)?;
+    let job = job_items(&parts, outcome.as_ref(), args.copies);
+    let fit_opts = FitOptions {
+        resolution_deg: args.resolution,
+        ..FitOptions::DEFAULT
+    };
+    let layout_opts = LayoutOptions {
+        fit: fit_opts,
+        ..LayoutOptions::DEFAULT
+    };
+    let plan = plan_job(&job, &printer, &layout_opts, &PrintabilityOptions::DEFAULT)?;
+    let assembled = if args.assembled {
+        Some(assembled(outcome.as_ref(), &job, &printer, &fit_opts)?)
+    } else {
+        None
+    };
+    let files = if plan.layout.is_some() && !args.no_files {
+        write_plates(&plan, &printer, &args.out, &file_stem(&args.input))?
+    } else {
+        Vec::new()
+    };
+    let summary = FitSummary {
+        notes: notes(&plan.report, outcome.as_ref(), stl),
+        job: plan.report,
+        assembled,
+        files: files.iter().map(|p| p.display().to_string()).collect(),
+        caution: CAUTION,
+    };
+    if args.json {
+        outln!("{}", serde_json::to_string_pretty(&summary)?);
+    } else if !ctx.quiet {
+        super::emit(&text(&summary));
+    }
+    Ok(if summary.job.fits {
+        Verdict::Done
+    } else {
+        Verdict::Failed
+    })
+}
+
+/// The values the command line gives, checked.
+fn check_args(a: &Args) -> anyhow::Result<()> {
+    if !(a.resolution.is_finite() && a.resolution > 0.0 && a.resolution <= 10.0) {
+        anyhow::bail!(
+            "--resolution {}: give an angle in degrees between 0 and 10 (0.5 is the default)",
+            a.resolution
+        );
+    }
+    if let Some(n) = a.copies {
+        if n == 0 || n > MAX_COPIES {
+            anyhow::bail!(
+                "--copies {n}: give a whole number from 1 to {MAX_COPIES} (the blade count is the default)"
+            );
+        }
+    }
+    Ok(())
+}
 
 fn spec_from_args(a: &Args) -> anyhow::Result<PrinterSpec> {
     let mut spec = PrinterSpec {
@@ -90,66 +192,28 @@ fn spec_from_args(a: &Args) -> anyhow::Result<PrinterSpec> {
     Ok(spec)
 }
 
-fn is_stl(p: &Path) -> bool {
-    p.extension()
-        .map(|e| e.to_string_lossy().eq_ignore_ascii_case("stl"))
-        .unwrap_or(false)
-}
-
-/// Runs the subcommand.
-pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
-    let cli_spec = spec_from_args(&args)?;
-    if !(args.resolution.is_finite() && args.resolution > 0.0 && args.resolution <= 10.0) {
-        anyhow::bail!(
-            "--resolution {}: give an angle in degrees between 0 and 10 (0.5 is the default)",
-            args.resolution
-        );
-    }
-    let mut design_te: Option<f64> = None;
-    // The design's assembled rotor (pitch, cone, hub), when it has a [rotor] table.
-    let mut rotor: Option<spanwright::assembly::Rotor> = None;
-    let (parts, file_spec, blades) = if is_stl(&args.input) {
-        (vec![fit::read_stl_part(&args.input)?], None, None)
-    } else {
-        let design = spanwright::design::load(&args.input)?;
-        let spec = design
-            .table::<PrinterSpec>("printer")?
-            .map(|s| s.scaled(design.length_to_mm));
-        design_te = design.blade.min_te_thickness;
-        // One build serves both the checked blade and the rotor assembly.
-        let model = spanwright::pipeline::build(&design, &Default::default())
-            .with_context(|| format!("building the parts of {}", args.input.display()))?;
-        let parts = vec![model
-            .checked_part()
-            .with_context(|| format!("building the parts of {}", args.input.display()))?];
-        let rotor_spec = spanwright::assembly::RotorSpec::from_design(&design)?;
-        let blades = rotor_spec.as_ref().map(|s| s.blades as usize);
-        if let Some(spec) = &rotor_spec {
-            rotor = Some(
-                spanwright::assembly::assemble(&model, spec, &design.blade, &design)
-                    .with_context(|| format!("assembling the rotor of {}", args.input.display()))?,
-            );
-        }
-        (parts, spec, blades)
-    };
-    let origin = match &file_spec {
+/// The printer: the command line's bed replaces the design's as a whole; other values
+/// given on the command line override the design's one by one.
+fn resolve_printer(
+    args: &Args,
+    cli: PrinterSpec,
+    file: Option<PrinterSpec>,
+) -> anyhow::Result<Printer> {
+    let origin = match &file {
         Some(_) => format!("command line and {} [printer]", args.input.display()),
         None => "command line".to_string(),
     };
-    let spec = match &file_spec {
-        Some(f) => {
-            // A bed given on the command line replaces the file's bed as a whole.
-            let mut f = f.clone();
-            if cli_spec.preset.is_some() || cli_spec.volume.is_some() || cli_spec.diameter.is_some()
-            {
+    let spec = match file {
+        Some(mut f) => {
+            if cli.preset.is_some() || cli.volume.is_some() || cli.diameter.is_some() {
                 f.preset = None;
                 f.volume = None;
                 f.diameter = None;
                 f.height = None;
             }
-            cli_spec.or(&f)
+            cli.or(&f)
         }
-        None => cli_spec,
+        None => cli,
     };
     if spec.preset.is_none() && spec.volume.is_none() && spec.diameter.is_none() {
         anyhow::bail!(
@@ -157,299 +221,277 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
             fit::preset_names()
         );
     }
-    let printer = spec.resolve(&origin)?;
-    let copies = args.copies.or(blades).unwrap_or(1).max(1);
-    let fit_opts = FitOptions {
-        resolution_deg: args.resolution,
-        ..FitOptions::DEFAULT
-    };
-    let mut plate_input: Vec<Part> = Vec::new();
-    // The hub goes on the plates with the blades.
-    plate_input.extend(rotor.as_ref().and_then(|r| r.hub.clone()));
-    for p in &parts {
-        for k in 0..copies {
-            plate_input.push(Part {
-                name: if copies > 1 {
-                    format!("{}-{}", p.name, k + 1)
-                } else {
-                    p.name.clone()
-                },
-                mesh: p.mesh.clone(),
-            });
-        }
+    Ok(spec.resolve(&origin)?)
+}
+
+/// What goes to the printer: the outcome's print set (the one-piece rotor, or the blade
+/// once per blade and the hub), or the STL part; `--copies` sets the blade's count.
+fn job_items<'a>(
+    stl: &'a [CheckedPart],
+    outcome: Option<&'a Outcome>,
+    copies: Option<usize>,
+) -> Vec<JobItem<'a>> {
+    match outcome {
+        Some(o) => o
+            .print_set()
+            .into_iter()
+            .enumerate()
+            .map(|(k, (part, n))| JobItem {
+                part,
+                copies: if k == 0 { copies.unwrap_or(n) } else { n },
+            })
+            .collect(),
+        None => stl
+            .iter()
+            .map(|part| JobItem {
+                part,
+                copies: copies.unwrap_or(1),
+            })
+            .collect(),
     }
-    let fits: Vec<Fit> = parts
-        .iter()
-        .map(|p| fit::fit_part(&p.name, &p.mesh, &printer, &fit_opts))
-        .collect::<Result<_, _>>()?;
-    let all_fit = fits.iter().all(|f| f.fits);
-    let assembled = if args.assembled {
-        let envelope = match &rotor {
-            Some(r) => r.envelope(),
-            None => assemble(&parts, copies),
-        };
-        Some(fit::fit_part("rotor", &envelope, &printer, &fit_opts)?)
-    } else {
-        None
-    };
-    let lay = if all_fit {
-        Some(layout(
-            &plate_input,
-            &printer,
-            &LayoutOptions {
-                fit: fit_opts,
-                ..LayoutOptions::DEFAULT
-            },
-        )?)
-    } else {
-        None
-    };
-    let checks: Vec<Printability> = parts
-        .iter()
-        .map(|p| printability(&p.mesh, &printer, &PrintabilityOptions::DEFAULT))
-        .collect();
-    let stem = args
-        .input
-        .file_stem()
-        .map(|s| s.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "part".into());
-    let mut written: Vec<PathBuf> = Vec::new();
-    if let (Some(lay), false) = (&lay, args.no_files) {
-        std::fs::create_dir_all(&args.out)
-            .with_context(|| format!("creating the output folder {}", args.out.display()))?;
-        for k in 0..lay.plates.len() {
-            let placed = lay.plate_parts(k, &plate_input);
-            let base = args.out.join(format!("{stem}-plate-{}", k + 1));
-            for (ext, format) in [("stl", Format::Stl), ("3mf", Format::ThreeMf)] {
-                let path = base.with_extension(ext);
-                write_parts(&path, format, &placed)
-                    .with_context(|| format!("writing {}", path.display()))?;
-                written.push(path);
+}
+
+/// The assembled rotor as one part: the outcome's rotor bodies (blades placed with
+/// pitch and cone, and the hub), else the first part's copies turned about the rotor
+/// axis (y).
+fn assembled(
+    outcome: Option<&Outcome>,
+    job: &[JobItem<'_>],
+    printer: &Printer,
+    opts: &FitOptions,
+) -> anyhow::Result<Assembled> {
+    let (envelope, blades, with_hub) = match outcome.and_then(|o| o.part(PartKind::Rotor)) {
+        Some(rotor) => {
+            let mut m = TriMesh::new();
+            for b in &rotor.bodies {
+                m.append(b.mesh());
             }
-            let svg = plate_svg(
-                &lay.plates[k],
-                &printer,
-                &format!("{stem}: plate {} of {}", k + 1, lay.plates.len()),
-            );
-            let path = base.with_extension("svg");
-            write_atomic(&path, |w| w.write_all(svg.as_bytes()))
-                .with_context(|| format!("writing {}", path.display()))?;
-            written.push(path);
+            let hub = outcome.is_some_and(|o| o.part(PartKind::Hub).is_some());
+            let blades = rotor.bodies.len() - usize::from(hub);
+            (m, blades, hub)
         }
-    }
-    if args.json {
-        let v = serde_json::json!({
-            "printer": printer,
-            "fits": all_fit,
-            "parts": parts.iter().zip(&fits).zip(&checks).map(|((p, f), c)| part_json(p, f, c)).collect::<Vec<_>>(),
-            "plates": lay.as_ref().map(|l| l.plates.iter().map(|pl| pl.parts.iter().map(|x| serde_json::json!({
-                "name": x.name,
-                "rotation": rows(&x.placement.rotation),
-                "translation": [x.placement.translation.x, x.placement.translation.y, x.placement.translation.z],
-                "size": x.size,
-            })).collect::<Vec<_>>()).collect::<Vec<_>>()),
-            "assembled": assembled.as_ref().map(|f| serde_json::json!({
-                "blades": copies,
-                "fits": f.fits,
-                "angles_deg": f.placement.angles_deg(),
-                "rotation": rows(&f.placement.rotation),
-                "size": f.size,
-                "wall_gap": f.wall_gap,
-                "overshoot": f.overshoot,
-                "scale_to_fit": finite(f.scale_to_fit),
-            })),
-            "files": written.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
-            "caution": CAUTION,
-        });
-        emit(&format!("{}\n", serde_json::to_string_pretty(&v)?));
-    } else if !ctx.quiet {
-        let mut text = print_text(&printer, &parts, &fits, &checks, lay.as_ref(), &written);
-        if let Some(te) = design_te {
-            if checks.iter().any(|c| !c.te_short.is_empty()) {
-                let _ = writeln!(
-                    text,
-                    "note: the design asks for [blade] min-te-thickness = {te} mm, yet the mesh's trailing edge is thinner: the thickening has not been applied to this mesh"
-                );
-            }
+        None => {
+            let item = job[0];
+            (
+                turned_copies(item.part.mesh(), item.copies),
+                item.copies,
+                false,
+            )
         }
-        if let Some(f) = &assembled {
-            let _ = writeln!(
-                text,
-                "assembled rotor ({copies} blades about the y axis{}): {}; size {:.1} x {:.1} x {:.1} mm{}",
-                match &rotor {
-                    Some(r) if r.hub.is_some() => ", with pitch, cone and hub; bodies separate, as assembled",
-                    Some(_) => ", with pitch and cone",
-                    None => ", no hub",
-                },
-                if f.fits { "FITS as one part" } else { "does not fit as one part" },
-                f.size[0],
-                f.size[1],
-                f.size[2],
-                if f.fits {
-                    String::new()
-                } else {
-                    format!(", overshoot {:.1} mm, scale {:.3} fits", f.overshoot, f.scale_to_fit)
-                }
-            );
-        }
-        if is_stl(&args.input) {
-            let _ = writeln!(
-                text,
-                "note: printability reads the file's z axis as the span (the blade frame of spanwright's own files)"
-            );
-        }
-        let _ = writeln!(text, "\n{CAUTION}");
-        emit(&text);
-    }
-    Ok(if all_fit {
-        ExitCode::SUCCESS
-    } else {
-        ExitCode::from(super::EXIT_CHECK_FAILED)
+    };
+    let f = fit_part("rotor", &envelope, printer, opts)?;
+    Ok(Assembled {
+        blades,
+        with_hub,
+        pose: Pose::of(&f),
     })
 }
 
-/// The parts repeated `n` times about the rotor axis (the y axis of the blade frame, see
-/// `spanwright::conventions`), turned by 360/n degrees each, as one mesh.
-fn assemble(parts: &[Part], n: usize) -> spanwright::mesh::TriMesh {
-    let mut out = spanwright::mesh::TriMesh::new();
+/// `n` copies of a mesh turned by 360/n degrees each about the rotor axis (the y axis of
+/// the blade frame, see `spanwright::conventions`), as one mesh (for fitting only).
+fn turned_copies(mesh: &TriMesh, n: usize) -> TriMesh {
+    let mut out = TriMesh::new();
     for k in 0..n {
         let turn = nalgebra::Rotation3::from_axis_angle(
             &nalgebra::Vector3::y_axis(),
             std::f64::consts::TAU * k as f64 / n as f64,
         )
         .to_homogeneous();
-        for p in parts {
-            out.append(&p.mesh.transformed(&turn));
-        }
+        out.append(&mesh.transformed(&turn));
     }
     out
 }
 
-/// Writes to standard output; a closed pipe (as with `| head`) is not an error.
-fn emit(text: &str) {
-    use std::io::Write;
-    let _ = std::io::stdout().lock().write_all(text.as_bytes());
+/// The input's file stem, for the plate files.
+fn file_stem(input: &Path) -> String {
+    input
+        .file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "part".into())
 }
 
-fn rows(m: &nalgebra::Matrix3<f64>) -> [[f64; 3]; 3] {
-    [0, 1, 2].map(|i| [m[(i, 0)], m[(i, 1)], m[(i, 2)]])
-}
-
-fn finite(v: f64) -> Option<f64> {
-    v.is_finite().then_some(v)
-}
-
-fn part_json(p: &Part, f: &Fit, c: &Printability) -> serde_json::Value {
-    serde_json::json!({
-        "name": p.name,
-        "triangles": p.mesh.len(),
-        "fits": f.fits,
-        "angles_deg": f.placement.angles_deg(),
-        "rotation": rows(&f.placement.rotation),
-        "translation": [f.placement.translation.x, f.placement.translation.y, f.placement.translation.z],
-        "size": f.size,
-        "wall_gap": f.wall_gap,
-        "overshoot": f.overshoot,
-        "scale_to_fit": finite(f.scale_to_fit),
-        "score": finite(f.score),
-        "bed_contact": f.bed_contact,
-        "overhang_area": f.overhang_area,
-        "resolution_deg": f.resolution_deg,
-        "guarantee": f.guarantee,
-        "complete": f.complete,
-        "printability": c,
-        "findings": c.findings(),
-    })
-}
-
-fn print_text(
+/// Writes each plate as STL, 3MF and an SVG top view, all in one batch.
+fn write_plates(
+    plan: &JobPlan,
     printer: &Printer,
-    parts: &[Part],
-    fits: &[Fit],
-    checks: &[Printability],
-    lay: Option<&fit::Layout>,
-    written: &[PathBuf],
-) -> String {
-    let mut s = String::new();
+    dir: &Path,
+    stem: &str,
+) -> anyhow::Result<Vec<PathBuf>> {
+    let Some(layout) = &plan.layout else {
+        return Ok(Vec::new());
+    };
+    std::fs::create_dir_all(dir)
+        .with_context(|| format!("creating the output folder {}", dir.display()))?;
+    let mut batch = Batch::new();
+    let count = layout.plates.len();
+    for (k, plate) in layout.plates.iter().enumerate() {
+        let placed = plan.plate(k);
+        let base = dir.join(format!("{stem}-plate-{}", k + 1));
+        for format in [MeshFormat::Stl, MeshFormat::ThreeMf] {
+            let name = format!("{stem}-plate-{}", k + 1);
+            batch.write(&base.with_extension(format.extension()), |w| {
+                write_mesh_to(w, format, &name, &placed)
+            })?;
+        }
+        let svg = plate_svg(
+            plate,
+            printer,
+            &format!("{stem}: plate {} of {count}", k + 1),
+        );
+        batch.write(&base.with_extension("svg"), |w| w.write_all(svg.as_bytes()))?;
+    }
+    Ok(batch.commit()?)
+}
+
+/// Remarks that depend on where the parts came from.
+fn notes(report: &JobReport, outcome: Option<&Outcome>, stl: bool) -> Vec<String> {
+    let mut out = Vec::new();
+    if let Some(o) = outcome {
+        if o.part(PartKind::OnePiece).is_some() {
+            out.push(
+                "the design asks for a one-piece rotor: it is fitted and laid out as one part"
+                    .to_string(),
+            );
+        }
+    }
+    if !report.unplaced.is_empty() {
+        out.push(format!(
+            "not placed on any plate: {}; the job does not fit this printer",
+            report.unplaced.join(", ")
+        ));
+    }
+    if stl {
+        out.push("printability reads the file's z axis as the span (the blade frame of spanwright's own files)".to_string());
+    }
+    out
+}
+
+fn text(s: &FitSummary) -> String {
+    let mut t = String::new();
+    let printer = &s.job.printer;
     let (a, b, h) = printer.available();
     let _ = match printer.volume {
         Volume::Box { x, y, z } => writeln!(
-            s,
+            t,
             "printer: box {x} x {y} x {z} mm, margin {} mm (usable {a:.1} x {b:.1} x {h:.1} mm), clearance {} mm",
             printer.margin, printer.clearance
         ),
         Volume::Round { diameter, height } => writeln!(
-            s,
+            t,
             "printer: round bed {diameter} mm, height {height} mm, margin {} mm (usable diameter {a:.1}, height {h:.1} mm), clearance {} mm",
             printer.margin, printer.clearance
         ),
     };
-    for ((p, f), c) in parts.iter().zip(fits).zip(checks) {
-        let ang = f.placement.angles_deg();
-        let _ = writeln!(s);
-        let _ = writeln!(
-            s,
-            "{}: {}",
-            p.name,
-            if f.fits { "FITS" } else { "DOES NOT FIT" }
-        );
-        let _ = writeln!(
-            s,
-            "  rotation: {:.2} deg about x, then {:.2} about y, then {:.2} about z",
-            ang[0], ang[1], ang[2]
-        );
-        for r in rows(&f.placement.rotation) {
-            let _ = writeln!(s, "    [{:9.6} {:9.6} {:9.6}]", r[0], r[1], r[2]);
+    for p in &s.job.parts {
+        part_text(&mut t, p);
+    }
+    if let Some(plates) = &s.job.plates {
+        let _ = writeln!(t);
+        let n: usize = plates.iter().map(Vec::len).sum();
+        let _ = writeln!(t, "{n} parts on {} plate(s):", plates.len());
+        for (k, p) in plates.iter().enumerate() {
+            let names: Vec<&str> = p.iter().map(|x| x.name.as_str()).collect();
+            let _ = writeln!(t, "  plate {}: {}", k + 1, names.join(", "));
         }
-        let _ = writeln!(
-            s,
-            "  size on the bed: {:.2} x {:.2} x {:.2} mm; gap to walls x {:.2}, y {:.2}, top {:.2} mm",
-            f.size[0], f.size[1], f.size[2], f.wall_gap[0], f.wall_gap[1], f.wall_gap[2]
+    }
+    let _ = writeln!(
+        t,
+        "\n{}",
+        if s.job.fits {
+            "verdict: FITS (every part is on a plate)".to_string()
+        } else {
+            format!(
+                "verdict: DOES NOT FIT ({} of the job's parts on no plate)",
+                s.job.unplaced.len()
+            )
+        }
+    );
+    if let Some(a) = &s.assembled {
+        let p = &a.pose;
+        let _ =
+            writeln!(
+            t,
+            "assembled rotor ({} blades about the y axis{}): {}; size {:.1} x {:.1} x {:.1} mm{}",
+            a.blades,
+            if a.with_hub { ", with the hub, bodies separate as assembled" } else { "" },
+            if p.fits { "FITS as one part" } else { "does not fit as one part" },
+            p.size[0],
+            p.size[1],
+            p.size[2],
+            match (p.fits, p.scale_to_fit) {
+                (false, Some(k)) => format!(", overshoot {:.1} mm, scale {k:.3} fits", p.overshoot),
+                _ => String::new(),
+            }
         );
-        if !f.fits {
+    }
+    for n in &s.notes {
+        let _ = writeln!(t, "note: {n}");
+    }
+    for f in &s.files {
+        let _ = writeln!(t, "wrote {f}");
+    }
+    let _ = writeln!(t, "\n{CAUTION}");
+    t
+}
+
+fn part_text(t: &mut String, p: &fit::PartFit) {
+    let f = &p.pose;
+    let _ = writeln!(t);
+    let copies = if p.copies > 1 {
+        format!(" (x{})", p.copies)
+    } else {
+        String::new()
+    };
+    let _ = writeln!(
+        t,
+        "{}{copies}: {}",
+        p.name,
+        if f.fits { "FITS" } else { "DOES NOT FIT" }
+    );
+    let ang = f.angles_deg;
+    let _ = writeln!(
+        t,
+        "  rotation: {:.2} deg about x, then {:.2} about y, then {:.2} about z",
+        ang[0], ang[1], ang[2]
+    );
+    for r in f.rotation {
+        let _ = writeln!(t, "    [{:9.6} {:9.6} {:9.6}]", r[0], r[1], r[2]);
+    }
+    let _ = writeln!(
+        t,
+        "  size on the bed: {:.2} x {:.2} x {:.2} mm; gap to walls x {:.2}, y {:.2}, top {:.2} mm",
+        f.size[0], f.size[1], f.size[2], f.wall_gap[0], f.wall_gap[1], f.wall_gap[2]
+    );
+    if let (false, Some(k)) = (f.fits, f.scale_to_fit) {
+        let _ = writeln!(
+            t,
+            "  smallest overshoot found: {:.2} mm; a uniform scale of {k:.4} fits this orientation",
+            f.overshoot
+        );
+    }
+    let _ = writeln!(
+        t,
+        "  overhang (faces down, over 45 deg from vertical): {:.0} mm^2; resting on the bed: {:.0} mm^2",
+        f.overhang_area, f.bed_contact
+    );
+    let _ = writeln!(
+        t,
+        "  search: {:.2} deg resolution; any orientation with {:.2} mm to spare on every axis is found{}",
+        f.resolution_deg,
+        f.guarantee,
+        if f.complete { "" } else { " (search stopped early: not guaranteed)" }
+    );
+    let c = &p.printability;
+    if p.findings.is_empty() {
+        if let (Some((_, te)), Some((_, th))) = (c.min_te(), c.min_thickness()) {
             let _ = writeln!(
-            s,
-                "  smallest overshoot found: {:.2} mm; a uniform scale of {:.4} fits this orientation",
-                f.overshoot, f.scale_to_fit
+                t,
+                "  printability: thinnest trailing edge {:.2} mm, thinnest section {:.2} mm: ok for a {:.2} mm nozzle",
+                te.te_thickness, th.thickness, c.nozzle
             );
         }
-        let _ = writeln!(
-            s,
-            "  overhang (faces down, over 45 deg from vertical): {:.0} mm^2; resting on the bed: {:.0} mm^2",
-            f.overhang_area, f.bed_contact
-        );
-        let _ = writeln!(
-            s,
-            "  search: {:.2} deg resolution; any orientation with {:.2} mm to spare on every axis is found{}",
-            f.resolution_deg,
-            f.guarantee,
-            if f.complete { "" } else { " (search stopped early: not guaranteed)" }
-        );
-        let findings = c.findings();
-        if findings.is_empty() {
-            if let (Some((_, te)), Some((_, th))) = (c.min_te(), c.min_thickness()) {
-                let _ = writeln!(
-            s,
-                    "  printability: thinnest trailing edge {:.2} mm, thinnest section {:.2} mm: ok for a {:.2} mm nozzle",
-                    te.te_thickness, th.thickness, c.nozzle
-                );
-            }
-        }
-        for line in findings {
-            let _ = writeln!(s, "  printability: {line}");
-        }
     }
-    if let Some(l) = lay {
-        let _ = writeln!(s);
-        let n: usize = l.plates.iter().map(|p| p.parts.len()).sum();
-        let _ = writeln!(s, "{n} parts on {} plate(s):", l.plates.len());
-        for (k, p) in l.plates.iter().enumerate() {
-            let names: Vec<&str> = p.parts.iter().map(|x| x.name.as_str()).collect();
-            let _ = writeln!(s, "  plate {}: {}", k + 1, names.join(", "));
-        }
+    for line in &p.findings {
+        let _ = writeln!(t, "  printability: {line}");
     }
-    for w in written {
-        let _ = writeln!(s, "wrote {}", w.display());
-    }
-    s
 }

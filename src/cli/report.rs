@@ -3,11 +3,12 @@
 
 use std::io::IsTerminal as _;
 use std::path::{Path, PathBuf};
-use std::process::ExitCode;
 
+use super::{load, Verdict};
 use anyhow::Context as _;
+use spanwright::atomic::Batch;
 use spanwright::props::{Fill, LoadCase, Material, ThrustSpread, CAUTIONS};
-use spanwright::report::{self, write_atomic, Pictures, Report, ReportInput, STEPS};
+use spanwright::report::{self, Pictures, Report, ReportInput, STEPS};
 
 /// Arguments of `spanwright report`.
 #[derive(Debug, clap::Args)]
@@ -71,11 +72,6 @@ pub struct Args {
     json: bool,
 }
 
-fn is_stl(p: &Path) -> bool {
-    p.extension()
-        .is_some_and(|e| e.to_string_lossy().eq_ignore_ascii_case("stl"))
-}
-
 fn check_number(name: &str, v: f64, ok: bool, hint: &str) -> anyhow::Result<()> {
     if !(v.is_finite() && ok) {
         anyhow::bail!("--{name} {v}: {hint}");
@@ -84,7 +80,7 @@ fn check_number(name: &str, v: f64, ok: bool, hint: &str) -> anyhow::Result<()> 
 }
 
 /// Runs the subcommand.
-pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
+pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
     let material: Material = args.material.parse()?;
     let fill = if args.solid {
         Fill::SOLID
@@ -116,17 +112,18 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         );
     }
     let first = &args.input[0];
-    let (name, parts, design) = if args.input.iter().all(|p| is_stl(p)) {
+    let (name, parts, design) = if args.input.iter().all(|p| load::has_extension(p, "stl")) {
         let mut parts = Vec::new();
         for p in &args.input {
-            parts.push(spanwright::fit::read_stl_part(p)?);
+            parts.push(load::stl_part(p)?);
         }
-        (parts[0].name.clone(), parts, None)
+        (parts[0].name().to_string(), parts, None)
     } else if args.input.len() == 1 {
-        let design = spanwright::design::load(first)?;
-        let parts = spanwright::pipeline::build_parts(&design)
+        let design = load::design(first, None)?;
+        let outcome = spanwright::pipeline::run(&design, &spanwright::pipeline::Options::default())
             .with_context(|| format!("building the parts of {}", first.display()))?;
-        (design.name.clone(), parts, Some(design))
+        let blade = outcome.blade_part().clone();
+        (design.name.clone(), vec![blade], Some(design))
     } else {
         anyhow::bail!(
             "{} inputs given: give one design file, or one or more STL files",
@@ -139,12 +136,10 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         .map(|p| p.display().to_string())
         .collect::<Vec<_>>()
         .join(", ");
-    let design_blades = design
-        .as_ref()
-        .and_then(|d| d.tables.get("rotor"))
-        .and_then(|t| t.get("blades"))
-        .and_then(|b| b.as_integer())
-        .and_then(|b| u32::try_from(b).ok());
+    let design_blades = match &design {
+        Some(d) => spanwright::pipeline::read_rotor(d)?.map(|r| r.blades),
+        None => None,
+    };
     let load = if args.rpm.is_some() || args.wind.is_some() || args.thrust.is_some() {
         let defaults = LoadCase::default();
         Some(LoadCase {
@@ -200,9 +195,9 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         written = write_files(&args.out, &file_stem(&name), &rep, &pictures, &json)?;
     }
     if args.json {
-        println!("{json}");
+        outln!("{json}");
     } else if !ctx.quiet {
-        summary(&rep, &written);
+        super::emit(&summary(&rep, &written));
     }
     // Cautions go out even with --quiet: they bear on safety.
     if rep.stress.is_some() || rep.balance.is_some() {
@@ -211,8 +206,8 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         }
     }
     Ok(match &rep.stress {
-        Some(t) if !t.passes => ExitCode::from(super::EXIT_CHECK_FAILED),
-        _ => ExitCode::SUCCESS,
+        Some(t) if !t.passes => Verdict::Failed,
+        _ => Verdict::Done,
     })
 }
 
@@ -263,17 +258,18 @@ fn write_files(
     if let Some(p) = &pictures.stress {
         files.push((format!("{stem}-stress.svg"), format!("{decl}{p}")));
     }
-    let mut written = Vec::new();
+    let mut batch = Batch::new();
     for (file, text) in files {
-        let path = out.join(file);
-        write_atomic(&path, text.as_bytes())?;
-        written.push(path);
+        batch.write(&out.join(file), |w| w.write_all(text.as_bytes()))?;
     }
-    Ok(written)
+    Ok(batch.commit()?)
 }
 
-fn summary(rep: &Report, written: &[PathBuf]) {
-    println!(
+fn summary(rep: &Report, written: &[PathBuf]) -> String {
+    use std::fmt::Write as _;
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
         "{} ({}, walls {} mm, infill {:.0} %)",
         rep.name,
         rep.material.name,
@@ -281,32 +277,37 @@ fn summary(rep: &Report, written: &[PathBuf]) {
         rep.fill.infill * 100.0
     );
     for p in &rep.parts {
-        println!(
+        let _ = writeln!(
+        out,
             "  {}: mass {:.1} g, volume {:.0} mm3, centre of mass ({:.1}, {:.1}, {:.1}) mm, I about rotor axis {:.4e} g mm2",
             p.name, p.mass, p.volume, p.centroid[0], p.centroid[1], p.centroid[2], p.inertia_rotor_axis
         );
     }
     if let Some(b) = &rep.balance {
-        println!(
+        let _ = writeln!(
+            out,
             "  balance: {:.1} g mm static imbalance ({:.3} mm offset), parts differ by {:.2} g",
             b.imbalance, b.offset, b.mass_spread
         );
     }
     if !rep.sections.is_empty() {
-        println!("  sections (mm, mm2, mm4, deg):");
-        println!(
+        let _ = writeln!(out, "  sections (mm, mm2, mm4, deg):");
+        let _ = writeln!(
+            out,
             "  {:>9} {:>9} {:>11} {:>11} {:>11} {:>7}",
             "r", "area", "Ixx", "Iyy", "Ixy", "angle"
         );
         for s in &rep.sections {
-            println!(
+            let _ = writeln!(
+                out,
                 "  {:>9.2} {:>9.2} {:>11.4e} {:>11.4e} {:>11.4e} {:>7.2}",
                 s.radius, s.area, s.ixx, s.iyy, s.ixy, s.angle
             );
         }
     }
     if let Some(t) = &rep.stress {
-        println!(
+        let _ = writeln!(
+        out,
             "  stress at {} rpm, {} m/s: smallest safety factor {:.2} at r = {:.1} mm ({} the required {}), tip deflection {:.2} mm",
             t.load.rpm,
             t.load.wind,
@@ -318,8 +319,9 @@ fn summary(rep: &Report, written: &[PathBuf]) {
         );
     }
     for w in written {
-        println!("  wrote {}", w.display());
+        let _ = writeln!(out, "  wrote {}", w.display());
     }
+    out
 }
 
 #[cfg(test)]

@@ -4,7 +4,6 @@
 use anyhow::Context as _;
 use spanwright::airfoil::{self, Layout, Section};
 use std::path::{Path, PathBuf};
-use std::process::ExitCode;
 
 /// Arguments of `spanwright section`.
 #[derive(Debug, clap::Args)]
@@ -108,14 +107,14 @@ fn origin(name: &str) -> String {
 }
 
 /// Runs the subcommand.
-pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
+pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<super::Verdict> {
     match args.action {
         Action::Write(a) => write(a, ctx),
         Action::Measure(a) => measure(a),
     }
 }
 
-fn write(a: WriteArgs, ctx: &super::Context) -> anyhow::Result<ExitCode> {
+fn write(a: WriteArgs, ctx: &super::Context) -> anyhow::Result<super::Verdict> {
     if !(3..=2000).contains(&a.points) {
         anyhow::bail!(
             "--points {} is out of range: give 3 to 2000 points per surface (81 is usual, 161 for large parts)",
@@ -171,19 +170,19 @@ fn write(a: WriteArgs, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         .with_context(|| format!("writing {}", a.output.display()))?;
     if !ctx.quiet {
         if let Some(note) = note {
-            println!("{note}");
+            outln!("{note}");
         }
-        println!(
+        outln!(
             "wrote {} ({} points, {:?} layout)",
             a.output.display(),
             s.points().len(),
             layout
         );
     }
-    Ok(ExitCode::SUCCESS)
+    Ok(super::Verdict::Done)
 }
 
-fn measure(a: MeasureArgs) -> anyhow::Result<ExitCode> {
+fn measure(a: MeasureArgs) -> anyhow::Result<super::Verdict> {
     let dirs = search_dirs(&a.source.dirs);
     let s = resolve(&a.source.name, &dirs)?;
     let m = s
@@ -191,35 +190,36 @@ fn measure(a: MeasureArgs) -> anyhow::Result<ExitCode> {
         .map_err(|e| airfoil::SectionError::shape(s.name(), e))?;
     if a.json {
         let v = serde_json::json!({ "section": s.name(), "measures": m });
-        println!("{}", serde_json::to_string_pretty(&v)?);
-        return Ok(ExitCode::SUCCESS);
+        outln!("{}", serde_json::to_string_pretty(&v)?);
+        return Ok(super::Verdict::Done);
     }
-    println!(
+    outln!(
         "section {} (unit chord; leading edge at (0, 0), trailing edge at (1, 0))",
         s.name()
     );
-    println!(
+    outln!(
         "  max thickness        {:7.3} % chord at {:5.1} % chord",
         m.thickness * 100.0,
         m.thickness_at * 100.0
     );
-    println!(
+    outln!(
         "  max camber           {:7.3} % chord at {:5.1} % chord",
         m.camber * 100.0,
         m.camber_at * 100.0
     );
-    println!(
+    outln!(
         "  trailing edge        {:7.3} % chord",
         m.te_thickness * 100.0
     );
-    println!(
+    outln!(
         "  leading-edge radius  {:7.3} % chord (estimate)",
         m.le_radius * 100.0
     );
-    println!("  area                 {:9.5} chord^2", m.area);
-    println!(
+    outln!("  area                 {:9.5} chord^2", m.area);
+    outln!(
         "  centroid             ({:.4}, {:.4}) chord",
-        m.centroid[0], m.centroid[1]
+        m.centroid[0],
+        m.centroid[1]
     );
-    Ok(ExitCode::SUCCESS)
+    Ok(super::Verdict::Done)
 }

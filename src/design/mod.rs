@@ -132,6 +132,9 @@ mod units;
 pub use error::{DesignError, Problem};
 pub use units::{AngleUnit, LengthUnit, RatioUnit};
 
+/// Largest mesh tolerance accepted from a design file or the command line, mm.
+pub const MAX_TOLERANCE: f64 = toml_file::TOLERANCE_MAX_MM;
+
 /// Which way the rotor exchanges energy with the flow.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "kebab-case")]

@@ -4,9 +4,19 @@ use super::ExportError;
 use std::fmt;
 use std::str::FromStr;
 
-/// A file format.
+/// A file format: a triangle-mesh format, or STEP for the exact solid.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum Format {
+    /// A triangle-mesh format, written from checked parts by [`super::write_mesh`].
+    Mesh(MeshFormat),
+    /// STEP physical file (ISO 10303-21) of the exact solid, written by
+    /// [`super::write_step`].
+    Step,
+}
+
+/// The triangle-mesh formats.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum MeshFormat {
     /// Binary STL (StereoLithography Interface Specification, 3D Systems, 1989).
     Stl,
     /// ASCII STL (same specification).
@@ -15,8 +25,6 @@ pub enum Format {
     Obj,
     /// 3MF package (3MF Core Specification, 3MF Consortium).
     ThreeMf,
-    /// STEP physical file (ISO 10303-21) of the exact solid.
-    Step,
 }
 
 /// The accepted names, in the order of [`Format::ALL`].
@@ -25,20 +33,20 @@ const NAMES: &str = "stl, stl-ascii, obj, 3mf, step";
 impl Format {
     /// Every format, in a fixed order.
     pub const ALL: [Format; 5] = [
-        Format::Stl,
-        Format::StlAscii,
-        Format::Obj,
-        Format::ThreeMf,
+        Format::Mesh(MeshFormat::Stl),
+        Format::Mesh(MeshFormat::StlAscii),
+        Format::Mesh(MeshFormat::Obj),
+        Format::Mesh(MeshFormat::ThreeMf),
         Format::Step,
     ];
 
     /// Our short name, as accepted by [`Format::from_str`].
     pub fn name(self) -> &'static str {
         match self {
-            Format::Stl => "stl",
-            Format::StlAscii => "stl-ascii",
-            Format::Obj => "obj",
-            Format::ThreeMf => "3mf",
+            Format::Mesh(MeshFormat::Stl) => "stl",
+            Format::Mesh(MeshFormat::StlAscii) => "stl-ascii",
+            Format::Mesh(MeshFormat::Obj) => "obj",
+            Format::Mesh(MeshFormat::ThreeMf) => "3mf",
             Format::Step => "step",
         }
     }
@@ -46,16 +54,20 @@ impl Format {
     /// The usual file extension, without the dot (ASCII STL also uses `stl`).
     pub fn extension(self) -> &'static str {
         match self {
-            Format::Stl | Format::StlAscii => "stl",
-            Format::Obj => "obj",
-            Format::ThreeMf => "3mf",
+            Format::Mesh(m) => m.extension(),
             Format::Step => "step",
         }
     }
+}
 
-    /// True for the triangle-mesh formats written by [`super::write_parts`].
-    pub fn is_mesh(self) -> bool {
-        !matches!(self, Format::Step)
+impl MeshFormat {
+    /// The usual file extension, without the dot (ASCII STL also uses `stl`).
+    pub fn extension(self) -> &'static str {
+        match self {
+            MeshFormat::Stl | MeshFormat::StlAscii => "stl",
+            MeshFormat::Obj => "obj",
+            MeshFormat::ThreeMf => "3mf",
+        }
     }
 }
 
@@ -73,10 +85,10 @@ impl FromStr for Format {
     fn from_str(s: &str) -> Result<Self, Self::Err> {
         let t = s.trim().to_ascii_lowercase();
         Ok(match t.as_str() {
-            "stl" => Format::Stl,
-            "stl-ascii" | "ascii-stl" => Format::StlAscii,
-            "obj" => Format::Obj,
-            "3mf" => Format::ThreeMf,
+            "stl" => Format::Mesh(MeshFormat::Stl),
+            "stl-ascii" | "ascii-stl" => Format::Mesh(MeshFormat::StlAscii),
+            "obj" => Format::Mesh(MeshFormat::Obj),
+            "3mf" => Format::Mesh(MeshFormat::ThreeMf),
             "step" | "stp" => Format::Step,
             _ => {
                 return Err(ExportError::UnknownFormat {

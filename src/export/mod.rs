@@ -1,34 +1,34 @@
 //! Writers: binary and ASCII STL, OBJ, 3MF, STEP; every file written atomically.
 //!
-//! Mesh formats take [`Part`]s (one file may hold several parts) through [`write_parts`];
-//! the exact solid goes to STEP through [`step_solid`] and [`write_step`]. Every writer
-//! is deterministic: the same input gives the same bytes (no time stamps, fixed number
+//! Mesh formats take [`CheckedPart`]s (one file may hold several parts) through
+//! [`write_mesh`]: only a part that passed the solid checks can be written. The exact
+//! solid goes to STEP through [`step_solid`] and [`write_step`]. Every writer is
+//! deterministic: the same input gives the same bytes (no time stamps, fixed number
 //! formatting, fixed zip entry order and times). Every file is written through
 //! [`write_atomic`], so a failed write leaves nothing at the target path.
 //!
 //! ```no_run
-//! # use spanwright::export::{write_parts, Format};
-//! # fn demo(parts: &[spanwright::mesh::Part]) -> Result<(), spanwright::export::ExportError> {
-//! write_parts("blade.3mf".as_ref(), Format::ThreeMf, parts)?;
+//! # use spanwright::export::{write_mesh, MeshFormat};
+//! # fn demo(parts: &[spanwright::check::CheckedPart]) -> Result<(), spanwright::export::ExportError> {
+//! write_mesh("blade.3mf".as_ref(), MeshFormat::ThreeMf, parts)?;
 //! # Ok(()) }
 //! ```
 
-mod atomic;
 mod brep;
 mod error;
 mod format;
-mod mesh_check;
 mod obj;
+mod outcome;
 mod step;
 mod stl;
 mod threemf;
 
-pub use atomic::write_atomic;
+pub use crate::atomic::write_atomic;
 pub use brep::{step_solid, step_solid_with, BrepOptions};
 pub use error::ExportError;
-pub use format::Format;
-pub use mesh_check::check_parts;
+pub use format::{Format, MeshFormat};
 pub use obj::write_obj;
+pub use outcome::{file_name, stage_outcome, StepNote};
 pub use step::{step_string, step_text, write_step, StepHeader, STEP_SCHEMA};
 pub use stl::{push_f32, solid_name, unit_normal, write_stl, write_stl_ascii, STL_HEADER};
 pub use threemf::{
@@ -36,47 +36,58 @@ pub use threemf::{
     MODEL_REL_TYPE, RELS_CONTENT_TYPE,
 };
 
-use crate::mesh::Part;
+use crate::check::CheckedPart;
 use nalgebra::Matrix4;
+use std::io::Write;
 use std::path::Path;
 
 /// Writes `parts` to `path` in a mesh `format`, atomically: binary or ASCII STL (all
 /// triangles in one solid), OBJ (one `o` object per part) or 3MF (one object and one
-/// build item per part).
-///
-/// The meshes are checked first ([`check_parts`]). ASCII STL names its solid after the
-/// part when there is one, else after the file stem.
+/// build item per part). ASCII STL names its solid after the part when there is one,
+/// else after the file stem.
 ///
 /// # Errors
-/// [`ExportError::StepFromMesh`] for [`Format::Step`], [`ExportError::NoParts`],
-/// [`ExportError::BadMesh`], [`ExportError::Io`].
-pub fn write_parts(path: &Path, format: Format, parts: &[Part]) -> Result<(), ExportError> {
-    if format == Format::ThreeMf {
+/// [`ExportError::NoParts`], [`ExportError::Write`].
+pub fn write_mesh(
+    path: &Path,
+    format: MeshFormat,
+    parts: &[CheckedPart],
+) -> Result<(), ExportError> {
+    if format == MeshFormat::ThreeMf {
         return write_3mf_file(path, parts, None);
-    }
-    if !format.is_mesh() {
-        return Err(ExportError::StepFromMesh);
     }
     if parts.is_empty() {
         return Err(ExportError::NoParts {
             path: path.to_path_buf(),
         });
     }
-    check_parts(parts, false)?;
+    let name = match parts {
+        [one] => one.name().to_string(),
+        _ => path
+            .file_stem()
+            .map(|s| s.to_string_lossy().into_owned())
+            .unwrap_or_default(),
+    };
+    Ok(write_atomic(path, |w| {
+        write_mesh_to(w, format, &name, parts)
+    })?)
+}
+
+/// Writes `parts` in a mesh `format` to a stream (`name` names an ASCII STL solid).
+///
+/// # Errors
+/// The stream's I/O errors; more than `u32::MAX` facets in a binary STL.
+pub fn write_mesh_to(
+    w: &mut dyn Write,
+    format: MeshFormat,
+    name: &str,
+    parts: &[CheckedPart],
+) -> std::io::Result<()> {
     match format {
-        Format::Stl => write_atomic(path, |w| write_stl(w, parts)),
-        Format::StlAscii => {
-            let name = match parts {
-                [one] => one.name.clone(),
-                _ => path
-                    .file_stem()
-                    .map(|s| s.to_string_lossy().into_owned())
-                    .unwrap_or_default(),
-            };
-            write_atomic(path, |w| write_stl_ascii(w, &name, parts))
-        }
-        Format::Obj => write_atomic(path, |w| write_obj(w, parts)),
-        Format::ThreeMf | Format::Step => Err(ExportError::StepFromMesh),
+        MeshFormat::Stl => write_stl(w, parts),
+        MeshFormat::StlAscii => write_stl_ascii(w, name, parts),
+        MeshFormat::Obj => write_obj(w, parts),
+        MeshFormat::ThreeMf => write_3mf(w, parts, None),
     }
 }
 
@@ -84,11 +95,10 @@ pub fn write_parts(path: &Path, format: Format, parts: &[Part]) -> Result<(), Ex
 /// transforms (one per part, see [`check_placements`]), e.g. a plate layout.
 ///
 /// # Errors
-/// [`ExportError::NoParts`], [`ExportError::BadMesh`] (also for a triangle that repeats
-/// a vertex, which 3MF forbids), [`ExportError::BadPlacement`], [`ExportError::Io`].
+/// [`ExportError::NoParts`], [`ExportError::BadPlacement`], [`ExportError::Write`].
 pub fn write_3mf_file(
     path: &Path,
-    parts: &[Part],
+    parts: &[CheckedPart],
     placements: Option<&[Matrix4<f64>]>,
 ) -> Result<(), ExportError> {
     if parts.is_empty() {
@@ -96,7 +106,6 @@ pub fn write_3mf_file(
             path: path.to_path_buf(),
         });
     }
-    check_parts(parts, true)?;
     check_placements(parts, placements)?;
-    write_atomic(path, |w| write_3mf(w, parts, placements))
+    Ok(write_atomic(path, |w| write_3mf(w, parts, placements))?)
 }

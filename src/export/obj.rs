@@ -1,22 +1,20 @@
 //! Wavefront OBJ writer: `v` lines, 1-based `f` lines, one `o` object per part.
 
-use crate::mesh::Part;
+use crate::check::CheckedPart;
 use std::io::{self, Write};
 
 /// Writes the parts as one OBJ file: a comment line, then per part `o name`, its
 /// vertices (`v x y z`, millimetres, shortest decimal that reads back to the same `f64`)
 /// and its triangles (`f a b c`, 1-based indices counted over the whole file, counter-
 /// clockwise seen from outside). Names are made of printable ASCII without spaces (see
-/// [`super::solid_name`]). A broken mesh (see [`super::check_parts`]) is an
-/// `InvalidInput` error.
-pub fn write_obj(w: &mut dyn Write, parts: &[Part]) -> io::Result<()> {
-    super::mesh_check::check_io(parts, false)?;
+/// [`super::solid_name`]).
+pub fn write_obj(w: &mut dyn Write, parts: &[CheckedPart]) -> io::Result<()> {
     writeln!(w, "# OBJ written by spanwright; units: millimetres")?;
     let mut base: u64 = 1;
     let mut line = String::with_capacity(128);
     for part in parts {
-        let m = &part.mesh;
-        writeln!(w, "o {}", super::solid_name(&part.name))?;
+        let m = part.mesh();
+        writeln!(w, "o {}", super::solid_name(part.name()))?;
         for p in &m.vertices {
             use std::fmt::Write as _;
             line.clear();

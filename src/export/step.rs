@@ -185,7 +185,7 @@ pub fn write_step(
         .map(|s| s.to_string_lossy().into_owned())
         .unwrap_or_default();
     let text = step_text(solids, header, &file_name);
-    write_atomic(path, |w| w.write_all(text.as_bytes()))
+    Ok(write_atomic(path, |w| w.write_all(text.as_bytes()))?)
 }
 
 #[cfg(test)]

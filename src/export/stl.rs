@@ -1,7 +1,7 @@
 //! STL writers, binary and ASCII (StereoLithography Interface Specification, 3D Systems,
 //! 1989): every triangle of every part in one solid, unit normals by the right-hand rule.
 
-use crate::mesh::Part;
+use crate::check::CheckedPart;
 use nalgebra::{Point3, Vector3};
 use std::io::{self, Write};
 
@@ -37,11 +37,11 @@ fn to_f32(v: [f64; 3]) -> [f32; 3] {
 }
 
 /// The facets of all parts as STL triangles (coordinates and normals rounded to `f32`).
-fn facets(parts: &[Part]) -> Vec<stl_io::Triangle> {
-    let total = parts.iter().map(|p| p.mesh.len()).sum();
+fn facets(parts: &[CheckedPart]) -> Vec<stl_io::Triangle> {
+    let total = parts.iter().map(|p| p.mesh().len()).sum();
     let mut out = Vec::with_capacity(total);
     for part in parts {
-        let m = &part.mesh;
+        let m = part.mesh();
         for t in 0..m.len() {
             let [a, b, c] = m.corners(t);
             let n = unit_normal(&a, &b, &c);
@@ -81,10 +81,8 @@ impl Write for HeaderPatch<'_> {
 /// little-endian), then 50 bytes per facet (normal, three vertices as little-endian f32,
 /// a zero attribute count). Written through stl_io.
 ///
-/// A broken mesh (see [`super::check_parts`]) or more than `u32::MAX` facets is an
-/// `InvalidInput` error.
-pub fn write_stl(w: &mut dyn Write, parts: &[Part]) -> io::Result<()> {
-    super::mesh_check::check_io(parts, false)?;
+/// More than `u32::MAX` facets is an `InvalidInput` error.
+pub fn write_stl(w: &mut dyn Write, parts: &[CheckedPart]) -> io::Result<()> {
     let tris = facets(parts);
     if u32::try_from(tris.len()).is_err() {
         return Err(io::Error::new(
@@ -143,10 +141,8 @@ pub fn push_f32(out: &mut String, x: f32) {
 /// Writes all parts as one ASCII STL solid named `name` (see [`solid_name`]):
 /// `solid`, then per facet `facet normal`, `outer loop`, three `vertex` lines, `endloop`,
 /// `endfacet`, and `endsolid`. Numbers are the same `f32` values the binary file holds,
-/// formatted by [`push_f32`]. A broken mesh (see [`super::check_parts`]) is an
-/// `InvalidInput` error.
-pub fn write_stl_ascii(w: &mut dyn Write, name: &str, parts: &[Part]) -> io::Result<()> {
-    super::mesh_check::check_io(parts, false)?;
+/// formatted by [`push_f32`].
+pub fn write_stl_ascii(w: &mut dyn Write, name: &str, parts: &[CheckedPart]) -> io::Result<()> {
     let name = solid_name(name);
     writeln!(w, "solid {name}")?;
     let mut line = String::with_capacity(256);

@@ -4,7 +4,7 @@
 
 use super::obj::clean;
 use super::ExportError;
-use crate::mesh::Part;
+use crate::check::CheckedPart;
 use nalgebra::Matrix4;
 use quick_xml::escape::escape;
 use std::fmt::Write as _;
@@ -41,7 +41,7 @@ Type=\"http://schemas.microsoft.com/3dmanufacturing/2013/01/3dmodel\"/>\n\
 /// # Errors
 /// [`ExportError::BadPlacement`] naming the placement and the part.
 pub fn check_placements(
-    parts: &[Part],
+    parts: &[CheckedPart],
     placements: Option<&[Matrix4<f64>]>,
 ) -> Result<(), ExportError> {
     let Some(pl) = placements else {
@@ -52,7 +52,7 @@ pub fn check_placements(
             index: pl.len().min(parts.len()),
             part: parts
                 .get(pl.len())
-                .map(|p| p.name.clone())
+                .map(|p| p.name().to_string())
                 .unwrap_or_default(),
             problem: format!(
                 "{} placements for {} parts; give exactly one transform per part",
@@ -80,7 +80,7 @@ pub fn check_placements(
         if let Some(problem) = problem {
             return Err(ExportError::BadPlacement {
                 index: i,
-                part: part.name.clone(),
+                part: part.name().to_string(),
                 problem,
             });
         }
@@ -93,10 +93,10 @@ pub fn check_placements(
 /// `transform="m00 m01 m02 m10 m11 m12 m20 m21 m22 m30 m31 m32"` when a placement is
 /// given (the specification's row-vector convention: the transpose of our column-vector
 /// matrix, translation in the last row).
-pub fn model_xml(parts: &[Part], placements: Option<&[Matrix4<f64>]>) -> String {
+pub fn model_xml(parts: &[CheckedPart], placements: Option<&[Matrix4<f64>]>) -> String {
     let estimate: usize = parts
         .iter()
-        .map(|p| 64 * p.mesh.vertices.len() + 48 * p.mesh.triangles.len())
+        .map(|p| 64 * p.mesh().vertices.len() + 48 * p.mesh().triangles.len())
         .sum();
     let mut s = String::with_capacity(estimate + 1024);
     s.push_str("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
@@ -110,9 +110,9 @@ pub fn model_xml(parts: &[Part], placements: Option<&[Matrix4<f64>]>) -> String 
             s,
             "  <object id=\"{}\" type=\"model\" name=\"{}\">\n   <mesh>\n    <vertices>",
             k + 1,
-            escape(part.name.as_str())
+            escape(part.name())
         );
-        for p in &part.mesh.vertices {
+        for p in &part.mesh().vertices {
             let _ = writeln!(
                 s,
                 "     <vertex x=\"{}\" y=\"{}\" z=\"{}\"/>",
@@ -122,7 +122,7 @@ pub fn model_xml(parts: &[Part], placements: Option<&[Matrix4<f64>]>) -> String 
             );
         }
         s.push_str("    </vertices>\n    <triangles>\n");
-        for t in &part.mesh.triangles {
+        for t in &part.mesh().triangles {
             let _ = writeln!(
                 s,
                 "     <triangle v1=\"{}\" v2=\"{}\" v3=\"{}\"/>",
@@ -157,14 +157,12 @@ pub fn model_xml(parts: &[Part], placements: Option<&[Matrix4<f64>]>) -> String 
 /// time (1980-01-01 00:00:00, the zip epoch), fixed permissions and a fixed compression
 /// level, so the same input gives the same bytes.
 ///
-/// A broken mesh ([`super::check_parts`] with distinct corners) or placement
-/// ([`check_placements`]) is an `InvalidInput` error.
+/// A broken placement ([`check_placements`]) is an `InvalidInput` error.
 pub fn write_3mf(
     w: &mut dyn Write,
-    parts: &[Part],
+    parts: &[CheckedPart],
     placements: Option<&[Matrix4<f64>]>,
 ) -> io::Result<()> {
-    super::mesh_check::check_io(parts, true)?;
     super::check_placements(parts, placements)
         .map_err(|e| io::Error::new(io::ErrorKind::InvalidInput, e.to_string()))?;
     let model = model_xml(parts, placements);

@@ -10,8 +10,11 @@
 //!   calipers; its angular-resolution guarantee and the exact check on every vertex are
 //!   described in [`search`].
 //! * [`layout`]: several parts on as few plates as the heuristic finds, clearance kept;
-//!   [`Layout::plate_parts`] gives each plate's placed meshes for
-//!   `crate::export::write_parts`, and [`plate_svg`] a top view.
+//!   [`plate_svg`] draws a plate seen from above.
+//! * [`plan_job`]: a whole print job (every checked part a design produces, with its
+//!   copies): each part fitted alone, every copy laid out, and a verdict that accounts
+//!   for every copy; [`JobPlan::plate`] gives a plate's checked parts, placed, for the
+//!   writers.
 //! * [`printability`]: trailing-edge and section thickness along the span against the
 //!   nozzle and the minimum feature size.
 //!
@@ -32,6 +35,7 @@
 //! ```
 
 pub mod hull;
+mod job;
 mod layout;
 mod printability;
 mod printer;
@@ -40,6 +44,9 @@ mod stl_in;
 mod svg;
 pub mod yaw;
 
+pub use job::{
+    isometry, plan_job, JobItem, JobPlan, JobReport, PartFit, PlateItem, Pose, MAX_COPIES,
+};
 pub use layout::{layout, polygon_distance, Layout, LayoutOptions, Placed, Plate};
 pub use printability::{
     printability, printability_of_outlines, slice, Cut, Printability, PrintabilityOptions,

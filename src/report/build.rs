@@ -3,8 +3,8 @@
 
 use super::model::{BalanceSummary, PartSummary, Report, Units, SCHEMA_ID};
 use super::{planform_svg, stack_svg, stress_svg, three_view_svg};
+use crate::check::CheckedPart;
 use crate::design::Station;
-use crate::mesh::Part;
 use crate::props::{
     section_table, span_radii, Balance, Fill, LoadCase, Material, Slice, SliceError, StressError,
     StressTable,
@@ -19,7 +19,7 @@ pub struct ReportInput<'a> {
     pub source: Option<String>,
     /// The parts; the first must be one whole blade in the blade frame for the section
     /// table and stress estimate (see [`crate::conventions`]).
-    pub parts: &'a [Part],
+    pub parts: &'a [CheckedPart],
     /// Design stations, for the planform picture and the section radii.
     pub stations: Option<&'a [Station]>,
     /// Material.
@@ -106,7 +106,7 @@ pub fn build(
     let mut props = Vec::new();
     for part in input.parts {
         let (s, p) = PartSummary::of_part(part, &input.material, input.fill)
-            .ok_or_else(|| ReportError::NoVolume(part.name.clone()))?;
+            .ok_or_else(|| ReportError::NoVolume(part.name().to_string()))?;
         parts.push(s);
         props.push(p);
     }
@@ -116,11 +116,11 @@ pub fn build(
         None
     };
     progress(1, "section properties");
-    let mesh = &first.mesh;
+    let mesh = first.mesh();
     if let Some(bb) = mesh.bounding_box() {
         if bb.min.z < 0.0 {
             return Err(ReportError::NotABlade {
-                part: first.name.clone(),
+                part: first.name().to_string(),
                 min: bb.min.z,
                 max: bb.max.z,
             });
@@ -136,7 +136,7 @@ pub fn build(
     radii.sort_by(f64::total_cmp);
     radii.dedup();
     let slice_err = |source| ReportError::Slice {
-        part: first.name.clone(),
+        part: first.name().to_string(),
         source,
     };
     let sections = section_table(mesh, &radii).map_err(slice_err)?;
@@ -151,7 +151,7 @@ pub fn build(
                 load,
             )
             .map_err(|source| ReportError::Stress {
-                part: first.name.clone(),
+                part: first.name().to_string(),
                 source,
             })?,
         ),
@@ -167,8 +167,8 @@ pub fn build(
             .stations
             .map(|st| planform_svg(&input.name, st, false)),
         sections: stack_svg(&input.name, &slices, false),
-        three_view: three_view_svg(&first.name, mesh, false),
-        stress: stress.as_ref().map(|t| stress_svg(&first.name, t, false)),
+        three_view: three_view_svg(first.name(), mesh, false),
+        stress: stress.as_ref().map(|t| stress_svg(first.name(), t, false)),
     };
     progress(4, "report");
     let report = Report {

@@ -5,7 +5,8 @@
 //! * [`html`] renders a self-contained HTML page with the pictures inline.
 //! * The JSON report is `serde_json` of [`Report`]; its schema is [`SCHEMA`]
 //!   (`src/report/schema.json`).
-//! * [`write_atomic`] writes files through a temporary file and a rename.
+//!
+//! Files are written by the command through [`crate::atomic`].
 
 mod build;
 mod html;
@@ -15,7 +16,6 @@ mod stack;
 mod stress_chart;
 mod transition;
 mod views;
-mod write;
 
 pub use build::{build, Pictures, ReportError, ReportInput, STEPS};
 pub use html::html;
@@ -25,4 +25,3 @@ pub use stack::stack_svg;
 pub use stress_chart::stress_svg;
 pub use transition::transition_svg;
 pub use views::{outline_edges, three_view_svg, CREASE_DEGREES};
-pub use write::{write_atomic, WriteError};

@@ -1,7 +1,7 @@
 //! The report data: what the JSON report holds (schema: `src/report/schema.json`,
 //! also available as [`SCHEMA`]) and what the HTML report shows.
 
-use crate::mesh::Part;
+use crate::check::CheckedPart;
 use crate::props::{Balance, Fill, MassProps, Material, SectionProps, StressTable, CAUTIONS};
 
 /// Schema identifier written into every JSON report; bumped on incompatible changes.
@@ -71,20 +71,20 @@ pub struct PartSummary {
 impl PartSummary {
     /// Summary of `part` made of `material` with `fill`; `None` when it encloses no volume.
     pub fn of_part(
-        part: &Part,
+        part: &CheckedPart,
         material: &Material,
         fill: Fill,
     ) -> Option<(PartSummary, MassProps)> {
-        let solid = MassProps::of_mesh(&part.mesh, material.density_g_mm3())?;
+        let solid = MassProps::of_mesh(part.mesh(), material.density_g_mm3())?;
         let fraction = fill.fraction(solid.volume, solid.area);
         let p = solid.scaled(fraction);
         let pr = p.principal();
-        let bb = part.mesh.bounding_box()?;
+        let bb = part.mesh().bounding_box()?;
         let row = |i: usize| [p.inertia[(i, 0)], p.inertia[(i, 1)], p.inertia[(i, 2)]];
         Some((
             PartSummary {
-                name: part.name.clone(),
-                triangles: part.mesh.len(),
+                name: part.name().to_string(),
+                triangles: part.mesh().len(),
                 volume: p.volume,
                 area: p.area,
                 fill_fraction: fraction,

@@ -1,0 +1,138 @@
+//! The blade up to its mesh: sections -> blade model (root, tip) -> skin -> mesh with
+//! its mounting features.
+
+use super::sections::{resolve_sections, TeChange};
+use super::{Options, PipelineError, Timings};
+use crate::airfoil::Section;
+use crate::blade::Blade;
+use crate::design::Design;
+use crate::loft::Skin;
+use crate::mesh::{Part, TriMesh};
+use crate::root::{RootSpec, TipSpec};
+use crate::tessellate::{max_deviation, tessellate, Tessellation, TessellationOptions};
+
+/// The built blade: every stage's result, for the consumers (parts, reports, STEP).
+#[derive(Debug, Clone)]
+pub struct BuiltBlade {
+    /// Design name.
+    pub name: String,
+    /// The resolved station sections (resampled, one per station).
+    pub sections: Vec<Section>,
+    /// Trailing edges opened for printing.
+    pub te_changes: Vec<TeChange>,
+    /// The spanwise-interpolated blade.
+    pub blade: Blade,
+    /// Radii of the rings the skin interpolates, mm.
+    pub ring_radii: Vec<f64>,
+    /// The surface model.
+    pub skin: Skin,
+    /// The tessellation of the surface model, with the mounting features cut in.
+    pub tessellation: Tessellation,
+    /// The mesh tolerance used, mm.
+    pub tolerance: f64,
+    /// Measured largest distance between the skin and its mesh, mm.
+    pub deviation: f64,
+}
+
+impl BuiltBlade {
+    /// The closed mesh (not yet checked: the parts stage checks it).
+    pub fn mesh(&self) -> &TriMesh {
+        &self.tessellation.mesh
+    }
+
+    /// The genus the blade must have: one per cross hole through its shank.
+    pub fn expected_genus(&self) -> u32 {
+        self.blade.root().map_or(0, RootSpec::genus)
+    }
+
+    /// The blade as a named, unchecked part.
+    pub fn part(&self) -> Part {
+        Part {
+            name: self.name.clone(),
+            mesh: self.tessellation.mesh.clone(),
+        }
+    }
+}
+
+/// Builds the blade of a design up to its tessellation (no checks yet).
+///
+/// # Errors
+/// Every stage's error: sections, blade, root and tip tables, loft, tessellation and
+/// mounting features.
+pub fn build_blade(design: &Design, opts: &Options) -> Result<BuiltBlade, PipelineError> {
+    build_blade_timed(design, opts, &mut Timings::default())
+}
+
+/// [`build_blade`], adding each stage's time to `timings`.
+///
+/// # Errors
+/// As [`build_blade`].
+pub fn build_blade_timed(
+    design: &Design,
+    opts: &Options,
+    timings: &mut Timings,
+) -> Result<BuiltBlade, PipelineError> {
+    let (sections, te_changes) = timings.time("sections", || resolve_sections(design))?;
+    let blade = timings.time("blade", || blade_model(design, &sections))?;
+    let (ring_radii, skin) = timings.time("skin", || {
+        let span = blade.tip_radius() - blade.root_radius();
+        let ring_radii = blade.ring_radii(span / 48.0);
+        let rings: Vec<_> = ring_radii.iter().map(|&r| blade.ring(r).points).collect();
+        Skin::interpolate(&rings, blade.le_index()).map(|skin| (ring_radii, skin))
+    })?;
+    let tolerance = opts.tolerance.unwrap_or(design.blade.tolerance);
+    let tess_opts = TessellationOptions {
+        tolerance,
+        ..TessellationOptions::DEFAULT
+    };
+    let mut tessellation = timings.time("tessellation", || tessellate(&skin, &tess_opts))?;
+    let deviation = timings.time("deviation", || {
+        max_deviation(&skin, &tessellation.us, &tessellation.vs, 2)
+    });
+    if let Some(root) = blade.root() {
+        timings.time("mount features", || {
+            cut_mount_features(&mut tessellation, root, blade.root_face())
+        })?;
+    }
+    Ok(BuiltBlade {
+        name: design.name.clone(),
+        sections,
+        te_changes,
+        blade,
+        ring_radii,
+        skin,
+        tessellation,
+        tolerance,
+        deviation,
+    })
+}
+
+/// The blade model: stations interpolated along the span, with the design's `[root]`
+/// and `[tip]` tables.
+fn blade_model(design: &Design, sections: &[Section]) -> Result<Blade, PipelineError> {
+    let mut blade = Blade::new(&design.stations, sections, &design.blade)?;
+    if let Some(root) = design.table::<RootSpec>("root")? {
+        blade = blade.with_root(root.to_mm(design.length_to_mm))?;
+    }
+    if let Some(mut tip) = design.table::<TipSpec>("tip")? {
+        tip.length = tip.length.map(|l| design.mm(l));
+        blade = blade.with_tip(tip)?;
+    }
+    Ok(blade)
+}
+
+/// Cuts the root's flange, bore and cross holes into the mesh, then drops the skin
+/// vertices the holes left unused, so mesh files list only what the triangles use.
+fn cut_mount_features(
+    tessellation: &mut Tessellation,
+    root: &RootSpec,
+    root_face: f64,
+) -> Result<(), PipelineError> {
+    let (ring, cap) = (
+        tessellation.root_ring.clone(),
+        tessellation.root_cap.clone(),
+    );
+    crate::mount::add_mount_features(&mut tessellation.mesh, &ring, cap, root, root_face)?;
+    tessellation.mesh.compact();
+    Ok(())
+}

@@ -1,0 +1,176 @@
+//! The parts a design asks for, each checked: the blade; with a `[rotor]` table the hub,
+//! the assembled rotor (every body placed, checked against the others and for its
+//! rotation sense) and the one-piece rotor.
+
+use super::{BuiltBlade, PipelineError, SteepStep};
+use crate::assembly::{
+    one_piece, rigid, AssemblyError, BladeFacts, HandOptions, OnePieceBlade, OnePieceSpec, Rotor,
+};
+use crate::check::{certify, interferences, CheckOptions, CheckedPart};
+use crate::design::{Design, DesignError};
+use crate::mesh::Part;
+use serde::Serialize;
+
+/// What a built part is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum PartKind {
+    /// One blade in the blade frame (`<name>.*`).
+    Blade,
+    /// The hub body in rotor coordinates (`<name>-hub.*`).
+    Hub,
+    /// The assembled rotor: every blade placed and the hub, separate bodies
+    /// (`<name>-rotor.*`).
+    Rotor,
+    /// Blades and hub as one solid (`<name>-rotor-one-piece.*`).
+    OnePiece,
+}
+
+impl PartKind {
+    /// The suffix this kind adds to the design name in file names.
+    pub fn suffix(self) -> &'static str {
+        match self {
+            PartKind::Blade => "",
+            PartKind::Hub => "-hub",
+            PartKind::Rotor => "-rotor",
+            PartKind::OnePiece => "-rotor-one-piece",
+        }
+    }
+
+    /// A short description for people.
+    pub fn describe(self) -> &'static str {
+        match self {
+            PartKind::Blade => "blade",
+            PartKind::Hub => "hub",
+            PartKind::Rotor => "assembled rotor",
+            PartKind::OnePiece => "one-piece rotor",
+        }
+    }
+}
+
+/// One part of the outcome: what it is, the name its files take, and its bodies, each
+/// checked (one body, or several for the assembled rotor: separate solids that have
+/// been checked not to meet).
+#[derive(Debug, Clone)]
+pub struct BuiltPart {
+    /// What the part is.
+    pub kind: PartKind,
+    /// File stem: the design name plus the kind's suffix.
+    pub name: String,
+    /// The checked bodies.
+    pub bodies: Vec<CheckedPart>,
+}
+
+/// Checks a part with the genus its features imply.
+pub(super) fn checked(
+    part: Part,
+    genus: u32,
+    likely_causes: &[SteepStep],
+) -> Result<CheckedPart, PipelineError> {
+    certify(
+        part,
+        &CheckOptions::DEFAULT.with_expected_genus(Some(genus)),
+    )
+    .map_err(|rejected| PipelineError::Rejected {
+        rejected,
+        likely_causes: likely_causes.to_vec(),
+    })
+}
+
+/// The blade part, checked.
+pub(super) fn blade_part(
+    built: &BuiltBlade,
+    likely_causes: &[SteepStep],
+) -> Result<BuiltPart, PipelineError> {
+    let body = checked(built.part(), built.expected_genus(), likely_causes)?;
+    Ok(BuiltPart {
+        kind: PartKind::Blade,
+        name: built.name.clone(),
+        bodies: vec![body],
+    })
+}
+
+/// The hub part and the assembled rotor: the checked blade placed once per blade, the
+/// hub checked on its own, no two bodies meeting, and every placed blade turning the
+/// way the design says.
+pub(super) fn rotor_parts(
+    name: &str,
+    blade: &CheckedPart,
+    rotor: &Rotor,
+    tolerance: f64,
+) -> Result<Vec<BuiltPart>, PipelineError> {
+    let mut out = Vec::new();
+    let mut bodies: Vec<CheckedPart> = rotor
+        .transforms
+        .iter()
+        .enumerate()
+        .map(|(k, m)| blade.placed(format!("{name}-blade-{}", k + 1), &rigid(m)))
+        .collect();
+    let placed: Vec<&crate::mesh::TriMesh> = bodies.iter().map(CheckedPart::mesh).collect();
+    if let Some(bad) = rotor
+        .check_hand(&placed, &HandOptions::DEFAULT)
+        .into_iter()
+        .find(|h| !h.is_ok())
+    {
+        return Err(PipelineError::Hand(Box::new(bad)));
+    }
+    if let Some(hub) = &rotor.hub {
+        let hub_part = Part {
+            name: format!("{name}-hub"),
+            mesh: hub.mesh(tolerance),
+        };
+        let hub_body = checked(hub_part, hub.genus(), &[])?;
+        bodies.push(hub_body.clone());
+        out.push(BuiltPart {
+            kind: PartKind::Hub,
+            name: format!("{name}-hub"),
+            bodies: vec![hub_body],
+        });
+    }
+    let named: Vec<(&str, &crate::mesh::TriMesh)> =
+        bodies.iter().map(|b| (b.name(), b.mesh())).collect();
+    let found = interferences(&named, CheckOptions::DEFAULT.max_listed);
+    if !found.is_empty() {
+        return Err(PipelineError::Interference {
+            part: format!("{name}-rotor"),
+            found,
+        });
+    }
+    out.push(BuiltPart {
+        kind: PartKind::Rotor,
+        name: format!("{name}-rotor"),
+        bodies,
+    });
+    Ok(out)
+}
+
+/// The one-piece rotor: blades joined by a prismatic hub, checked (genus 1 with a
+/// central bore).
+pub(super) fn one_piece_part(
+    built: &BuiltBlade,
+    facts: &BladeFacts,
+    rotor: &Rotor,
+    spec: &OnePieceSpec,
+    design: &Design,
+) -> Result<BuiltPart, PipelineError> {
+    let blade = OnePieceBlade {
+        name: &built.name,
+        mesh: built.mesh(),
+        root_ring: &built.tessellation.root_ring,
+        root_cap: built.tessellation.root_cap.clone(),
+        facts,
+    };
+    let part = one_piece(&blade, &rotor.spec, spec).map_err(|e| in_design(design, e))?;
+    let name = part.name.clone();
+    let body = checked(part, u32::from(spec.bore.is_some()), &[])?;
+    Ok(BuiltPart {
+        kind: PartKind::OnePiece,
+        name,
+        bodies: vec![body],
+    })
+}
+
+/// An assembly error as a problem of the design file, with its line.
+pub(super) fn in_design(design: &Design, e: AssemblyError) -> PipelineError {
+    DesignError::one(design.problem(&e.key, e.message)).into()
+}
