@@ -106,9 +106,23 @@ fn design_text(g: &RootGen) -> (String, u32) {
     // RootError::Waist).
     let thickness = [0.12, 0.12, 0.15, 0.18][g.section];
     let ratio = g.ellipse.map_or(1.0, |e| 0.6 + 0.4 * e);
-    let a1 = 0.685 * thickness * c * c;
-    let d_min = (1.3 * 4.0 * a1 / (std::f64::consts::PI * ratio)).sqrt();
-    let d = (c * (0.35 + 0.55 * g.diameter)).max(d_min).max(8.0);
+    // A trailing edge opened to 0.4 mm adds at most 0.4 mm x half the chord.
+    let a1 = 0.685 * thickness * c * c + if g.blunt { 0.2 * c } else { 0.0 };
+    // The flat takes a segment off the shank: for an ellipse of half-axes a (chordwise)
+    // and b (along the axis) cut at depth h from b, the segment's area is a/b times the
+    // circle segment b^2 acos(1 - h/b) - (b - h) sqrt(2 b h - h^2) (elementary).
+    let flat_share = |d: f64| -> f64 {
+        let Some(u) = g.flat else { return 0.0 };
+        let (a, b) = (0.5 * d, 0.5 * d * ratio);
+        let h = 2.0 * b * (0.02 + 0.22 * u);
+        let circle = b * b * (1.0 - h / b).acos() - (b - h) * (2.0 * b * h - h * h).sqrt();
+        a / b * circle
+    };
+    let shank_area = |d: f64| 0.25 * std::f64::consts::PI * d * d * ratio - flat_share(d);
+    let mut d = (c * (0.35 + 0.55 * g.diameter)).max(8.0);
+    while shank_area(d) < 1.3 * a1 {
+        d *= 1.05;
+    }
     let t = d * ratio;
     let min_wall = 0.8;
     let mut root = format!("[root]\nshank-diameter = {d}\n");
