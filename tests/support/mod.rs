@@ -1,8 +1,109 @@
-//! Helpers shared by the tests and benchmarks (benchmarks include this file by path).
-#![allow(dead_code)]
+//! Helpers shared by the tests and benchmarks (benchmarks include this file by path):
+//! running the binary in a temp dir, comparing numbers with a stated tolerance, and the
+//! test blades.
+#![allow(dead_code, unused_macros)]
 
 use nalgebra::Point3;
 use spanwright::mesh::TriMesh;
+use std::path::{Path, PathBuf};
+
+/// Asserts `|got - want| <= tol`, naming what was compared and the source of `want`:
+/// `assert_near!(v, 24.0, 1e-9, "box volume (elementary)")`.
+macro_rules! assert_near {
+    ($got:expr, $want:expr, $tol:expr, $what:expr) => {{
+        let (got, want, tol): (f64, f64, f64) = ($got, $want, $tol);
+        assert!(
+            (got - want).abs() <= tol,
+            "{}: got {got}, want {want} +- {tol} (off by {:.3e})",
+            $what,
+            (got - want).abs()
+        );
+    }};
+}
+
+/// Asserts `|got / want - 1| <= rel`, naming what was compared and the source.
+macro_rules! assert_rel {
+    ($got:expr, $want:expr, $rel:expr, $what:expr) => {{
+        let (got, want, rel): (f64, f64, f64) = ($got, $want, $rel);
+        assert!(
+            (got / want - 1.0).abs() <= rel,
+            "{}: got {got}, want {want} within {:.3} % (off by {:.4} %)",
+            $what,
+            rel * 100.0,
+            (got / want - 1.0).abs() * 100.0
+        );
+    }};
+}
+
+/// What a run of the binary gave.
+pub struct Run {
+    /// Exit code (-1 when killed by a signal).
+    pub code: i32,
+    /// Standard output.
+    pub stdout: String,
+    /// Standard error.
+    pub stderr: String,
+    /// The folder it ran in (removed when the run is dropped).
+    pub dir: tempfile::TempDir,
+}
+
+impl Run {
+    /// A path inside the run's folder.
+    pub fn path(&self, rel: &str) -> PathBuf {
+        self.dir.path().join(rel)
+    }
+
+    /// Names of the files in a folder of the run (sorted; empty when it does not exist).
+    pub fn files(&self, rel: &str) -> Vec<String> {
+        files_in(&self.path(rel))
+    }
+}
+
+/// Writes `files` (name, text) into a fresh temp dir and runs `spanwright <args>` there.
+/// Paths in `args` starting with `@/` are taken from the project folder (examples,
+/// profiles).
+pub fn run_in_temp(files: &[(&str, &str)], args: &[&str]) -> Run {
+    let dir = tempfile::tempdir().unwrap();
+    for (name, text) in files {
+        let p = dir.path().join(name);
+        if let Some(parent) = p.parent() {
+            std::fs::create_dir_all(parent).unwrap();
+        }
+        std::fs::write(p, text).unwrap();
+    }
+    let project = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let args: Vec<String> = args
+        .iter()
+        .map(|a| match a.strip_prefix("@/") {
+            Some(rel) => project.join(rel).display().to_string(),
+            None => a.to_string(),
+        })
+        .collect();
+    let output = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
+        .current_dir(dir.path())
+        .args(&args)
+        .output()
+        .unwrap();
+    Run {
+        code: output.status.code().unwrap_or(-1),
+        stdout: String::from_utf8_lossy(&output.stdout).into_owned(),
+        stderr: String::from_utf8_lossy(&output.stderr).into_owned(),
+        dir,
+    }
+}
+
+/// Names of the files in `dir`, sorted (empty when it does not exist).
+pub fn files_in(dir: &Path) -> Vec<String> {
+    let mut out: Vec<String> = std::fs::read_dir(dir)
+        .map(|rd| {
+            rd.filter_map(|e| e.ok())
+                .map(|e| e.file_name().to_string_lossy().into_owned())
+                .collect()
+        })
+        .unwrap_or_default();
+    out.sort();
+    out
+}
 
 /// Leading and trailing edge of a mesh cut by the plane z = r: the cut points farthest
 /// apart (a sharp trailing edge makes them the two edges), the one at smaller x first
