@@ -65,6 +65,7 @@
 //! insert hole slightly under the insert's outer diameter (choose `bore.diameter` so);
 //! transitions no steeper than 45 degrees, which also print without support.
 
+use crate::design::Lengths;
 use serde::Deserialize;
 
 /// The `[root]` table of a design file (lengths in the file's unit, converted to mm by
@@ -159,6 +160,13 @@ pub struct TipSpec {
     pub length: Option<f64>,
 }
 
+impl Lengths for TipSpec {
+    fn to_mm(mut self, k: f64) -> Self {
+        self.length = self.length.map(|l| l * k);
+        self
+    }
+}
+
 /// How the blade ends at the tip.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Default)]
 #[serde(rename_all = "kebab-case")]
@@ -243,9 +251,8 @@ pub enum RootError {
     },
 }
 
-impl RootSpec {
-    /// Converts every length by `k` (file unit to mm).
-    pub fn to_mm(mut self, k: f64) -> Self {
+impl Lengths for RootSpec {
+    fn to_mm(mut self, k: f64) -> Self {
         self.shank_diameter *= k;
         self.shank_thickness = self.shank_thickness.map(|t| t * k);
         self.shank_length *= k;
@@ -267,7 +274,9 @@ impl RootSpec {
         }
         self
     }
+}
 
+impl RootSpec {
     /// Shank thickness along the rotor axis, mm.
     pub fn thickness(&self) -> f64 {
         self.shank_thickness.unwrap_or(self.shank_diameter)

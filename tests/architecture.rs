@@ -150,6 +150,9 @@ fn no_module_uses_a_stage_above_it() {
     assert!(wrong.is_empty(), "{}", wrong.join("\n"));
     // Every stage listed exists (the list stays true as modules move).
     for (name, _) in STAGES {
-        assert!(seen.contains(*name), "STAGES names '{name}', which is not in src/");
+        assert!(
+            seen.contains(*name),
+            "STAGES names '{name}', which is not in src/"
+        );
     }
 }

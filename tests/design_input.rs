@@ -161,7 +161,7 @@ fn toml_with_csv_table_and_units() {
         bore_diameter: f64,
     }
     let root: Root = d.table("root").unwrap().unwrap();
-    near(d.mm(root.bore_diameter), 8.0, 1e-9);
+    near(root.bore_diameter * d.length_to_mm, 8.0, 1e-9);
     assert!(d.table::<Root>("tip").unwrap().is_none());
 }
 

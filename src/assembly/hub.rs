@@ -31,6 +31,7 @@
 //! Sockets are radial, so a coned rotor (`rotor.cone` not 0) cannot have them.
 
 use super::rotor::{AssemblyError, BladeFacts, RotorSpec};
+use crate::design::Lengths;
 use crate::design::Rotation;
 use crate::mesh::{Part, TriMesh};
 use crate::planar::point_in_polygon;
@@ -139,9 +140,8 @@ pub struct Hub {
     pub rim_start: f64,
 }
 
-impl HubSpec {
-    /// Converts every length by `k` (file unit to mm).
-    pub fn to_mm(mut self, k: f64) -> Self {
+impl Lengths for HubSpec {
+    fn to_mm(mut self, k: f64) -> Self {
         self.thickness *= k;
         self.diameter = self.diameter.map(|v| v * k);
         self.bore = self.bore.map(|v| v * k);
@@ -151,7 +151,9 @@ impl HubSpec {
         self.socket_clearance *= k;
         self
     }
+}
 
+impl HubSpec {
     /// Checks the hub (lengths in mm) against the rotor (`rotor`, in mm) and the blade's
     /// root, and resolves its defaults and the angles of its holes for the blade's
     /// rotation sense. Errors name `rotor.<key>` or `rotor.hub.<key>`.

@@ -18,6 +18,7 @@
 //! ```
 
 use super::rotor::{blade_transform, AssemblyError, BladeFacts, RotorSpec};
+use crate::design::Lengths;
 use crate::mesh::{Part, TriMesh};
 use nalgebra::{Matrix4, Point2, Point3, Vector3};
 use serde::Deserialize;
@@ -42,9 +43,8 @@ fn default_wall() -> f64 {
     1.2
 }
 
-impl OnePieceSpec {
-    /// Converts every length by `k` (file unit to mm).
-    pub fn to_mm(mut self, k: f64) -> Self {
+impl Lengths for OnePieceSpec {
+    fn to_mm(mut self, k: f64) -> Self {
         self.thickness = self.thickness.map(|t| t * k);
         self.bore = self.bore.map(|b| b * k);
         self.wall *= k;

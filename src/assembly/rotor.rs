@@ -33,6 +33,7 @@
 
 use super::hand::{check_hand, hand_radii, HandOptions, HandReport};
 use super::hub::{Hub, HubSpec};
+use crate::design::Lengths;
 use crate::design::{Flow, Rotation};
 use crate::mesh::{Part, TriMesh};
 use crate::root::RootSpec;
@@ -109,15 +110,16 @@ pub struct RotorSpec {
 /// Largest blade count accepted (a sanity bound, not a design rule).
 pub const MAX_BLADES: u32 = 64;
 
-impl RotorSpec {
-    /// Converts every length by `k` (file unit to mm).
-    pub fn to_mm(mut self, k: f64) -> Self {
+impl Lengths for RotorSpec {
+    fn to_mm(mut self, k: f64) -> Self {
         self.hub_radius *= k;
         self.hub = self.hub.map(|h| h.to_mm(k));
         self.one_piece = self.one_piece.map(|o| o.to_mm(k));
         self
     }
+}
 
+impl RotorSpec {
     /// Checks the values (lengths in mm) against the blade, and resolves the hub: the
     /// hub's geometry when the spec asks for one.
     ///

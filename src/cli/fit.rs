@@ -97,9 +97,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         (vec![load::stl_part(&args.input)?], None, None)
     } else {
         let design = load::design(&args.input, args.section.as_deref())?;
-        let spec = design
-            .table::<PrinterSpec>("printer")?
-            .map(|s| s.scaled(design.length_to_mm));
+        let spec = design.table_mm::<PrinterSpec>("printer")?;
         let outcome = pipeline::run(&design, &pipeline::Options::default())
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
         (Vec::new(), Some(outcome), spec)

@@ -90,7 +90,7 @@
 //! whose name is a near miss of `units`, `blade` or `station`.
 //!
 //! Lengths in the other tables (`root`, `rotor`, `printer`, ...) are in the file's length
-//! unit: multiply by [`Design::length_to_mm`] (or call [`Design::mm`]).
+//! unit: read them with [`Design::table_mm`] (see [`Lengths`]).
 //!
 //! # CSV station table
 //!
@@ -130,6 +130,7 @@ mod toml_file;
 mod units;
 
 pub use error::{DesignError, Problem};
+pub use table::Lengths;
 pub use units::{AngleUnit, LengthUnit, RatioUnit};
 
 /// Largest mesh tolerance accepted from a design file or the command line, mm.

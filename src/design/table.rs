@@ -26,15 +26,30 @@ fn reword(message: &str) -> String {
     format!("expected {expected}, found {found}")
 }
 
+/// A table of a later stage whose lengths are written in the design file's length unit.
+/// [`Design::table_mm`] reads such a table and converts it in one step: the one way a
+/// length from a design file becomes millimetres.
+pub trait Lengths: Sized {
+    /// Every length multiplied by `k` (file unit to mm); angles and counts unchanged.
+    fn to_mm(self, k: f64) -> Self;
+}
+
 impl Design {
+    /// Reads the optional table `key` (see [`Design::table`]) and converts its lengths to
+    /// millimetres.
+    ///
+    /// # Errors
+    /// As [`Design::table`].
+    pub fn table_mm<T: serde::de::DeserializeOwned + Lengths>(
+        &self,
+        key: &str,
+    ) -> Result<Option<T>, DesignError> {
+        Ok(self.table::<T>(key)?.map(|t| t.to_mm(self.length_to_mm)))
+    }
+
     /// The file messages about this design name (`<design>` without a file).
     pub fn file(&self) -> &Path {
         self.source.as_deref().unwrap_or(Path::new(NO_FILE))
-    }
-
-    /// A length in the file's length unit, in mm (`value * length_to_mm`).
-    pub fn mm(&self, value: f64) -> f64 {
-        value * self.length_to_mm
     }
 
     /// A problem at a key path of this design's file (for later stages validating their
@@ -67,7 +82,7 @@ impl Design {
     /// `Ok(None)` when the design has no such table. Errors name the file and the key path,
     /// e.g. `turbine.toml:12: root.bore-diameter: expected a number, found string "8"`.
     /// Lengths in the table are in the file's length unit: convert them with
-    /// [`Design::mm`] or [`Design::length_to_mm`]. Use `#[serde(deny_unknown_fields,
+    /// [`Design::table_mm`] (implement [`Lengths`]). Use `#[serde(deny_unknown_fields,
     /// rename_all = "kebab-case")]` on `T` so typos are reported with the known keys.
     pub fn table<T: serde::de::DeserializeOwned>(
         &self,

@@ -136,13 +136,12 @@ pub struct PrinterSpec {
     pub min_feature: Option<f64>,
 }
 
-impl PrinterSpec {
-    /// Converts every length by `factor` (file unit to millimetres); presets are already
-    /// in millimetres and are not scaled.
-    pub fn scaled(&self, factor: f64) -> PrinterSpec {
+/// Presets are already in millimetres and are not scaled.
+impl crate::design::Lengths for PrinterSpec {
+    fn to_mm(self, factor: f64) -> PrinterSpec {
         let s = |v: Option<f64>| v.map(|v| v * factor);
         PrinterSpec {
-            preset: self.preset.clone(),
+            preset: self.preset,
             volume: self.volume.map(|v| v.map(|c| c * factor)),
             diameter: s(self.diameter),
             height: s(self.height),
@@ -152,7 +151,9 @@ impl PrinterSpec {
             min_feature: s(self.min_feature),
         }
     }
+}
 
+impl PrinterSpec {
     /// Fills unset fields from `other` (this one wins).
     pub fn or(&self, other: &PrinterSpec) -> PrinterSpec {
         PrinterSpec {
@@ -320,7 +321,9 @@ mod tests {
         let spec: PrinterSpec =
             toml::from_str("volume = [8.5, 8.5, 9.0]\nmargin = 0.2\nmin-feature = 0.04\n").unwrap();
         // Inches to millimetres: 25.4 mm per inch (exact by definition, NIST SP 811).
-        let p = spec.scaled(25.4).resolve("t").unwrap();
+        let p = crate::design::Lengths::to_mm(spec.clone(), 25.4)
+            .resolve("t")
+            .unwrap();
         assert!(matches!(p.volume, Volume::Box { x, .. } if (x - 215.9).abs() < 1e-9));
         assert!((p.margin - 5.08).abs() < 1e-12 && (p.min_feature - 1.016).abs() < 1e-12);
         let e = toml::from_str::<PrinterSpec>("bed-size = 3")

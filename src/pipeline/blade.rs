@@ -111,11 +111,10 @@ pub fn build_blade_timed(
 /// and `[tip]` tables.
 fn blade_model(design: &Design, sections: &[Section]) -> Result<Blade, PipelineError> {
     let mut blade = Blade::new(&design.stations, sections, &design.blade)?;
-    if let Some(root) = design.table::<RootSpec>("root")? {
-        blade = blade.with_root(root.to_mm(design.length_to_mm))?;
+    if let Some(root) = design.table_mm::<RootSpec>("root")? {
+        blade = blade.with_root(root)?;
     }
-    if let Some(mut tip) = design.table::<TipSpec>("tip")? {
-        tip.length = tip.length.map(|l| design.mm(l));
+    if let Some(tip) = design.table_mm::<TipSpec>("tip")? {
         blade = blade.with_tip(tip)?;
     }
     Ok(blade)

@@ -133,9 +133,7 @@ pub fn run(design: &Design, opts: &Options) -> Result<Outcome, PipelineError> {
 /// # Errors
 /// [`PipelineError::Design`] naming the key.
 pub fn read_rotor(design: &Design) -> Result<Option<RotorSpec>, PipelineError> {
-    Ok(design
-        .table::<RotorSpec>("rotor")?
-        .map(|s| s.to_mm(design.length_to_mm)))
+    Ok(design.table_mm::<RotorSpec>("rotor")?)
 }
 
 /// What the assembly needs to know of the built blade.
