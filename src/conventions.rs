@@ -5,9 +5,32 @@
 //! computations. Design files may state metres or inches; they are converted on reading.
 //!
 //! # Section frame
-//! Unit chord, leading edge at (0, 0), trailing edge at (1, 0); points run from the upper
-//! trailing edge over the upper surface to the leading edge and back along the lower
-//! surface (counter-clockwise). See [`crate::airfoil::Section`].
+//! Unit chord along the **chord line**, the x axis from (0, 0) to the trailing edge at
+//! (1, 0) (the midpoint of a blunt trailing edge); y toward the upper surface. Twist,
+//! stacking fraction, thickness and camber all refer to this line. Which line of the
+//! outline it is depends only on where the section comes from, one rule everywhere:
+//!
+//! * **Generated NACA 4- and 5-digit sections**: the published chord line, from the mean
+//!   line's origin to the trailing edge (NACA Reports 460 and 537); their tabulated
+//!   ordinates, camber and thickness refer to it.
+//! * **Coordinate files already normalised** (the outline passes within
+//!   [`NORMALISED_TOLERANCE`](crate::airfoil::NORMALISED_TOLERANCE) = 1e-3 chord of
+//!   (0, 0) and the trailing-edge midpoint lies that close to (1, 0)): the file's own x
+//!   axis; the coordinates are kept as given. The files in `profiles/` are written this
+//!   way, in the published frame, so a file and the designation it holds give the same
+//!   blade.
+//! * **Any other coordinate file** (in millimetres, turned, shifted): normalised. The
+//!   chord line is drawn from the trailing-edge midpoint to the point of the outline
+//!   farthest from it, and a similarity (move, turn, uniform scale) puts those two points
+//!   on (0, 0) and (1, 0).
+//!
+//! [`Section::chord_line`](crate::airfoil::Section::chord_line) records which, and
+//! `spanwright section measure` prints it. The leading-edge point, where the upper and
+//! lower surface meet, is the outline's foremost point (smallest x): (0, 0) for a section
+//! normalised to its farthest point, a little ahead of and above it for a cambered NACA
+//! section (about (-0.0003, 0.003) for a 4412). Points run from the upper trailing edge
+//! over the upper surface to the leading edge and back along the lower surface
+//! (counter-clockwise). See [`crate::airfoil::Section`].
 //!
 //! # Blade frame (right-handed, millimetres)
 //!

@@ -85,3 +85,110 @@ fn write_and_measure() {
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("naca2412"));
 }
+
+#[test]
+fn measure_states_the_chord_line_and_the_designation_camber() {
+    // Issue 14 item 3: `section measure` printed 3.8 % camber for a 4412 and 1.46 % for a
+    // 23012. Published: 4 % at 40 % chord (NACA Report 460, designation 4412) and 1.84 %
+    // at 15 % (NACA Report 537, mean line 230; Abbott & von Doenhoff, Theory of Wing
+    // Sections, 1959, section 6.5: k1/6 (p^3 - 3 m p^2 + m^2 (3 - m) p) = 1.839 % at
+    // p = 0.15, m = 0.2025, k1 = 15.957). Tolerance: 0.01 % chord in value, 1 % chord in
+    // position (equal-x midpoints, as the tables list them).
+    let dir = tempfile::tempdir().unwrap();
+    let d = dir.path();
+    for (name, camber, at) in [("naca4412", 0.04, 0.40), ("naca23012", 0.0184, 0.15)] {
+        let out = spanwright(d, &["section", "measure", name, "--json"]);
+        assert!(out.status.success());
+        let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        let c = v["measures"]["camber"].as_f64().unwrap();
+        let x = v["measures"]["camber_at"].as_f64().unwrap();
+        assert!((c - camber).abs() < 1e-4, "{name}: {c}");
+        assert!((x - at).abs() < 0.01, "{name}: at {x}");
+        let line = v["chord_line"].as_str().unwrap();
+        assert!(line.contains("mean line's origin"), "{line}");
+        let out = spanwright(d, &["section", "measure", name]);
+        let text = String::from_utf8_lossy(&out.stdout);
+        assert!(
+            text.contains("chord line           published chord line"),
+            "{text}"
+        );
+    }
+    let text = String::from_utf8_lossy(&spanwright(d, &["section", "measure", "naca4412"]).stdout)
+        .to_string();
+    assert!(
+        text.contains("max camber             4.000 % chord at  40."),
+        "{text}"
+    );
+    // A file in millimetres, turned: normalised, and the output says so.
+    let mut file = String::from("turned 4412\n");
+    let s = spanwright::airfoil::resolve("naca4412", &[])
+        .unwrap()
+        .resample(61)
+        .unwrap();
+    let (sn, cs) = 5f64.to_radians().sin_cos();
+    for p in s.points() {
+        file.push_str(&format!(
+            "{:.9} {:.9}\n",
+            80.0 * (p.x * cs - p.y * sn),
+            80.0 * (p.x * sn + p.y * cs)
+        ));
+    }
+    std::fs::write(d.join("turned.dat"), file).unwrap();
+    let out = spanwright(d, &["section", "measure", "turned.dat"]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("farthest point"), "{text}");
+    // Its chord line is 80 mm times the farthest-point distance of the 4412 (1.0003).
+    assert!(text.contains("80.02"), "{text}");
+}
+
+#[test]
+fn too_few_decimals_are_refused_and_nothing_is_written() {
+    // Issue 14 item 18: `section write --decimals 0` wrote a file the reader refused.
+    let dir = tempfile::tempdir().unwrap();
+    let d = dir.path();
+    for decimals in ["0", "3", "16"] {
+        let out = spanwright(
+            d,
+            &[
+                "section",
+                "write",
+                "naca4412",
+                "-o",
+                "x.dat",
+                "--decimals",
+                decimals,
+            ],
+        );
+        assert_eq!(out.status.code(), Some(2), "{decimals}");
+        let e = String::from_utf8_lossy(&out.stderr);
+        assert!(
+            e.contains(&format!("--decimals {decimals}")) && e.contains("4 to 15"),
+            "{e}"
+        );
+        assert!(!d.join("x.dat").exists());
+    }
+    let out = spanwright(
+        d,
+        &[
+            "section",
+            "write",
+            "naca4412",
+            "-o",
+            "x.dat",
+            "--decimals",
+            "4",
+        ],
+    );
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let out = spanwright(d, &["section", "measure", "x.dat", "--json"]);
+    assert!(out.status.success());
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    // Read back in its own frame: the published camber (Report 460) within the rounding.
+    assert!(v["chord_line"].as_str().unwrap().contains("kept as given"));
+    let c = v["measures"]["camber"].as_f64().unwrap();
+    assert!((c - 0.04).abs() < 2e-4, "{c}");
+}

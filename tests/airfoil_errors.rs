@@ -7,6 +7,7 @@ use std::path::{Path, PathBuf};
 fn good_lines() -> Vec<String> {
     let s = resolve("naca0012", &[]).unwrap().resample(41).unwrap();
     spanwright::airfoil::to_text(&s, Layout::Loop, "x", 6)
+        .unwrap()
         .lines()
         .skip(1)
         .map(String::from)

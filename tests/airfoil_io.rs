@@ -55,24 +55,31 @@ fn round_trip_both_layouts() {
 #[test]
 fn similarity_transform_is_undone() {
     // A section rotated by 17 degrees, scaled to a 123 mm chord and shifted, then listed
-    // lower surface first, normalises back to the original within 1e-6 chord
-    // (normalising is defined by the leading and trailing edge only: geometry).
-    let s = resolve("naca4415", &[]).unwrap().resample(121).unwrap();
+    // lower surface first, normalises to the same section as the unmoved outline within
+    // 1e-6 chord (normalising is defined by the trailing-edge midpoint and the farthest
+    // point only, which a similarity carries along: geometry). The unmoved outline is
+    // the generated one in its published frame; normalised, it comes in the frame drawn
+    // to the farthest point (conventions, "Section frame").
+    let published = resolve("naca4415", &[]).unwrap().resample(121).unwrap();
+    let s = normalize("s", published.points())
+        .unwrap()
+        .resample(121)
+        .unwrap();
     let rot = Rotation2::new(17f64.to_radians());
-    let moved: Vec<Point2<f64>> = s
+    let moved: Vec<Point2<f64>> = published
         .points()
         .iter()
         .rev()
         .map(|p| Point2::from(rot * p.coords * 123.0 + Vector2::new(-40.0, 7.5)))
         .collect();
-    let back = normalize("moved", &moved).unwrap();
+    let back = normalize("moved", &moved).unwrap().resample(121).unwrap();
     assert!(max_point_distance(&s, &back) < 1e-6);
     // The same through a file in millimetres with a name line and comments.
     let mut text = String::from("moved section\n# chord 123 mm\n");
     for p in &moved {
         text.push_str(&format!("{:.9}, {:.9}\n", p.x, p.y));
     }
-    let back = parse(&text, "moved.dat").unwrap();
+    let back = parse(&text, "moved.dat").unwrap().resample(121).unwrap();
     assert!(max_point_distance(&s, &back) < 1e-6);
     // And from a raw generator outline (not resampled): the resampled shapes agree.
     let d = match spanwright::airfoil::Designation::parse("naca2412") {
@@ -108,7 +115,7 @@ fn resampling_keeps_the_shape_within_1e_4() {
 #[test]
 fn layouts_and_syntax_variants_read_alike() {
     let s = resolve("naca2412", &[]).unwrap().resample(61).unwrap();
-    let loop_text = to_text(&s, Layout::Loop, "NACA 2412", 10);
+    let loop_text = to_text(&s, Layout::Loop, "NACA 2412", 10).unwrap();
     let reference = parse(&loop_text, "ref.dat").unwrap();
     let variants: Vec<(&str, String)> = vec![
         ("crlf", loop_text.replace('\n', "\r\n")),
@@ -147,7 +154,10 @@ fn layouts_and_syntax_variants_read_alike() {
             }
             t
         }),
-        ("sides", to_text(&s, Layout::Sides, "NACA 2412", 10)),
+        (
+            "sides",
+            to_text(&s, Layout::Sides, "NACA 2412", 10).unwrap(),
+        ),
         ("sides, trailing edge first", {
             let up = s.upper_te_to_le();
             let lo: Vec<_> = s.lower_le_to_te().iter().rev().copied().collect();
@@ -189,10 +199,12 @@ fn resolver_finds_designations_and_files() {
     }
     let full = dir.path().join("mine.dat");
     assert!(resolve(full.to_str().unwrap(), &[]).is_ok());
-    // Resolved sections are normalised, not resampled.
+    // Resolved sections are not resampled; a designation comes in its published frame,
+    // whose chord line starts at the mean line's origin, a point of the outline (NACA
+    // Report 460).
     let g = resolve("NACA 2412", &[]).unwrap();
     assert!(g.points().len() > 200);
-    assert!(g.points()[g.leading_edge_index()].coords.norm() < 1e-12);
+    assert!(g.points().iter().any(|p| p.coords.norm() < 1e-15));
     // Unknown names: the message lists valid forms and the files found.
     let e = resolve("clarky", &dirs).unwrap_err();
     let msg = e.to_string();

@@ -55,11 +55,13 @@ proptest! {
         dy in -1e3f64..1e3,
         reversed in any::<bool>(),
     ) {
-        // Geometry: normalising depends only on the leading and trailing edge, which a
-        // similarity transform carries along.
-        let s = resolve("naca2412", &[]).unwrap().resample(61).unwrap();
+        // Geometry: normalising depends only on the trailing-edge midpoint and the
+        // farthest point, which a similarity transform carries along: the moved outline
+        // normalises to the same section as the unmoved one.
+        let published = resolve("naca2412", &[]).unwrap().resample(61).unwrap();
+        let s = normalize("s", published.points()).unwrap();
         let rot = Rotation2::new(angle);
-        let mut moved: Vec<Point2<f64>> = s
+        let mut moved: Vec<Point2<f64>> = published
             .points()
             .iter()
             .map(|p| Point2::from(rot * p.coords * scale + Vector2::new(dx, dy)))
@@ -76,7 +78,7 @@ proptest! {
             .fold(0.0, f64::max);
         prop_assert!(worst < 1e-6, "{}", worst);
         // Written in either layout and read back: the same again.
-        let text = spanwright::airfoil::to_text(&back, if reversed { Layout::Sides } else { Layout::Loop }, "p", 12);
+        let text = spanwright::airfoil::to_text(&back, if reversed { Layout::Sides } else { Layout::Loop }, "p", 12).unwrap();
         let again = parse(&text, "p.dat").unwrap();
         let worst = again
             .points()

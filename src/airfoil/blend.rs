@@ -3,7 +3,7 @@
 
 use super::error::SectionError;
 use super::measures::{distributions, refined_max};
-use super::section::Section;
+use super::section::{ChordLine, Section};
 use nalgebra::Point2;
 
 /// Default points per side when an operation has to resample.
@@ -15,7 +15,7 @@ pub(crate) fn with_structure(s: &Section, n: usize) -> Result<Section, SectionEr
     s.resample(n).map_err(|e| SectionError::shape(s.name(), e))
 }
 
-/// Blends two normalised sections: `(1 - w) a + w b`, point by point, after resampling
+/// Blends two sections (in the section frame): `(1 - w) a + w b`, point by point, after resampling
 /// both to `n` points per side. `w = 0` gives `a`, `w = 1` gives `b`; `w` must lie in
 /// `[0, 1]`.
 pub fn blend(a: &Section, b: &Section, w: f64, n: usize) -> Result<Section, SectionError> {
@@ -41,10 +41,18 @@ pub fn blend(a: &Section, b: &Section, w: f64, n: usize) -> Result<Section, Sect
     } else {
         format!("{}~{}@{w}", a.name(), b.name())
     };
+    // Both lie in the section frame; the blend's chord line is their common x axis, named
+    // after the two only when they agree.
+    let chord_line = if ra.chord_line() == rb.chord_line() {
+        ra.chord_line()
+    } else {
+        ChordLine::Kept
+    };
     let pb = rb.points();
     Ok(ra
         .map_points(|i, p| Point2::from(p.coords * (1.0 - w) + pb[i].coords * w))
-        .with_name(name))
+        .with_name(name)
+        .with_chord_line(chord_line))
 }
 
 impl Section {
@@ -78,9 +86,11 @@ impl Section {
             nu.push(Point2::new(u.x, yc + k * (u.y - yc)));
             nl.push(Point2::new(l.x, yc + k * (l.y - yc)));
         }
-        Section::from_sides(self.name(), &nu, &nl).ok_or(SectionError::Incompatible {
-            a: self.name().into(),
-            b: self.name().into(),
-        })
+        Section::from_sides(self.name(), &nu, &nl)
+            .map(|s| s.with_chord_line(self.chord_line()))
+            .ok_or(SectionError::Incompatible {
+                a: self.name().into(),
+                b: self.name().into(),
+            })
     }
 }

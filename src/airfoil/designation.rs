@@ -2,13 +2,13 @@
 //! `naca23012`, and the closed-trailing-edge variants with the suffix `-closed`
 //! (`naca0012-closed`).
 
-use super::naca::{Naca4, TrailingEdge};
+use super::naca::{published_section, Naca4, TrailingEdge};
 use super::naca5::Naca5;
-use super::resample::{normalize, ResampleError};
+use super::resample::ResampleError;
 use super::section::Section;
 use nalgebra::Point2;
 
-/// Raw points per side used to generate a normalised (not resampled) section.
+/// Raw points per side used to generate a section (not resampled).
 pub const GENERATED_POINTS: usize = 241;
 
 /// A generated section.
@@ -119,9 +119,10 @@ impl Designation {
         }
     }
 
-    /// The normalised section (not resampled), generated from [`GENERATED_POINTS`]
-    /// stations per side.
+    /// The section in its published frame (chord line from the mean line's origin to
+    /// the trailing edge), not resampled, generated from [`GENERATED_POINTS`] stations
+    /// per side.
     pub fn section(&self) -> Result<Section, ResampleError> {
-        normalize(&self.name(), &self.raw_outline(GENERATED_POINTS))
+        published_section(&self.name(), &self.raw_outline(GENERATED_POINTS))
     }
 }

@@ -117,6 +117,16 @@ pub enum SectionError {
         /// Accepted range and fix.
         fix: &'static str,
     },
+    /// A section cannot be written with this many decimal places.
+    #[error("cannot write the section with {decimals} decimal places: {reason}; {fix}")]
+    Decimals {
+        /// Decimal places asked for.
+        decimals: usize,
+        /// What would go wrong.
+        reason: String,
+        /// The number of decimal places that works.
+        fix: String,
+    },
     /// Two sections do not share a point structure.
     #[error("sections `{a}` and `{b}` do not have the same point structure; resample both to the same number of points per side first")]
     Incompatible {

@@ -11,12 +11,16 @@
 //! The layout is detected from the data: a first data line of two whole numbers `>= 3`
 //! whose sum equals the number of coordinate lines that follow is read as the counts.
 //!
-//! The outline is then normalised (see [`normalize`](super::normalize)) and checked: at
-//! least [`MIN_POINTS`] distinct points, every point within the unit chord (with a margin
-//! of [`RANGE_MARGIN`]), no self-intersection, each surface single-valued in x.
+//! The outline is then brought into the section frame by the rule of
+//! [`crate::conventions`] ("Section frame", see [`to_section_frame`]): coordinates
+//! already normalised keep their own chord line and are taken as they are; any other
+//! outline is normalised to its farthest point, and the section's
+//! [`chord_line`](Section::chord_line) says so. Then it is checked: at least
+//! [`MIN_POINTS`] distinct points, every point within the unit chord (with a margin of
+//! [`RANGE_MARGIN`]), no self-intersection, each surface single-valued in x.
 
 use super::error::SectionError;
-use super::resample::{normalize_with_frame, Frame};
+use super::resample::{to_section_frame, Frame};
 use super::section::Section;
 use nalgebra::Point2;
 use std::path::Path;
@@ -24,7 +28,8 @@ use std::path::Path;
 /// Fewest distinct points accepted in a section file.
 pub const MIN_POINTS: usize = 10;
 
-/// Margin (fraction of chord) by which a normalised point may lie outside `0 <= x <= 1`.
+/// Margin (fraction of chord) by which a point in the section frame may lie outside
+/// `0 <= x <= 1`.
 pub const RANGE_MARGIN: f64 = 0.02;
 
 /// Smallest enclosed area accepted, chord² (a 0.1 % thick section has about 7e-4).
@@ -43,7 +48,7 @@ pub enum Layout {
     Sides,
 }
 
-/// A parsed file before normalising: the points in loop order with their line numbers.
+/// A parsed file before it is brought into the section frame: the points in loop order with their line numbers.
 #[derive(Debug, Clone, PartialEq)]
 pub struct RawOutline {
     /// The name line, if the file has one.
@@ -250,7 +255,7 @@ fn band_extent(section: &Section, lo: f64, hi: f64) -> Option<f64> {
     Some(max - min)
 }
 
-/// True when the normalised outline is thicker near its trailing edge than near its
+/// True when the outline in the section frame is thicker near its trailing edge than near its
 /// leading edge: the loop started at the leading edge instead.
 fn looks_backwards(section: &Section) -> bool {
     match (
@@ -287,7 +292,8 @@ fn start_at_trailing_edge(pts: &[Point2<f64>], lines: &[usize]) -> (Vec<Point2<f
     (p, l)
 }
 
-/// Normalises and checks a raw outline; `name` becomes the section's name.
+/// Brings a raw outline into the section frame (kept when already normalised, normalised
+/// otherwise: [`to_section_frame`]) and checks it; `name` becomes the section's name.
 pub fn normalize_raw(raw: &RawOutline, name: &str, file: &str) -> Result<Section, SectionError> {
     let (mut pts, mut lines) = dedup_lines(raw);
     if pts.len() < MIN_POINTS {
@@ -305,12 +311,12 @@ pub fn normalize_raw(raw: &RawOutline, name: &str, file: &str) -> Result<Section
         });
     }
     let (mut section, mut frame) =
-        normalize_with_frame(name, &pts).map_err(|e| SectionError::shape(file, e))?;
+        to_section_frame(name, &pts).map_err(|e| SectionError::shape(file, e))?;
     if raw.layout == Layout::Loop && looks_backwards(&section) {
         // A loop that starts at the leading edge: start it at the trailing edge instead.
         (pts, lines) = start_at_trailing_edge(&pts, &lines);
         (section, frame) =
-            normalize_with_frame(name, &pts).map_err(|e| SectionError::shape(file, e))?;
+            to_section_frame(name, &pts).map_err(|e| SectionError::shape(file, e))?;
     }
     if section.area() < MIN_AREA {
         return Err(SectionError::shape(
@@ -325,7 +331,7 @@ pub fn normalize_raw(raw: &RawOutline, name: &str, file: &str) -> Result<Section
     Ok(section)
 }
 
-/// Every point within the unit chord after normalising.
+/// Every point within the unit chord in the section frame.
 fn check_range(
     pts: &[Point2<f64>],
     lines: &[usize],
@@ -346,7 +352,7 @@ fn check_range(
     Ok(())
 }
 
-/// Parses and normalises the text of a section file. `file` names the source in messages
+/// Parses the text of a section file and brings it into the section frame. `file` names the source in messages
 /// and, without directory and extension, becomes the section's name.
 pub fn parse(text: &str, file: &str) -> Result<Section, SectionError> {
     let raw = parse_raw(text, file)?;
@@ -357,7 +363,7 @@ pub fn parse(text: &str, file: &str) -> Result<Section, SectionError> {
     normalize_raw(&raw, name, file)
 }
 
-/// Reads, parses and normalises a section file.
+/// Reads and parses a section file and brings it into the section frame.
 pub fn read(path: &Path) -> Result<Section, SectionError> {
     let file = path.display().to_string();
     let bytes = std::fs::read(path).map_err(|cause| SectionError::Io {

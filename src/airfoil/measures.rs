@@ -11,8 +11,12 @@ pub const MEASURE_POINTS: usize = 401;
 
 /// Measures of a unit-chord section (all lengths in chord units, areas in chord²).
 /// Thickness and camber are taken at equal x on both surfaces, perpendicular to the
-/// chord line (common practice), from a resampling with [`MEASURE_POINTS`] per side; the
-/// maxima are refined by a parabola through the three best stations.
+/// section's chord line (the x axis; which line that is, [`Section::chord_line`] says),
+/// as the NACA tables list ordinates at common stations (Abbott & von Doenhoff, *Theory
+/// of Wing Sections*, Dover 1959, Appendices I and II), from a resampling with
+/// [`MEASURE_POINTS`] per side; the maxima are refined by a parabola through the three
+/// best stations. On a generated NACA section in its published frame they give the
+/// designation's camber and thickness (4.0 % at 40 % and 12.0 % for a 4412).
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct Measures {
     /// Maximum thickness, fraction of chord.
@@ -25,6 +29,10 @@ pub struct Measures {
     pub camber_at: f64,
     /// Trailing-edge thickness: distance between the two trailing-edge points.
     pub te_thickness: f64,
+    /// The leading-edge point (the outline's foremost point), chord units: (0, 0) when
+    /// the chord line was drawn to the farthest point, a little ahead of and above it on
+    /// a cambered section in its published frame.
+    pub leading_edge: [f64; 2],
     /// Leading-edge radius estimate: radius of curvature of the outline's spline at the
     /// leading edge.
     pub le_radius: f64,
@@ -88,7 +96,7 @@ pub(crate) fn area_centroid(p: &[Point2<f64>]) -> (f64, Point2<f64>) {
 }
 
 impl Section {
-    /// Measures of a normalised section (see [`Measures`]).
+    /// Measures of a section in the section frame (see [`Measures`]).
     pub fn measures(&self) -> Result<Measures, ResampleError> {
         let r = self.resample(MEASURE_POINTS)?;
         let (x, t, c) = distributions(&r);
@@ -118,7 +126,9 @@ impl Section {
             })
             .unwrap_or(0.0);
         let (area, centroid) = area_centroid(self.points());
+        let le = self.points()[self.leading_edge_index()];
         Ok(Measures {
+            leading_edge: [le.x, le.y],
             thickness,
             thickness_at,
             camber,

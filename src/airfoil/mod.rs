@@ -35,10 +35,11 @@ pub use measures::{Measures, MEASURE_POINTS};
 pub use naca::{naca4_half_thickness, naca4_mean_line, Naca4, TrailingEdge};
 pub use naca5::Naca5;
 pub use resample::{
-    cosine_stations, normalize, normalize_with_frame, Frame, ResampleError, LE_SNAP,
+    cosine_stations, is_normalised, keep_frame, normalize, normalize_with_frame, to_section_frame,
+    Frame, ResampleError, LE_SNAP, NORMALISED_TOLERANCE,
 };
 pub use resolve::{find_file, resolve, EXTENSIONS};
-pub use section::Section;
+pub use section::{ChordLine, Section};
 pub use spline::Spline2;
 pub use thicken::{thicken_te, Thickened};
-pub use write::{to_text, write, DEFAULT_DECIMALS};
+pub use write::{to_text, write, DEFAULT_DECIMALS, MAX_DECIMALS, MIN_DECIMALS};

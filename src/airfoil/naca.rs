@@ -6,12 +6,12 @@
 //!   `x_u = x - y_t sin(theta)`, `y_u = y_c + y_t cos(theta)`, lower with the signs flipped,
 //!   `theta = atan(dy_c/dx)`.
 //!
-//! Generated outlines are normalised (leading edge = point farthest from the trailing
-//! edge) and resampled like any imported section, so every source yields the same
-//! structure.
+//! Generated outlines come out in the published frame, whose chord line runs from the
+//! mean line's origin to the trailing edge (see [`published_section`]), and are
+//! resampled like any imported section, so every source yields the same structure.
 
-use super::resample::{cosine_stations, normalize, ResampleError};
-use super::section::Section;
+use super::resample::{cosine_stations, keep_frame, ResampleError};
+use super::section::{ChordLine, Section};
 use nalgebra::Point2;
 
 /// Trailing-edge closure of the 4-digit thickness polynomial.
@@ -87,10 +87,38 @@ impl Naca4 {
         thickened_outline(n, self.t, self.te, |x| naca4_mean_line(x, self.m, self.p))
     }
 
-    /// The normalised section, resampled to `n` points per side.
+    /// The section in its published frame, resampled to `n` points per side.
     pub fn section(&self, name: &str, n: usize) -> Result<Section, ResampleError> {
-        normalize(name, &self.raw_outline(n.max(200) * 2))?.resample(n)
+        published_section(name, &self.raw_outline(n.max(200) * 2))?.resample(n)
     }
+}
+
+/// The section of a generated raw outline (loop order) in the published frame of NACA
+/// Reports 460 and 537: the chord line runs from the mean line's origin, where upper and
+/// lower surface meet at `x = 0` (the thickness is zero there), to the trailing edge,
+/// the midpoint `(1, y_c(1))` of the two trailing-edge points (thickness is laid off
+/// symmetrically about the mean line). The raw outline is in that frame already
+/// (`y_c(1) = 0`), except the reflexed 5-digit mean lines, whose rounded tabulated
+/// `k2/k1` leave `|y_c(1)|` below 1e-4; a turn and scale about the origin puts their
+/// trailing edge exactly on (1, 0). The coordinates are then kept as they are
+/// ([`keep_frame`]); the chord line is [`ChordLine::Published`].
+pub(crate) fn published_section(name: &str, raw: &[Point2<f64>]) -> Result<Section, ResampleError> {
+    let (Some(first), Some(last)) = (raw.first(), raw.last()) else {
+        return Err(ResampleError::TooFewPoints(0));
+    };
+    let te = nalgebra::center(first, last);
+    let l2 = te.coords.norm_squared();
+    if !(l2 > 0.0) || !l2.is_finite() {
+        return Err(ResampleError::Degenerate);
+    }
+    // Multiplying by the complex conjugate of te / |te|^2 maps te to (1, 0) and keeps
+    // the origin: the identity when te is (1, 0).
+    let (c, s) = (te.x / l2, te.y / l2);
+    let mapped: Vec<Point2<f64>> = raw
+        .iter()
+        .map(|p| Point2::new(c * p.x + s * p.y, c * p.y - s * p.x))
+        .collect();
+    Ok(keep_frame(name, &mapped)?.with_chord_line(ChordLine::Published))
 }
 
 /// Lays the 4-digit thickness distribution perpendicular to a mean line given as

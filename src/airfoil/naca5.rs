@@ -14,8 +14,8 @@
 //! y_c = k1 m^3 / 6 (1 - x)                      m <= x <= 1
 //! ```
 
-use super::naca::{thickened_outline, TrailingEdge};
-use super::resample::{normalize, ResampleError};
+use super::naca::{published_section, thickened_outline, TrailingEdge};
+use super::resample::ResampleError;
 use super::section::Section;
 use nalgebra::Point2;
 
@@ -133,9 +133,9 @@ impl Naca5 {
         thickened_outline(n, self.t, self.te, |x| self.mean_line(x))
     }
 
-    /// The normalised section, resampled to `n` points per side.
+    /// The section in its published frame, resampled to `n` points per side.
     pub fn section(&self, name: &str, n: usize) -> Result<Section, ResampleError> {
-        normalize(name, &self.raw_outline(n.max(200) * 2))?.resample(n)
+        published_section(name, &self.raw_outline(n.max(200) * 2))?.resample(n)
     }
 }
 

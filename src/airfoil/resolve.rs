@@ -10,7 +10,8 @@ use std::path::{Path, PathBuf};
 /// File extensions tried after the bare name.
 pub const EXTENSIONS: [&str; 2] = ["dat", "txt"];
 
-/// Returns the normalised (not resampled) section named `name`:
+/// Returns the section named `name` in the section frame (not resampled), its chord
+/// line chosen by the rule of [`crate::conventions`] ("Section frame"):
 ///
 /// 1. a designation (`naca2412`, `NACA 2412`, `naca0012-closed`, `naca23012`), generated;
 /// 2. a file path as given;

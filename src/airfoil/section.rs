@@ -2,18 +2,28 @@
 //!
 //! # Convention (kept everywhere in spanwright)
 //!
+//! The frame and its chord line are stated once, in [`crate::conventions`] ("Section
+//! frame"); what follows is how a [`Section`] holds its points in that frame.
+//!
 //! ```text
 //!        y (toward the upper, usually suction, surface)
 //!        ^      upper surface: points 0 ..= le
 //!        |   .-~~~~~~~~~~-.__
-//!   LE  (0,0)                 ~~--.__  TE (1, +g/2) = points[0]
+//!   LE   o  (0,0)             ~~--.__  TE (1, +g/2) = points[0]
 //!        |                          |  trailing-edge segment (length g, may be 0)
 //!         `-.__________________.--~    TE (1, -g/2) = points[n-1]
-//!               lower surface: points le ..= n-1            -> x (chordwise)
+//!               lower surface: points le ..= n-1            -> x (along the chord line)
 //! ```
 //!
-//! * Leading edge at (0, 0); trailing edge at (1, 0), the midpoint of the trailing-edge
-//!   segment when the trailing edge is blunt.
+//! * The chord line is the x axis, from (0, 0) to (1, 0); the trailing edge is at
+//!   (1, 0), the midpoint of the trailing-edge segment when the trailing edge is blunt.
+//! * The leading-edge point `points[le]`, where the upper surface meets the lower one,
+//!   is the outline's foremost point (smallest x), so that each surface is single-valued
+//!   in x from it. Where it lies relative to (0, 0) depends on the chord line
+//!   ([`Section::chord_line`]; see the conventions): at (0, 0) for a chord line drawn to
+//!   the farthest point, a little ahead of and above it on a cambered NACA section,
+//!   whose published chord line starts at the mean line's origin, a point of the nose
+//!   that is not its foremost one.
 //! * Points run from the upper trailing edge over the upper surface to the leading edge
 //!   and back along the lower surface to the lower trailing edge. The loop is closed by
 //!   the trailing-edge segment `points[n-1] -> points[0]`; for a sharp trailing edge
@@ -23,18 +33,68 @@
 //!   counter-clockwise in (x, y) and its signed (shoelace) area is positive.
 //!
 //! A *resampled* section (see [`Section::resample`]) has exactly `n` points per side
-//! (leading edge shared), at the same chordwise stations on both sides, so that any two
-//! resampled sections with the same `n` correspond point by point: this is what blending
-//! and lofting rely on. (When a blunt trailing edge is slanted to the chord, as on a
+//! (leading edge shared), at the same chordwise stations on both sides, cosine-spaced
+//! from the leading-edge point's x to the trailing edge, so that any two resampled
+//! sections with the same `n` correspond point by point: this is what blending and
+//! lofting rely on. (When a blunt trailing edge is slanted to the chord, as on a
 //! cambered section with open trailing edge, each side's stations end at that side's
 //! trailing-edge x; the two differ by at most a few 1e-4 chord.)
-//!
-//! A *normalised* section takes as leading edge the point of the outline farthest from
-//! the trailing-edge midpoint. On a cambered NACA section this lies slightly above the
-//! mean line's origin, so its chord line is turned by a fraction of a degree from the
-//! designation's nominal chord (about 0.1 degree for a 2412, 0.3 degree for a 23012).
 
+use super::resample::{Frame, NORMALISED_TOLERANCE};
 use nalgebra::Point2;
+
+/// Which line a section's x axis (its chord line) is, by where the section came from
+/// (the rule is stated in [`crate::conventions`], "Section frame").
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum ChordLine {
+    /// A generated designation's published chord line: from the mean line's origin to
+    /// the trailing edge (NACA Reports 460 and 537).
+    Published,
+    /// The coordinates' own x axis: they were already in the section frame (leading edge
+    /// at (0, 0) and trailing edge at (1, 0) within [`NORMALISED_TOLERANCE`]) and are
+    /// kept as given. Also the chord line of sections built point by point.
+    Kept,
+    /// Drawn from the trailing-edge midpoint to the outline's farthest point: the
+    /// outline was not in the section frame and was normalised by the similarity
+    /// `frame` (move, turn, scale).
+    Normalised(Frame),
+}
+
+impl ChordLine {
+    /// A few words for a file's name line.
+    pub fn brief(&self) -> &'static str {
+        match self {
+            ChordLine::Published => {
+                "published chord line (from the mean line's origin to the trailing edge)"
+            }
+            ChordLine::Kept => "chord line as given",
+            ChordLine::Normalised(_) => {
+                "normalised: chord line drawn from the trailing edge to the farthest point"
+            }
+        }
+    }
+}
+
+impl std::fmt::Display for ChordLine {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            ChordLine::Published => write!(
+                f,
+                "published chord line of the designation, from the mean line's origin to the trailing edge (NACA Reports 460 and 537)"
+            ),
+            ChordLine::Kept => write!(
+                f,
+                "the coordinates' own x axis, kept as given (leading edge at (0, 0) and trailing edge at (1, 0) within {NORMALISED_TOLERANCE} chord)"
+            ),
+            ChordLine::Normalised(frame) => write!(
+                f,
+                "drawn from the trailing-edge midpoint to the farthest point of the outline (the coordinates were not normalised: that line was {:.6} long at {:.4} degrees to their x axis, now moved to (0, 0)-(1, 0))",
+                frame.chord,
+                frame.angle().to_degrees()
+            ),
+        }
+    }
+}
 
 /// A closed airfoil outline in unit-chord coordinates (see the module docs for the
 /// point order and frame).
@@ -43,12 +103,14 @@ pub struct Section {
     name: String,
     points: Vec<Point2<f64>>,
     le: usize,
+    chord_line: ChordLine,
 }
 
 impl Section {
     /// Builds a section from points already in the spanwright order and frame, with the
-    /// leading edge at index `le`. The points are taken as they are; use the import or
-    /// generator functions for raw data that needs normalising.
+    /// leading edge at index `le`. The points are taken as they are (chord line
+    /// [`ChordLine::Kept`]); use the import or generator functions for raw data that
+    /// needs normalising.
     ///
     /// # Panics
     /// Never; returns `None` when `le` is not an interior index or fewer than 3 points
@@ -65,6 +127,7 @@ impl Section {
             name: name.into(),
             points,
             le,
+            chord_line: ChordLine::Kept,
         })
     }
 
@@ -76,6 +139,18 @@ impl Section {
     /// Renames the section.
     pub fn with_name(mut self, name: impl Into<String>) -> Self {
         self.name = name.into();
+        self
+    }
+
+    /// Which line the x axis is (how the section came into the section frame).
+    pub fn chord_line(&self) -> ChordLine {
+        self.chord_line
+    }
+
+    /// The same section, its chord line described as `chord_line` (the points are not
+    /// moved).
+    pub fn with_chord_line(mut self, chord_line: ChordLine) -> Self {
+        self.chord_line = chord_line;
         self
     }
 
@@ -160,7 +235,8 @@ impl Section {
         Self::from_ordered(name, points, n - 1)
     }
 
-    /// Maps every point through `f` (for example to scale thickness), keeping order.
+    /// Maps every point through `f` (for example to scale thickness), keeping order and
+    /// the chord-line description.
     pub fn map_points(&self, mut f: impl FnMut(usize, Point2<f64>) -> Point2<f64>) -> Section {
         Section {
             name: self.name.clone(),
@@ -171,6 +247,7 @@ impl Section {
                 .map(|(i, &p)| f(i, p))
                 .collect(),
             le: self.le,
+            chord_line: self.chord_line,
         }
     }
 }

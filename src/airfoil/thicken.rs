@@ -79,10 +79,12 @@ pub fn thicken_te(section: &Section, min_te: f64, n: usize) -> Result<Thickened,
         nu.push(Point2::new(u.x, u.y + d));
         nl.push(Point2::new(l.x, l.y - d));
     }
-    let out = Section::from_sides(section.name(), &nu, &nl).ok_or(SectionError::Incompatible {
-        a: section.name().into(),
-        b: section.name().into(),
-    })?;
+    let out = Section::from_sides(section.name(), &nu, &nl)
+        .map(|s| s.with_chord_line(section.chord_line()))
+        .ok_or(SectionError::Incompatible {
+            a: section.name().into(),
+            b: section.name().into(),
+        })?;
     let (area_after, _) = area_centroid(out.points());
     let te_after = nu[nu.len() - 1].y - nl[nl.len() - 1].y;
     Ok(Thickened {

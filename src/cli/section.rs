@@ -53,7 +53,7 @@ struct WriteArgs {
     /// Points per surface, leading and trailing edge included (cosine spacing).
     #[arg(short = 'n', long, default_value_t = 81)]
     points: usize,
-    /// Decimal places of the coordinates.
+    /// Decimal places of the coordinates (4 to 15).
     #[arg(long, default_value_t = airfoil::DEFAULT_DECIMALS)]
     decimals: usize,
     /// Blend with this second section (designation or file) ...
@@ -161,13 +161,22 @@ fn write(a: WriteArgs, ctx: &super::Context) -> anyhow::Result<super::Verdict> {
         }
         s = th.section;
     }
-    title.push_str(&format!("; {n} points per surface"));
+    title.push_str(&format!(
+        "; {}; {n} points per surface",
+        s.chord_line().brief()
+    ));
     let layout = match a.layout {
         LayoutArg::Loop => Layout::Loop,
         LayoutArg::Sides => Layout::Sides,
     };
-    airfoil::write(&a.output, &s, layout, &title, a.decimals)
-        .with_context(|| format!("writing {}", a.output.display()))?;
+    let text = airfoil::to_text(&s, layout, &title, a.decimals).with_context(|| {
+        format!(
+            "writing {} with --decimals {}",
+            a.output.display(),
+            a.decimals
+        )
+    })?;
+    spanwright::atomic::write_atomic(&a.output, |w| w.write_all(text.as_bytes()))?;
     if !ctx.quiet {
         if let Some(note) = note {
             outln!("{note}");
@@ -188,22 +197,33 @@ fn measure(a: MeasureArgs) -> anyhow::Result<super::Verdict> {
     let m = s
         .measures()
         .map_err(|e| airfoil::SectionError::shape(s.name(), e))?;
+    let chord_line = s.chord_line().to_string();
     if a.json {
-        let v = serde_json::json!({ "section": s.name(), "measures": m });
+        let v = serde_json::json!({
+            "section": s.name(),
+            "chord_line": chord_line,
+            "measures": m,
+        });
         outln!("{}", serde_json::to_string_pretty(&v)?);
         return Ok(super::Verdict::Done);
     }
     outln!(
-        "section {} (unit chord; leading edge at (0, 0), trailing edge at (1, 0))",
+        "section {} (unit chord: chord line along x from (0, 0) to the trailing edge at (1, 0))",
         s.name()
     );
+    outln!("  chord line           {chord_line}");
     outln!(
-        "  max thickness        {:7.3} % chord at {:5.1} % chord",
+        "  leading edge         ({:.5}, {:.5}) chord (foremost point)",
+        m.leading_edge[0],
+        m.leading_edge[1]
+    );
+    outln!(
+        "  max thickness        {:7.3} % chord at {:5.1} % chord (perpendicular to the chord line)",
         m.thickness * 100.0,
         m.thickness_at * 100.0
     );
     outln!(
-        "  max camber           {:7.3} % chord at {:5.1} % chord",
+        "  max camber           {:7.3} % chord at {:5.1} % chord (from the chord line)",
         m.camber * 100.0,
         m.camber_at * 100.0
     );

@@ -115,7 +115,7 @@ pub fn resolve_sections(design: &Design) -> Result<(Vec<Section>, Vec<TeChange>)
             (other, _) => other,
         };
         match shaped {
-            Ok(s) => out.push(in_designation_frame(&st.section, s)),
+            Ok(s) => out.push(s),
             Err(error) => errors.push(StationSectionError {
                 origin: st.origin.clone(),
                 section: st.section.clone(),
@@ -129,44 +129,6 @@ pub fn resolve_sections(design: &Design) -> Result<(Vec<Section>, Vec<TeChange>)
     } else {
         Err(PipelineError::Sections(errors))
     }
-}
-
-/// Generated sections are normalised like any file (leading edge = the outline point
-/// farthest from the trailing edge), but a designation's own chord line runs from the
-/// mean line's origin to the trailing edge (NACA Reports 460 and 537), and twist and
-/// published polars refer to that line. For a cambered section the two differ by a
-/// fraction of a degree (about 0.3 degrees for a 4415), so the station section is mapped
-/// back into the designation's frame: the similarity fixed by two points of the outline
-/// whose positions are known in both frames. Sections from files keep their normalised
-/// frame. Symmetric sections are unchanged.
-fn in_designation_frame(name: &str, section: Section) -> Section {
-    use crate::airfoil::{Designation, Parsed, GENERATED_POINTS};
-    let Parsed::Valid(d) = Designation::parse(name) else {
-        return section;
-    };
-    let raw = d.raw_outline(GENERATED_POINTS);
-    let Ok(norm) = d.section() else {
-        return section;
-    };
-    // Upper trailing edge and mid-chord of the upper surface: same indices in the raw
-    // outline and in the normalised one (normalising only inserts the leading edge).
-    let k = GENERATED_POINTS / 2;
-    let (a0, ak) = (norm.points()[0], norm.points()[k]);
-    let (b0, bk) = (raw[0], raw[k]);
-    let (da, db) = (ak - a0, bk - b0);
-    let den = da.norm_squared();
-    if !(den > 0.0) {
-        return section;
-    }
-    // Complex ratio db / da: rotation and scale.
-    let (re, im) = (
-        (db.x * da.x + db.y * da.y) / den,
-        (db.y * da.x - db.x * da.y) / den,
-    );
-    section.map_points(|_, p| {
-        let d = p - a0;
-        nalgebra::Point2::new(b0.x + re * d.x - im * d.y, b0.y + im * d.x + re * d.y)
-    })
 }
 
 /// A blade's trailing edge is either sharp at every station or blunt at every station:
