@@ -141,6 +141,7 @@ fn demo_stations() -> Vec<Station> {
                 thickness: None,
                 sweep: 0.0,
                 prebend: 0.0,
+                stacking: None,
                 origin: format!("demo row {i}"),
             }
         })
