@@ -335,3 +335,141 @@ fn mixed_rules_hold_at_their_stations() {
         .rule_text()
         .starts_with("per station (centroid at r = 50.0 mm"));
 }
+
+/// Attributes of every `<tag .../>` element of an SVG text (our writer puts each element
+/// on one line with `key="value"` attributes).
+fn elements(svg: &str, tag: &str) -> Vec<std::collections::HashMap<String, String>> {
+    let open = format!("<{tag} ");
+    svg.lines()
+        .filter_map(|l| l.trim().strip_prefix(&open))
+        .map(|rest| {
+            rest.split("\" ")
+                .filter_map(|kv| kv.split_once("=\""))
+                .map(|(k, v)| (k.trim().to_string(), v.trim_end_matches("\"/>").to_string()))
+                .collect()
+        })
+        .collect()
+}
+
+fn points(attr: &str) -> Vec<(f64, f64)> {
+    attr.split_whitespace()
+        .map(|p| {
+            let (x, y) = p.split_once(',').unwrap();
+            (x.parse().unwrap(), y.parse().unwrap())
+        })
+        .collect()
+}
+
+#[test]
+fn three_view_draws_the_swept_axis() {
+    // The tapered blade's axis is the line x = 0.02 (z - 100), y = -0.01 (z - 100). The
+    // plan view maps (z, x) to (right, up) and the edge view (z, y) to (right, up) at one
+    // scale, so the drawn axis is straight with pixel slopes -0.02 and +0.01 (y down).
+    let m = model_at(&design(&tapered("\"centroid\"")), None);
+    let axis = m.blade.stacking_axis(32);
+    let svg = spanwright::report::three_view_svg("t", m.mesh(), &axis, true);
+    let lines: Vec<Vec<(f64, f64)>> = elements(&svg, "polyline")
+        .iter()
+        .filter(|e| e["stroke"] == spanwright::report::AXIS_COLOUR)
+        .map(|e| points(&e["points"]))
+        .collect();
+    assert_eq!(lines.len(), 2, "plan and edge view");
+    for (line, slope) in lines.iter().zip([-0.02, 0.01]) {
+        let (a, b) = (line[0], line[line.len() - 1]);
+        let s = (b.1 - a.1) / (b.0 - a.0);
+        assert!((s - slope).abs() < 2e-4, "slope {s} vs {slope}");
+        // Straight: every point within the 0.01 px the writer rounds to (and a little).
+        for p in line {
+            let off = (p.1 - a.1) - s * (p.0 - a.0);
+            assert!(off.abs() < 0.02, "{p:?} off the line by {off}");
+        }
+    }
+    assert!(svg.contains(">stacking axis</text>"));
+    // Without an axis nothing is drawn in its colour.
+    let plain = spanwright::report::three_view_svg("t", m.mesh(), &[], true);
+    assert!(!plain.contains(spanwright::report::AXIS_COLOUR));
+}
+
+#[test]
+fn transition_picture_marks_the_axis_on_the_rotor_axis() {
+    // No sweep or prebend: the stacking axis is the z axis, so seen from the tip every
+    // cross sits where the picture's dashed x and y axes (through x = y = 0) meet.
+    let d = design(
+        r#"
+        [blade]
+        stacking = "centroid"
+        section = "naca4415"
+        [[station]]
+        radius = 75
+        chord = 60
+        twist = 25
+        [[station]]
+        radius = 280
+        chord = 25
+        twist = 3
+        [root]
+        shank-diameter = 24
+        shank-length = 25
+        transition-length = 30
+        "#,
+    );
+    let m = model_at(&d, None);
+    let svg = spanwright::report::transition_svg(&m.blade, 8);
+    let dashed: Vec<_> = elements(&svg, "line")
+        .into_iter()
+        .filter(|e| e.contains_key("stroke-dasharray"))
+        .collect();
+    let v: f64 = dashed.iter().find(|e| e["x1"] == e["x2"]).unwrap()["x1"]
+        .parse()
+        .unwrap();
+    let h: f64 = dashed.iter().find(|e| e["y1"] == e["y2"]).unwrap()["y1"]
+        .parse()
+        .unwrap();
+    let crosses: Vec<_> = elements(&svg, "line")
+        .into_iter()
+        .filter(|e| e["stroke"] == spanwright::report::AXIS_COLOUR)
+        .collect();
+    // Two strokes per cross: root face, 8 transition sections (the last one is the first
+    // station) and the tip station.
+    assert_eq!(crosses.len(), 2 * 10, "{}", crosses.len());
+    for c in crosses {
+        let mid =
+            |a: &str, b: &str| 0.5 * (c[a].parse::<f64>().unwrap() + c[b].parse::<f64>().unwrap());
+        assert!((mid("x1", "x2") - v).abs() < 0.02 && (mid("y1", "y2") - h).abs() < 0.02);
+    }
+}
+
+#[test]
+fn report_states_the_rule_and_draws_the_axis() {
+    use spanwright::props::{Fill, Material};
+    use spanwright::report::{self, ReportInput};
+    let d = design(&tapered("\"centroid\""));
+    let m = model_at(&d, None);
+    let parts = [m.checked_part().unwrap()];
+    let input = ReportInput {
+        name: "t".into(),
+        source: None,
+        parts: &parts,
+        stations: Some(&d.stations),
+        blade: Some(&m.blade),
+        material: Material::preset("pla").unwrap(),
+        fill: Fill::SOLID,
+        load: None,
+        extra_radii: vec![],
+        stress_cuts: 11,
+        picture_cuts: 5,
+    };
+    let (rep, pics) = report::build(&input, &mut |_, _| {}).unwrap();
+    let s = rep
+        .stacking
+        .as_ref()
+        .expect("a report from a design states its stacking");
+    assert_eq!(s.rule, Some(Stacking::Centroid));
+    assert_eq!(s.stations.len(), 3);
+    let json = serde_json::to_value(&rep).unwrap();
+    assert_eq!(json["stacking"]["rule"], "centroid");
+    assert!(json["stacking"]["centroid_offset"].as_f64().unwrap() < 1e-9);
+    // Both pictures that look along the span or across it carry the axis.
+    assert!(pics.three_view.contains(report::AXIS_COLOUR));
+    assert!(pics.sections.contains(report::AXIS_COLOUR));
+}

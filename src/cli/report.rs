@@ -116,17 +116,19 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         );
     }
     let first = &args.input[0];
-    let (name, parts, design) = if args.input.iter().all(|p| is_stl(p)) {
+    let (name, parts, design, model) = if args.input.iter().all(|p| is_stl(p)) {
         let mut parts = Vec::new();
         for p in &args.input {
             parts.push(spanwright::fit::read_stl_part(p)?);
         }
-        (parts[0].name.clone(), parts, None)
+        (parts[0].name.clone(), parts, None, None)
     } else if args.input.len() == 1 {
         let design = spanwright::design::load(first)?;
-        let parts = spanwright::pipeline::build_parts(&design)
+        let built = spanwright::pipeline::build(&design, &Default::default())
+            .and_then(|m| Ok((m.checked_part()?, m)))
             .with_context(|| format!("building the parts of {}", first.display()))?;
-        (design.name.clone(), parts, Some(design))
+        let (part, model) = built;
+        (design.name.clone(), vec![part], Some(design), Some(model))
     } else {
         anyhow::bail!(
             "{} inputs given: give one design file, or one or more STL files",
@@ -171,6 +173,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<ExitCode> {
         source: Some(source),
         parts: &parts,
         stations: design.as_ref().map(|d| d.stations.as_slice()),
+        blade: model.as_ref().map(|m| &m.blade),
         material,
         fill,
         load,
