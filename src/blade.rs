@@ -9,12 +9,23 @@
 //! offsets and every section ordinate vary C1 between stations and never overshoot the
 //! neighbouring station values, so where the section changes along the span its shape
 //! is blended point by point.
+//!
+//! The stacking axis passes through each section at the point its station's rule names
+//! (a chord fraction, the quarter chord, the area centroid or the thickest point); how
+//! the rules are resolved and carried between stations is in [`stacking`]. The blade
+//! reports the rules and how far the section centroids sit off the axis in
+//! [`Blade::stacking`].
 
 use crate::airfoil::Section;
-use crate::design::{BladeOptions, Flow, Rotation, Station};
+use crate::design::{BladeOptions, Flow, Rotation, Stacking, Station};
 use crate::interp::Monotone;
 use crate::root::{RootError, RootSpec, TipShape, TipSpec};
 use nalgebra::{Point2, Point3};
+
+pub mod stacking;
+
+use stacking::StackLine;
+pub use stacking::{StackingSummary, StationStacking, CENTROID_SAMPLES};
 
 /// Why a blade could not be built from its stations.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -31,6 +42,21 @@ pub enum BladeError {
     /// The tip settings cannot be built.
     #[error("tip.length = {0}: must be a positive number of millimetres")]
     TipLength(f64),
+    /// A station's stacking rule cannot be resolved from its section.
+    #[error(
+        "{origin}: stacking \"{rule}\" cannot be found on section '{section}': {reason} \
+         (give the station a chord fraction such as stacking = 0.25)"
+    )]
+    Stacking {
+        /// The station (`file:line` or key path).
+        origin: String,
+        /// The rule.
+        rule: Stacking,
+        /// The section's name.
+        section: String,
+        /// Why it failed.
+        reason: String,
+    },
 }
 
 /// The spanwise-interpolated blade.
@@ -45,7 +71,7 @@ pub struct Blade {
     shape: Vec<(Monotone, Monotone)>,
     le_index: usize,
     name: String,
-    stacking: f64,
+    stacking: StackLine,
     side: f64,
     mirror: bool,
     root: Option<RootSpec>,
@@ -119,6 +145,12 @@ impl Blade {
             )));
         }
         let radii: Vec<f64> = stations.iter().map(|s| s.radius).collect();
+        let rules: Vec<Stacking> = stations
+            .iter()
+            .map(|s| s.stacking.unwrap_or(opts.stacking))
+            .collect();
+        let origins: Vec<&str> = stations.iter().map(|s| s.origin.as_str()).collect();
+        let stacking = StackLine::new(&radii, &rules, sections, &origins)?;
         let curve = |f: &dyn Fn(&Station) -> f64| -> Result<Monotone, BladeError> {
             let ys: Vec<f64> = stations.iter().map(f).collect();
             Monotone::new(&radii, &ys).ok_or_else(|| {
@@ -145,7 +177,7 @@ impl Blade {
             le_index: sections[0].leading_edge_index(),
             name: sections[0].name().to_string(),
             radii,
-            stacking: opts.stacking.chord_fraction,
+            stacking,
             side: match opts.flow {
                 Flow::Turbine => 1.0,
                 Flow::Propeller => -1.0,
@@ -286,9 +318,18 @@ impl Blade {
     /// origin, before twist, flow side and mirroring) at an airfoil radius.
     fn airfoil_outline(&self, r: f64) -> Vec<Point2<f64>> {
         let c = self.chord.eval(r);
+        let unit = self.unit_outline(r);
+        let s = self.stacking.point(r, &unit);
+        unit.iter()
+            .map(|p| Point2::new((p.x - s.x) * c, (p.y - s.y) * c))
+            .collect()
+    }
+
+    /// The interpolated section at radius `r`: unit chord, section frame.
+    fn unit_outline(&self, r: f64) -> Vec<Point2<f64>> {
         self.shape
             .iter()
-            .map(|(fx, fy)| Point2::new((fx.eval(r) - self.stacking) * c, fy.eval(r) * c))
+            .map(|(fx, fy)| Point2::new(fx.eval(r), fy.eval(r)))
             .collect()
     }
 
@@ -509,13 +550,59 @@ impl Blade {
 
     /// The section shape (unit chord) at radius `r`.
     pub fn section_at(&self, r: f64) -> Section {
-        let pts: Vec<Point2<f64>> = self
-            .shape
-            .iter()
-            .map(|(fx, fy)| Point2::new(fx.eval(r), fy.eval(r)))
-            .collect();
-        Section::from_ordered(self.name.clone(), pts, self.le_index)
+        Section::from_ordered(self.name.clone(), self.unit_outline(r), self.le_index)
             .expect("structure checked in Blade::new")
+    }
+
+    /// The stacking point at radius `r` in the section frame (unit chord, leading edge at
+    /// the origin), on the interpolated section there (see [`stacking`]).
+    pub fn stacking_point_at(&self, r: f64) -> Point2<f64> {
+        self.stacking.point(r, &self.unit_outline(r))
+    }
+
+    /// The stacking rules and how far the section centroids sit off the axis.
+    pub fn stacking(&self) -> StackingSummary {
+        let mut radii = vec![self.radii[0]];
+        for w in self.radii.windows(2) {
+            let k = CENTROID_SAMPLES;
+            radii.extend((1..=k).map(|i| w[0] + (w[1] - w[0]) * i as f64 / k as f64));
+        }
+        let (mut off, mut rel, mut at) = (0.0, 0.0, self.radii[0]);
+        for r in radii {
+            let Some(c) = stacking::centroid(&self.airfoil_outline(r)) else {
+                continue;
+            };
+            let d = c.coords.norm();
+            if d > off {
+                (off, rel, at) = (d, d / self.chord_at(r), r);
+            }
+        }
+        StackingSummary {
+            rule: self.stacking.common_rule(),
+            stations: self.stacking.stations().to_vec(),
+            centroid_offset: off,
+            centroid_offset_chord: rel,
+            centroid_offset_radius: at,
+        }
+    }
+
+    /// The stacking axis from the root face to the tip end, `n` (at least 2) points evenly
+    /// spaced in radius plus every station: where the stacking point of each section lies
+    /// in the blade frame (the sweep and prebend offsets, mirrored for a clockwise rotor).
+    pub fn stacking_axis(&self, n: usize) -> Vec<Point3<f64>> {
+        let (a, b) = (self.root_face(), self.tip_end());
+        let k = n.max(2) - 1;
+        let mut radii: Vec<f64> = (0..=k).map(|i| a + (b - a) * i as f64 / k as f64).collect();
+        radii.extend(self.radii.iter().copied());
+        radii.sort_by(f64::total_cmp);
+        radii.dedup_by(|x, y| (*x - *y).abs() < 1e-9);
+        radii.into_iter().map(|r| self.axis_point(r)).collect()
+    }
+
+    /// The point of the stacking axis at radius `r` (any region), in the blade frame.
+    pub fn axis_point(&self, r: f64) -> Point3<f64> {
+        let (_, twist, dx, dy) = self.outline(r);
+        self.place(&[Point2::origin()], r, twist, dx, dy)[0]
     }
 
     /// Places a physical outline at radius `r` with twist (degrees) and offsets, following

@@ -49,9 +49,20 @@
 //! ```
 //!
 //! * The rotor axis is the line x = 0, z = 0 (along y). The flow moves toward +y.
-//! * Every section lies in a plane z = radius; its stacking point (a chord fraction,
-//!   default 1/4 = aerodynamic centre) sits on the z axis, moved by the station's sweep
-//!   (+x) and prebend (+y) offsets.
+//! * Every section lies in a plane z = radius; its stacking point sits on the z axis,
+//!   moved by the station's sweep (+x) and prebend (+y) offsets. The stacking point is
+//!   one of (`blade.stacking`, per station `station[i].stacking`, see
+//!   [`crate::design::Stacking`]):
+//!   - a chord fraction `f`: the point `(f, 0)` on the chord line;
+//!   - the quarter chord `(0.25, 0)`, the default: the aerodynamic centre of thin-airfoil
+//!     theory (Abbott & von Doenhoff, *Theory of Wing Sections*, 1959, ch. 4);
+//!   - the area centroid of the section `(s_cx, s_cy)` (off the chord line when the
+//!     section is cambered): each section's centrifugal force then passes through the
+//!     axis and does not bend a straight blade (common practice);
+//!   - the thickest point `(x_t, 0)`: on the chord line below the largest thickness.
+//!
+//!   Named rules are found on each section's own shape; between stations see
+//!   [`crate::blade::stacking`].
 //! * The section's leading edge points toward -x, the direction of motion, so the
 //!   blade as built turns **counter-clockwise seen from upstream**. A clockwise rotor is
 //!   the mirror image in x (the mesh is re-oriented so it still faces outward).
@@ -62,10 +73,11 @@
 //!   the angle theta with the plane of rotation (the x-z plane).
 //!
 //! A section point `(s_x, s_y)` (unit chord) at a station with chord `c`, twist `theta`,
-//! stacking fraction `f`, sweep `d_x` and prebend `d_y` lands at
+//! stacking point `(f_x, f_y)` (unit chord; `f_y = 0` except for the centroid), sweep
+//! `d_x` and prebend `d_y` lands at
 //!
 //! ```text
-//! u = (s_x - f) * c,   v = side * s_y * c           side = +1 turbine, -1 propeller
+//! u = (s_x - f_x) * c,   v = side * (s_y - f_y) * c   side = +1 turbine, -1 propeller
 //! x = u cos(theta) - v sin(theta) + d_x              (a right-hand rotation about +z)
 //! y = u sin(theta) + v cos(theta) + d_y              (leading edge u < 0 goes to -y)
 //! z = radius

@@ -106,7 +106,7 @@ fn inline_toml_is_read() {
     assert!(t.origin.contains("station[2]"), "{}", t.origin);
     assert_eq!(d.blade.flow, Flow::Propeller);
     assert_eq!(d.blade.rotation, Rotation::Cw);
-    near(d.blade.stacking.chord_fraction, 0.3, 1e-12);
+    near(d.blade.stacking.chord_fraction().unwrap(), 0.3, 1e-12);
     assert_eq!(d.blade.points_per_side, 90);
     near(d.blade.tolerance, 0.02, 1e-12);
     near(d.blade.min_te_thickness.unwrap(), 0.5, 1e-12);
@@ -123,7 +123,7 @@ fn defaults_apply() {
     )
     .unwrap();
     assert_eq!(d.name, "design");
-    near(d.blade.stacking.chord_fraction, 0.25, 0.0);
+    near(d.blade.stacking.chord_fraction().unwrap(), 0.25, 0.0);
     assert_eq!(d.blade.flow, Flow::Turbine);
     assert_eq!(d.blade.rotation, Rotation::Ccw);
     assert_eq!(d.blade.points_per_side, 120);

@@ -141,6 +141,7 @@ fn demo_stations() -> Vec<Station> {
                 thickness: None,
                 sweep: 0.0,
                 prebend: 0.0,
+                stacking: None,
                 origin: format!("demo row {i}"),
             }
         })
@@ -167,6 +168,7 @@ fn demo_report(load: Option<LoadCase>, copies: usize) -> (report::Report, report
         source: None,
         parts: &checked(&parts),
         stations: Some(&stations),
+        blade: None,
         material: Material::preset("petg").unwrap(),
         fill: Fill::DEFAULT,
         load,
@@ -373,6 +375,7 @@ fn a_part_across_the_axis_is_refused_with_a_reason() {
         source: None,
         parts: &checked(&parts),
         stations: None,
+        blade: None,
         material: Material::preset("pla").unwrap(),
         fill: Fill::SOLID,
         load: None,

@@ -112,18 +112,24 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
         );
     }
     let first = &args.input[0];
-    let (name, parts, design) = if args.input.iter().all(|p| load::has_extension(p, "stl")) {
+    let (name, parts, design, outcome) = if args.input.iter().all(|p| load::has_extension(p, "stl"))
+    {
         let mut parts = Vec::new();
         for p in &args.input {
             parts.push(load::stl_part(p)?);
         }
-        (parts[0].name().to_string(), parts, None)
+        (parts[0].name().to_string(), parts, None, None)
     } else if args.input.len() == 1 {
         let design = load::design(first, None)?;
         let outcome = spanwright::pipeline::run(&design, &spanwright::pipeline::Options::default())
             .with_context(|| format!("building the parts of {}", first.display()))?;
         let blade = outcome.blade_part().clone();
-        (design.name.clone(), vec![blade], Some(design))
+        (
+            design.name.clone(),
+            vec![blade],
+            Some(design),
+            Some(outcome),
+        )
     } else {
         anyhow::bail!(
             "{} inputs given: give one design file, or one or more STL files",
@@ -166,6 +172,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
         source: Some(source),
         parts: &parts,
         stations: design.as_ref().map(|d| d.stations.as_slice()),
+        blade: outcome.as_ref().map(|o| &o.blade.blade),
         material,
         fill,
         load,

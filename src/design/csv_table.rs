@@ -2,13 +2,16 @@
 //!
 //! * First non-blank, non-comment row: the header, naming the columns in any order and
 //!   case: `radius`, `chord`, `twist` (required), `section` (required unless a default
-//!   section is given), `thickness`, `sweep`, `prebend` (optional). `airfoil` and
-//!   `profile` are accepted for `section`; columns named `note`, `notes`, `comment` or
-//!   `comments` are ignored; any other column is an error.
+//!   section is given), `thickness`, `sweep`, `prebend`, `stacking` (optional).
+//!   `airfoil` and `profile` are accepted for `section`; columns named `note`, `notes`,
+//!   `comment` or `comments` are ignored; any other column is an error.
 //! * A unit may follow the name in brackets or parentheses: `radius [mm]`, `chord (in)`,
 //!   `twist [deg]`, `thickness [%]`. Lengths: mm, cm, m, in; angles: deg, rad; thickness:
 //!   `%` (percent of chord, the default) or `fraction`. Without a unit the column is in
 //!   the design's units (a bare CSV: mm and degrees).
+//! * `stacking` cells hold a chord fraction or a rule name (`quarter-chord`, `centroid`,
+//!   `thickest`: see [`super::Stacking`]); the column is a fraction of chord unless its
+//!   header says `stacking [%]`. An empty cell takes the design's `blade.stacking`.
 //! * Separator: comma, semicolon or tab, detected from the header row. With a semicolon
 //!   or tab separator a decimal comma (`12,5`) is read as a decimal point.
 //! * Blank rows (also rows of empty cells), rows starting with `#`, CRLF line ends and a
@@ -20,6 +23,7 @@ use super::error::{Loc, Problem};
 use super::rows::{Num, Row};
 use super::suggest;
 use super::units::{AngleUnit, LengthUnit, RatioUnit};
+use super::Stacking;
 
 /// Units a CSV column is read in when its header names none.
 #[derive(Debug, Clone, Copy, Default)]
@@ -37,11 +41,12 @@ enum Col {
     Thickness,
     Sweep,
     Prebend,
+    Stacking,
     Note,
 }
 
 impl Col {
-    const NAMES: [&'static str; 7] = [
+    const NAMES: [&'static str; 8] = [
         "radius",
         "chord",
         "twist",
@@ -49,6 +54,7 @@ impl Col {
         "thickness",
         "sweep",
         "prebend",
+        "stacking",
     ];
 
     fn parse(name: &str) -> Option<Self> {
@@ -60,6 +66,7 @@ impl Col {
             "thickness" => Self::Thickness,
             "sweep" => Self::Sweep,
             "prebend" => Self::Prebend,
+            "stacking" => Self::Stacking,
             "note" | "notes" | "comment" | "comments" => Self::Note,
             _ => return None,
         })
@@ -74,6 +81,7 @@ impl Col {
             Self::Thickness => "thickness",
             Self::Sweep => "sweep",
             Self::Prebend => "prebend",
+            Self::Stacking => "stacking",
             Self::Note => "note",
         }
     }
@@ -293,6 +301,7 @@ pub(crate) fn read(
             thickness: None,
             sweep: None,
             prebend: None,
+            stacking: None,
             // A missing section column is reported once, at the header.
             section_reported: !section_default
                 && !columns.iter().flatten().any(|c| c.col == Col::Section),
@@ -323,6 +332,17 @@ pub(crate) fn read(
                 row.section = Some((cell.to_string(), loc.clone()));
                 continue;
             }
+            if column.col == Col::Stacking {
+                let read = match number(cell, decimal_comma) {
+                    Some(raw) => Stacking::fraction(raw * column.factor),
+                    None => Stacking::parse(cell, column.factor),
+                };
+                match read {
+                    Ok(s) => row.stacking = Some(s),
+                    Err(e) => problems.push(loc.problem(e.message()).hint(e.hint())),
+                }
+                continue;
+            }
             let Some(raw) = number(cell, decimal_comma) else {
                 problems.push(
                     loc.problem(format!("{name} '{cell}' is not a number"))
@@ -338,7 +358,7 @@ pub(crate) fn read(
                 Col::Thickness => &mut row.thickness,
                 Col::Sweep => &mut row.sweep,
                 Col::Prebend => &mut row.prebend,
-                Col::Section | Col::Note => continue,
+                Col::Section | Col::Stacking | Col::Note => continue,
             };
             *slot = Some(n);
         }
@@ -428,6 +448,15 @@ fn read_header(
                 };
                 u.map(|u| (u.to_percent(), u.name()))
                     .ok_or(("thickness", RatioUnit::NAMES))
+            }
+            // Chord fractions unless the header says percent; the factor gives a fraction.
+            Col::Stacking => {
+                let u = match unit {
+                    None => Some(RatioUnit::Fraction),
+                    Some(u) => RatioUnit::parse(u),
+                };
+                u.map(|u| (u.to_percent() / 100.0, u.name()))
+                    .ok_or(("stacking", RatioUnit::NAMES))
             }
             Col::Section | Col::Note => {
                 if unit.is_some() && col == Col::Section {

@@ -45,7 +45,7 @@
 //!
 //! [blade]
 //! section = "naca4412"   # default section for stations without one
-//! stacking = 0.25
+//! stacking = "quarter-chord"  # or a chord fraction such as 0.3, "centroid", "thickest"
 //! flow = "turbine"
 //! rotation = "ccw"
 //!
@@ -67,7 +67,7 @@
 //! | `units.length` | `"mm"`, `"cm"`, `"m"`, `"in"` | `"mm"` | length unit of stations and of the tables of later stages (1 in = 25.4 mm exactly) |
 //! | `units.angle` | `"deg"`, `"rad"` | `"deg"` | angle unit of station twist |
 //! | `blade.section` | string | none | section for stations that name none |
-//! | `blade.stacking` | number in 0..=1 | 0.25 | chord fraction of the stacking axis |
+//! | `blade.stacking` | number in 0..=1, or `"quarter-chord"`, `"centroid"`, `"thickest"` | `"quarter-chord"` (= 0.25) | where the stacking axis passes through each section, see below |
 //! | `blade.flow` | `"turbine"`, `"propeller"` | `"turbine"` | see [`Flow`] |
 //! | `blade.rotation` | `"ccw"`, `"cw"` | `"ccw"` | seen from upstream, see [`Rotation`] |
 //! | `blade.points-per-side` | integer in 8..=2000 | 120 | section resampling |
@@ -81,8 +81,20 @@
 //! | `station[i].thickness` | number, **percent of chord** | none | relative thickness to scale the section to, 1..=50 |
 //! | `station[i].sweep` | number, length unit | 0 | chordwise offset of the stacking point |
 //! | `station[i].prebend` | number, length unit | 0 | out-of-plane offset, positive downstream |
+//! | `station[i].stacking` | as `blade.stacking` | `blade.stacking` | this station's stacking |
 //! | `stations` | string | | instead of `[[station]]`: a CSV station table, path relative to the TOML file |
 //! | any other table | table | | kept in [`Design::tables`] for a later stage |
+//!
+//! `stacking` values ([`Stacking`]): a number is the chord fraction of a point on the
+//! chord line (0 leading edge, 1 trailing edge); `"quarter-chord"` is the aerodynamic
+//! centre of thin-airfoil theory, the quarter chord (Abbott & von Doenhoff, *Theory of
+//! Wing Sections*, 1959, ch. 4; `"aerodynamic-centre"` is accepted for it); `"centroid"`
+//! is the area centroid of the section (stacked on centroids, centrifugal force does not
+//! bend the blade: common practice); `"thickest"` is the point of maximum thickness, on
+//! the chord line. Named rules are resolved from each station's own section (after
+//! blending, thickness scaling and trailing-edge thickening); how the axis runs between
+//! stations is described in [`crate::blade`]. `0.25` and `"quarter-chord"` build the same
+//! blade byte for byte; 0.25 was the historical default.
 //!
 //! Stations are counted from 1 in key paths: `station[1]` is the first `[[station]]`.
 //! Unknown keys in `units`, `blade` and `station` entries are errors (with "did you mean"
@@ -96,19 +108,23 @@
 //!
 //! ```text
 //! # invented demo rows
-//! radius [mm];chord [mm];twist [deg];section;thickness [%]
-//! 40;60;25;naca4415;15
-//! 280;25;3;naca4412;
+//! radius [mm];chord [mm];twist [deg];section;thickness [%];stacking
+//! 40;60;25;naca4415;15;centroid
+//! 280;25;3;naca4412;;0,3
 //! ```
 //!
 //! * First non-blank, non-comment row: the header, naming the columns in any order and
 //!   case: `radius`, `chord`, `twist` (required), `section` (required unless a default
 //!   section is given by `[blade] section` or by the caller), `thickness`, `sweep`,
-//!   `prebend` (optional). `airfoil` and `profile` are accepted for `section`; columns
-//!   named `note(s)` or `comment(s)` are ignored; any other column is an error.
+//!   `prebend`, `stacking` (optional). `airfoil` and `profile` are accepted for
+//!   `section`; columns named `note(s)` or `comment(s)` are ignored; any other column is
+//!   an error.
 //! * A unit may follow the name: `radius [mm]`, `chord (in)`, `twist [deg]`,
 //!   `thickness [%]` or `thickness [fraction]`. Without one, the column is in the design's
 //!   units (for a bare CSV: mm, degrees, percent).
+//! * `stacking` cells hold a chord fraction or a rule name, as `station[i].stacking`; an
+//!   empty cell takes `blade.stacking`. The column is a fraction of chord unless its header
+//!   says `stacking [%]` (then `30` is 30 % of chord).
 //! * Separator: comma, semicolon or tab, detected from the header. With semicolon or tab,
 //!   a decimal comma (`12,5`) is read as a decimal point.
 //! * Blank rows (also rows of empty cells), `#` comment rows, CRLF and a UTF-8 byte-order
@@ -124,12 +140,14 @@ mod csv_table;
 mod error;
 mod rows;
 mod spans;
+mod stacking;
 mod suggest;
 mod table;
 mod toml_file;
 mod units;
 
 pub use error::{DesignError, Problem};
+pub use stacking::{Stacking, StackingValueError};
 pub use table::Lengths;
 pub use units::{AngleUnit, LengthUnit, RatioUnit};
 
@@ -176,29 +194,16 @@ pub struct Station {
     pub sweep: f64,
     /// Out-of-plane offset (prebend), mm, positive downstream.
     pub prebend: f64,
+    /// This station's stacking, when it overrides [`BladeOptions::stacking`].
+    pub stacking: Option<Stacking>,
     /// Where the row came from (`file:line` for CSV, key path for TOML), for messages.
     pub origin: String,
-}
-
-/// Where the stacking axis passes through each section.
-#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
-pub struct Stacking {
-    /// Chord fraction of the stacking point (0.25 = aerodynamic centre, the default).
-    pub chord_fraction: f64,
-}
-
-impl Default for Stacking {
-    fn default() -> Self {
-        Self {
-            chord_fraction: 0.25,
-        }
-    }
 }
 
 /// Blade-wide options.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct BladeOptions {
-    /// Stacking axis position.
+    /// Where the stacking axis passes through each section (stations may override it).
     pub stacking: Stacking,
     /// Flow mode (turbine or propeller).
     pub flow: Flow,

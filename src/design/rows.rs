@@ -4,7 +4,7 @@
 //! then checks values and order, reporting every problem with the place it came from.
 
 use super::error::{Loc, Problem};
-use super::Station;
+use super::{Stacking, Station};
 
 /// Thickness range accepted, percent of chord: thinner than 1 % is almost surely a
 /// fraction written where percent was meant; thicker than 50 % is no airfoil.
@@ -48,6 +48,8 @@ pub(crate) struct Row {
     pub thickness: Option<Num>,
     pub sweep: Option<Num>,
     pub prebend: Option<Num>,
+    /// A stacking override, already checked by the reader.
+    pub stacking: Option<Stacking>,
     /// The reader already reported why this row has no section.
     pub section_reported: bool,
 }
@@ -217,6 +219,7 @@ pub(crate) fn validate(
                 thickness: row.thickness.as_ref().map(|n| n.value / 100.0),
                 sweep: row.sweep.as_ref().map_or(0.0, |n| n.value),
                 prebend: row.prebend.as_ref().map_or(0.0, |n| n.value),
+                stacking: row.stacking,
                 origin: row.loc.origin(),
             });
         }

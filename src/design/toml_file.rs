@@ -10,7 +10,7 @@ use super::rows::{validate, Num, Row};
 use super::spans::{line_of, render, Seg, Spans};
 use super::suggest;
 use super::units::{AngleUnit, LengthUnit};
-use super::{BladeOptions, Design, Flow, Rotation};
+use super::{BladeOptions, Design, Flow, Rotation, Stacking};
 
 /// Top-level keys read here; any other top-level table is kept for later stages.
 const TOP: [&str; 5] = ["name", "units", "blade", "station", "stations"];
@@ -26,7 +26,7 @@ const BLADE_KEYS: [&str; 7] = [
     "tolerance",
     "min-te-thickness",
 ];
-const STATION_KEYS: [&str; 7] = [
+const STATION_KEYS: [&str; 8] = [
     "radius",
     "chord",
     "twist",
@@ -34,6 +34,7 @@ const STATION_KEYS: [&str; 7] = [
     "thickness",
     "sweep",
     "prebend",
+    "stacking",
 ];
 
 /// Accepted `points-per-side` range: fewer cannot resolve a leading edge, more only slows
@@ -119,6 +120,37 @@ impl Reader<'_> {
         }
     }
 
+    /// A `stacking` value at `path + "stacking"`: a chord fraction or a rule name;
+    /// `None` when absent or refused (reported).
+    fn stacking(&mut self, table: &Table, path: &[Seg]) -> Option<Stacking> {
+        let v = table.get("stacking")?;
+        let p = [path, &[Seg::Key("stacking")]].concat();
+        let read = match v {
+            Value::Float(f) => Stacking::fraction(*f),
+            Value::Integer(i) => Stacking::fraction(*i as f64),
+            Value::String(s) if s.trim().parse::<f64>().is_ok() => {
+                self.report(
+                    &p,
+                    format!("stacking \"{s}\" is a number written as a string"),
+                    Some(format!("write it without quotes: stacking = {}", s.trim())),
+                );
+                return None;
+            }
+            Value::String(s) => Stacking::parse(s, 1.0),
+            other => {
+                self.wrong_type(&p, "a chord fraction or a stacking rule name", other);
+                return None;
+            }
+        };
+        match read {
+            Ok(s) => Some(s),
+            Err(e) => {
+                self.report(&p, e.message(), Some(e.hint()));
+                None
+            }
+        }
+    }
+
     /// A converted number with its place, for station rows.
     fn num(
         &mut self,
@@ -194,16 +226,8 @@ impl Reader<'_> {
                 Some("give a designation such as \"naca4412\" or a section file".into()),
             );
         }
-        if let Some(f) = self.number(t, &path, "stacking") {
-            if (0.0..=1.0).contains(&f) {
-                o.stacking.chord_fraction = f;
-            } else {
-                self.report(
-                    &key("stacking"),
-                    format!("stacking {f} is outside 0..1"),
-                    Some("give the chord fraction of the stacking axis, e.g. 0.25".into()),
-                );
-            }
+        if let Some(stacking) = self.stacking(t, &path) {
+            o.stacking = stacking;
         }
         if let Some(s) = self.string(t, &path, "flow") {
             match s.as_str() {
@@ -324,6 +348,7 @@ impl Reader<'_> {
                 thickness: self.num(t, &p, "thickness", 1.0, "%"),
                 sweep: self.num(t, &p, "sweep", lf, lu),
                 prebend: self.num(t, &p, "prebend", lf, lu),
+                stacking: self.stacking(t, &p),
                 section_reported: false,
             });
         }

@@ -3,6 +3,7 @@
 
 use super::model::{BalanceSummary, PartSummary, Report, Units, SCHEMA_ID};
 use super::{planform_svg, stack_svg, stress_svg, three_view_svg};
+use crate::blade::Blade;
 use crate::check::CheckedPart;
 use crate::design::Station;
 use crate::props::{
@@ -22,6 +23,9 @@ pub struct ReportInput<'a> {
     pub parts: &'a [CheckedPart],
     /// Design stations, for the planform picture and the section radii.
     pub stations: Option<&'a [Station]>,
+    /// The blade the first part was built from, when known: its stacking axis is drawn
+    /// and its stacking summarised.
+    pub blade: Option<&'a Blade>,
     /// Material.
     pub material: Material,
     /// Fill model.
@@ -162,12 +166,23 @@ pub fn build(
     for r in span_radii(mesh, input.picture_cuts.max(2)) {
         slices.push(Slice::cut(mesh, r).map_err(slice_err)?);
     }
+    let axis = input.blade.map_or(Vec::new(), |b| b.stacking_axis(64));
+    let axis_at_cuts: Vec<nalgebra::Point2<f64>> = match input.blade {
+        Some(b) => slices
+            .iter()
+            .map(|s| {
+                let p = b.axis_point(s.radius);
+                nalgebra::Point2::new(p.x, p.y)
+            })
+            .collect(),
+        None => Vec::new(),
+    };
     let pictures = Pictures {
         planform: input
             .stations
             .map(|st| planform_svg(&input.name, st, false)),
-        sections: stack_svg(&input.name, &slices, false),
-        three_view: three_view_svg(first.name(), mesh, false),
+        sections: stack_svg(&input.name, &slices, &axis_at_cuts, false),
+        three_view: three_view_svg(first.name(), mesh, &axis, false),
         stress: stress.as_ref().map(|t| stress_svg(first.name(), t, false)),
     };
     progress(4, "report");
@@ -183,6 +198,7 @@ pub fn build(
         balance,
         sections,
         stress,
+        stacking: input.blade.map(Blade::stacking),
         cautions: Report::cautions(),
     };
     Ok((report, pictures))

@@ -21,7 +21,7 @@ pub use build::{build, Pictures, ReportError, ReportInput, STEPS};
 pub use html::html;
 pub use model::{BalanceSummary, PartSummary, Report, Units, SCHEMA, SCHEMA_ID};
 pub use planform::{planform_svg, station_thickness};
-pub use stack::stack_svg;
+pub use stack::{stack_svg, AXIS_COLOUR};
 pub use stress_chart::stress_svg;
 pub use transition::transition_svg;
 pub use views::{outline_edges, three_view_svg, CREASE_DEGREES};

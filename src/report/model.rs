@@ -1,6 +1,7 @@
 //! The report data: what the JSON report holds (schema: `src/report/schema.json`,
 //! also available as [`SCHEMA`]) and what the HTML report shows.
 
+use crate::blade::StackingSummary;
 use crate::check::CheckedPart;
 use crate::props::{Balance, Fill, MassProps, Material, SectionProps, StressTable, CAUTIONS};
 
@@ -163,6 +164,9 @@ pub struct Report {
     pub sections: Vec<SectionProps>,
     /// Stress estimate of the first part (only when a speed or wind is given).
     pub stress: Option<StressTable>,
+    /// Stacking rule of the first part and how far its section centroids sit off the
+    /// stacking axis (only when the report is made from a design).
+    pub stacking: Option<StackingSummary>,
     /// Cautions.
     pub cautions: Vec<String>,
 }

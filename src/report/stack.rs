@@ -1,11 +1,18 @@
 //! The sections stacked as seen from the tip (looking toward the root, along -z): x to
 //! the right, y (downstream) up.
 
+use nalgebra::Point2;
+
 use crate::props::Slice;
 use crate::svg::{minmax, Svg, PALETTE};
 
-/// SVG of the cut outlines, all at the same scale, coloured from root to tip.
-pub fn stack_svg(name: &str, slices: &[Slice], standalone: bool) -> String {
+/// Colour of the stacking axis in every picture.
+pub const AXIS_COLOUR: &str = "#e6007e";
+
+/// SVG of the cut outlines, all at the same scale, coloured from root to tip, with the
+/// stacking axis seen end on: `axis` holds its (x, y) points root to tip (for example at
+/// the cut radii), drawn as a line with a cross at each point; empty draws no axis.
+pub fn stack_svg(name: &str, slices: &[Slice], axis: &[Point2<f64>], standalone: bool) -> String {
     let (w, h, m) = (760.0, 520.0, 40.0);
     let mut svg = Svg::new(w, h);
     svg.text(
@@ -18,10 +25,12 @@ pub fn stack_svg(name: &str, slices: &[Slice], standalone: bool) -> String {
     let xs: Vec<f64> = slices
         .iter()
         .flat_map(|s| s.points().map(|p| p.x))
+        .chain(axis.iter().map(|p| p.x))
         .collect();
     let ys: Vec<f64> = slices
         .iter()
         .flat_map(|s| s.points().map(|p| p.y))
+        .chain(axis.iter().map(|p| p.y))
         .collect();
     if xs.is_empty() {
         svg.text(w / 2.0, h / 2.0, 12.0, "middle", "no sections");
@@ -46,6 +55,15 @@ pub fn stack_svg(name: &str, slices: &[Slice], standalone: bool) -> String {
             let pts: Vec<(f64, f64)> = ring.iter().map(|p| map(p.x, p.y)).collect();
             svg.polyline(&pts, colour, 1.0, true);
         }
+    }
+    let marks: Vec<(f64, f64)> = axis.iter().map(|p| map(p.x, p.y)).collect();
+    svg.polyline(&marks, AXIS_COLOUR, 1.2, false);
+    for &(x, y) in &marks {
+        svg.line((x - 5.0, y), (x + 5.0, y), AXIS_COLOUR, 1.2);
+        svg.line((x, y - 5.0), (x, y + 5.0), AXIS_COLOUR, 1.2);
+    }
+    if !axis.is_empty() {
+        svg.text(w - m, 44.0, 11.0, "end", "+ stacking axis");
     }
     svg.text(
         m,

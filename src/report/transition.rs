@@ -8,7 +8,8 @@ use crate::props::Slice;
 /// SVG picture of the section outlines seen from the tip (along the span): the root
 /// face, `n` sections along the transition (at least 2: its two ends) and every
 /// station, drawn at one scale with [`stack_svg`] (root blue to tip
-/// grey). Without a root it shows the stations alone.
+/// grey), with the stacking axis marked where it passes through each of them. Without a
+/// root it shows the stations alone.
 pub fn transition_svg(blade: &Blade, n: usize) -> String {
     let mut radii = vec![blade.root_face()];
     if let Some(root) = blade.root() {
@@ -33,5 +34,12 @@ pub fn transition_svg(blade: &Blade, n: usize) -> String {
                 .collect()],
         })
         .collect();
-    stack_svg("root transition", &slices, true)
+    let axis: Vec<nalgebra::Point2<f64>> = radii
+        .iter()
+        .map(|&r| {
+            let p = blade.axis_point(r);
+            nalgebra::Point2::new(p.x, p.y)
+        })
+        .collect();
+    stack_svg("root transition", &slices, &axis, true)
 }

@@ -8,11 +8,16 @@
 //! +y: radius z to the right, chordwise x up) at the top left, the edge view (looking
 //! along -x: z to the right, y up) below it, the end view from the tip (looking along -z:
 //! y to the right, x up) on the right.
+//!
+//! When the stacking axis is given (points root to tip in the blade frame, see
+//! [`crate::blade::Blade::stacking_axis`]) it is drawn in every view: an orange line in
+//! the plan and edge views, a cross where it passes through the end view.
 
 use std::collections::HashMap;
 
 use nalgebra::{Point3, Vector3};
 
+use super::stack::AXIS_COLOUR;
 use crate::mesh::TriMesh;
 use crate::svg::Svg;
 
@@ -56,8 +61,14 @@ pub fn outline_edges(mesh: &TriMesh, dir: &Vector3<f64>) -> Vec<(Point3<f64>, Po
     out
 }
 
-/// The three-view SVG with overall dimensions (mm).
-pub fn three_view_svg(name: &str, mesh: &TriMesh, standalone: bool) -> String {
+/// The three-view SVG with overall dimensions (mm) and, when `axis` is not empty, the
+/// stacking axis through its points (root to tip, blade frame, mm).
+pub fn three_view_svg(
+    name: &str,
+    mesh: &TriMesh,
+    axis: &[Point3<f64>],
+    standalone: bool,
+) -> String {
     let (w, h, m) = (900.0, 620.0, 50.0);
     let mut svg = Svg::new(w, h);
     svg.text(
@@ -99,6 +110,7 @@ pub fn three_view_svg(name: &str, mesh: &TriMesh, standalone: bool) -> String {
         svg.segments(&segs, "#1f2f4f", 0.8);
         let (tx, ty) = map(&Point3::new(bb.min.x, bb.min.y, bb.min.z));
         svg.text(tx, ty + 14.0, 10.0, "start", title);
+        draw_axis(&mut svg, axis, map, dir == -Vector3::z());
     }
     // Dimension lines.
     let dim = |svg: &mut Svg, a: (f64, f64), b: (f64, f64), text: String, vertical: bool| {
@@ -156,4 +168,35 @@ pub fn three_view_svg(name: &str, mesh: &TriMesh, standalone: bool) -> String {
         ),
     );
     svg.finish(&format!("Three views of {name}"), standalone)
+}
+
+/// Draws the stacking axis in one view: a line in the axis colour, labelled at its tip end, or
+/// (`end_on`, the view along the span) a cross at each distinct point.
+fn draw_axis(
+    svg: &mut Svg,
+    axis: &[Point3<f64>],
+    map: &dyn Fn(&Point3<f64>) -> (f64, f64),
+    end_on: bool,
+) {
+    let pts: Vec<(f64, f64)> = axis.iter().map(map).collect();
+    let Some(&(x, y)) = pts.last() else {
+        return;
+    };
+    if end_on {
+        let mut seen: Vec<(f64, f64)> = Vec::new();
+        for &(x, y) in &pts {
+            if seen
+                .iter()
+                .any(|q| (q.0 - x).abs() < 0.5 && (q.1 - y).abs() < 0.5)
+            {
+                continue;
+            }
+            seen.push((x, y));
+            svg.line((x - 5.0, y), (x + 5.0, y), AXIS_COLOUR, 1.2);
+            svg.line((x, y - 5.0), (x, y + 5.0), AXIS_COLOUR, 1.2);
+        }
+        return;
+    }
+    svg.polyline(&pts, AXIS_COLOUR, 1.0, false);
+    svg.text(x - 6.0, y - 5.0, 10.0, "end", "stacking axis");
 }
