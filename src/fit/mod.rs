@@ -12,6 +12,12 @@
 //! * [`layout`]: several parts on as few plates as the heuristic finds, clearance kept;
 //!   [`Layout::plate_parts`] gives each plate's placed meshes for
 //!   `crate::export::write_parts`, and [`plate_svg`] a top view.
+//! * [`orient`]: the pose a person would print, among those that fit: least overhang
+//!   needing support ([`underside`]), contact with the bed, layers along a blade's span
+//!   (the main stress); the best few poses offered in [`Fit::orientation`] with their
+//!   figures and why one was chosen; pose classes ([`PoseClass`]: root down, flat on
+//!   the pressure side, on the leading edge, ...) can be asked for.
+//! * [`advice`]: supports, brim and trailing edge against the nozzle, with reasons.
 //! * [`printability`]: trailing-edge and section thickness along the span against the
 //!   nozzle and the minimum feature size.
 //!
@@ -31,16 +37,23 @@
 //! # Ok::<(), spanwright::fit::FitError>(())
 //! ```
 
+pub mod advice;
 pub mod hull;
 mod layout;
+pub mod orient;
+pub mod pose;
 mod printability;
 mod printer;
 pub mod search;
 mod stl_in;
 mod svg;
+pub mod underside;
 pub mod yaw;
 
-pub use layout::{layout, polygon_distance, Layout, LayoutOptions, Placed, Plate};
+pub use advice::{advise, AdviceOptions, PrintAdvice, TrailingEdgeAdvice};
+pub use layout::{layout, layout_fitted, polygon_distance, Layout, LayoutOptions, Placed, Plate};
+pub use orient::{Choice, Orientation, Pose, PrintOptions, ScoreTerms};
+pub use pose::{BladeAxes, PoseClass, UnknownPose};
 pub use printability::{
     printability, printability_of_outlines, slice, Cut, Printability, PrintabilityOptions,
 };
@@ -48,9 +61,10 @@ pub use printer::{
     preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,
     DEFAULT_MIN_FEATURE, DEFAULT_NOZZLE, PRESETS,
 };
-pub use search::{fit_part, score, Fit, FitOptions, Placement};
+pub use search::{fit_part, Fit, FitOptions, Placement};
 pub use stl_in::read_stl_part;
 pub use svg::plate_svg;
+pub use underside::{underside, Underside, UndersideOptions};
 
 /// Errors of the printer-fit stage.
 #[derive(Debug, thiserror::Error)]
