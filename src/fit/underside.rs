@@ -23,7 +23,7 @@
 //!   angle print without support.
 //!
 //! A face in the first layer is supported by the bed, so it is contact, never overhang.
-//! Heights within `1e-9` times the part's size of the first layer count as inside it
+//! Heights within `1e-9` times the part's size of the first layer's top count as on it
 //! (rounding only): a face lying on the bed in exact arithmetic counts whole even when
 //! the rotation leaves its corners a few ulps apart.
 
@@ -218,10 +218,10 @@ impl Surfaces {
         }
         // The triangles touching the first layer: their part in it is contact, and not
         // overhang.
-        let band = opts.first_layer.max(0.0) + self.tol;
+        let band = opts.first_layer.max(0.0);
         let mut near: Vec<u32> = Vec::new();
         for (v, &h) in heights.iter().enumerate() {
-            if h - lo <= band {
+            if h - lo <= band + self.tol {
                 near.extend_from_slice(
                     &self.around[self.start[v] as usize..self.start[v + 1] as usize],
                 );
@@ -236,7 +236,15 @@ impl Surfaces {
             if down <= 0.0 {
                 continue;
             }
-            let h = self.tris[k].map(|i| heights[i as usize] - lo);
+            // Corners within rounding of the layer's top count as in it.
+            let h = self.tris[k].map(|i| {
+                let h = heights[i as usize] - lo;
+                if (h - band).abs() <= self.tol {
+                    band
+                } else {
+                    h
+                }
+            });
             let f = fraction_below(h, band);
             contact += f * self.area[k] * down;
             if down > steep {
