@@ -1,9 +1,14 @@
 //! Benchmarks of the printer fit: the single-part search on a 100k-triangle blade-like
-//! mesh, and a three-blade plate layout.
+//! mesh (with and without blade axes for the pose), the underside measure of one pose,
+//! a three-blade plate layout, and the 3-D preview of the same mesh (800 x 600 PNG).
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use spanwright::fit::{fit_part, layout, FitOptions, LayoutOptions, PrinterSpec};
+use spanwright::fit::{
+    fit_part, layout, underside::Surfaces, BladeAxes, FitOptions, LayoutOptions, PrintOptions,
+    PrinterSpec, UndersideOptions,
+};
 use spanwright::mesh::Part;
+use spanwright::report::preview::{preview_png, Item, Marks, PreviewOptions};
 use std::hint::black_box;
 
 #[path = "../tests/support/mod.rs"]
@@ -30,6 +35,35 @@ fn bench(c: &mut Criterion) {
     g.bench_function("single_100k", |b| {
         b.iter(|| {
             fit_part("blade", black_box(&short), &printer, &FitOptions::DEFAULT).expect("fit")
+        })
+    });
+    let axes = FitOptions {
+        print: PrintOptions {
+            axes: Some(BladeAxes {
+                span: [0.0, 0.0, 1.0],
+                leading_edge: [-1.0, 0.0, 0.0],
+                pressure_side: [0.0, -1.0, 0.0],
+            }),
+            ..PrintOptions::DEFAULT
+        },
+        ..FitOptions::DEFAULT
+    };
+    g.bench_function("single_100k_blade_axes", |b| {
+        b.iter(|| fit_part("blade", black_box(&short), &printer, &axes).expect("fit"))
+    });
+    let surfaces = Surfaces::new(&short);
+    let up = nalgebra::Vector3::new(0.3, -0.5, 0.8);
+    g.bench_function("underside_100k", |b| {
+        b.iter(|| surfaces.measure(black_box(&up), &UndersideOptions::DEFAULT))
+    });
+    let marks = Marks::blade_frame(spanwright::design::Rotation::Ccw, 0.0);
+    g.bench_function("preview_100k", |b| {
+        b.iter(|| {
+            preview_png(
+                &[Item::new(black_box(&short))],
+                Some(&marks),
+                &PreviewOptions::DEFAULT,
+            )
         })
     });
     let parts: Vec<Part> = (1..=3)

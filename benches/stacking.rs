@@ -7,7 +7,7 @@
 
 use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
 use spanwright::design::parse_toml_str;
-use spanwright::pipeline::{build, BuildOptions};
+use spanwright::pipeline::{build_blade, Options};
 use std::hint::black_box;
 
 fn design_text(stacking: &str) -> String {
@@ -32,7 +32,7 @@ fn rules(c: &mut Criterion) {
     let mut rings = c.benchmark_group("stacking_rings");
     for rule in ["0.25", "\"centroid\"", "\"thickest\""] {
         let design = parse_toml_str(&design_text(rule), None).unwrap();
-        let model = build(&design, &BuildOptions::default()).unwrap();
+        let model = build_blade(&design, &Options::default()).unwrap();
         rings.bench_with_input(BenchmarkId::from_parameter(rule), &model, |b, m| {
             b.iter(|| {
                 m.ring_radii
@@ -49,7 +49,7 @@ fn rules(c: &mut Criterion) {
         let design = parse_toml_str(&design_text(rule), None).unwrap();
         whole.bench_with_input(BenchmarkId::from_parameter(rule), &design, |b, d| {
             b.iter(|| {
-                build(black_box(d), &BuildOptions::default())
+                build_blade(black_box(d), &Options::default())
                     .unwrap()
                     .mesh()
                     .len()

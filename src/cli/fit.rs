@@ -6,8 +6,8 @@ use spanwright::atomic::Batch;
 use spanwright::check::CheckedPart;
 use spanwright::export::{write_mesh_to, MeshFormat};
 use spanwright::fit::{
-    self, fit_part, plan_job, plate_svg, FitOptions, JobItem, JobPlan, JobReport, LayoutOptions,
-    Pose, PrintabilityOptions, Printer, PrinterSpec, Volume, MAX_COPIES,
+    self, fit_part, plan_job, plate_svg, FitFigures, FitOptions, JobItem, JobPlan, JobReport,
+    LayoutOptions, PrintabilityOptions, Printer, PrinterSpec, Volume, MAX_COPIES,
 };
 use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{self, Outcome, PartKind};
@@ -85,7 +85,7 @@ struct Assembled {
     blades: usize,
     with_hub: bool,
     #[serde(flatten)]
-    pose: Pose,
+    pose: FitFigures,
 }
 
 /// Runs the subcommand.
@@ -281,7 +281,7 @@ fn assembled(
     Ok(Assembled {
         blades,
         with_hub,
-        pose: Pose::of(&f),
+        pose: FitFigures::of(&f),
     })
 }
 

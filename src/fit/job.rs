@@ -27,7 +27,7 @@ pub struct JobItem<'a> {
 /// Where a part sits and how: the answer of the orientation search, for people and
 /// scripts.
 #[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct Pose {
+pub struct FitFigures {
     /// True when the part fits the printer, margins kept.
     pub fits: bool,
     /// Rotation as angles about x, then y, then z, degrees.
@@ -58,11 +58,11 @@ pub struct Pose {
     pub complete: bool,
 }
 
-impl Pose {
+impl FitFigures {
     /// The pose of a search answer.
-    pub fn of(f: &Fit) -> Pose {
+    pub fn of(f: &Fit) -> FitFigures {
         let finite = |v: f64| v.is_finite().then_some(v);
-        Pose {
+        FitFigures {
             fits: f.fits,
             angles_deg: f.placement.angles_deg(),
             rotation: rows(&f.placement.rotation),
@@ -92,7 +92,7 @@ pub struct PartFit {
     pub triangles: usize,
     /// Its best pose alone on a plate.
     #[serde(flatten)]
-    pub pose: Pose,
+    pub pose: FitFigures,
     /// Printability along the span.
     pub printability: Printability,
     /// Printability findings in words.
@@ -230,7 +230,7 @@ fn part_fit(
         name: item.part.name().to_string(),
         copies: item.copies,
         triangles: mesh.len(),
-        pose: Pose::of(&fit),
+        pose: FitFigures::of(&fit),
         findings: printability.findings(),
         printability,
     })

@@ -1,6 +1,7 @@
 //! Plate layout: several parts on as few plates as possible, clearance kept.
 //!
-//! Each part is laid in its preferred orientation from [`super::fit_part`], turned about
+//! Each part is laid in the pose chosen by [`super::fit_part`] (its orientation for
+//! printing: [`super::orient`]; [`layout_fitted`] takes poses chosen beforehand), turned about
 //! the vertical so its footprint is narrowest across the bed (the narrowest width of a
 //! convex polygon is found with one of its edges along the bed's x axis, so only edge
 //! directions are tried), and placed by a bottom-left heuristic: for every candidate x
@@ -380,8 +381,35 @@ fn spot(
     best
 }
 
-/// Lays parts out on as few plates as the heuristic finds (see the module docs).
+/// Lays parts out on as few plates as the heuristic finds (see the module docs), each in
+/// the pose [`fit_part`] chooses with `opts.fit` (copies of one mesh share one search).
 pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result<Layout, FitError> {
+    let mut fits: Vec<Fit> = Vec::with_capacity(parts.len());
+    for (i, part) in parts.iter().enumerate() {
+        // Copies of one mesh (the blades of a rotor) share one search.
+        let same = (0..i).find(|&j| parts[j].mesh == part.mesh);
+        fits.push(match same {
+            Some(j) => fits[j].clone(),
+            None => fit_part(&part.name, &part.mesh, printer, &opts.fit)?,
+        });
+    }
+    layout_fitted(parts, fits, printer, opts)
+}
+
+/// Lays parts out in poses already chosen: `fits[i]` is the answer of [`fit_part`] for
+/// `parts[i]` (each part may have had its own options, e.g. a blade's axes and a
+/// requested pose class, and the hub none). Parts without an entry are fitted with
+/// `opts.fit`. Each part keeps its pose and only turns about the vertical.
+pub fn layout_fitted(
+    parts: &[Part],
+    mut fits: Vec<Fit>,
+    printer: &Printer,
+    opts: &LayoutOptions,
+) -> Result<Layout, FitError> {
+    fits.truncate(parts.len());
+    for part in &parts[fits.len()..] {
+        fits.push(fit_part(&part.name, &part.mesh, printer, &opts.fit)?);
+    }
     let (a, _, _) = printer.available();
     let m = printer.margin;
     let c = printer.clearance;
@@ -394,18 +422,11 @@ pub fn layout(parts: &[Part], printer: &Printer, opts: &LayoutOptions) -> Result
         }
     };
     let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
-    let mut fits: Vec<Fit> = Vec::with_capacity(parts.len());
     let mut unplaced = Vec::new();
     let mut shapes: Vec<(usize, Shape, f64)> = Vec::new();
     let mut alone: Vec<Placed> = Vec::new();
     for (i, part) in parts.iter().enumerate() {
-        // Copies of one mesh (the blades of a rotor) share one search.
-        let same = (0..i).find(|&j| parts[j].mesh == part.mesh);
-        let f = match same {
-            Some(j) => fits[j].clone(),
-            None => fit_part(&part.name, &part.mesh, printer, &opts.fit)?,
-        };
-        fits.push(f.clone());
+        let f = fits[i].clone();
         if !f.fits {
             unplaced.push((i, f));
             continue;

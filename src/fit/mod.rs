@@ -15,6 +15,12 @@
 //!   copies): each part fitted alone, every copy laid out, and a verdict that accounts
 //!   for every copy; [`JobPlan::plate`] gives a plate's checked parts, placed, for the
 //!   writers.
+//! * [`orient`]: the pose a person would print, among those that fit: least overhang
+//!   needing support ([`underside`]), contact with the bed, layers along a blade's span
+//!   (the main stress); the best few poses offered in [`Fit::orientation`] with their
+//!   figures and why one was chosen; pose classes ([`PoseClass`]: root down, flat on
+//!   the pressure side, on the leading edge, ...) can be asked for.
+//! * [`advice`]: supports, brim and trailing edge against the nozzle, with reasons.
 //! * [`printability`]: trailing-edge and section thickness along the span against the
 //!   nozzle and the minimum feature size.
 //!
@@ -34,20 +40,27 @@
 //! # Ok::<(), spanwright::fit::FitError>(())
 //! ```
 
+pub mod advice;
 pub mod hull;
 mod job;
 mod layout;
+pub mod orient;
+pub mod pose;
 mod printability;
 mod printer;
 pub mod search;
 mod stl_in;
 mod svg;
+pub mod underside;
 pub mod yaw;
 
+pub use advice::{advise, AdviceOptions, PrintAdvice, TrailingEdgeAdvice};
 pub use job::{
-    isometry, plan_job, JobItem, JobPlan, JobReport, PartFit, PlateItem, Pose, MAX_COPIES,
+    isometry, plan_job, FitFigures, JobItem, JobPlan, JobReport, PartFit, PlateItem, MAX_COPIES,
 };
-pub use layout::{layout, polygon_distance, Layout, LayoutOptions, Placed, Plate};
+pub use layout::{layout, layout_fitted, polygon_distance, Layout, LayoutOptions, Placed, Plate};
+pub use orient::{Choice, Orientation, Pose, PrintOptions, ScoreTerms};
+pub use pose::{BladeAxes, PoseClass, UnknownPose};
 pub use printability::{
     printability, printability_of_outlines, slice, Cut, Printability, PrintabilityOptions,
 };
@@ -55,9 +68,10 @@ pub use printer::{
     preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,
     DEFAULT_MIN_FEATURE, DEFAULT_NOZZLE, PRESETS,
 };
-pub use search::{fit_part, score, Fit, FitOptions, Placement};
+pub use search::{fit_part, Fit, FitOptions, Placement};
 pub use stl_in::read_stl_part;
 pub use svg::plate_svg;
+pub use underside::{underside, Underside, UndersideOptions};
 
 /// Errors of the printer-fit stage.
 #[derive(Debug, thiserror::Error)]

@@ -29,11 +29,13 @@
 //! found whatever the resolution.
 //!
 //! # Preference
-//! Once a fit exists, the placement printed is chosen among fitting down directions (300
-//! spread over the sphere, the flat faces, the search's best, each refined by a small
-//! pattern search) by [`score`]: low height first, then a flat face on the bed, then
-//! room to spare. Each direction's yaw maximises the room to spare (smallest largest
-//! extent-to-space ratio); the part is centred on the bed.
+//! Once a fit exists, the pose printed is chosen among fitting down directions by the
+//! print score of [`super::orient`]: overhang needing support, contact with the bed, the
+//! layers against the main stress (blades) and height; the best few poses are offered in
+//! [`Fit::orientation`] with their figures and the reasons for the choice, and a pose
+//! class can be asked for ([`PrintOptions::pose`]). Each direction's yaw maximises the
+//! room to spare (smallest largest extent-to-space ratio); the part is centred on the
+//! bed. Ties are broken by a fixed rule, never by hash or memory order.
 //!
 //! # Exactness
 //! The search runs on a subset of the convex hull's vertices (extremes along many
@@ -44,12 +46,16 @@
 //! overshoot, scale) are measured on every vertex.
 
 use super::hull::{self, P2};
+use super::orient::{
+    rank_key, reasons, span_to_layers_deg, Choice, Orientation, Pose, PrintOptions, Scored, Scorer,
+};
+use super::pose::PoseClass;
 use super::yaw::best_yaw;
 use super::{FitError, Printer, Volume};
 use crate::mesh::TriMesh;
 use nalgebra::{Matrix3, Matrix4, Point3, Rotation3, Vector3};
 use std::cmp::Ordering;
-use std::collections::{BinaryHeap, HashMap};
+use std::collections::{BTreeMap, BinaryHeap};
 
 /// Options of the orientation search.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -64,6 +70,8 @@ pub struct FitOptions {
     /// Most down directions evaluated before the search gives up its guarantee (default
     /// 200 000).
     pub max_evaluations: usize,
+    /// What the pose is chosen by besides fitting (default [`PrintOptions::DEFAULT`]).
+    pub print: PrintOptions,
 }
 
 impl FitOptions {
@@ -73,6 +81,7 @@ impl FitOptions {
         support_directions: 1000,
         tolerance: 1e-6,
         max_evaluations: 200_000,
+        print: PrintOptions::DEFAULT,
     };
 }
 
@@ -136,12 +145,13 @@ pub struct Fit {
     /// Largest uniform scale of the part that fits in this placement (below 1 when it
     /// does not fit).
     pub scale_to_fit: f64,
-    /// Preference score of the placement (lower is better; see [`score`]).
+    /// Print score of the placement (lower is better; see [`super::orient`]); infinite
+    /// when it does not fit.
     pub score: f64,
-    /// Area of the part's faces resting on the bed, mm^2.
+    /// Area resting on the bed in the chosen pose, mm^2 (see [`super::underside`]).
     pub bed_contact: f64,
-    /// Area of downward faces more than 45 degrees from vertical (not on the bed), mm^2
-    /// (they need support; 45 degrees is common practice).
+    /// Area needing support in the chosen pose, mm^2: faces steeper than the overhang
+    /// angle (default 45 degrees from vertical, common practice) above the first layer.
     pub overhang_area: f64,
     /// Angular resolution used, degrees.
     pub resolution_deg: f64,
@@ -153,16 +163,8 @@ pub struct Fit {
     pub complete: bool,
     /// Down directions evaluated.
     pub evaluated: usize,
-}
-
-/// Score of a fitting placement, lower is better:
-/// `height / available height + 0.1 * ratio - 0.25 * contact fraction`, where the ratio
-/// is the largest extent-to-space ratio (small: large margins) and the contact fraction
-/// is the share of the footprint's hull resting flat on the bed (a flat face down prints
-/// without supports and sticks well). Low height puts the long axis on the bed, which
-/// also keeps layer lines along the span (common practice for strength).
-pub fn score(height_ratio: f64, ratio: f64, contact_fraction: f64) -> f64 {
-    height_ratio + 0.1 * ratio - 0.25 * contact_fraction.clamp(0.0, 1.0)
+    /// The poses offered, the one chosen and why.
+    pub orientation: Orientation,
 }
 
 #[derive(Debug, Clone, Copy)]
@@ -193,8 +195,6 @@ struct Eval {
     up: Vector3<f64>,
     yaw: f64,
     ratio: f64,
-    height_ratio: f64,
-    footprint_area: f64,
 }
 
 fn frame(up: &Vector3<f64>) -> (Vector3<f64>, Vector3<f64>) {
@@ -245,8 +245,6 @@ fn evaluate(pts: &[Vector3<f64>], up: Vector3<f64>, av: &Avail) -> Eval {
         up,
         yaw,
         ratio: fp.max(height_ratio),
-        height_ratio,
-        footprint_area: hull::area(&hull2).abs(),
     }
 }
 
@@ -341,8 +339,6 @@ fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOption
         up: Vector3::z(),
         yaw: 0.0,
         ratio: f64::MAX,
-        height_ratio: 0.0,
-        footprint_area: 0.0,
     });
     let fits = |e: &Eval| e.ratio <= 1.0 + opts.tolerance / av.min();
     let mut complete = true;
@@ -385,7 +381,8 @@ type Group = (Vector3<f64>, Vec<(usize, f64)>);
 
 /// Large flat faces of the mesh that lie on its convex hull: `(outward normal, area)`.
 fn flats(mesh: &TriMesh) -> Vec<(Vector3<f64>, f64)> {
-    let mut groups: HashMap<[i32; 3], Group> = HashMap::new();
+    // Ordered map: the same mesh gives the same list every run (issue: ties in hash order).
+    let mut groups: BTreeMap<[i32; 3], Group> = BTreeMap::new();
     for t in 0..mesh.len() {
         let n = mesh.scaled_normal(t);
         let len = n.norm();
@@ -534,34 +531,22 @@ fn measure(
     }
 }
 
-fn overhang_and_contact(mesh: &TriMesh, pl: &Placement) -> (f64, f64) {
-    let placed: Vec<Point3<f64>> = mesh.vertices.iter().map(|v| pl.apply(v)).collect();
-    let zmin = placed.iter().map(|p| p.z).fold(f64::MAX, f64::min);
-    let size = mesh.bounding_box().map(|b| b.size().norm()).unwrap_or(1.0);
-    let tol = 1e-6 * size.max(1.0);
-    let sin45 = std::f64::consts::FRAC_1_SQRT_2;
-    let cos1 = 1f64.to_radians().cos();
-    let (mut over, mut contact) = (0.0, 0.0);
-    for t in &mesh.triangles {
-        let [a, b, c] = t.map(|i| placed[i as usize]);
-        let n = (b - a).cross(&(c - a));
-        let len = n.norm();
-        if len.is_nan() || len <= 0.0 {
-            continue;
-        }
-        let nz = n.z / len;
-        let on_bed = [a, b, c].iter().all(|p| p.z <= zmin + tol);
-        if on_bed && nz < -cos1 {
-            contact += 0.5 * len;
-        } else if nz < -sin45 {
-            over += 0.5 * len;
-        }
+/// A fitting candidate with its print figures.
+#[derive(Debug, Clone, Copy)]
+struct Cand {
+    e: Eval,
+    s: Scored,
+}
+
+impl Cand {
+    fn key(&self) -> [i64; 4] {
+        rank_key(self.s.score, &self.e.up)
     }
-    (over, contact)
 }
 
 /// Finds how a part fits the printer (see the module docs for the method and the
-/// guarantee). Errors only when the mesh has no finite vertex.
+/// guarantee) and, among the orientations that fit, the pose to print
+/// ([`super::orient`]). Errors only when the mesh has no finite vertex.
 pub fn fit_part(
     name: &str,
     mesh: &TriMesh,
@@ -599,26 +584,70 @@ pub fn fit_part(
     let lip = 2.0 * radius;
     let mut subset: Vec<usize> = hull::support_subset(&verts, opts.support_directions);
     let flat_list = flats(mesh);
+    let scorer = Scorer::new(mesh, av.h, &opts.print);
     let eps = opts.resolution_deg.to_radians().max(1e-6);
     let mut evaluated = 0;
     let mut complete = true;
-    let finish = |m: Measure, sc: f64, evaluated: usize, complete: bool| {
-        let (overhang_area, bed_contact) = overhang_and_contact(mesh, &m.placement);
+    let finish = |poses: Vec<(Cand, Measure)>, choice: Choice, evaluated: usize, complete: bool| {
+        let poses: Vec<(Pose, Measure)> = poses
+            .into_iter()
+            .map(|(c, m)| (pose_of(&c, &m, &opts.print), m))
+            .collect();
+        let requested = opts.print.pose;
+        let (chosen, choice) = match (choice, requested) {
+            (Choice::NoFit, _) => (0, Choice::NoFit),
+            (_, Some(r)) => match poses.iter().position(|p| p.0.class == Some(r)) {
+                Some(i) => (i, Choice::Requested),
+                None => (0, Choice::RequestedDoesNotFit),
+            },
+            _ => (0, Choice::Best),
+        };
+        let m = &poses[chosen].1;
+        let (fits, placement, size, wall_gap, overshoot, scale) = (
+            m.fits,
+            m.placement,
+            m.size,
+            m.wall_gap,
+            m.overshoot,
+            m.scale,
+        );
+        let poses: Vec<Pose> = poses.into_iter().map(|p| p.0).collect();
+        let why = reasons(&poses, chosen, choice, requested, opts.print.axes.is_some());
+        let p = &poses[chosen];
         Fit {
-            fits: m.fits,
-            placement: m.placement,
-            size: m.size,
-            wall_gap: m.wall_gap,
-            overshoot: m.overshoot,
-            scale_to_fit: m.scale,
-            score: sc,
-            bed_contact,
-            overhang_area,
+            fits,
+            placement,
+            size,
+            wall_gap,
+            overshoot,
+            scale_to_fit: scale,
+            score: if fits { p.score } else { f64::INFINITY },
+            bed_contact: p.underside.contact_area,
+            overhang_area: p.underside.overhang_area,
             resolution_deg: opts.resolution_deg,
             guarantee: lip * eps,
             complete,
             evaluated,
+            orientation: Orientation {
+                chosen,
+                choice,
+                requested,
+                underside_options: opts.print.underside,
+                why,
+                poses,
+            },
         }
+    };
+    let no_fit = |e: &Eval| {
+        let rot = rotation(&e.up, e.yaw);
+        let m = measure(&verts, rot, printer, &av, opts.tolerance);
+        (
+            Cand {
+                e: *e,
+                s: scorer.score(&e.up),
+            },
+            m,
+        )
     };
     for round in 0..4 {
         if round == 3 {
@@ -633,12 +662,10 @@ pub fn fit_part(
         // Special directions: flat faces down and the part's own axes, evaluated exactly
         // (parts that fit only just, face down, are found whatever the resolution).
         let mut best = search.best;
-        let specials = flat_list.iter().map(|(n, _)| -n).chain(
-            [Vector3::x(), Vector3::y(), Vector3::z()]
-                .into_iter()
-                .flat_map(|e| [e, -e]),
-        );
-        for up in specials {
+        let axes_dirs = [Vector3::x(), Vector3::y(), Vector3::z()]
+            .into_iter()
+            .flat_map(|e| [e, -e]);
+        for up in flat_list.iter().map(|(n, _)| -n).chain(axes_dirs.clone()) {
             let e = evaluate(&pts, up, &av);
             evaluated += 1;
             if e.ratio < best.ratio {
@@ -647,47 +674,65 @@ pub fn fit_part(
         }
         if best.ratio > fit_limit {
             // Proven on a subset of the hull: no orientation fits.
-            let rot = rotation(&best.up, best.yaw);
-            let m = measure(&verts, rot, printer, &av, opts.tolerance);
-            return Ok(finish(m, f64::INFINITY, evaluated, complete));
+            return Ok(finish(
+                vec![no_fit(&best)],
+                Choice::NoFit,
+                evaluated,
+                complete,
+            ));
         }
-        // Preference among fitting directions.
-        let contact_of = |e: &Eval| -> f64 {
-            let cos1 = 1f64.to_radians().cos();
-            flat_list
-                .iter()
-                .filter(|(n, _)| (-n).dot(&e.up) > cos1 || n.dot(&(-e.up)) > cos1)
-                .map(|x| x.1)
-                .fold(0.0, f64::max)
-                / e.footprint_area.max(1e-12)
-        };
-        let sc = |e: &Eval| score(e.height_ratio, e.ratio, contact_of(e));
-        let mut ups: Vec<Vector3<f64>> = hull::sphere_directions(300);
+        // Candidates: an even lattice, the flat faces, the part's axes, the classes'
+        // centres, the search's best.
+        let mut ups: Vec<Vector3<f64>> = hull::sphere_directions(CANDIDATES);
         ups.extend(flat_list.iter().map(|(n, _)| -n));
+        ups.extend(axes_dirs);
+        if let Some(ax) = &opts.print.axes {
+            ups.extend(PoseClass::ALL.iter().filter_map(|c| ax.centre(*c)));
+        }
         ups.push(best.up);
         ups.push(-best.up);
-        let mut cands: Vec<Eval> = ups
-            .iter()
-            .map(|u| evaluate(&pts, *u, &av))
-            .filter(|e| e.ratio <= fit_limit)
-            .collect();
-        evaluated += ups.len();
-        cands.sort_by(|p, q| sc(p).total_cmp(&sc(q)));
-        // Local pattern search around the best few.
+        let mut cands: Vec<Cand> = Vec::new();
+        for up in &ups {
+            let e = evaluate(&pts, *up, &av);
+            evaluated += 1;
+            if e.ratio <= fit_limit {
+                cands.push(Cand {
+                    e,
+                    s: scorer.score(&e.up),
+                });
+            }
+        }
+        cands.sort_by_key(Cand::key);
+        // Refine the best of each class (or the best few apart) by a pattern search that
+        // keeps the class and the fit.
+        let starts = distinct(&cands, opts.print.offered.max(3), opts.print.axes.is_some());
         let mut refined = Vec::new();
-        for start in cands.iter().take(3) {
-            let mut cur = *start;
+        for start in starts {
+            let mut cur = start;
             let mut step = 4f64.to_radians();
-            while step >= 0.5 * eps {
-                let (b1, b2) = frame(&cur.up);
+            let mut moves = 0;
+            while step >= 0.5 * eps && moves < 200 {
+                let (b1, b2) = frame(&cur.e.up);
                 let mut improved = false;
                 for axis in [b1, b2, -b1, -b2] {
                     let r = Rotation3::from_axis_angle(&nalgebra::Unit::new_normalize(axis), step);
-                    let e = evaluate(&pts, r * cur.up, &av);
+                    let up = r * cur.e.up;
+                    if scorer.class(&up) != start.s.class {
+                        continue;
+                    }
+                    let e = evaluate(&pts, up, &av);
                     evaluated += 1;
-                    if e.ratio <= fit_limit && sc(&e) < sc(&cur) - 1e-12 {
-                        cur = e;
+                    if e.ratio > fit_limit {
+                        continue;
+                    }
+                    let c = Cand {
+                        e,
+                        s: scorer.score(&up),
+                    };
+                    if c.key() < cur.key() {
+                        cur = c;
                         improved = true;
+                        moves += 1;
                         break;
                     }
                 }
@@ -698,16 +743,39 @@ pub fn fit_part(
             refined.push(cur);
         }
         cands.extend(refined);
-        cands.sort_by(|p, q| sc(p).total_cmp(&sc(q)));
-        // Exact check on every vertex, growing the subset when a vertex breaks a fit.
+        cands.sort_by_key(Cand::key);
+        // Exact check on every vertex, growing the subset when a vertex breaks a fit; the
+        // best few distinct poses (one per class for a blade) and the requested class.
         let mut extra: Vec<usize> = Vec::new();
-        for cand in cands.iter().take(20) {
-            let mut e = *cand;
+        let mut offered: Vec<(Cand, Measure)> = Vec::new();
+        let want = opts.print.offered.max(1);
+        let mut checked = 0;
+        for cand in &cands {
+            let have_requested = opts
+                .print
+                .pose
+                .is_none_or(|r| offered.iter().any(|o| o.0.s.class == Some(r)));
+            if (offered.len() >= want && have_requested) || checked >= MAX_EXACT {
+                break;
+            }
+            if offered.len() >= want && cand.s.class != opts.print.pose {
+                continue;
+            }
+            let apart = |o: &(Cand, Measure)| match opts.print.axes {
+                Some(_) => o.0.s.class != cand.s.class,
+                None => o.0.e.up.dot(&cand.e.up) < APART_COS,
+            };
+            if !offered.iter().all(apart) {
+                continue;
+            }
+            checked += 1;
+            let mut e = cand.e;
             for _ in 0..8 {
                 let rot = rotation(&e.up, e.yaw);
                 let m = measure(&verts, rot, printer, &av, opts.tolerance);
                 if m.fits {
-                    return Ok(finish(m, sc(&e), evaluated, complete));
+                    offered.push((Cand { e, s: cand.s }, m));
+                    break;
                 }
                 extra.extend(&m.extremes);
                 let mut local = pts.clone();
@@ -719,6 +787,10 @@ pub fn fit_part(
                 }
             }
         }
+        if !offered.is_empty() {
+            offered.sort_by_key(|o| o.0.key());
+            return Ok(finish(offered, Choice::Best, evaluated, complete));
+        }
         subset.extend(extra);
         subset.sort_unstable();
         subset.dedup();
@@ -727,12 +799,51 @@ pub fn fit_part(
     // there is exact. Report the closest placement found.
     let pts: Vec<Vector3<f64>> = verts.iter().map(|v| v - centre).collect();
     let search = branch_and_bound(&pts, lip, &av, opts);
-    let rot = rotation(&search.best.up, search.best.yaw);
-    let m = measure(&verts, rot, printer, &av, opts.tolerance);
     Ok(finish(
-        m,
-        f64::INFINITY,
+        vec![no_fit(&search.best)],
+        Choice::NoFit,
         evaluated + search.evaluated,
         false,
     ))
+}
+
+/// Down directions of the even lattice tried for the pose.
+const CANDIDATES: usize = 400;
+/// Most candidates checked on every vertex in one round.
+const MAX_EXACT: usize = 60;
+/// Poses offered without blade axes are at least 30 degrees apart.
+const APART_COS: f64 = 0.866_025_403_784_438_6;
+
+/// The best candidate of each class (blades), or the best `n` at least 30 degrees apart,
+/// from a sorted list.
+fn distinct(sorted: &[Cand], n: usize, by_class: bool) -> Vec<Cand> {
+    let mut out: Vec<Cand> = Vec::new();
+    for c in sorted {
+        let new = if by_class {
+            out.iter().all(|o| o.s.class != c.s.class)
+        } else {
+            out.len() < n && out.iter().all(|o| o.e.up.dot(&c.e.up) < APART_COS)
+        };
+        if new {
+            out.push(*c);
+        }
+    }
+    out
+}
+
+fn pose_of(c: &Cand, m: &Measure, opts: &PrintOptions) -> Pose {
+    let r = &m.placement.rotation;
+    let t = &m.placement.translation;
+    Pose {
+        class: c.s.class,
+        up: [c.e.up.x, c.e.up.y, c.e.up.z],
+        rotation: [0, 1, 2].map(|i| [r[(i, 0)], r[(i, 1)], r[(i, 2)]]),
+        translation: [t.x, t.y, t.z],
+        angles_deg: m.placement.angles_deg(),
+        size: m.size,
+        underside: c.s.underside,
+        span_to_layers_deg: opts.axes.map(|a| span_to_layers_deg(&a, &c.e.up)),
+        terms: c.s.terms,
+        score: c.s.score,
+    }
 }

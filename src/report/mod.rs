@@ -5,6 +5,8 @@
 //! * [`html`] renders a self-contained HTML page with the pictures inline.
 //! * The JSON report is `serde_json` of [`Report`]; its schema is [`SCHEMA`]
 //!   (`src/report/schema.json`).
+//! * [`preview`]: a shaded 3-D picture (PNG, own software renderer) of a blade or an
+//!   assembled rotor with the rotation sense and the wind drawn.
 //!
 //! Files are written by the command through [`crate::atomic`].
 
@@ -12,6 +14,7 @@ mod build;
 mod html;
 mod model;
 mod planform;
+pub mod preview;
 mod stack;
 mod stress_chart;
 mod transition;
@@ -21,6 +24,7 @@ pub use build::{build, Pictures, ReportError, ReportInput, STEPS};
 pub use html::html;
 pub use model::{BalanceSummary, PartSummary, Report, Units, SCHEMA, SCHEMA_ID};
 pub use planform::{planform_svg, station_thickness};
+pub use preview::{preview_png, render, Image, Item, Marks, PreviewOptions, View};
 pub use stack::{stack_svg, AXIS_COLOUR};
 pub use stress_chart::stress_svg;
 pub use transition::transition_svg;
