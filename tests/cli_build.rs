@@ -61,7 +61,7 @@ fn builds_a_bare_csv_with_a_section_name() {
     assert_eq!(r.code, 0, "{}", r.stderr);
     let mut files = files_in(&r.out);
     files.sort();
-    assert_eq!(files, ["t.3mf", "t.step", "t.stl"]);
+    assert_eq!(files, ["t-preview.png", "t.3mf", "t.step", "t.stl"]);
     assert!(
         r.stdout.contains("closed, oriented, no self-intersection"),
         "{}",

@@ -60,7 +60,7 @@ fn expect(code: i32, r: &support::Run, what: &str) {
 fn build_exits_0_1_2() {
     let r = run_in_temp(&[("t.toml", BLADE)], &["build", "t.toml", "-o", "out"]);
     expect(0, &r, "a valid blade");
-    assert_eq!(r.files("out"), ["t.stl"]);
+    assert_eq!(r.files("out"), ["t-preview.png", "t.stl"]);
 
     let r = run_in_temp(
         &[("t.toml", &hub_through_blades())],

@@ -69,7 +69,13 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     let outcome = outcome.with_context(|| format!("building {}", args.design.display()))?;
     timings.extend(&outcome.timings);
     stages.set("writing files");
-    let (written, notes) = write_files(&outcome, &args.out, &formats, &mut timings)?;
+    let (written, notes) = write_files(
+        &outcome,
+        design.blade.rotation,
+        &args.out,
+        &formats,
+        &mut timings,
+    )?;
     let summary = Summary::of(&design, &outcome, &written, &notes, &timings, started);
     if args.json {
         outln!("{}", serde_json::to_string_pretty(&summary)?);
@@ -104,6 +110,7 @@ fn check_tolerance(t: f64) -> anyhow::Result<()> {
 /// all files appear, or none.
 fn write_files(
     outcome: &Outcome,
+    rotation: spanwright::design::Rotation,
     dir: &Path,
     formats: &[Format],
     timings: &mut Timings,
@@ -118,6 +125,12 @@ fn write_files(
         let svg = spanwright::report::transition_svg(&outcome.blade.blade, 12);
         batch.write(&path, |w| w.write_all(svg.as_bytes()))?;
     }
+    timings.time("previews", || -> anyhow::Result<()> {
+        for (name, png) in spanwright::report::previews(outcome, rotation) {
+            batch.write(&dir.join(name), |w| w.write_all(&png))?;
+        }
+        Ok(())
+    })?;
     Ok((batch.commit()?, notes))
 }
 
@@ -262,6 +275,9 @@ impl Summary {
         }
         for n in &self.step_notes {
             let _ = writeln!(s, "  note: {n}");
+        }
+        if self.files.iter().any(|f| f.ends_with("-preview.png")) {
+            let _ = writeln!(s, "  previews: {}", spanwright::report::PREVIEW_VIEW);
         }
         for f in &self.files {
             let _ = writeln!(s, "  wrote {f}");

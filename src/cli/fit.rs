@@ -6,8 +6,9 @@ use spanwright::atomic::Batch;
 use spanwright::check::CheckedPart;
 use spanwright::export::{write_mesh_to, MeshFormat};
 use spanwright::fit::{
-    self, fit_part, plan_job, plate_svg, FitFigures, FitOptions, JobItem, JobPlan, JobReport,
-    LayoutOptions, PrintabilityOptions, Printer, PrinterSpec, Volume, MAX_COPIES,
+    self, fit_part, plan_job, plate_svg, BladeAxes, FitFigures, FitOptions, JobItem, JobPlan,
+    JobReport, LayoutOptions, PoseClass, PrintOptions, PrintabilityOptions, Printer, PrinterSpec,
+    Volume, MAX_COPIES,
 };
 use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{self, Outcome, PartKind};
@@ -50,6 +51,11 @@ pub struct Args {
     /// Angular resolution of the orientation search, degrees.
     #[arg(long, default_value_t = 0.5)]
     resolution: f64,
+    /// Pose for the blade: root-down, tip-down, pressure-side-down, suction-side-down,
+    /// leading-edge-down or trailing-edge-down (default: the best score: least support,
+    /// layers along the span, enough bed contact).
+    #[arg(long, value_name = "POSE")]
+    pose: Option<String>,
     /// Folder for the plate files (STL, 3MF, SVG).
     #[arg(long, short, default_value = "out")]
     out: PathBuf,
@@ -100,10 +106,15 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         let spec = design.table_mm::<PrinterSpec>("printer")?;
         let outcome = pipeline::run(&design, &pipeline::Options::default())
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
-        (Vec::new(), Some(outcome), spec)
+        let axes = BladeAxes::of_design(&design);
+        (Vec::new(), Some((outcome, axes)), spec)
     };
     let printer = resolve_printer(&args, cli_spec, file_spec)?;
-    let job = job_items(&parts, outcome.as_ref(), args.copies);
+    let pose = match &args.pose {
+        Some(name) => Some(name.parse::<PoseClass>().context("--pose")?),
+        None => None,
+    };
+    let job = job_items(&parts, outcome.as_ref(), args.copies, pose);
     let fit_opts = FitOptions {
         resolution_deg: args.resolution,
         ..FitOptions::DEFAULT
@@ -114,7 +125,12 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     };
     let plan = plan_job(&job, &printer, &layout_opts, &PrintabilityOptions::DEFAULT)?;
     let assembled = if args.assembled {
-        Some(assembled(outcome.as_ref(), &job, &printer, &fit_opts)?)
+        Some(assembled(
+            outcome.as_ref().map(|(o, _)| o),
+            &job,
+            &printer,
+            &fit_opts,
+        )?)
     } else {
         None
     };
@@ -124,7 +140,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         Vec::new()
     };
     let summary = FitSummary {
-        notes: notes(&plan.report, outcome.as_ref(), stl),
+        notes: notes(&plan.report, outcome.as_ref().map(|(o, _)| o), stl),
         job: plan.report,
         assembled,
         files: files.iter().map(|p| p.display().to_string()).collect(),
@@ -223,20 +239,29 @@ fn resolve_printer(
 }
 
 /// What goes to the printer: the outcome's print set (the one-piece rotor, or the blade
-/// once per blade and the hub), or the STL part; `--copies` sets the blade's count.
+/// once per blade and the hub), or the STL part; `--copies` sets the blade's count. The
+/// blade's pose is chosen with its axes (layers along the span) and the pose asked for.
 fn job_items<'a>(
     stl: &'a [CheckedPart],
-    outcome: Option<&'a Outcome>,
+    outcome: Option<&'a (Outcome, BladeAxes)>,
     copies: Option<usize>,
+    pose: Option<PoseClass>,
 ) -> Vec<JobItem<'a>> {
     match outcome {
-        Some(o) => o
+        Some((o, axes)) => o
             .print_set()
             .into_iter()
-            .enumerate()
-            .map(|(k, (part, n))| JobItem {
-                part,
-                copies: if k == 0 { copies.unwrap_or(n) } else { n },
+            .map(|(kind, part, n)| {
+                let blade = kind == PartKind::Blade;
+                JobItem {
+                    part,
+                    copies: if blade { copies.unwrap_or(n) } else { n },
+                    print: PrintOptions {
+                        axes: blade.then_some(*axes),
+                        pose: if blade { pose } else { None },
+                        ..PrintOptions::DEFAULT
+                    },
+                }
             })
             .collect(),
         None => stl
@@ -244,6 +269,7 @@ fn job_items<'a>(
             .map(|part| JobItem {
                 part,
                 copies: copies.unwrap_or(1),
+                print: PrintOptions::DEFAULT,
             })
             .collect(),
     }
@@ -479,7 +505,15 @@ fn part_text(t: &mut String, p: &fit::PartFit) {
         f.guarantee,
         if f.complete { "" } else { " (search stopped early: not guaranteed)" }
     );
+    pose_text(t, p);
     let c = &p.printability;
+    if p.orientation
+        .poses
+        .iter()
+        .all(|q| q.span_to_layers_deg.is_none())
+    {
+        return; // not a blade: trailing edge and sections along a span do not apply
+    }
     if p.findings.is_empty() {
         if let (Some((_, te)), Some((_, th))) = (c.min_te(), c.min_thickness()) {
             let _ = writeln!(
@@ -491,5 +525,59 @@ fn part_text(t: &mut String, p: &fit::PartFit) {
     }
     for line in &p.findings {
         let _ = writeln!(t, "  printability: {line}");
+    }
+}
+
+/// The pose chosen, why, the others offered, and the print advice.
+fn pose_text(t: &mut String, p: &fit::PartFit) {
+    let o = &p.orientation;
+    let chosen = o.pose();
+    let class = |q: &fit::Pose| match q.class {
+        Some(c) => c.name().to_string(),
+        None => format!("up ({:.2}, {:.2}, {:.2})", q.up[0], q.up[1], q.up[2]),
+    };
+    let _ = writeln!(
+        t,
+        "  pose: {}{}",
+        class(chosen),
+        chosen.span_to_layers_deg.map_or(String::new(), |a| format!(
+            ", span {a:.0} deg from the layers"
+        ))
+    );
+    for why in &o.why {
+        let _ = writeln!(t, "    {why}");
+    }
+    if o.poses.len() > 1 {
+        let _ = writeln!(t, "  poses offered (support / bed contact mm^2, score):");
+        for (k, q) in o.poses.iter().enumerate() {
+            let _ = writeln!(
+                t,
+                "    {} {:<20} {:>7.0} / {:>6.0}  {:.3}",
+                if k == o.chosen { "*" } else { " " },
+                class(q),
+                q.underside.overhang_area,
+                q.underside.contact_area,
+                q.score
+            );
+        }
+    }
+    let a = &p.advice;
+    let _ = writeln!(
+        t,
+        "  supports: {}; {}",
+        if a.supports { "needed" } else { "none" },
+        a.supports_why
+    );
+    let _ = writeln!(
+        t,
+        "  brim: {}; {}",
+        if a.brim { "advised" } else { "not needed" },
+        a.brim_why
+    );
+    if let Some(l) = &a.layers_why {
+        let _ = writeln!(t, "  layers: {l}");
+    }
+    if let Some(te) = &a.trailing_edge {
+        let _ = writeln!(t, "  trailing edge: {}", te.why);
     }
 }

@@ -3,8 +3,9 @@
 //! job does not fit and the report names what was left over.
 
 use super::{
-    fit_part, layout, printability, Fit, FitError, FitOptions, Layout, LayoutOptions, Placement,
-    Printability, PrintabilityOptions, Printer,
+    advise, fit_part, layout_fitted, printability, AdviceOptions, Fit, FitError, FitOptions,
+    Layout, LayoutOptions, Orientation, Placement, PrintAdvice, PrintOptions, Printability,
+    PrintabilityOptions, Printer,
 };
 use crate::check::CheckedPart;
 use crate::mesh::{Part, TriMesh};
@@ -22,6 +23,9 @@ pub struct JobItem<'a> {
     pub part: &'a CheckedPart,
     /// Copies wanted, at least 1.
     pub copies: usize,
+    /// How its pose is chosen: a blade's axes (for the layer term and pose classes) and
+    /// a requested pose class.
+    pub print: PrintOptions,
 }
 
 /// Where a part sits and how: the answer of the orientation search, for people and
@@ -93,6 +97,10 @@ pub struct PartFit {
     /// Its best pose alone on a plate.
     #[serde(flatten)]
     pub pose: FitFigures,
+    /// The poses offered, the one chosen and why.
+    pub orientation: Orientation,
+    /// Supports, brim, layers and trailing edge for the chosen pose.
+    pub advice: PrintAdvice,
     /// Printability along the span.
     pub printability: Printability,
     /// Printability findings in words.
@@ -139,6 +147,15 @@ pub struct JobPlan {
     pub layout: Option<Layout>,
 }
 
+/// The search answers of the distinct parts, for the layout: each copy takes its part's
+/// pose, so the layout never searches again.
+fn copy_fits(job: &[JobItem<'_>], fits: &[Fit]) -> Vec<Fit> {
+    job.iter()
+        .zip(fits)
+        .flat_map(|(item, f)| std::iter::repeat_n(f.clone(), item.copies))
+        .collect()
+}
+
 impl JobPlan {
     /// The copies on plate `k`, moved to their places: checked parts ready for a writer.
     pub fn plate(&self, k: usize) -> Vec<CheckedPart> {
@@ -175,15 +192,17 @@ pub fn plan_job(
     opts: &LayoutOptions,
     checks: &PrintabilityOptions,
 ) -> Result<JobPlan, FitError> {
-    let parts = job
+    let (parts, fits): (Vec<PartFit>, Vec<Fit>) = job
         .iter()
         .map(|item| part_fit(item, printer, &opts.fit, checks))
-        .collect::<Result<Vec<_>, _>>()?;
+        .collect::<Result<Vec<_>, _>>()?
+        .into_iter()
+        .unzip();
     let copies: Vec<CheckedPart> = job.iter().flat_map(copies_of).collect();
     let all_alone = parts.iter().all(|p| p.pose.fits);
     let layout = if all_alone {
         let input: Vec<Part> = copies.iter().map(|c| c.as_part().clone()).collect();
-        Some(layout(&input, printer, opts)?)
+        Some(layout_fitted(&input, copy_fits(job, &fits), printer, opts)?)
     } else {
         None
     };
@@ -222,18 +241,37 @@ fn part_fit(
     printer: &Printer,
     opts: &FitOptions,
     checks: &PrintabilityOptions,
-) -> Result<PartFit, FitError> {
+) -> Result<(PartFit, Fit), FitError> {
     let mesh: &TriMesh = item.part.mesh();
-    let fit = fit_part(item.part.name(), mesh, printer, opts)?;
+    let opts = FitOptions {
+        print: item.print,
+        ..*opts
+    };
+    let fit = fit_part(item.part.name(), mesh, printer, &opts)?;
     let printability = printability(mesh, printer, checks);
-    Ok(PartFit {
+    // The trailing edge matters for blades only (parts with blade axes).
+    let thinnest_te = item
+        .print
+        .axes
+        .and_then(|_| printability.min_te())
+        .map(|(_, c)| (c.te_thickness, Some(c.z)));
+    let advice = advise(
+        fit.orientation.pose(),
+        printer,
+        thinnest_te,
+        &AdviceOptions::DEFAULT,
+    );
+    let part = PartFit {
         name: item.part.name().to_string(),
         copies: item.copies,
         triangles: mesh.len(),
         pose: FitFigures::of(&fit),
+        orientation: fit.orientation.clone(),
+        advice,
         findings: printability.findings(),
         printability,
-    })
+    };
+    Ok((part, fit))
 }
 
 /// The copies of one item: the part itself when one is wanted, else `<name>-1`, ...

@@ -77,14 +77,14 @@ impl Outcome {
     /// What goes to the printer, each with how many copies: the one-piece rotor when the
     /// design asks for one; else the blade once per blade of the rotor (once without a
     /// rotor) and the hub.
-    pub fn print_set(&self) -> Vec<(&CheckedPart, usize)> {
+    pub fn print_set(&self) -> Vec<(PartKind, &CheckedPart, usize)> {
         if let Some(whole) = self.part(PartKind::OnePiece) {
-            return whole.bodies.iter().map(|b| (b, 1)).collect();
+            return whole.bodies.iter().map(|b| (whole.kind, b, 1)).collect();
         }
         let blades = self.rotor.as_ref().map_or(1, |r| r.transforms.len());
-        let mut out = vec![(self.blade_part(), blades)];
+        let mut out = vec![(PartKind::Blade, self.blade_part(), blades)];
         if let Some(hub) = self.part(PartKind::Hub) {
-            out.extend(hub.bodies.iter().map(|b| (b, 1)));
+            out.extend(hub.bodies.iter().map(|b| (hub.kind, b, 1)));
         }
         out
     }
