@@ -208,3 +208,39 @@ fn a_closed_pipe_ends_output_quietly() {
     assert!(!stderr.contains("panicked"), "{stderr}");
     assert_eq!(out.status.code(), Some(0), "{stderr}");
 }
+
+#[test]
+fn fit_accounts_for_every_part_of_the_design() {
+    // The demo turbine's blades fit a 300 x 60 x 60 mm box lying down; its 84 mm hub
+    // disc fits in no orientation (its smallest width, 30 mm thick by 84 mm across, has
+    // a diagonal of at least 84 mm > the 60 - 2 x 5 mm usable). The verdict must not
+    // drop the hub: exit 1, naming it.
+    let r = run_in_temp(
+        &[],
+        &[
+            "fit",
+            "@/examples/garden-turbine.toml",
+            "--volume",
+            "300,60,60",
+            "--no-files",
+            "--json",
+        ],
+    );
+    expect(1, &r, "a printer the hub does not fit");
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert_eq!(v["fits"], false);
+    let unplaced: Vec<&str> = v["unplaced"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_str().unwrap())
+        .collect();
+    assert_eq!(unplaced, ["garden-turbine-hub"]);
+    let placed: usize = v["plates"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|p| p.as_array().unwrap().len())
+        .sum();
+    assert_eq!(placed, 3, "the three blades are placed");
+}

@@ -134,7 +134,8 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     } else {
         None
     };
-    let files = if plan.layout.is_some() && !args.no_files {
+    // Plates are written only for a job that fits whole: a partial set would mislead.
+    let files = if plan.report.fits && !args.no_files {
         write_plates(&plan, &printer, &args.out, &file_stem(&args.input))?
     } else {
         Vec::new()

@@ -129,7 +129,7 @@ pub struct JobReport {
     pub fits: bool,
     /// Every distinct part, in job order.
     pub parts: Vec<PartFit>,
-    /// Plates, each with its copies; `None` when some part fits no plate alone.
+    /// Plates, each with its copies; `None` when no part fits the printer.
     pub plates: Option<Vec<Vec<PlateItem>>>,
     /// Copies that are on no plate (empty when the job fits).
     pub unplaced: Vec<String>,
@@ -141,9 +141,9 @@ pub struct JobReport {
 pub struct JobPlan {
     /// The answer for people and scripts.
     pub report: JobReport,
-    /// Every copy, in layout input order.
+    /// The copies of the parts that fit alone, in layout input order.
     pub copies: Vec<CheckedPart>,
-    /// The plate layout, when every part fits alone.
+    /// The plate layout of those copies, when there are any.
     pub layout: Option<Layout>,
 }
 
@@ -198,15 +198,28 @@ pub fn plan_job(
         .collect::<Result<Vec<_>, _>>()?
         .into_iter()
         .unzip();
-    let copies: Vec<CheckedPart> = job.iter().flat_map(copies_of).collect();
-    let all_alone = parts.iter().all(|p| p.pose.fits);
-    let layout = if all_alone {
-        let input: Vec<Part> = copies.iter().map(|c| c.as_part().clone()).collect();
-        Some(layout_fitted(&input, copy_fits(job, &fits), printer, opts)?)
-    } else {
+    // Only copies of parts that fit alone go to the layout; the others are named.
+    let fitting: Vec<usize> = (0..job.len()).filter(|&k| parts[k].pose.fits).collect();
+    let too_big = (0..job.len())
+        .filter(|k| !fitting.contains(k))
+        .flat_map(|k| copies_of(&job[k]))
+        .map(|c| c.name().to_string());
+    let copies: Vec<CheckedPart> = fitting.iter().flat_map(|&k| copies_of(&job[k])).collect();
+    let layout = if copies.is_empty() {
         None
+    } else {
+        let input: Vec<Part> = copies.iter().map(|c| c.as_part().clone()).collect();
+        let items: Vec<JobItem<'_>> = fitting.iter().map(|&k| job[k]).collect();
+        let chosen: Vec<Fit> = fitting.iter().map(|&k| fits[k].clone()).collect();
+        Some(layout_fitted(
+            &input,
+            copy_fits(&items, &chosen),
+            printer,
+            opts,
+        )?)
     };
-    let unplaced = unplaced_copies(&copies, layout.as_ref());
+    let mut unplaced: Vec<String> = too_big.collect();
+    unplaced.extend(unplaced_copies(&copies, layout.as_ref()));
     let plates = layout.as_ref().map(|l| {
         l.plates
             .iter()
