@@ -20,6 +20,7 @@
 pub mod airfoil;
 pub mod assembly;
 pub mod blade;
+pub mod brep;
 pub mod check;
 pub mod conventions;
 pub mod design;
