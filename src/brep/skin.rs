@@ -165,6 +165,10 @@ fn snap_to_knot(knots: &[f64], t: f64) -> f64 {
 pub(crate) struct SpanMap<'a> {
     skin: &'a Skin,
     z: Vec<f64>,
+    /// `z` grows with `v`.
+    rising: bool,
+    /// `z(v)` is monotone (checked on 20 samples per knot span).
+    monotone: bool,
 }
 
 impl<'a> SpanMap<'a> {
@@ -176,7 +180,25 @@ impl<'a> SpanMap<'a> {
             let col: Vec<Point3> = skin.control.iter().map(|row| pt(&row[j])).collect();
             z.push(end_z(&col, "control (a column along u)", tol)?);
         }
-        Ok(SpanMap { skin, z })
+        let mut map = SpanMap {
+            skin,
+            z,
+            rising: true,
+            monotone: true,
+        };
+        let samples = 20 * skin.knots_v.len();
+        let zs: Vec<f64> = (0..=samples)
+            .map(|i| map.z(i as f64 / samples as f64))
+            .collect();
+        map.rising = zs[samples] > zs[0];
+        map.monotone = zs.windows(2).all(|w| {
+            if map.rising {
+                w[1] > w[0]
+            } else {
+                w[1] < w[0]
+            }
+        });
+        Ok(map)
     }
 
     /// `z(v)`.
@@ -189,43 +211,35 @@ impl<'a> SpanMap<'a> {
             .sum()
     }
 
-    /// The `v` where the skin crosses the plane `z = c`, strictly inside the skin. `z(v)`
-    /// must be monotone (checked on 20 samples per knot span); bisection to 1e-15.
+    /// The `v` where the skin crosses the plane `z = c`, strictly inside the skin
+    /// (bisection to 1e-16).
     pub(crate) fn v_at(&self, c: f64, what: &str) -> Result<f64, BrepError> {
-        let samples = 20 * self.skin.knots_v.len();
-        let zs: Vec<f64> = (0..=samples)
-            .map(|i| self.z(i as f64 / samples as f64))
-            .collect();
-        let rising = zs[samples] > zs[0];
-        let monotone = zs
-            .windows(2)
-            .all(|w| if rising { w[1] > w[0] } else { w[1] < w[0] });
-        if !monotone {
+        if !self.monotone {
             return Err(bad(
                 "control",
                 "z along the span",
                 "the skin's sections do not advance monotonically along z, so a plane z = const cuts it more than once",
             ));
         }
-        let (z0, z1) = (zs[0], zs[samples]);
+        let (z0, z1) = (self.z(0.0), self.z(1.0));
         let (lo_z, hi_z) = (z0.min(z1), z0.max(z1));
-        let margin = 1e-6 * (hi_z - lo_z);
+        let margin = 1e-9 * (hi_z - lo_z);
         if !(c > lo_z + margin && c < hi_z - margin) {
             return Err(BrepError::feature(
                 what.to_string(),
                 format!("the plane z = {c} mm is not strictly inside the skin's span {lo_z} .. {hi_z} mm"),
-                "put split planes between the skin's ends",
+                "put split planes and holes between the skin's ends",
             ));
         }
         let (mut a, mut b) = (0.0f64, 1.0f64);
-        for _ in 0..200 {
+        for _ in 0..64 {
             let m = 0.5 * (a + b);
-            if (self.z(m) < c) == rising {
+            if (self.z(m) < c) == self.rising {
                 a = m;
             } else {
                 b = m;
             }
-            if b - a < 1e-15 {
+            if b - a < 1e-16 {
                 break;
             }
         }

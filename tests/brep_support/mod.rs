@@ -364,6 +364,123 @@ fn distinct(knots: &[f64]) -> Vec<f64> {
     v
 }
 
+/// Nonzero B-spline basis values and first derivatives at `t` (The NURBS Book,
+/// Piegl & Tiller, 2nd ed. 1997, algorithms A2.1 and A2.3): `(first index, values,
+/// derivatives)`.
+fn basis_ders(knots: &[f64], p: usize, t: f64) -> (usize, Vec<f64>, Vec<f64>) {
+    let n = knots.len() - p - 2;
+    let t = t.clamp(knots[p], knots[n + 1]);
+    let span = if t >= knots[n + 1] { n } else { (knots.partition_point(|&k| k <= t) - 1).clamp(p, n) };
+    // ndu: basis values of every degree (A2.3), then the first derivative.
+    let mut ndu = vec![vec![0.0; p + 1]; p + 1];
+    let (mut left, mut right) = (vec![0.0; p + 1], vec![0.0; p + 1]);
+    ndu[0][0] = 1.0;
+    for j in 1..=p {
+        left[j] = t - knots[span + 1 - j];
+        right[j] = knots[span + j] - t;
+        let mut saved = 0.0;
+        for r in 0..j {
+            ndu[j][r] = right[r + 1] + left[j - r];
+            let temp = if ndu[j][r] != 0.0 { ndu[r][j - 1] / ndu[j][r] } else { 0.0 };
+            ndu[r][j] = saved + right[r + 1] * temp;
+            saved = left[j - r] * temp;
+        }
+        ndu[j][j] = saved;
+    }
+    let vals: Vec<f64> = (0..=p).map(|j| ndu[j][p]).collect();
+    let mut der = vec![0.0; p + 1];
+    if p > 0 {
+        for r in 0..=p {
+            let mut d = 0.0;
+            if r >= 1 {
+                let den = ndu[p][r - 1];
+                if den != 0.0 {
+                    d += ndu[r - 1][p - 1] / den;
+                }
+            }
+            if r < p {
+                let den = ndu[p][r];
+                if den != 0.0 {
+                    d -= ndu[r][p - 1] / den;
+                }
+            }
+            der[r] = d * p as f64;
+        }
+    }
+    (span - p, vals, der)
+}
+
+/// A read-back surface evaluated with only its nonzero basis functions (truck's own
+/// evaluation sums over every control point, too slow for the quadratures here).
+enum Fast<'a> {
+    Poly { ku: Vec<f64>, kv: Vec<f64>, pu: usize, pv: usize, cps: Vec<Vec<[f64; 4]>> },
+    Other(&'a TSurface),
+}
+
+impl<'a> Fast<'a> {
+    fn new(s: &'a TSurface) -> Fast<'a> {
+        match s {
+            TSurface::BSplineSurface(b) => Fast::Poly {
+                ku: b.uknot_vec().as_slice().to_vec(),
+                kv: b.vknot_vec().as_slice().to_vec(),
+                pu: b.udegree(),
+                pv: b.vdegree(),
+                cps: b.control_points().iter().map(|r| r.iter().map(|p| [p.x, p.y, p.z, 1.0]).collect()).collect(),
+            },
+            TSurface::NurbsSurface(n) => {
+                let b = n.non_rationalized();
+                Fast::Poly {
+                    ku: b.uknot_vec().as_slice().to_vec(),
+                    kv: b.vknot_vec().as_slice().to_vec(),
+                    pu: b.udegree(),
+                    pv: b.vdegree(),
+                    cps: b.control_points().iter().map(|r| r.iter().map(|p| [p.x, p.y, p.z, p.w]).collect()).collect(),
+                }
+            }
+            other => Fast::Other(other),
+        }
+    }
+
+    /// The parameter rectangle of a B-spline, `None` for a plane.
+    fn range(&self) -> Option<((f64, f64), (f64, f64))> {
+        match self {
+            Fast::Poly { ku, kv, .. } => Some(((ku[0], ku[ku.len() - 1]), (kv[0], kv[kv.len() - 1]))),
+            Fast::Other(_) => None,
+        }
+    }
+
+    fn subs(&self, u: f64, v: f64) -> TPoint {
+        self.eval(u, v).0
+    }
+
+    /// Point and first derivatives at `(u, v)`.
+    fn eval(&self, u: f64, v: f64) -> (TPoint, TVector, TVector) {
+        match self {
+            Fast::Other(s) => (s.subs(u, v), s.uder(u, v), s.vder(u, v)),
+            Fast::Poly { ku, kv, pu, pv, cps } => {
+                let (iu, nu, du) = basis_ders(ku, *pu, u);
+                let (iv, nv, dv) = basis_ders(kv, *pv, v);
+                let (mut a, mut au, mut av) = ([0.0; 4], [0.0; 4], [0.0; 4]);
+                for (i, (n_u, d_u)) in nu.iter().zip(&du).enumerate() {
+                    for (j, (n_v, d_v)) in nv.iter().zip(&dv).enumerate() {
+                        let c = cps[iu + i][iv + j];
+                        for k in 0..4 {
+                            a[k] += n_u * n_v * c[k];
+                            au[k] += d_u * n_v * c[k];
+                            av[k] += n_u * d_v * c[k];
+                        }
+                    }
+                }
+                // Homogeneous to Cartesian: S = A / w, S' = (A' - S w') / w.
+                let w = a[3];
+                let p = TPoint::new(a[0] / w, a[1] / w, a[2] / w);
+                let d = |x: [f64; 4]| TVector::new((x[0] - p.x * x[3]) / w, (x[1] - p.y * x[3]) / w, (x[2] - p.z * x[3]) / w);
+                (p, d(au), d(av))
+            }
+        }
+    }
+}
+
 /// Breakpoints (distinct knots) of a surface in u and v; `None` for a plane.
 fn surface_breaks(s: &TSurface) -> Option<(Vec<f64>, Vec<f64>)> {
     match s {
@@ -398,11 +515,15 @@ fn curve_breaks(c: &truck_stepio::r#in::alias::Curve3D) -> Vec<f64> {
 
 /// Newton projection of `p` onto `s` from `(u, v)`: the parameters whose point is
 /// nearest (locally).
-fn project(s: &TSurface, p: TPoint, mut u: f64, mut v: f64) -> (f64, f64) {
-    let range =
-        surface_breaks(s).map(|(bu, bv)| ((bu[0], bu[bu.len() - 1]), (bv[0], bv[bv.len() - 1])));
+fn project(s: &Fast<'_>, p: TPoint, mut u: f64, mut v: f64) -> (f64, f64) {
+    let range = s.range();
+    let clamp = |u: f64, v: f64| match range {
+        Some(((u0, u1), (v0, v1))) => (u.clamp(u0, u1), v.clamp(v0, v1)),
+        None => (u, v),
+    };
+    let mut dist = (s.subs(u, v) - p).magnitude2();
     for _ in 0..60 {
-        let (q, su, sv) = (s.subs(u, v), s.uder(u, v), s.vder(u, v));
+        let (q, su, sv) = s.eval(u, v);
         let d = p - q;
         let (a, b, c) = (su.dot(su), su.dot(sv), sv.dot(sv));
         let det = a * c - b * b;
@@ -414,14 +535,23 @@ fn project(s: &TSurface, p: TPoint, mut u: f64, mut v: f64) -> (f64, f64) {
         if !(du.is_finite() && dv.is_finite()) {
             break;
         }
-        let (nu, nv) = match range {
-            Some(((u0, u1), (v0, v1))) => ((u + du).clamp(u0, u1), (v + dv).clamp(v0, v1)),
-            None => (u + du, v + dv),
-        };
-        let step = (nu - u).abs() + (nv - v).abs();
-        u = nu;
-        v = nv;
-        if step < 1e-14 {
+        // Gauss-Newton with step halving: accept only a step that gets closer.
+        let mut k = 1.0;
+        let mut moved = false;
+        for _ in 0..30 {
+            let (nu, nv) = clamp(u + k * du, v + k * dv);
+            let nd = (s.subs(nu, nv) - p).magnitude2();
+            if nd <= dist {
+                let step = (nu - u).abs() + (nv - v).abs();
+                u = nu;
+                v = nv;
+                dist = nd;
+                moved = step > 1e-15;
+                break;
+            }
+            k *= 0.5;
+        }
+        if !moved {
             break;
         }
     }
@@ -430,7 +560,7 @@ fn project(s: &TSurface, p: TPoint, mut u: f64, mut v: f64) -> (f64, f64) {
 
 /// Parameters of `p` on `s` without a hint: the best of a 24 x 24 grid over `range`,
 /// refined by Newton.
-fn project_global(s: &TSurface, p: TPoint, range: ((f64, f64), (f64, f64))) -> (f64, f64) {
+fn project_global(s: &Fast<'_>, p: TPoint, range: ((f64, f64), (f64, f64))) -> (f64, f64) {
     let ((u0, u1), (v0, v1)) = range;
     let mut best = (f64::INFINITY, u0, v0);
     for i in 0..=24 {
@@ -459,9 +589,9 @@ fn face_loops(shell: &BackShell, f: usize) -> Vec<Vec<(usize, bool)>> {
 
 /// The parameter rectangle of a B-spline face, or of a plane's loops (by projection).
 fn face_range(shell: &BackShell, f: usize) -> ((f64, f64), (f64, f64)) {
-    let s = &shell.faces[f].surface;
-    if let Some((bu, bv)) = surface_breaks(s) {
-        return ((bu[0], bu[bu.len() - 1]), (bv[0], bv[bv.len() - 1]));
+    let s = Fast::new(&shell.faces[f].surface);
+    if let Some(r) = s.range() {
+        return r;
     }
     // A plane: project its loop points (Newton is exact on a plane).
     let mut r = (
@@ -473,7 +603,7 @@ fn face_range(shell: &BackShell, f: usize) -> ((f64, f64), (f64, f64)) {
             let c = &shell.edges[e].curve;
             let (a, b) = c.range_tuple();
             for k in 0..=8 {
-                let (u, v) = project(s, c.subs(a + (b - a) * k as f64 / 8.0), 0.0, 0.0);
+                let (u, v) = project(&s, c.subs(a + (b - a) * k as f64 / 8.0), 0.0, 0.0);
                 r = (
                     (r.0 .0.min(u), r.0 .1.max(u)),
                     (r.1 .0.min(v), r.1 .1.max(v)),
@@ -523,6 +653,7 @@ pub fn brep_volume(shell: &BackShell) -> f64 {
             continue;
         }
         let (bu, bv) = surface_breaks(s).expect("curved faces are B-splines here");
+        let s = &Fast::new(s);
         let ((u0, u1), (v0, v1)) = ((bu[0], bu[bu.len() - 1]), (bv[0], bv[bv.len() - 1]));
         // Green's theorem with the inner integral anchored on a side the surface
         // collapses to a point (a cone's apex), if any: along that side the anchored
@@ -544,8 +675,8 @@ pub fn brep_volume(shell: &BackShell) -> f64 {
             (None, None) => (u0, true),
         };
         let integrand = |u: f64, v: f64| {
-            let p = s.subs(u, v);
-            TVector::new(p.x, p.y, p.z).dot(s.uder(u, v).cross(s.vder(u, v))) / 3.0
+            let (p, su, sv) = s.eval(u, v);
+            TVector::new(p.x, p.y, p.z).dot(su.cross(sv)) / 3.0
         };
         let g = |u: f64, v: f64| {
             if along_u {
@@ -571,7 +702,8 @@ pub fn brep_volume(shell: &BackShell) -> f64 {
                         None => project_global(s, p, range),
                     };
                     hint = Some((u, v));
-                    let (su, sv, dc) = (s.uder(u, v), s.vder(u, v), c.der(t));
+                    let (_, su, sv) = s.eval(u, v);
+                    let dc = c.der(t);
                     let (aa, bb, cc) = (su.dot(su), su.dot(sv), sv.dot(sv));
                     let det = aa * cc - bb * bb;
                     if !(det > 1e-24 * (aa * cc)) {
@@ -605,62 +737,129 @@ impl DotVec for TPoint {
     }
 }
 
+/// A point on a read-back face: the face, its parameters and position.
+#[derive(Debug, Clone, Copy)]
+pub struct FaceSample {
+    /// Face index in the shell.
+    pub face: usize,
+    /// Surface parameters.
+    pub uv: (f64, f64),
+    /// Position.
+    pub point: Point3<f64>,
+}
+
 /// Points on the read-back faces: every face's loops (64 points per edge) and the
-/// points of an `n x n` grid of its parameter rectangle that fall inside its loops
-/// (even-odd rule on the loops projected into parameters).
-pub fn face_samples(shell: &BackShell, n: usize) -> Vec<Point3<f64>> {
+/// points of a grid of its parameter rectangle, about `spacing` mm apart (at most 400
+/// along a side), that fall inside its loops (even-odd rule on the loops projected into
+/// parameters).
+pub fn face_samples(shell: &BackShell, spacing: f64) -> Vec<FaceSample> {
     let mut out = Vec::new();
     for f in 0..shell.faces.len() {
-        let s = &shell.faces[f].surface;
+        let s = &Fast::new(&shell.faces[f].surface);
         let range = face_range(shell, f);
         let mut polys: Vec<Vec<(f64, f64)>> = Vec::new();
         for lp in face_loops(shell, f) {
             let mut poly = Vec::new();
-            let mut hint: Option<(f64, f64)> = None;
             for (e, fwd) in lp {
                 let c = &shell.edges[e].curve;
                 let (a, b) = c.range_tuple();
+                let mut hint: Option<(f64, f64)> = None;
                 for k in 0..64 {
-                    let t = if fwd {
-                        a + (b - a) * k as f64 / 64.0
-                    } else {
-                        b - (b - a) * k as f64 / 64.0
-                    };
+                    let t = if fwd { a + (b - a) * k as f64 / 64.0 } else { b - (b - a) * k as f64 / 64.0 };
                     let p = c.subs(t);
-                    out.push(Point3::new(p.x, p.y, p.z));
                     let uv = match hint {
                         Some((u, v)) => project(s, p, u, v),
                         None => project_global(s, p, range),
                     };
                     hint = Some(uv);
+                    out.push(FaceSample { face: f, uv, point: Point3::new(p.x, p.y, p.z) });
                     poly.push(uv);
                 }
             }
             polys.push(poly);
         }
         let ((u0, u1), (v0, v1)) = range;
-        for i in 0..n {
-            for j in 0..n {
-                let (u, v) = (
-                    u0 + (u1 - u0) * (i as f64 + 0.5) / n as f64,
-                    v0 + (v1 - v0) * (j as f64 + 0.5) / n as f64,
-                );
+        // Lengths of the longest u and v lines (8 of each, 32 steps).
+        let line = |a: (f64, f64), b: (f64, f64)| {
+            (0..32)
+                .map(|k| {
+                    let (t0, t1) = (k as f64 / 32.0, (k + 1) as f64 / 32.0);
+                    let p = |t: f64| s.subs(a.0 + (b.0 - a.0) * t, a.1 + (b.1 - a.1) * t);
+                    (p(t1) - p(t0)).magnitude()
+                })
+                .sum::<f64>()
+        };
+        let (mut lu, mut lv) = (0.0f64, 0.0f64);
+        for k in 0..=8 {
+            let f = k as f64 / 8.0;
+            lu = lu.max(line((u0, v0 + (v1 - v0) * f), (u1, v0 + (v1 - v0) * f)));
+            lv = lv.max(line((u0 + (u1 - u0) * f, v0), (u0 + (u1 - u0) * f, v1)));
+        }
+        let nu = ((lu / spacing).ceil() as usize).clamp(4, 400);
+        let nv = ((lv / spacing).ceil() as usize).clamp(4, 400);
+        for i in 0..nu {
+            for j in 0..nv {
+                let (u, v) = (u0 + (u1 - u0) * (i as f64 + 0.5) / nu as f64, v0 + (v1 - v0) * (j as f64 + 0.5) / nv as f64);
                 let mut inside = false;
                 for poly in &polys {
                     for k in 0..poly.len() {
                         let (a, b) = (poly[k], poly[(k + 1) % poly.len()]);
-                        if (a.1 > v) != (b.1 > v) && u < a.0 + (v - a.1) / (b.1 - a.1) * (b.0 - a.0)
-                        {
+                        if (a.1 > v) != (b.1 > v) && u < a.0 + (v - a.1) / (b.1 - a.1) * (b.0 - a.0) {
                             inside = !inside;
                         }
                     }
                 }
                 if inside {
                     let p = s.subs(u, v);
-                    out.push(Point3::new(p.x, p.y, p.z));
+                    out.push(FaceSample { face: f, uv: (u, v), point: Point3::new(p.x, p.y, p.z) });
                 }
             }
         }
     }
     out
+}
+
+/// Largest distance from the vertices of `mesh` to the read-back faces: each vertex's
+/// nearest sample (a hash grid of `cell` mm), then Newton onto that sample's surface.
+pub fn max_distance_to_brep(mesh: &TriMesh, shell: &BackShell, samples: &[FaceSample], cell: f64) -> f64 {
+    use std::collections::HashMap;
+    let key = |p: &Point3<f64>| ((p.x / cell).floor() as i64, (p.y / cell).floor() as i64, (p.z / cell).floor() as i64);
+    let mut grid: HashMap<(i64, i64, i64), Vec<usize>> = HashMap::new();
+    for (i, s) in samples.iter().enumerate() {
+        grid.entry(key(&s.point)).or_default().push(i);
+    }
+    let faces: Vec<Fast<'_>> = shell.faces.iter().map(|f| Fast::new(&f.surface)).collect();
+    let mut worst = 0.0f64;
+    for p in &mesh.vertices {
+        let k = key(p);
+        let tp = TPoint::new(p.x, p.y, p.z);
+        // The nearest sample of every face within two cells, each refined by Newton on
+        // its surface; the nearest result counts.
+        let mut nearest: Vec<(f64, usize)> = Vec::new();
+        for dx in -2..=2 {
+            for dy in -2..=2 {
+                for dz in -2..=2 {
+                    if let Some(v) = grid.get(&(k.0 + dx, k.1 + dy, k.2 + dz)) {
+                        for &i in v {
+                            let d = (samples[i].point - p).norm();
+                            match nearest.iter_mut().find(|(_, j)| samples[*j].face == samples[i].face) {
+                                Some(slot) if d < slot.0 => *slot = (d, i),
+                                Some(_) => {}
+                                None => nearest.push((d, i)),
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        let mut d_best = f64::INFINITY;
+        for (d0, i) in nearest {
+            let smp = samples[i];
+            let surf = &faces[smp.face];
+            let (u, v) = project(surf, tp, smp.uv.0, smp.uv.1);
+            d_best = d_best.min((surf.subs(u, v) - tp).magnitude().min(d0));
+        }
+        worst = worst.max(d_best);
+    }
+    worst
 }
