@@ -53,11 +53,33 @@ pub(crate) fn sector_face(
     outward: Vector3,
 ) -> Result<Face, BrepError> {
     let (a0, a1) = (k as f64 * PI, (k + 1) as f64 * PI);
+    revolved_face(
+        frame,
+        profile,
+        (a0, a1),
+        Wire::from(edges),
+        Vec::new(),
+        outward,
+    )
+}
+
+/// A face on the surface of revolution of `profile` about `frame.z` between the angles
+/// `a0` and `a1` (at most a half-turn), bounded by `outer` and `inner` loops (any
+/// sense); it faces `outward` at its middle.
+pub(crate) fn revolved_face(
+    frame: &Frame,
+    profile: &Profile,
+    (a0, a1): (f64, f64),
+    outer: Wire,
+    inner: Vec<Wire>,
+    outward: Vector3,
+) -> Result<Face, BrepError> {
     let surface = revolve(frame, profile, a0, a1);
     let natural = surface.normal(0.5, 0.5);
-    let w = turned(Wire::from(edges), outward, true);
+    let mut loops = vec![turned(outer, outward, true)];
+    loops.extend(inner.into_iter().map(|w| turned(w, outward, false)));
     oriented_face(
-        vec![w],
+        loops,
         Surface::NurbsSurface(surface),
         natural.dot(outward) > 0.0,
     )

@@ -191,13 +191,9 @@ impl<'a> SpanMap<'a> {
             .map(|i| map.z(i as f64 / samples as f64))
             .collect();
         map.rising = zs[samples] > zs[0];
-        map.monotone = zs.windows(2).all(|w| {
-            if map.rising {
-                w[1] > w[0]
-            } else {
-                w[1] < w[0]
-            }
-        });
+        map.monotone = zs
+            .windows(2)
+            .all(|w| if map.rising { w[1] > w[0] } else { w[1] < w[0] });
         Ok(map)
     }
 

@@ -370,7 +370,11 @@ fn distinct(knots: &[f64]) -> Vec<f64> {
 fn basis_ders(knots: &[f64], p: usize, t: f64) -> (usize, Vec<f64>, Vec<f64>) {
     let n = knots.len() - p - 2;
     let t = t.clamp(knots[p], knots[n + 1]);
-    let span = if t >= knots[n + 1] { n } else { (knots.partition_point(|&k| k <= t) - 1).clamp(p, n) };
+    let span = if t >= knots[n + 1] {
+        n
+    } else {
+        (knots.partition_point(|&k| k <= t) - 1).clamp(p, n)
+    };
     // ndu: basis values of every degree (A2.3), then the first derivative.
     let mut ndu = vec![vec![0.0; p + 1]; p + 1];
     let (mut left, mut right) = (vec![0.0; p + 1], vec![0.0; p + 1]);
@@ -381,7 +385,11 @@ fn basis_ders(knots: &[f64], p: usize, t: f64) -> (usize, Vec<f64>, Vec<f64>) {
         let mut saved = 0.0;
         for r in 0..j {
             ndu[j][r] = right[r + 1] + left[j - r];
-            let temp = if ndu[j][r] != 0.0 { ndu[r][j - 1] / ndu[j][r] } else { 0.0 };
+            let temp = if ndu[j][r] != 0.0 {
+                ndu[r][j - 1] / ndu[j][r]
+            } else {
+                0.0
+            };
             ndu[r][j] = saved + right[r + 1] * temp;
             saved = left[j - r] * temp;
         }
@@ -413,7 +421,13 @@ fn basis_ders(knots: &[f64], p: usize, t: f64) -> (usize, Vec<f64>, Vec<f64>) {
 /// A read-back surface evaluated with only its nonzero basis functions (truck's own
 /// evaluation sums over every control point, too slow for the quadratures here).
 enum Fast<'a> {
-    Poly { ku: Vec<f64>, kv: Vec<f64>, pu: usize, pv: usize, cps: Vec<Vec<[f64; 4]>> },
+    Poly {
+        ku: Vec<f64>,
+        kv: Vec<f64>,
+        pu: usize,
+        pv: usize,
+        cps: Vec<Vec<[f64; 4]>>,
+    },
     Other(&'a TSurface),
 }
 
@@ -425,7 +439,11 @@ impl<'a> Fast<'a> {
                 kv: b.vknot_vec().as_slice().to_vec(),
                 pu: b.udegree(),
                 pv: b.vdegree(),
-                cps: b.control_points().iter().map(|r| r.iter().map(|p| [p.x, p.y, p.z, 1.0]).collect()).collect(),
+                cps: b
+                    .control_points()
+                    .iter()
+                    .map(|r| r.iter().map(|p| [p.x, p.y, p.z, 1.0]).collect())
+                    .collect(),
             },
             TSurface::NurbsSurface(n) => {
                 let b = n.non_rationalized();
@@ -434,7 +452,11 @@ impl<'a> Fast<'a> {
                     kv: b.vknot_vec().as_slice().to_vec(),
                     pu: b.udegree(),
                     pv: b.vdegree(),
-                    cps: b.control_points().iter().map(|r| r.iter().map(|p| [p.x, p.y, p.z, p.w]).collect()).collect(),
+                    cps: b
+                        .control_points()
+                        .iter()
+                        .map(|r| r.iter().map(|p| [p.x, p.y, p.z, p.w]).collect())
+                        .collect(),
                 }
             }
             other => Fast::Other(other),
@@ -444,7 +466,9 @@ impl<'a> Fast<'a> {
     /// The parameter rectangle of a B-spline, `None` for a plane.
     fn range(&self) -> Option<((f64, f64), (f64, f64))> {
         match self {
-            Fast::Poly { ku, kv, .. } => Some(((ku[0], ku[ku.len() - 1]), (kv[0], kv[kv.len() - 1]))),
+            Fast::Poly { ku, kv, .. } => {
+                Some(((ku[0], ku[ku.len() - 1]), (kv[0], kv[kv.len() - 1])))
+            }
             Fast::Other(_) => None,
         }
     }
@@ -457,7 +481,13 @@ impl<'a> Fast<'a> {
     fn eval(&self, u: f64, v: f64) -> (TPoint, TVector, TVector) {
         match self {
             Fast::Other(s) => (s.subs(u, v), s.uder(u, v), s.vder(u, v)),
-            Fast::Poly { ku, kv, pu, pv, cps } => {
+            Fast::Poly {
+                ku,
+                kv,
+                pu,
+                pv,
+                cps,
+            } => {
                 let (iu, nu, du) = basis_ders(ku, *pu, u);
                 let (iv, nv, dv) = basis_ders(kv, *pv, v);
                 let (mut a, mut au, mut av) = ([0.0; 4], [0.0; 4], [0.0; 4]);
@@ -474,7 +504,13 @@ impl<'a> Fast<'a> {
                 // Homogeneous to Cartesian: S = A / w, S' = (A' - S w') / w.
                 let w = a[3];
                 let p = TPoint::new(a[0] / w, a[1] / w, a[2] / w);
-                let d = |x: [f64; 4]| TVector::new((x[0] - p.x * x[3]) / w, (x[1] - p.y * x[3]) / w, (x[2] - p.z * x[3]) / w);
+                let d = |x: [f64; 4]| {
+                    TVector::new(
+                        (x[0] - p.x * x[3]) / w,
+                        (x[1] - p.y * x[3]) / w,
+                        (x[2] - p.z * x[3]) / w,
+                    )
+                };
                 (p, d(au), d(av))
             }
         }
@@ -765,14 +801,22 @@ pub fn face_samples(shell: &BackShell, spacing: f64) -> Vec<FaceSample> {
                 let (a, b) = c.range_tuple();
                 let mut hint: Option<(f64, f64)> = None;
                 for k in 0..64 {
-                    let t = if fwd { a + (b - a) * k as f64 / 64.0 } else { b - (b - a) * k as f64 / 64.0 };
+                    let t = if fwd {
+                        a + (b - a) * k as f64 / 64.0
+                    } else {
+                        b - (b - a) * k as f64 / 64.0
+                    };
                     let p = c.subs(t);
                     let uv = match hint {
                         Some((u, v)) => project(s, p, u, v),
                         None => project_global(s, p, range),
                     };
                     hint = Some(uv);
-                    out.push(FaceSample { face: f, uv, point: Point3::new(p.x, p.y, p.z) });
+                    out.push(FaceSample {
+                        face: f,
+                        uv,
+                        point: Point3::new(p.x, p.y, p.z),
+                    });
                     poly.push(uv);
                 }
             }
@@ -799,19 +843,27 @@ pub fn face_samples(shell: &BackShell, spacing: f64) -> Vec<FaceSample> {
         let nv = ((lv / spacing).ceil() as usize).clamp(4, 400);
         for i in 0..nu {
             for j in 0..nv {
-                let (u, v) = (u0 + (u1 - u0) * (i as f64 + 0.5) / nu as f64, v0 + (v1 - v0) * (j as f64 + 0.5) / nv as f64);
+                let (u, v) = (
+                    u0 + (u1 - u0) * (i as f64 + 0.5) / nu as f64,
+                    v0 + (v1 - v0) * (j as f64 + 0.5) / nv as f64,
+                );
                 let mut inside = false;
                 for poly in &polys {
                     for k in 0..poly.len() {
                         let (a, b) = (poly[k], poly[(k + 1) % poly.len()]);
-                        if (a.1 > v) != (b.1 > v) && u < a.0 + (v - a.1) / (b.1 - a.1) * (b.0 - a.0) {
+                        if (a.1 > v) != (b.1 > v) && u < a.0 + (v - a.1) / (b.1 - a.1) * (b.0 - a.0)
+                        {
                             inside = !inside;
                         }
                     }
                 }
                 if inside {
                     let p = s.subs(u, v);
-                    out.push(FaceSample { face: f, uv: (u, v), point: Point3::new(p.x, p.y, p.z) });
+                    out.push(FaceSample {
+                        face: f,
+                        uv: (u, v),
+                        point: Point3::new(p.x, p.y, p.z),
+                    });
                 }
             }
         }
@@ -821,9 +873,20 @@ pub fn face_samples(shell: &BackShell, spacing: f64) -> Vec<FaceSample> {
 
 /// Largest distance from the vertices of `mesh` to the read-back faces: each vertex's
 /// nearest sample (a hash grid of `cell` mm), then Newton onto that sample's surface.
-pub fn max_distance_to_brep(mesh: &TriMesh, shell: &BackShell, samples: &[FaceSample], cell: f64) -> f64 {
+pub fn max_distance_to_brep(
+    mesh: &TriMesh,
+    shell: &BackShell,
+    samples: &[FaceSample],
+    cell: f64,
+) -> f64 {
     use std::collections::HashMap;
-    let key = |p: &Point3<f64>| ((p.x / cell).floor() as i64, (p.y / cell).floor() as i64, (p.z / cell).floor() as i64);
+    let key = |p: &Point3<f64>| {
+        (
+            (p.x / cell).floor() as i64,
+            (p.y / cell).floor() as i64,
+            (p.z / cell).floor() as i64,
+        )
+    };
     let mut grid: HashMap<(i64, i64, i64), Vec<usize>> = HashMap::new();
     for (i, s) in samples.iter().enumerate() {
         grid.entry(key(&s.point)).or_default().push(i);
@@ -842,7 +905,10 @@ pub fn max_distance_to_brep(mesh: &TriMesh, shell: &BackShell, samples: &[FaceSa
                     if let Some(v) = grid.get(&(k.0 + dx, k.1 + dy, k.2 + dz)) {
                         for &i in v {
                             let d = (samples[i].point - p).norm();
-                            match nearest.iter_mut().find(|(_, j)| samples[*j].face == samples[i].face) {
+                            match nearest
+                                .iter_mut()
+                                .find(|(_, j)| samples[*j].face == samples[i].face)
+                            {
                                 Some(slot) if d < slot.0 => *slot = (d, i),
                                 Some(_) => {}
                                 None => nearest.push((d, i)),
