@@ -67,6 +67,81 @@ fn crossings(skin: &Skin, map: &SpanMap<'_>, x0: f64, z0: f64) -> Option<[(f64, 
     Some([roots[0], roots[1]])
 }
 
+/// The hole's rim on the skin, traced from a table of robust crossings: between table
+/// entries a point is found by Newton along the span (`z`) and around the section
+/// (`x`), started from the table (`u`, `v` interpolated in the angle).
+struct Tracer<'a> {
+    skin: &'a Skin,
+    map: &'a SpanMap<'a>,
+    x: f64,
+    z: f64,
+    r: f64,
+    /// `(u, v)` per side at angles `TAU k / n`, `k = 0..=n` (the last repeats the first).
+    table: Vec<[(f64, f64); 2]>,
+}
+
+impl Tracer<'_> {
+    /// The rim point of side `s` at angle `phi` in `[0, TAU]`.
+    fn at(&self, phi: f64, s: usize) -> Option<Point3> {
+        let n = self.table.len() - 1;
+        let f = (phi / TAU * n as f64).clamp(0.0, n as f64);
+        let k = (f.floor() as usize).min(n - 1);
+        let w = f - k as f64;
+        let (a, b) = (self.table[k][s], self.table[k + 1][s]);
+        let (mut u, v0) = (a.0 + (b.0 - a.0) * w, a.1 + (b.1 - a.1) * w);
+        let (sn, cs) = phi.sin_cos();
+        let (x0, z0) = (self.x + self.r * cs, self.z + self.r * sn);
+        let v = self.map.v_near(z0, v0, "cross hole").ok()?;
+        let bv = Basis::at(&self.skin.knots_v, self.skin.degree_v, v);
+        let x = |u: f64| {
+            self.skin
+                .eval_basis(&Basis::at(&self.skin.knots_u, self.skin.degree_u, u), &bv)
+                .x
+                - x0
+        };
+        // Newton on x(u) = x0 inside the table's bracket (widened a little).
+        let (lo, hi) = (a.0.min(b.0), a.0.max(b.0));
+        let pad = 0.5 * (hi - lo) + 1e-6;
+        let (lo, hi) = (lo - pad, hi + pad);
+        let mut ok = false;
+        for _ in 0..30 {
+            let h = 1e-8;
+            let (fx, d) = (x(u), (x(u + h) - x(u - h)) / (2.0 * h));
+            if fx.abs() < 1e-12 {
+                ok = true;
+                break;
+            }
+            if !(d.abs() > 0.0) {
+                break;
+            }
+            let next = u - fx / d;
+            if !(next > lo && next < hi) {
+                break;
+            }
+            u = next;
+        }
+        if !ok {
+            // Bisection on the bracket when Newton does not settle.
+            let (mut p, mut q) = (lo.max(0.0), hi.min(1.0));
+            if (x(p) < 0.0) == (x(q) < 0.0) {
+                return None;
+            }
+            let sp = x(p) < 0.0;
+            for _ in 0..60 {
+                let m = 0.5 * (p + q);
+                if (x(m) < 0.0) == sp {
+                    p = m;
+                } else {
+                    q = m;
+                }
+            }
+            u = 0.5 * (p + q);
+        }
+        let y = self.skin.eval(u, v).y;
+        Some(Point3::new(x0, y, z0))
+    }
+}
+
 /// Cuts `hole` (number `index`, for messages) into the skin faces of `piece`; returns
 /// the hole's wall faces.
 pub(crate) fn cut_cross_hole(
@@ -140,10 +215,23 @@ pub(crate) fn cut_cross_hole(
         });
     }
     // Fitted halves of each loop, vertices at phi = 0 and pi.
+    let mut table: Vec<[(f64, f64); 2]> = samples
+        .iter()
+        .map(|c| [(c[0].0, c[0].1), (c[1].0, c[1].1)])
+        .collect();
+    table.push(table[0]);
+    let tracer = Tracer {
+        skin,
+        map: &map,
+        x: hole.x,
+        z: hole.z,
+        r,
+        table,
+    };
     let mut loops: Vec<[truck_modeling::Edge; 2]> = Vec::new();
     let mut verts: Vec<[Vertex; 2]> = Vec::new();
     for s in 0..2 {
-        let exact = |phi: f64| at(phi).map(|c| c[s].2);
+        let exact = |phi: f64| tracer.at(phi, s);
         let halves: Vec<truck_modeling::BSplineCurve<Point3>> = (0..2)
             .map(|h| fit_curve(h as f64 * PI, (h + 1) as f64 * PI, &exact))
             .collect::<Option<_>>()

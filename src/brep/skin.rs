@@ -207,6 +207,29 @@ impl<'a> SpanMap<'a> {
             .sum()
     }
 
+    /// `v_at` refined by Newton from `guess` (falls back to bisection when Newton
+    /// leaves the skin or stalls): for many nearby planes.
+    pub(crate) fn v_near(&self, c: f64, guess: f64, what: &str) -> Result<f64, BrepError> {
+        let mut v = guess.clamp(0.0, 1.0);
+        for _ in 0..8 {
+            let h = 1e-7;
+            let (a, b) = ((v - h).max(0.0), (v + h).min(1.0));
+            let dz = (self.z(b) - self.z(a)) / (b - a);
+            let f = self.z(v) - c;
+            if f.abs() <= 1e-12 * c.abs().max(1.0) {
+                return Ok(v);
+            }
+            if !(dz.abs() > 0.0) {
+                break;
+            }
+            v -= f / dz;
+            if !(0.0..=1.0).contains(&v) {
+                break;
+            }
+        }
+        self.v_at(c, what)
+    }
+
     /// The `v` where the skin crosses the plane `z = c`, strictly inside the skin
     /// (bisection to 1e-16).
     pub(crate) fn v_at(&self, c: f64, what: &str) -> Result<f64, BrepError> {
