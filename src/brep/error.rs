@@ -46,14 +46,6 @@ pub enum BrepError {
         /// What is wrong.
         problem: String,
     },
-    /// A placement that is not a rigid motion (rotation and translation).
-    #[error("instance {index}: {problem}; pass a rotation and translation only (no scale, shear or mirror)")]
-    BadPlacement {
-        /// Index of the instance.
-        index: usize,
-        /// What is wrong, with the value.
-        problem: String,
-    },
     /// The B-rep kernel refused an edge, face, shell or solid built from checked input.
     #[error(
         "the B-rep kernel refused the {what}: {detail}. The input passed our checks, so this \
