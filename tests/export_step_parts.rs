@@ -157,3 +157,34 @@ fn demo_hub_with_sockets_bore_and_bolt_holes() {
         hub.exact_volume()
     );
 }
+
+#[test]
+fn desk_fan_one_piece_rotor() {
+    use spanwright::assembly::{blade_transform, one_piece, RotorSpec};
+    use spanwright::brep::{one_piece_solid, PrismHub};
+    let design = spanwright::design::load(Path::new("examples/desk-fan.toml")).unwrap();
+    let model = build(&design, &BuildOptions::default()).unwrap();
+    let rotor = RotorSpec::from_design(&design).unwrap().expect("[rotor]");
+    let spec = rotor.one_piece.clone().expect("[rotor.one-piece]");
+    let part = one_piece(&model, &rotor, &spec, &design).unwrap();
+    let rotation = design.blade.rotation;
+    let z0 = model.blade.root_face();
+    let ring: Vec<nalgebra::Point3<f64>> = model
+        .tessellation
+        .root_ring
+        .iter()
+        .map(|&i| model.mesh().vertices[i as usize])
+        .collect();
+    let hub = PrismHub::new(&ring, z0, &rotor, rotation, &spec);
+    let placements: Vec<_> = (0..rotor.blades).map(|k| blade_transform(&rotor, rotation, z0, k)).collect();
+    let solid = one_piece_solid(&model.skin, &placements, &hub).unwrap();
+    let text = step_text(&[(part.name.clone(), solid)], &StepHeader::default(), "fan.step");
+    dump("desk-fan-one-piece.step", &text);
+    let shell = read_one(&text, "one-piece rotor");
+    // Five blades (upper, lower, trailing edge, tip), five side faces, two end faces,
+    // bore (two walls).
+    assert_eq!(shell.faces.len(), 5 * 4 + 5 + 2 + 2);
+    let tol = design.blade.tolerance;
+    let (rel, a, b) = compare(&shell, &part.mesh, &MeshBound::chordal(&part.mesh, tol), 1e-3, "one-piece rotor");
+    eprintln!("desk fan one-piece: volume {rel:.2e}, distances {a:.2e} / {b:.2e} mm");
+}

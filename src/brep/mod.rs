@@ -53,6 +53,7 @@ mod geom;
 mod hole;
 mod hub;
 mod knots;
+mod onepiece;
 mod piece;
 mod skin;
 
@@ -62,5 +63,6 @@ pub use error::BrepError;
 pub use hole::Bottom;
 pub use hub::hub_solid;
 pub use knots::{check_knot_vector, check_knots};
+pub use onepiece::{one_piece_solid, PrismHub};
 pub use piece::{blade_solid, piece_solid, End, EndHole, Flange, PieceSpec};
 pub use skin::{Cut, SkinOptions};
