@@ -65,8 +65,7 @@ fn measured(skin: &Skin, spec: &PieceSpec, name: &str, faces: usize) -> f64 {
     assert_eq!(shells.len(), 1, "{name}");
     assert_closed(&shells[0], name);
     assert_eq!(shells[0].faces.len(), faces, "{name}: faces");
-    let v = brep_volume(&shells[0]);
-    v
+    brep_volume(&shells[0])
 }
 
 fn close(v: f64, exact: f64, rel: f64, what: &str) {
@@ -304,5 +303,88 @@ fn flange_with_fillet_adds_plate_and_fillet_ring() {
         a * (100.0 - t) + PI * rf * rf * t - PI * 9.0 * 15.0,
         1e-6,
         "flange bore",
+    );
+}
+
+/// A round skin whose section starts at angle `a0` (the "trailing edge" seam there) and
+/// with semi-axes `R` and `b` along x and y.
+fn skin_from(a0: f64, b: f64) -> Skin {
+    let rings: Vec<Vec<Point3<f64>>> = (0..5)
+        .map(|l| {
+            let z = 25.0 * l as f64;
+            (0..97)
+                .map(|k| {
+                    let a = a0 + 2.0 * PI * k as f64 / 96.0;
+                    Point3::new(R * a.cos(), b * a.sin(), z)
+                })
+                .collect()
+        })
+        .collect();
+    Skin::interpolate(&rings, 48).unwrap()
+}
+
+#[test]
+fn features_that_cannot_be_exact_are_refused_with_the_reason() {
+    // A cross hole whose rim would cross the seam where the skin's faces meet.
+    let skin = skin_from(0.5 * PI, R);
+    let spec = PieceSpec {
+        cross_holes: vec![CrossHole {
+            x: 0.0,
+            z: 50.0,
+            diameter: 4.0,
+        }],
+        ..PieceSpec::whole()
+    };
+    let e = piece_solid(&skin, &spec, &SkinOptions::DEFAULT).unwrap_err();
+    assert!(
+        matches!(
+            e,
+            BrepError::NotExact {
+                feature: "cross hole",
+                ..
+            }
+        ),
+        "{e}"
+    );
+    // A fillet on a shank that is not round (elliptical): the mesh's radial offset is
+    // no surface a STEP file holds exactly.
+    let skin = skin_from(0.0, 0.7 * R);
+    let flange = Flange {
+        centre: [0.0, 0.0],
+        diameter: 40.0,
+        thickness: 3.0,
+        fillet: 2.0,
+        shank_radius: R,
+    };
+    let spec = PieceSpec {
+        flange: Some(flange),
+        ..PieceSpec::whole()
+    };
+    let e = piece_solid(&skin, &spec, &SkinOptions::DEFAULT).unwrap_err();
+    assert!(
+        matches!(
+            e,
+            BrepError::NotExact {
+                feature: "flange fillet",
+                ..
+            }
+        ),
+        "{e}"
+    );
+    // Without the fillet the same flange is exact: plate pi r^2 t plus the elliptic
+    // skin's prism (section area by Green's theorem).
+    let spec = PieceSpec {
+        flange: Some(Flange {
+            fillet: 0.0,
+            ..flange
+        }),
+        ..PieceSpec::whole()
+    };
+    let v = measured(&skin, &spec, "elliptic flange", 2 + 1 + 1 + 2 + 1);
+    close(
+        v,
+        section_area(&skin) * 100.0 + PI * 400.0 * 3.0,
+        1e-6,
+        "elliptic flange",
     );
 }

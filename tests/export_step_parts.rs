@@ -123,7 +123,11 @@ fn demo_blade_with_flange_fillet_and_cross_hole() {
     let model = build(&design, &BuildOptions::default()).unwrap();
     assert!(model.check().is_ok());
     let solid = blade_solid(&model.skin, model.blade.root(), model.blade.root_face()).unwrap();
-    let text = step_text(&[(model.name.clone(), solid)], &StepHeader::default(), "blade.step");
+    let text = step_text(
+        &[(model.name.clone(), solid)],
+        &StepHeader::default(),
+        "blade.step",
+    );
     dump("garden-turbine-flange-cross.step", &text);
     let shell = read_one(&text, "blade with flange and cross hole");
     // Skin 3, tip cap, fillet 3, plate top, rim 2, plate face, bore 4, cross hole 2.
@@ -136,8 +140,16 @@ fn demo_blade_with_flange_fillet_and_cross_hole() {
         vertices: tol,
         ..MeshBound::chordal(model.mesh(), tol)
     };
-    let (rel, a, b) = compare(&shell, model.mesh(), &bound, 1e-3, "blade with flange and cross hole");
-    eprintln!("demo blade with flange and cross hole: volume {rel:.2e}, distances {a:.2e} / {b:.2e} mm");
+    let (rel, a, b) = compare(
+        &shell,
+        model.mesh(),
+        &bound,
+        1e-3,
+        "blade with flange and cross hole",
+    );
+    eprintln!(
+        "demo blade with flange and cross hole: volume {rel:.2e}, distances {a:.2e} / {b:.2e} mm"
+    );
 }
 
 #[test]
@@ -209,15 +221,27 @@ fn desk_fan_one_piece_rotor() {
         .map(|&i| model.mesh().vertices[i as usize])
         .collect();
     let hub = PrismHub::new(&ring, z0, &rotor, rotation, &spec);
-    let placements: Vec<_> = (0..rotor.blades).map(|k| blade_transform(&rotor, rotation, z0, k)).collect();
+    let placements: Vec<_> = (0..rotor.blades)
+        .map(|k| blade_transform(&rotor, rotation, z0, k))
+        .collect();
     let solid = one_piece_solid(&model.skin, &placements, &hub).unwrap();
-    let text = step_text(&[(part.name.clone(), solid)], &StepHeader::default(), "fan.step");
+    let text = step_text(
+        &[(part.name.clone(), solid)],
+        &StepHeader::default(),
+        "fan.step",
+    );
     dump("desk-fan-one-piece.step", &text);
     let shell = read_one(&text, "one-piece rotor");
     // Five blades (upper, lower, trailing edge, tip), five side faces, two end faces,
     // bore (two walls).
     assert_eq!(shell.faces.len(), 5 * 4 + 5 + 2 + 2);
     let tol = design.blade.tolerance;
-    let (rel, a, b) = compare(&shell, &part.mesh, &MeshBound::chordal(&part.mesh, tol), 1e-3, "one-piece rotor");
+    let (rel, a, b) = compare(
+        &shell,
+        &part.mesh,
+        &MeshBound::chordal(&part.mesh, tol),
+        1e-3,
+        "one-piece rotor",
+    );
     eprintln!("desk fan one-piece: volume {rel:.2e}, distances {a:.2e} / {b:.2e} mm");
 }

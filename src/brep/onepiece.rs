@@ -58,10 +58,17 @@ impl PrismHub {
             .map(|k| blade_transform(&flat, rotation, root_face, k))
             .collect();
         let placed0 = blade_transform(rotor, rotation, root_face, 0);
-        let pitch_only = face_frames[0].try_inverse().unwrap_or_else(Matrix4::identity) * placed0;
+        let pitch_only = face_frames[0]
+            .try_inverse()
+            .unwrap_or_else(Matrix4::identity)
+            * placed0;
         let (ylo, yhi) = ring
             .iter()
-            .map(|p| pitch_only.transform_point(&NPoint::new(p.x, p.y, root_face)).y)
+            .map(|p| {
+                pitch_only
+                    .transform_point(&NPoint::new(p.x, p.y, root_face))
+                    .y
+            })
             .fold((f64::MAX, f64::MIN), |(a, c), y| (a.min(y), c.max(y)));
         let yc = 0.5 * (ylo + yhi);
         let h = spec.thickness.unwrap_or((yhi - ylo) + 2.0 * spec.wall);
@@ -175,7 +182,10 @@ pub fn one_piece_solid(
         if open.len() != 1 {
             return Err(BrepError::Kernel {
                 what: "one-piece blade",
-                detail: format!("the blade without its root cap has {} open loops, not 1", open.len()),
+                detail: format!(
+                    "the blade without its root cap has {} open loops, not 1",
+                    open.len()
+                ),
             });
         }
         let root = open.remove(0);
@@ -190,7 +200,10 @@ pub fn one_piece_solid(
             {
                 return Err(BrepError::feature(
                     format!("one-piece rotor, blade {}", k + 1),
-                    format!("its root ({:.3}, {:.3}) mm does not lie inside its hub face", q.x, q.y),
+                    format!(
+                        "its root ({:.3}, {:.3}) mm does not lie inside its hub face",
+                        q.x, q.y
+                    ),
                     "check the hub size against the blade root (the mesh builder checks the walls)",
                 ));
             }
@@ -208,7 +221,11 @@ pub fn one_piece_solid(
     // and the bore.
     let mut ends: [Vec<Wire>; 2] = [Vec::new(), Vec::new()];
     if let Some(d) = hub.bore_diameter {
-        let frame = Frame::new(Point3::new(0.0, y0, 0.0), Vector3::unit_y(), Vector3::unit_x());
+        let frame = Frame::new(
+            Point3::new(0.0, y0, 0.0),
+            Vector3::unit_y(),
+            Vector3::unit_x(),
+        );
         let hf = hole(&frame, 0.5 * d, y1 - y0, Bottom::Through)?;
         faces.extend(hf.faces);
         ends[0].push(hf.mouth);
@@ -235,7 +252,10 @@ fn polygon(mut edges: Vec<Edge>) -> Result<Wire, BrepError> {
     let mut out = vec![edges.remove(0)];
     while !edges.is_empty() {
         let end = out.last().expect("one edge").back().clone();
-        let Some(k) = edges.iter().position(|e| *e.front() == end || *e.back() == end) else {
+        let Some(k) = edges
+            .iter()
+            .position(|e| *e.front() == end || *e.back() == end)
+        else {
             return Err(BrepError::Kernel {
                 what: "one-piece hub",
                 detail: "the end polygon's edges do not close".into(),

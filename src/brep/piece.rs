@@ -301,6 +301,9 @@ fn check_end_holes(
     spec: &PieceSpec,
     opts: &SkinOptions,
 ) -> Result<(), BrepError> {
+    if spec.end_holes.is_empty() && spec.cross_holes.len() < 2 {
+        return Ok(());
+    }
     let map = super::skin::SpanMap::new(skin, opts.planar)?;
     let s = piece.span_sign();
     let (zl, zh) = (piece.z_low, piece.z_high);
@@ -361,9 +364,9 @@ fn check_end_holes(
                 z.clamp(zh.min(zl), zh.max(zl))
             };
             let v = if (zc - zl).abs() < 1e-9 * span.max(1.0) {
-                skin_v(piece, zl, &map, 0.0)?
+                end_v(zl, &map, 0.0)?
             } else if (zc - zh).abs() < 1e-9 * span.max(1.0) {
-                skin_v(piece, zh, &map, 1.0)?
+                end_v(zh, &map, 1.0)?
             } else {
                 map.v_at(zc, &what)?
             };
@@ -428,17 +431,11 @@ fn check_end_holes(
     Ok(())
 }
 
-/// The `v` of an end of the piece: the skin's end when the piece ends there, else the
-/// cut plane's.
-fn skin_v(
-    piece: &SkinPiece,
-    z: f64,
-    map: &super::skin::SpanMap<'_>,
-    end_v: f64,
-) -> Result<f64, BrepError> {
-    let _ = piece;
-    if (map.z(end_v) - z).abs() < 1e-9 * z.abs().max(1.0) {
-        Ok(end_v)
+/// The `v` of an end of the piece at `z`: the skin's own end (`skin_end`, 0 or 1) when
+/// the piece ends there, else the cut plane's.
+fn end_v(z: f64, map: &super::skin::SpanMap<'_>, skin_end: f64) -> Result<f64, BrepError> {
+    if (map.z(skin_end) - z).abs() < 1e-9 * z.abs().max(1.0) {
+        Ok(skin_end)
     } else {
         map.v_at(z, "piece end")
     }

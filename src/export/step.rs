@@ -170,7 +170,8 @@ pub fn step_text(solids: &[(String, Solid)], header: &StepHeader, file_name: &st
 /// the header is the last component of `path`.
 ///
 /// # Errors
-/// [`ExportError::NoParts`] for an empty list, [`ExportError::Io`].
+/// [`ExportError::NoParts`] for an empty list, [`ExportError::Solid`] for a knot vector
+/// a reader would misread ([`crate::brep::check_knots`]), [`ExportError::Io`].
 pub fn write_step(
     path: &Path,
     solids: &[(String, Solid)],
@@ -180,6 +181,9 @@ pub fn write_step(
         return Err(ExportError::NoParts {
             path: path.to_path_buf(),
         });
+    }
+    for (_, s) in solids {
+        crate::brep::check_knots(s)?;
     }
     let file_name = path
         .file_name()
@@ -362,7 +366,8 @@ fn check_rigid(names: &[String], instances: &[(usize, Matrix4<f64>)]) -> Result<
 ///
 /// # Errors
 /// [`ExportError::NoParts`] without products or instances; [`ExportError::BadPlacement`]
-/// for an index out of range or a placement that is not a rigid motion.
+/// for an index out of range or a placement that is not a rigid motion;
+/// [`ExportError::Solid`] for a knot vector a reader would misread.
 pub fn step_assembly_text(
     products: &[(String, Solid)],
     instances: &[(usize, Matrix4<f64>)],
@@ -376,6 +381,9 @@ pub fn step_assembly_text(
     }
     let names: Vec<String> = products.iter().map(|(n, _)| n.clone()).collect();
     check_rigid(&names, instances)?;
+    for (_, s) in products {
+        crate::brep::check_knots(s)?;
+    }
     let (body, breps, max_id) = solid_entities(products, header);
     let mut e = Entities {
         next: max_id + 1,
