@@ -43,7 +43,33 @@
 //!
 //! Every solid returned is graded closed by truck (each edge used by exactly two faces,
 //! in opposite senses), every face faces outward, and every knot vector is one a STEP
-//! reader reads as written ([`check_knots`]).
+//! reader reads as written ([`check_knots`]). After writing, [`edge_uses`] checks a
+//! shell read back from the file the same way.
+//!
+//! # Parts and their builders
+//!
+//! | part | builder | mesh it matches |
+//! |---|---|---|
+//! | blade (skin, flat, round or flat tip, flange, bore, cross holes) | [`blade_solid`] = [`piece_solid`] with [`PieceSpec::blade`] | [`crate::pipeline::build`] |
+//! | any span piece of a blade (segments) | [`piece_solid`] | the segment builder's |
+//! | hub (sockets, bore, bolt holes) | [`hub_solid`] | [`crate::assembly::Hub::mesh`] |
+//! | one-piece rotor | [`one_piece_solid`] with [`PrismHub::new`] | [`crate::assembly::one_piece`] |
+//!
+//! Parts go to STEP through [`crate::export::write_step`] (one part per file) or
+//! [`crate::export::write_step_assembly`] (products and placed instances).
+//!
+//! # Segments
+//!
+//! A segment is `PieceSpec::between(Cut::Plane(z0), Cut::Plane(z1))` (or
+//! `Cut::SkinEnd` at the root or tip end) with its features: a spar channel is an
+//! [`EndHole`] with [`Bottom::Through`] (or blind, [`Bottom::Flat`] /
+//! [`Bottom::Point`], from either end), pin holes are blind [`EndHole`]s in a split face
+//! ([`End::Low`] or [`End::High`]), and the root segment takes the root features of
+//! [`PieceSpec::blade`]. Checks made here: every end hole stays inside the section
+//! along its whole length, holes do not meet each other, split planes lie inside the
+//! skin. A split plane closer than about 2e-6 (in the skin's span parameter) to a knot
+//! of the skin is refused with the distance to move it, since a STEP file cannot tell
+//! such knots apart. Wall thicknesses (printability) are the mesh builder's checks.
 
 mod check;
 mod cross;

@@ -495,8 +495,17 @@ fn flange_faces(
     } else {
         low
     };
-    if rho.1 >= r_f {
-        return Err(BrepError::feature("flange", format!("the shank reaches {:.3} mm from the centre, beyond the flange's radius {r_f:.3} mm", rho.1 * if f.fillet > 0.0 { 1.0 + f.fillet / f.shank_radius } else { 1.0 }), "make the flange larger than the shank and its fillet"));
+    let foot_max = if f.fillet > 0.0 {
+        rho.1 * (1.0 + f.fillet / f.shank_radius)
+    } else {
+        rho.1
+    };
+    if foot_max >= r_f {
+        return Err(BrepError::feature(
+            "flange",
+            format!("the shank and its fillet reach {foot_max:.3} mm from the centre, the flange's rim only {r_f:.3} mm"),
+            "make the flange larger than the shank and its fillet",
+        ));
     }
     // Plate: top annulus, rim, face.
     let frame = Frame::new(Point3::new(c.x, c.y, z_face), dir, Vector3::unit_x());
