@@ -135,6 +135,30 @@ fn writers(c: &mut Criterion) {
             black_box(step_text(&[("blade".into(), solid)], &header, "blade.step"))
         })
     });
+    // The demo blade with every root feature its STEP solid carries: the garden turbine
+    // as shipped (round shank, drill-point bore, round tip), and the same blade with a
+    // flange and fillet and a cross hole added.
+    for (name, extra) in [
+        ("step demo blade (bore, round tip)", ""),
+        (
+            "step demo blade (flange, fillet, bore, cross hole, round tip)",
+            "flange = { diameter = 40, thickness = 3, fillet = 2 }\ncross-holes = [{ diameter = 4, at = 18 }]\n",
+        ),
+    ] {
+        let path = std::path::Path::new("examples/garden-turbine.toml");
+        let text = std::fs::read_to_string(path)
+            .unwrap()
+            .replace("[root]\n", &format!("[root]\n{extra}"));
+        let design = spanwright::design::parse_toml_str(&text, Some(path)).unwrap();
+        let model = spanwright::pipeline::build_blade(&design, &Default::default()).unwrap();
+        let (root, face) = (model.blade.root(), model.blade.root_face());
+        c.bench_function(name, |b| {
+            b.iter(|| {
+                let solid = spanwright::brep::blade_solid(black_box(&model.skin), root, face).unwrap();
+                black_box(step_text(&[("blade".into(), solid)], &header, "blade.step"))
+            })
+        });
+    }
     let dir = std::env::temp_dir().join(format!("spanwright-bench-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let path = dir.join("blade.step");

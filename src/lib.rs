@@ -21,6 +21,7 @@ pub mod airfoil;
 pub mod assembly;
 pub mod atomic;
 pub mod blade;
+pub mod brep;
 pub mod check;
 pub mod conventions;
 pub mod design;

@@ -32,6 +32,7 @@ const STAGES: &[(&str, u32)] = &[
     ("assembly", 8),
     // Checks.
     ("check", 9),
+    ("brep", 9),
     // Parts: the orchestrator.
     ("pipeline", 10),
     // Consumers.

@@ -3,6 +3,7 @@
 //! and re-tessellated with truck-meshalgo.
 
 use nalgebra::Point3;
+use spanwright::brep::BrepError;
 use spanwright::export::{step_solid, step_text, write_step, ExportError, StepHeader, STEP_SCHEMA};
 use spanwright::loft::Skin;
 use truck_meshalgo::prelude::*;
@@ -311,7 +312,7 @@ fn malformed_skins_are_named() {
     s.u_le = 1.0;
     assert!(matches!(
         step_solid(&s),
-        Err(ExportError::BadSkin { key: "u_le", .. })
+        Err(ExportError::Solid(BrepError::BadSkin { key: "u_le", .. }))
     ));
     // Sharp at the root, blunt at the tip.
     let mut s = good.clone();

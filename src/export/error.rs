@@ -34,27 +34,8 @@ pub enum ExportError {
         /// What is wrong and how to fix it.
         problem: String,
     },
-    /// A surface model the STEP solid cannot be built from.
-    #[error("surface model: {key} = {value}: {problem}; {fix}")]
-    BadSkin {
-        /// The field of [`crate::loft::Skin`] that is wrong.
-        key: &'static str,
-        /// The offending value.
-        value: String,
-        /// What is wrong.
-        problem: String,
-        /// How to fix it.
-        fix: &'static str,
-    },
-    /// The B-rep kernel refused a face, shell or solid built from a valid-looking skin.
-    #[error(
-        "the B-rep kernel refused the {what}: {detail}. The surface model passed our checks, \
-         so this is a bug: please report it with the design file"
-    )]
-    Brep {
-        /// Which entity was refused (edge, face, shell, solid).
-        what: &'static str,
-        /// The kernel's message or the failed check.
-        detail: String,
-    },
+    /// The exact solid could not be built (the message names the skin field or the
+    /// feature, and the fix).
+    #[error(transparent)]
+    Solid(#[from] crate::brep::BrepError),
 }

@@ -29,7 +29,10 @@ pub use error::ExportError;
 pub use format::{Format, MeshFormat};
 pub use obj::write_obj;
 pub use outcome::{file_name, stage_outcome, StepNote};
-pub use step::{step_string, step_text, write_step, StepHeader, STEP_SCHEMA};
+pub use step::{
+    step_assembly_text, step_real, step_string, step_text, write_step, write_step_assembly,
+    StepHeader, STEP_SCHEMA,
+};
 pub use stl::{push_f32, solid_name, unit_normal, write_stl, write_stl_ascii, STL_HEADER};
 pub use threemf::{
     check_placements, model_xml, write_3mf, CORE_NS, MODEL_CONTENT_TYPE, MODEL_PATH,
