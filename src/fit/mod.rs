@@ -12,8 +12,9 @@
 //! * [`layout`]: several parts on as few plates as the heuristic finds, clearance kept;
 //!   [`Layout::plate_parts`] gives each plate's placed meshes for
 //!   `crate::export::write_parts`, and [`plate_svg`] a top view.
-//! * [`printability`]: trailing-edge and section thickness along the span against the
-//!   nozzle and the minimum feature size.
+//! * [`printability`]: trailing-edge and section thickness along the whole span (shank,
+//!   transition, stations, round tip) against the nozzle and the minimum feature size;
+//!   [`printability_of_blade`] names the region of each shortfall and what would change it.
 //!
 //! ```
 //! use spanwright::fit::{fit_part, FitOptions, PrinterSpec};
@@ -42,7 +43,8 @@ pub mod yaw;
 
 pub use layout::{layout, polygon_distance, Layout, LayoutOptions, Placed, Plate};
 pub use printability::{
-    printability, printability_of_outlines, slice, Cut, Printability, PrintabilityOptions,
+    printability, printability_of_blade, printability_of_outlines, Cut, Printability,
+    PrintabilityOptions, Shortfall, SpanLayout, SpanRegion, Zone,
 };
 pub use printer::{
     preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,
