@@ -464,9 +464,13 @@ fn grade(
 
 /// Runs of neighbouring cuts in one region that fall short as `kind` says.
 fn runs(cuts: &[Cut], kind: Shortfall, layout: Option<&SpanLayout>, nozzle: f64) -> Vec<Zone> {
-    let (short, value): (fn(&Cut) -> bool, fn(&Cut) -> f64) = match kind {
-        Shortfall::TrailingEdge => (|c| c.te_short, |c| c.te_thickness),
-        Shortfall::Section => (|c| c.thin, |c| c.thickness),
+    let short = |c: &Cut| match kind {
+        Shortfall::TrailingEdge => c.te_short,
+        Shortfall::Section => c.thin,
+    };
+    let value = |c: &Cut| match kind {
+        Shortfall::TrailingEdge => c.te_thickness,
+        Shortfall::Section => c.thickness,
     };
     let covers = |region: Option<SpanRegion>| {
         kind == Shortfall::TrailingEdge

@@ -2,7 +2,9 @@
 //!
 //! * [`MassProps`]: volume, area, centre of mass and inertia of a closed mesh, exact for
 //!   the mesh (divergence theorem).
-//! * [`Material`] presets and the printed-part [`Fill`] model.
+//! * [`Material`] presets and the printed-part [`Fill`]: a shell of wall thickness (a true
+//!   inward offset of the part's slices, [`inward_offset`]) plus infill; [`FilledMass`]
+//!   gives the printed part's mass, centre of mass and inertia.
 //! * [`Balance`]: static imbalance of a rotor made of several parts.
 //! * [`SectionProps`]: area, centroid and second moments of a cut of the mesh by a plane
 //!   `z = r` ([`Slice`], the mesh stage's slicer, re-exported here).
@@ -34,6 +36,7 @@ mod mass;
 mod material;
 mod outboard;
 mod section;
+mod shell;
 mod stress;
 
 pub use crate::mesh::{Slice, SliceError};
@@ -42,6 +45,10 @@ pub use mass::{MassProps, Principal};
 pub use material::{Fill, Material, UnknownMaterial};
 pub use outboard::Outboard;
 pub use section::SectionProps;
+pub use shell::{
+    intersection, inward_offset, FilledMass, ShellError, ShellOptions, MAX_SLICES,
+    OFFSET_ARC_TOLERANCE,
+};
 pub use stress::{
     span_radii, LoadCase, StressError, StressRow, StressTable, ThrustSpread, CAUTIONS,
 };
