@@ -422,11 +422,11 @@ fn sphere(r: f64, rings: usize, segs: usize) -> TriMesh {
 fn sphere_shell_from_the_sampled_ball() {
     // A ball of radius R eroded by a ball of radius w is the ball of radius R - w
     // (elementary geometry): shell = 4/3 pi (R^3 - (R - w)^3). The mesh is a fine UV
-    // sphere (its own volume is 0.1 % under the sphere's). The default samples the ball
+    // sphere (its volume a little under the sphere's). The default samples the ball
     // only at dz = 0 and +-w (the layer model, see src/props/shell.rs): every face slopes,
     // so the shell comes out small; a 0.3 mm step samples it at 9 heights.
     let (r, w) = (20.0, 1.2);
-    let mesh = sphere(r, 120, 180);
+    let mesh = sphere(r, 90, 120);
     let f = FilledMass::of_mesh(&mesh, 1.0, Fill::DEFAULT, &ShellOptions::DEFAULT).unwrap();
     let want = 4.0 / 3.0 * PI * (r.powi(3) - (r - w).powi(3));
     let rel = (f.shell_volume - want) / want;
