@@ -6,6 +6,10 @@
 
 use nalgebra::{Matrix4, Point3, Vector3};
 
+pub mod slice;
+
+pub use slice::{Slice, SliceError};
+
 /// An indexed triangle mesh in millimetres.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct TriMesh {

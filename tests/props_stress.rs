@@ -116,12 +116,15 @@ fn momentum_thrust_and_annulus_moment() {
         1e-5
     ));
     assert!(t.rows.last().unwrap().bending_moment.abs() < 1e-6 * thrust);
-    // Printed fill: section stresses are divided by the section's material fraction
-    // (perimeter x wall + infill x rest), our stated, conservative approximation.
+    // Printed fill: section stresses are divided by the section's material fraction, our
+    // stated, conservative approximation. The b x h rectangle eroded by the 1.2 mm wall
+    // is (b - 2.4) x (h - 2.4) (elementary geometry), filled to 20 %, the rest solid.
+    // (Until issue 14 the fraction took the shell as perimeter x wall: 0.584 here
+    // instead of 0.5584.)
     let s = &t.rows[10];
-    let shell = (s.section.perimeter * 1.2).min(s.section.area);
-    let frac = (shell + 0.2 * (s.section.area - shell)) / s.section.area;
-    assert!(close(s.fill, frac, 1e-12));
+    let inner = (b - 2.4) * (h - 2.4);
+    let frac = (b * h - 0.8 * inner) / (b * h);
+    assert!(close(s.fill, frac, 1e-6), "{} vs {frac}", s.fill);
     let bending = s.bending_moment * (h / 2.0) / (b * h.powi(3) / 12.0) / frac;
     assert!(close(s.max_compression, bending, 1e-6));
 }

@@ -2,8 +2,8 @@
 //!
 //! The check reads the geometry only, never the design's flags, so a blade built or
 //! mirrored the wrong way is caught. At each radius the blade mesh is cut by the plane
-//! across its span (in the blade's own frame, undoing the assembly's rigid transform);
-//! in the cut:
+//! across its span (in the blade's own frame, undoing the assembly's rigid transform;
+//! the mesh stage's slicer, [`crate::mesh::slice::segments`]); in the cut:
 //!
 //! * the **chord** joins the two cut points farthest apart;
 //! * the **leading edge** is the chord end nearer the section's greatest thickness
@@ -21,7 +21,7 @@
 
 use super::rotor::RotorSpec;
 use crate::design::{Flow, Rotation};
-use crate::mesh::TriMesh;
+use crate::mesh::{slice, TriMesh};
 use nalgebra::{Matrix4, Point2, Point3, Vector2, Vector3};
 use std::fmt;
 
@@ -172,28 +172,6 @@ pub fn hand_radii(stations: &[f64]) -> Vec<f64> {
     out
 }
 
-/// Segments of the cut of `mesh` by the plane z = `r` (vertices on the plane count as
-/// above it, so every crossing is found once), as (x, y) pairs.
-fn cut(mesh: &TriMesh, r: f64) -> Vec<(Point2<f64>, Point2<f64>)> {
-    let mut out = Vec::new();
-    for t in 0..mesh.len() {
-        let c = mesh.corners(t);
-        let mut pts = Vec::with_capacity(2);
-        for k in 0..3 {
-            let (a, b) = (c[k], c[(k + 1) % 3]);
-            if (a.z >= r) != (b.z >= r) {
-                let s = (r - a.z) / (b.z - a.z);
-                let p = a + (b - a) * s;
-                pts.push(Point2::new(p.x, p.y));
-            }
-        }
-        if pts.len() == 2 {
-            out.push((pts[0], pts[1]));
-        }
-    }
-    out
-}
-
 /// Checks, on `mesh` placed by the rigid transform `frame` (blade frame to rotor
 /// coordinates; the identity for a blade on its own), that at every radius in `radii`
 /// (mm along the span) the leading edge leads for `rotation` and the pressure side
@@ -226,7 +204,7 @@ pub fn check_hand(
         missed: Vec::new(),
     };
     for (i, &r) in radii.iter().enumerate() {
-        let segs = cut(&local, r);
+        let segs = slice::segments(&local, r);
         let Some(st) = station(&segs, r, &omega, &axis_point, &flow2, flow, opts) else {
             report.stations.push(StationHand {
                 radius: r,
@@ -252,7 +230,7 @@ pub fn check_hand(
 }
 
 fn station(
-    segs: &[(Point2<f64>, Point2<f64>)],
+    segs: &[[Point2<f64>; 2]],
     r: f64,
     omega: &Vector3<f64>,
     axis_point: &Point3<f64>,
@@ -263,7 +241,7 @@ fn station(
     if segs.len() < 3 {
         return None;
     }
-    let pts: Vec<Point2<f64>> = segs.iter().flat_map(|s| [s.0, s.1]).collect();
+    let pts: Vec<Point2<f64>> = segs.iter().flatten().copied().collect();
     let (mut best, mut a, mut b) = (0.0, pts[0], pts[0]);
     for (i, p) in pts.iter().enumerate() {
         for q in &pts[i + 1..] {
@@ -284,7 +262,7 @@ fn station(
     for k in 1..20 {
         let s = chord * k as f64 / 20.0;
         let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
-        for (p, q) in segs {
+        for [p, q] in segs {
             let (sp, sq) = ((p - a).dot(&e), (q - a).dot(&e));
             if (sp - s) * (sq - s) < 0.0 || (sp == s && sq != s) {
                 let w = (s - sp) / (sq - sp);

@@ -21,8 +21,9 @@
 //!   figures and why one was chosen; pose classes ([`PoseClass`]: root down, flat on
 //!   the pressure side, on the leading edge, ...) can be asked for.
 //! * [`advice`]: supports, brim and trailing edge against the nozzle, with reasons.
-//! * [`printability`]: trailing-edge and section thickness along the span against the
-//!   nozzle and the minimum feature size.
+//! * [`printability`]: trailing-edge and section thickness along the whole span (shank,
+//!   transition, stations, round tip) against the nozzle and the minimum feature size;
+//!   [`printability_of_blade`] names the region of each shortfall and what would change it.
 //!
 //! ```
 //! use spanwright::fit::{fit_part, FitOptions, PrinterSpec};
@@ -62,7 +63,8 @@ pub use layout::{layout, layout_fitted, polygon_distance, Layout, LayoutOptions,
 pub use orient::{Choice, Orientation, Pose, PrintOptions, ScoreTerms};
 pub use pose::{BladeAxes, PoseClass, UnknownPose};
 pub use printability::{
-    printability, printability_of_outlines, slice, Cut, Printability, PrintabilityOptions,
+    printability, printability_of_blade, printability_of_outlines, Cut, Printability,
+    PrintabilityOptions, Shortfall, SpanLayout, SpanRegion, Zone,
 };
 pub use printer::{
     preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,

@@ -41,7 +41,7 @@ pub struct Principal {
 
 /// Integrals of `1, x, y, z, x^2, y^2, z^2, xy, yz, zx` over the volume of a closed mesh,
 /// about the point `origin` (coordinates relative to it).
-fn volume_integrals(mesh: &TriMesh, origin: &Point3<f64>) -> [f64; 10] {
+pub(crate) fn volume_integrals(mesh: &TriMesh, origin: &Point3<f64>) -> [f64; 10] {
     // Eberly (2002), "Subexpressions" and "Compute" listings.
     fn sub(w0: f64, w1: f64, w2: f64) -> (f64, f64, f64, f64, f64, f64) {
         let t0 = w0 + w1;
@@ -97,9 +97,26 @@ impl MassProps {
     /// use [`crate::props::Material::density_g_mm3`]). Returns `None` when the mesh
     /// encloses no positive volume (empty, open or inside-out).
     pub fn of_mesh(mesh: &TriMesh, density: f64) -> Option<MassProps> {
-        let bb = mesh.bounding_box()?;
-        let origin = Point3::from((bb.min.coords + bb.max.coords) * 0.5);
+        let origin = Self::origin_of(mesh)?;
         let s = volume_integrals(mesh, &origin);
+        Self::from_integrals(&s, &origin, mesh.area(), density)
+    }
+
+    /// The reference point of [`MassProps::of_mesh`]: the centre of the bounding box.
+    pub(crate) fn origin_of(mesh: &TriMesh) -> Option<Point3<f64>> {
+        let bb = mesh.bounding_box()?;
+        Some(Point3::from((bb.min.coords + bb.max.coords) * 0.5))
+    }
+
+    /// Mass properties from the volume integrals of `1, x, y, z, x^2, y^2, z^2, xy, yz,
+    /// zx` taken about `origin` (per unit density), a surface `area` and a `density`.
+    /// `None` unless the volume is positive.
+    pub(crate) fn from_integrals(
+        s: &[f64; 10],
+        origin: &Point3<f64>,
+        area: f64,
+        density: f64,
+    ) -> Option<MassProps> {
         let volume = s[0];
         if !(volume.is_finite() && volume > 0.0) {
             return None;
@@ -116,7 +133,7 @@ impl MassProps {
             Matrix3::new(yy + zz, -xy, -zx, -xy, xx + zz, -yz, -zx, -yz, xx + yy) * density;
         Some(MassProps {
             volume,
-            area: mesh.area(),
+            area,
             mass: volume * density,
             centroid: origin + c,
             inertia,

@@ -107,10 +107,9 @@ impl fmt::Display for Material {
 
 /// How a printed part is filled: a solid shell of wall thickness plus a partial infill.
 ///
-/// Approximation (stated in every report): the shell volume is taken as surface area x
-/// wall thickness, capped at the full volume; the material is then treated as spread
-/// uniformly through the part (same centre of mass, inertia scaled by the mass ratio).
-/// A real shell sits at the outside, so the true inertia is a little larger.
+/// The shell is the material within `wall` of the surface, found by a true inward offset
+/// of the part's slices ([`crate::props::FilledMass`] for a part,
+/// [`Fill::fraction_of_section`] for a cut); the rest is filled to `infill`.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct Fill {
     /// Wall (perimeter plus top/bottom skin) thickness, mm. Default 1.2.
@@ -131,23 +130,6 @@ impl Fill {
         wall: 1.2,
         infill: 0.2,
     };
-
-    /// Fraction of the full volume that is material (0..=1), for a solid of `volume`
-    /// (mm^3) and surface `area` (mm^2).
-    pub fn fraction(&self, volume: f64, area: f64) -> f64 {
-        if volume <= 0.0 {
-            return 0.0;
-        }
-        let shell = (area * self.wall.max(0.0)).min(volume);
-        let infill = self.infill.clamp(0.0, 1.0);
-        ((shell + infill * (volume - shell)) / volume).clamp(0.0, 1.0)
-    }
-
-    /// Fraction of a cut section that is material (0..=1): a shell of perimeter x wall
-    /// (capped at the section `area`, mm^2) plus infill in the rest. `perimeter` in mm.
-    pub fn fraction_of_section(&self, area: f64, perimeter: f64) -> f64 {
-        self.fraction(area, perimeter)
-    }
 }
 
 impl Default for Fill {
@@ -161,19 +143,7 @@ mod tests {
     use super::*;
 
     #[test]
-    fn fill_fraction_bounds() {
-        // 10 x 10 x 10 cube: V = 1000, A = 600; 1 mm wall -> shell 600 (approximation).
-        let f = Fill {
-            wall: 1.0,
-            infill: 0.5,
-        };
-        assert!((f.fraction(1000.0, 600.0) - (600.0 + 0.5 * 400.0) / 1000.0).abs() < 1e-12);
-        assert_eq!(Fill::SOLID.fraction(1000.0, 600.0), 1.0);
-        let thick = Fill {
-            wall: 5.0,
-            infill: 0.0,
-        };
-        assert_eq!(thick.fraction(1000.0, 600.0), 1.0);
+    fn presets_by_key() {
         assert!(Material::preset("Nylon").is_some());
         assert!("wood".parse::<Material>().is_err());
     }

@@ -2,10 +2,12 @@
 //!
 //! * [`MassProps`]: volume, area, centre of mass and inertia of a closed mesh, exact for
 //!   the mesh (divergence theorem).
-//! * [`Material`] presets and the printed-part [`Fill`] model.
+//! * [`Material`] presets and the printed-part [`Fill`]: a shell of wall thickness (a true
+//!   inward offset of the part's slices, [`inward_offset`]) plus infill; [`FilledMass`]
+//!   gives the printed part's mass, centre of mass and inertia.
 //! * [`Balance`]: static imbalance of a rotor made of several parts.
-//! * [`Slice`] and [`SectionProps`]: cuts of the mesh by planes `z = r` and their area,
-//!   centroid and second moments.
+//! * [`SectionProps`]: area, centroid and second moments of a cut of the mesh by a plane
+//!   `z = r` ([`Slice`], the mesh stage's slicer, re-exported here).
 //! * [`StressTable`]: centrifugal and flap-bending stress along the span, safety factor and
 //!   tip deflection. **An estimate, not a certification**: see [`CAUTIONS`].
 
@@ -34,15 +36,19 @@ mod mass;
 mod material;
 mod outboard;
 mod section;
-mod slice;
+mod shell;
 mod stress;
 
+pub use crate::mesh::{Slice, SliceError};
 pub use balance::Balance;
 pub use mass::{MassProps, Principal};
 pub use material::{Fill, Material, UnknownMaterial};
 pub use outboard::Outboard;
 pub use section::SectionProps;
-pub use slice::{Slice, SliceError};
+pub use shell::{
+    intersection, inward_offset, FilledMass, ShellError, ShellOptions, MAX_SLICES,
+    OFFSET_ARC_TOLERANCE,
+};
 pub use stress::{
     span_radii, LoadCase, StressError, StressRow, StressTable, ThrustSpread, CAUTIONS,
 };
@@ -53,11 +59,8 @@ pub fn section_table(
     mesh: &crate::mesh::TriMesh,
     radii: &[f64],
 ) -> Result<Vec<SectionProps>, SliceError> {
-    let mut out = Vec::with_capacity(radii.len());
-    for &r in radii {
-        if let Some(p) = SectionProps::of_slice(&Slice::cut(mesh, r)?) {
-            out.push(p);
-        }
-    }
-    Ok(out)
+    Ok(Slice::cut_many(mesh, radii)?
+        .iter()
+        .filter_map(SectionProps::of_slice)
+        .collect())
 }

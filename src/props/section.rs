@@ -9,7 +9,7 @@
 
 use nalgebra::Point2;
 
-use super::slice::Slice;
+use crate::mesh::Slice;
 
 /// Section properties at one radius. Lengths in mm, second moments in mm^4.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize, serde::Deserialize)]

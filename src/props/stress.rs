@@ -17,11 +17,15 @@
 //!   centrifugal stress at the extreme fibres.
 //! * Tip deflection: `w'' = M / (E I_flap)`, integrated twice from the root (clamped) by the
 //!   trapezoidal rule.
-//! * Printed parts: section stresses are divided by the section's fill fraction (shell of
-//!   perimeter x wall plus infill); this treats the section as uniformly thinned, which
-//!   overstates bending stress for a shell (conservative).
+//! * Printed parts: the mass is the printed part's ([`FilledMass`]: a shell of the wall
+//!   thickness plus infill), spread uniformly for the centrifugal load; section stresses
+//!   are divided by the section's material fraction ([`Fill::fraction_of_section`], the
+//!   section's inward offset by the wall filled to the infill); this treats the section as
+//!   uniformly thinned, which overstates bending stress for a shell (conservative).
 
-use super::{Fill, MassProps, Material, Outboard, SectionProps, Slice, SliceError};
+use super::{
+    Fill, FilledMass, Material, Outboard, SectionProps, ShellError, ShellOptions, Slice, SliceError,
+};
 use crate::mesh::TriMesh;
 
 /// Cautions printed with every stress result.
@@ -154,6 +158,9 @@ pub enum StressError {
     /// A cut failed.
     #[error(transparent)]
     Slice(#[from] SliceError),
+    /// The shell model failed (a part too tall for its wall).
+    #[error(transparent)]
+    Shell(ShellError),
     /// A cut inside the span found no material.
     #[error("no material at radius {0} mm: the part is not one blade along z (see the conventions), or it is in pieces")]
     EmptySection(f64),
@@ -257,10 +264,16 @@ impl StressTable {
         radii.retain(|r| r.is_finite());
         radii.sort_by(f64::total_cmp);
         radii.dedup();
-        let props = MassProps::of_mesh(mesh, 1.0).ok_or(StressError::NoVolume)?;
+        let filled =
+            FilledMass::of_mesh(mesh, 1.0, fill, &ShellOptions::DEFAULT).map_err(|e| match e {
+                ShellError::NoVolume => StressError::NoVolume,
+                ShellError::Slice(s) => StressError::Slice(s),
+                other => StressError::Shell(other),
+            })?;
+        let props = filled.solid;
         let bb = mesh.bounding_box().ok_or(StressError::NoVolume)?;
         let (r0, r1) = (bb.min.z, bb.max.z);
-        let fraction = fill.fraction(props.volume, props.area);
+        let fraction = filled.fraction;
         // kg/mm^3 with the fill model.
         let rho = material.density * 1e-6 * fraction;
         let omega = load.rpm * std::f64::consts::TAU / 60.0;
@@ -271,7 +284,7 @@ impl StressTable {
             let slice = Slice::cut(mesh, r)?;
             let sec = SectionProps::of_slice(&slice).ok_or(StressError::EmptySection(r))?;
             let out = Outboard::of_mesh(mesh, r);
-            let sfill = Fill::fraction_of_section(&fill, sec.area, sec.perimeter);
+            let sfill = fill.fraction_of_section(&slice.loops);
             // kg mm/s^2 = 1e-3 N.
             let force = rho * omega * omega * out.moment * 1e-3;
             let m = moment(load.spread, thrust, r0, r1, r);
@@ -322,12 +335,13 @@ impl StressTable {
                 material.name, material.note
             ),
             format!(
-                "fill: {:.2} mm walls, {:.0} % infill; shell volume taken as surface area x wall, capped at the full volume; material fraction {:.3} of the solid; mass spread uniformly",
+                "fill: {:.2} mm walls, {:.0} % infill; shell = material within the wall of the surface (inward offset of slices every {:.2} mm); material fraction {:.3} of the solid; mass spread uniformly for the centrifugal load",
                 fill.wall,
                 fill.infill * 100.0,
+                filled.step,
                 fraction
             ),
-            "section stresses divided by the section's material fraction (perimeter x wall plus infill): conservative for bending".into(),
+            "section stresses divided by the section's material fraction (its inward offset by the wall filled to the infill, the rest solid): conservative for bending".into(),
             format!(
                 "centrifugal load: spanwise component m omega^2 z of the part outboard of each section, at {} rpm",
                 load.rpm

@@ -54,8 +54,9 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
     let _ = writeln!(
         h,
         "<h2>Material and fill</h2><p>{}: density {} g/cm3, strength {} MPa, E = {} MPa ({}). \
-         Walls {} mm, infill {:.0} %: shell volume taken as surface area x wall, capped at the \
-         full volume; material spread uniformly.</p>",
+         Walls {} mm, infill {:.0} %: the shell is the material within the wall of the surface \
+         (inward offsets of slices across the part), the rest filled to the infill; mass, centre \
+         of mass and inertia of that shell plus infill.</p>",
         escape(&m.name),
         m.density,
         m.strength,

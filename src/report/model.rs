@@ -3,7 +3,10 @@
 
 use crate::blade::StackingSummary;
 use crate::check::CheckedPart;
-use crate::props::{Balance, Fill, MassProps, Material, SectionProps, StressTable, CAUTIONS};
+use crate::props::{
+    Balance, Fill, FilledMass, MassProps, Material, SectionProps, ShellOptions, StressTable,
+    CAUTIONS,
+};
 
 /// Schema identifier written into every JSON report; bumped on incompatible changes.
 pub const SCHEMA_ID: &str = "spanwright-report/1";
@@ -76,9 +79,14 @@ impl PartSummary {
         material: &Material,
         fill: Fill,
     ) -> Option<(PartSummary, MassProps)> {
-        let solid = MassProps::of_mesh(part.mesh(), material.density_g_mm3())?;
-        let fraction = fill.fraction(solid.volume, solid.area);
-        let p = solid.scaled(fraction);
+        let filled = FilledMass::of_mesh(
+            part.mesh(),
+            material.density_g_mm3(),
+            fill,
+            &ShellOptions::DEFAULT,
+        )
+        .ok()?;
+        let (fraction, p) = (filled.fraction, filled.props);
         let pr = p.principal();
         let bb = part.mesh().bounding_box()?;
         let row = |i: usize| [p.inertia[(i, 0)], p.inertia[(i, 1)], p.inertia[(i, 2)]];
