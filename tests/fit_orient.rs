@@ -301,7 +301,7 @@ fn advice_follows_the_stated_rules() {
     let a = advise(lying, &p, Some((0.3, Some(250.0))), &AdviceOptions::DEFAULT);
     assert!(!a.supports && !a.brim, "{a:?}");
     let te = a.trailing_edge.unwrap();
-    assert!(!te.printable && te.largest_nozzle == 0.3 && te.why.contains("min-te-thickness"));
+    assert!(!te.printable && te.largest_nozzle == 0.3 && te.why.contains("at least 0.40 mm"));
     let standing = f
         .orientation
         .poses

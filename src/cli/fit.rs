@@ -8,7 +8,7 @@ use spanwright::export::{write_mesh_to, MeshFormat};
 use spanwright::fit::{
     self, fit_part, plan_job, plate_svg, BladeAxes, FitFigures, FitOptions, JobItem, JobPlan,
     JobReport, LayoutOptions, PoseClass, PrintOptions, PrintabilityOptions, Printer, PrinterSpec,
-    Volume, MAX_COPIES,
+    SpanLayout, Volume, MAX_COPIES,
 };
 use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{self, Outcome, PartKind};
@@ -107,7 +107,8 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         let outcome = pipeline::run(&design, &pipeline::Options::default())
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
         let axes = BladeAxes::of_design(&design);
-        (Vec::new(), Some((outcome, axes)), spec)
+        let span = SpanLayout::of_blade(&outcome.blade.blade, design.blade.min_te_thickness);
+        (Vec::new(), Some((outcome, axes, span)), spec)
     };
     let printer = resolve_printer(&args, cli_spec, file_spec)?;
     let pose = match &args.pose {
@@ -126,7 +127,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     let plan = plan_job(&job, &printer, &layout_opts, &PrintabilityOptions::DEFAULT)?;
     let assembled = if args.assembled {
         Some(assembled(
-            outcome.as_ref().map(|(o, _)| o),
+            outcome.as_ref().map(|(o, _, _)| o),
             &job,
             &printer,
             &fit_opts,
@@ -141,7 +142,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         Vec::new()
     };
     let summary = FitSummary {
-        notes: notes(&plan.report, outcome.as_ref().map(|(o, _)| o), stl),
+        notes: notes(&plan.report, outcome.as_ref().map(|(o, _, _)| o), stl),
         job: plan.report,
         assembled,
         files: files.iter().map(|p| p.display().to_string()).collect(),
@@ -244,12 +245,12 @@ fn resolve_printer(
 /// blade's pose is chosen with its axes (layers along the span) and the pose asked for.
 fn job_items<'a>(
     stl: &'a [CheckedPart],
-    outcome: Option<&'a (Outcome, BladeAxes)>,
+    outcome: Option<&'a (Outcome, BladeAxes, SpanLayout)>,
     copies: Option<usize>,
     pose: Option<PoseClass>,
 ) -> Vec<JobItem<'a>> {
     match outcome {
-        Some((o, axes)) => o
+        Some((o, axes, span)) => o
             .print_set()
             .into_iter()
             .map(|(kind, part, n)| {
@@ -262,6 +263,7 @@ fn job_items<'a>(
                         pose: if blade { pose } else { None },
                         ..PrintOptions::DEFAULT
                     },
+                    span: blade.then_some(*span),
                 }
             })
             .collect(),
@@ -271,6 +273,7 @@ fn job_items<'a>(
                 part,
                 copies: copies.unwrap_or(1),
                 print: PrintOptions::DEFAULT,
+                span: None,
             })
             .collect(),
     }

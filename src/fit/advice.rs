@@ -146,7 +146,7 @@ fn te_advice(thinnest: f64, at: Option<f64>, nozzle: f64) -> TrailingEdgeAdvice 
     let place = at.map(|z| format!(" at z = {z:.1} mm")).unwrap_or_default();
     let why = if !printable {
         format!(
-            "the trailing edge is {thinnest:.2} mm thick{place}, thinner than the {nozzle:.2} mm nozzle, which lays lines at least about its own width: it prints ragged or not at all. Use a nozzle of at most {thinnest:.2} mm, or thicken the edge with [blade] min-te-thickness = {nozzle:.2} (mm) in the design file (common practice)"
+            "the trailing edge is {thinnest:.2} mm thick{place}, thinner than the {nozzle:.2} mm nozzle, which lays lines at least about its own width: it prints ragged or not at all. Use a nozzle of at most {thinnest:.2} mm, or thicken the edge there to at least {nozzle:.2} mm (the printability finding for that part of the blade says how) (common practice)"
         )
     } else if single_line {
         format!(

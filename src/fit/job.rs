@@ -3,9 +3,9 @@
 //! job does not fit and the report names what was left over.
 
 use super::{
-    advise, fit_part, layout_fitted, printability, AdviceOptions, Fit, FitError, FitOptions,
-    Layout, LayoutOptions, Orientation, Placement, PrintAdvice, PrintOptions, Printability,
-    PrintabilityOptions, Printer,
+    advise, fit_part, layout_fitted, printability, printability_of_blade, AdviceOptions, Fit,
+    FitError, FitOptions, Layout, LayoutOptions, Orientation, Placement, PrintAdvice, PrintOptions,
+    Printability, PrintabilityOptions, Printer, SpanLayout,
 };
 use crate::check::CheckedPart;
 use crate::mesh::{Part, TriMesh};
@@ -26,6 +26,9 @@ pub struct JobItem<'a> {
     /// How its pose is chosen: a blade's axes (for the layer term and pose classes) and
     /// a requested pose class.
     pub print: PrintOptions,
+    /// A blade's regions along the span (root, transition, stations, tip), so that
+    /// printability names where an edge is thin and what would change it there.
+    pub span: Option<SpanLayout>,
 }
 
 /// Where a part sits and how: the answer of the orientation search, for people and
@@ -261,7 +264,10 @@ fn part_fit(
         ..*opts
     };
     let fit = fit_part(item.part.name(), mesh, printer, &opts)?;
-    let printability = printability(mesh, printer, checks);
+    let printability = match &item.span {
+        Some(span) => printability_of_blade(mesh, span, printer, checks),
+        None => printability(mesh, printer, checks),
+    };
     // The trailing edge matters for blades only (parts with blade axes).
     let thinnest_te = item
         .print
