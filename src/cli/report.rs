@@ -173,6 +173,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
         parts: &parts,
         stations: design.as_ref().map(|d| d.stations.as_slice()),
         blade: outcome.as_ref().map(|o| &o.blade.blade),
+        rotation: design.as_ref().map(|d| d.blade.rotation),
         material,
         fill,
         load,
@@ -268,6 +269,11 @@ fn write_files(
     let mut batch = Batch::new();
     for (file, text) in files {
         batch.write(&out.join(file), |w| w.write_all(text.as_bytes()))?;
+    }
+    if let Some(p) = &pictures.preview {
+        batch.write(&out.join(format!("{stem}-preview.png")), |w| {
+            w.write_all(&p.png)
+        })?;
     }
     Ok(batch.commit()?)
 }

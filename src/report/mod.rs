@@ -2,7 +2,8 @@
 //!
 //! * [`build`] gathers mass properties, balance, section table and the stress estimate
 //!   into a [`Report`] and draws the [`Pictures`].
-//! * [`html`] renders a self-contained HTML page with the pictures inline.
+//! * [`html`] renders a self-contained HTML page with the pictures inline (the preview
+//!   PNG as a `data:` URI); its numbers follow [`numbers`].
 //! * The JSON report is `serde_json` of [`Report`]; its schema is [`SCHEMA`]
 //!   (`src/report/schema.json`).
 //! * [`preview`]: a shaded 3-D picture (PNG, own software renderer) of a blade or an
@@ -11,8 +12,10 @@
 //! Files are written by the command through [`crate::atomic`].
 
 mod build;
+mod datauri;
 mod html;
 mod model;
+pub mod numbers;
 mod planform;
 pub mod preview;
 mod stack;
@@ -20,7 +23,8 @@ mod stress_chart;
 mod transition;
 mod views;
 
-pub use build::{build, Pictures, ReportError, ReportInput, STEPS};
+pub use build::{build, Pictures, PreviewPng, ReportError, ReportInput, STEPS};
+pub use datauri::{base64, data_uri};
 pub use html::html;
 pub use model::{BalanceSummary, PartSummary, Report, Units, SCHEMA, SCHEMA_ID};
 pub use planform::{planform_svg, station_thickness};
