@@ -23,6 +23,7 @@ pub mod atomic;
 pub mod blade;
 pub mod check;
 pub mod conventions;
+pub mod coupon;
 pub mod design;
 pub mod draft;
 pub mod export;

@@ -4,8 +4,9 @@ use super::{load, progress::Stages, Context, Verdict};
 use anyhow::Context as _;
 use spanwright::assembly::hand_description;
 use spanwright::atomic::Batch;
+use spanwright::coupon::{self, Coupon, CouponError, CouponOptions};
 use spanwright::design::Design;
-use spanwright::export::{stage_outcome, Format, StepNote};
+use spanwright::export::{file_name, stage_outcome, write_mesh_to, Format, StepNote};
 use spanwright::pipeline::{self, Options, Outcome, SteepStep, TeChange, Timings};
 use std::path::{Path, PathBuf};
 use std::time::Instant;
@@ -44,6 +45,22 @@ pub struct Args {
     /// also writes the hub, the assembled rotor and the one-piece rotor it asks for).
     #[arg(long)]
     pub blade_only: bool,
+    /// Fit coupons, a few grams to print before the rotor to try the shank in its socket
+    /// (<name>-coupon-shank, <name>-coupon-socket): auto writes them with the parts when
+    /// the design has a [root] and hub sockets; none; only writes just the coupons.
+    #[arg(long, value_enum, default_value_t = Coupons::Auto)]
+    pub coupons: Coupons,
+}
+
+/// When `build` writes fit coupons.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum Coupons {
+    /// With the parts, when the design has a root shank and hub sockets.
+    Auto,
+    /// Never.
+    None,
+    /// Only the coupons (an error when the design has nothing to test).
+    Only,
 }
 
 /// Runs the subcommand.
@@ -68,9 +85,13 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     stages.finish();
     let outcome = outcome.with_context(|| format!("building {}", args.design.display()))?;
     timings.extend(&outcome.timings);
+    let coupons = coupons_for(&outcome, args.coupons)?;
     stages.set("writing files");
-    let (written, notes) = write_files(&outcome, &args.out, &formats, &mut timings)?;
-    let summary = Summary::of(&design, &outcome, &written, &notes, &timings, started);
+    let only = args.coupons == Coupons::Only;
+    let (written, notes) =
+        write_files(&outcome, &coupons, only, &args.out, &formats, &mut timings)?;
+    let mut summary = Summary::of(&design, &outcome, &written, &notes, &timings, started);
+    summary.coupons = coupons.iter().map(CouponLine::of).collect();
     if args.json {
         outln!("{}", serde_json::to_string_pretty(&summary)?);
     } else if !ctx.quiet {
@@ -100,10 +121,23 @@ fn check_tolerance(t: f64) -> anyhow::Result<()> {
     Ok(())
 }
 
-/// Writes every part in every format, and the root-transition picture, as one batch:
-/// all files appear, or none.
+/// The fit coupons `--coupons` asks for: none, or those of the design (none in `auto`
+/// mode when it has nothing to test; an error in `only` mode).
+fn coupons_for(outcome: &Outcome, when: Coupons) -> anyhow::Result<Vec<Coupon>> {
+    match (when, coupon::coupons(outcome, &CouponOptions::DEFAULT)) {
+        (Coupons::None, _) => Ok(Vec::new()),
+        (Coupons::Auto, Err(CouponError::NothingToTest { .. })) => Ok(Vec::new()),
+        (_, result) => Ok(result.context("--coupons")?),
+    }
+}
+
+/// Writes every part in every format (only the coupons with `only`), the coupons in the
+/// mesh formats, and the root-transition picture, as one batch: all files appear, or
+/// none.
 fn write_files(
     outcome: &Outcome,
+    coupons: &[Coupon],
+    only: bool,
     dir: &Path,
     formats: &[Format],
     timings: &mut Timings,
@@ -111,8 +145,29 @@ fn write_files(
     std::fs::create_dir_all(dir)
         .with_context(|| format!("cannot create the output folder {}", dir.display()))?;
     let mut batch = Batch::new();
-    let notes = stage_outcome(&mut batch, outcome, dir, formats, timings)?;
-    if outcome.blade.blade.root().is_some() {
+    let mut notes = if only {
+        Vec::new()
+    } else {
+        stage_outcome(&mut batch, outcome, dir, formats, timings)?
+    };
+    for c in coupons {
+        for &format in formats {
+            let name = c.part.name();
+            match format {
+                Format::Mesh(m) => {
+                    let path = dir.join(file_name(name, format));
+                    batch.write(&path, |w| {
+                        write_mesh_to(w, m, name, std::slice::from_ref(&c.part))
+                    })?;
+                }
+                Format::Step => notes.push(StepNote::NotWritten {
+                    part: name.to_string(),
+                    reason: "coupons are written as meshes only".into(),
+                }),
+            }
+        }
+    }
+    if !only && outcome.blade.blade.root().is_some() {
         // A picture of the root transition: outlines from root face to tip, along the span.
         let path = dir.join(format!("{}-transition.svg", outcome.blade.name));
         let svg = spanwright::report::transition_svg(&outcome.blade.blade, 12);
@@ -138,10 +193,31 @@ struct Summary {
     parts: Vec<PartLine>,
     rotor: Option<String>,
     warnings: Vec<SteepStep>,
+    coupons: Vec<CouponLine>,
     step_notes: Vec<StepNote>,
     files: Vec<String>,
     timings: Timings,
     seconds: f64,
+}
+
+/// One fit coupon of the summary.
+#[derive(Debug, serde::Serialize)]
+struct CouponLine {
+    kind: coupon::CouponKind,
+    name: String,
+    volume_mm3: f64,
+    clearance_mm: f64,
+}
+
+impl CouponLine {
+    fn of(c: &Coupon) -> CouponLine {
+        CouponLine {
+            kind: c.kind,
+            name: c.part.name().to_string(),
+            volume_mm3: c.part.report().volume,
+            clearance_mm: c.clearance,
+        }
+    }
 }
 
 /// One part of the summary.
@@ -197,6 +273,7 @@ impl Summary {
                 .as_ref()
                 .map(|r| hand_description(&r.spec, design.blade.rotation, design.blade.flow)),
             warnings: outcome.warnings.clone(),
+            coupons: Vec::new(),
             step_notes: notes.to_vec(),
             files: files.iter().map(|p| p.display().to_string()).collect(),
             timings: timings.clone(),
@@ -259,6 +336,19 @@ impl Summary {
         }
         if let Some(r) = &self.rotor {
             let _ = writeln!(s, "  rotor: {r}");
+        }
+        if let Some(first) = self.coupons.first() {
+            let list: Vec<String> = self
+                .coupons
+                .iter()
+                .map(|c| format!("{} {:.2} cm³", c.name, c.volume_mm3 / 1000.0))
+                .collect();
+            let _ = writeln!(
+                s,
+                "  fit coupons: {}; the socket is {:.2} mm wider than the shank (rotor.hub.socket-clearance): print them before the rotor",
+                list.join(", "),
+                first.clearance_mm
+            );
         }
         for n in &self.step_notes {
             let _ = writeln!(s, "  note: {n}");
