@@ -6,6 +6,8 @@
 //!   PNG as a `data:` URI); its numbers follow [`numbers`].
 //! * The JSON report is `serde_json` of [`Report`]; its schema is [`SCHEMA`]
 //!   (`src/report/schema.json`).
+//! * [`SummaryRow`], [`summary_csv`], [`summary_json`]: one row per variant of a design
+//!   (mass, volume, safety factor, printer fit, time) for a run over its variants.
 //! * [`preview`]: a shaded 3-D picture (PNG, own software renderer) of a blade or an
 //!   assembled rotor with the rotation sense and the wind drawn.
 //!
@@ -20,6 +22,7 @@ mod planform;
 pub mod preview;
 mod stack;
 mod stress_chart;
+mod summary;
 mod transition;
 mod views;
 
@@ -31,5 +34,6 @@ pub use planform::{planform_svg, station_thickness};
 pub use preview::{preview_png, render, Image, Item, Marks, PreviewOptions, View};
 pub use stack::{stack_svg, AXIS_COLOUR};
 pub use stress_chart::stress_svg;
+pub use summary::{summary_csv, summary_json, SummaryError, SummaryRow, COLUMNS};
 pub use transition::transition_svg;
 pub use views::{outline_edges, three_view_svg, CREASE_DEGREES};
