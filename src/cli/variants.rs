@@ -45,11 +45,35 @@ pub fn run_all<T: Send>(
     write: bool,
     job: impl Fn(&Variant, &Path) -> anyhow::Result<Done<T>> + Sync,
 ) -> anyhow::Result<Finished<T>> {
+    // The folders this run makes, removed again (when still empty) if it fails.
+    let mut made = Vec::new();
+    if write && !out.exists() {
+        made.push(out.to_path_buf());
+    }
     for v in variants.iter().filter(|_| write) {
         let dir = out.join(&v.name);
+        if !dir.exists() {
+            made.push(dir.clone());
+        }
         std::fs::create_dir_all(&dir)
             .with_context(|| format!("cannot create the output folder {}", dir.display()))?;
     }
+    let result = run_jobs(design, variants, out, write, job);
+    if result.is_err() {
+        for dir in made.iter().rev() {
+            let _ = std::fs::remove_dir(dir);
+        }
+    }
+    result
+}
+
+fn run_jobs<T: Send>(
+    design: &Design,
+    variants: &[Variant],
+    out: &Path,
+    write: bool,
+    job: impl Fn(&Variant, &Path) -> anyhow::Result<Done<T>> + Sync,
+) -> anyhow::Result<Finished<T>> {
     let results: Vec<anyhow::Result<Done<T>>> = variants
         .par_iter()
         .map(|v| {
