@@ -56,13 +56,7 @@ fn build_writes_each_variant_in_its_folder_and_one_summary() {
     assert_eq!(run.code, 0, "{}", run.stderr);
     assert_eq!(
         run.files("out"),
-        [
-            "ccw",
-            "cw",
-            "duo-variants.csv",
-            "duo-variants.json",
-            "long"
-        ]
+        ["ccw", "cw", "duo-variants.csv", "duo-variants.json", "long"]
     );
     assert_eq!(run.files("out/cw"), ["duo-cw.stl"]);
     let table = rows(&run.path("out/duo-variants.csv"));
@@ -82,7 +76,10 @@ fn build_writes_each_variant_in_its_folder_and_one_summary() {
     for r in &table {
         assert_eq!(r["material"], "pla");
         assert_eq!(r["safety_factor"], "", "no load case in build");
-        assert_eq!(r["fits"], "true", "a 300 mm blade on a 220 x 220 x 250 printer");
+        assert_eq!(
+            r["fits"], "true",
+            "a 300 mm blade on a 220 x 220 x 250 printer"
+        );
         assert_eq!(r["segments"], "0");
         assert!(r["seconds"].parse::<f64>().unwrap() > 0.0);
         // Mass with the fill model lies below the solid PLA mass, 1.24 g/cm³ (common
@@ -147,7 +144,12 @@ fn report_fills_the_safety_factor_and_writes_each_report() {
     )
     .unwrap();
     let f = rep["stress"]["min_safety_factor"].as_f64().unwrap();
-    assert_near!(f, sf(2), 1e-9 * f, "the row's safety factor is the report's");
+    assert_near!(
+        f,
+        sf(2),
+        1e-9 * f,
+        "the row's safety factor is the report's"
+    );
 }
 
 #[test]

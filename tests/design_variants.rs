@@ -74,7 +74,10 @@ section = "naca0012"
     assert_eq!(v[1].design.blade.rotation, Rotation::Cw);
     assert_eq!(base.blade.rotation, Rotation::Ccw);
     assert_eq!(v[1].design.tables["rotor"]["blades"].as_integer(), Some(2));
-    assert_eq!(v[1].design.tables["rotor"]["hub-radius"].as_integer(), Some(60));
+    assert_eq!(
+        v[1].design.tables["rotor"]["hub-radius"].as_integer(),
+        Some(60)
+    );
     // tip-radius: the first station stays, the last moves to 330 and the middle one keeps
     // its place in proportion: 60 + (150 - 60) x (330 - 60) / (240 - 60) = 195 (by hand).
     let r: Vec<f64> = v[2].design.stations.iter().map(|s| s.radius).collect();
