@@ -24,6 +24,7 @@ pub mod blade;
 pub mod brep;
 pub mod check;
 pub mod conventions;
+pub mod coupon;
 pub mod design;
 pub mod draft;
 pub mod export;

@@ -37,6 +37,7 @@ const STAGES: &[(&str, u32)] = &[
     ("pipeline", 10),
     // Consumers.
     ("props", 11),
+    ("coupon", 11),
     ("export", 12),
     ("fit", 12),
     ("report", 13),

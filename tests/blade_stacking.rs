@@ -461,6 +461,7 @@ fn report_states_the_rule_and_draws_the_axis() {
         parts: &parts,
         stations: Some(&d.stations),
         blade: Some(&m.blade),
+        rotation: None,
         material: Material::preset("pla").unwrap(),
         fill: Fill::SOLID,
         load: None,

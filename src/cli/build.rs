@@ -1,12 +1,17 @@
 //! `spanwright build`: design table in, checked solids out.
 
+use super::variants::{run_all, table, Done};
 use super::{load, progress::Stages, Context, Verdict};
 use anyhow::Context as _;
 use spanwright::assembly::hand_description;
 use spanwright::atomic::Batch;
+use spanwright::coupon::{self, Coupon, CouponError, CouponOptions};
+use spanwright::design::variants::{variants, Variant};
 use spanwright::design::Design;
-use spanwright::export::{stage_outcome, Format, StepNote};
+use spanwright::export::{file_name, stage_outcome, write_mesh_to, Format, StepNote};
 use spanwright::pipeline::{self, Options, Outcome, SteepStep, TeChange, Timings};
+use spanwright::props::{Fill, Material};
+use spanwright::report::SummaryRow;
 use std::path::{Path, PathBuf};
 use std::time::Instant;
 
@@ -44,6 +49,22 @@ pub struct Args {
     /// also writes the hub, the assembled rotor and the one-piece rotor it asks for).
     #[arg(long)]
     pub blade_only: bool,
+    /// Fit coupons, a few grams to print before the rotor to try the shank in its socket
+    /// (<name>-coupon-shank, <name>-coupon-socket): auto writes them with the parts when
+    /// the design has a [root] and hub sockets; none; only writes just the coupons.
+    #[arg(long, value_enum, default_value_t = Coupons::Auto)]
+    pub coupons: Coupons,
+}
+
+/// When `build` writes fit coupons.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum Coupons {
+    /// With the parts, when the design has a root shank and hub sockets.
+    Auto,
+    /// Never.
+    None,
+    /// Only the coupons (an error when the design has nothing to test).
+    Only,
 }
 
 /// Runs the subcommand.
@@ -59,28 +80,114 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     let design = timings.time("parse", || {
         load::design(&args.design, args.section.as_deref())
     })?;
-    stages.set("lofting, meshing and checking");
     let opts = Options {
         tolerance: args.tolerance,
         blade_only: args.blade_only,
     };
+    let variants = variants(&design)?;
+    if !variants.is_empty() {
+        stages.finish();
+        return build_variants(&args, ctx, &formats, &opts, &design, &variants);
+    }
+    stages.set("lofting, meshing and checking");
     let outcome = pipeline::run(&design, &opts);
     stages.finish();
     let outcome = outcome.with_context(|| format!("building {}", args.design.display()))?;
     timings.extend(&outcome.timings);
+    let coupons = coupons_for(&outcome, args.coupons)?;
     stages.set("writing files");
+    let only = args.coupons == Coupons::Only;
     let (written, notes) = write_files(
         &outcome,
         design.blade.rotation,
+        &coupons,
+        only,
         &args.out,
         &formats,
         &mut timings,
     )?;
-    let summary = Summary::of(&design, &outcome, &written, &notes, &timings, started);
+    let mut summary = Summary::of(&design, &outcome, &written, &notes, &timings, started);
+    summary.coupons = coupons.iter().map(CouponLine::of).collect();
     if args.json {
         outln!("{}", serde_json::to_string_pretty(&summary)?);
     } else if !ctx.quiet {
         super::emit(&summary.text(args.timings));
+    }
+    Ok(Verdict::Done)
+}
+
+/// Builds every variant of the design side by side, each in its own folder, and writes
+/// the summary table (see `cli::variants`). Masses are for PLA with the default fill
+/// (1.2 mm walls, 20 % infill); `report` takes a material.
+fn build_variants(
+    args: &Args,
+    ctx: &Context,
+    formats: &[Format],
+    opts: &Options,
+    design: &Design,
+    variants: &[Variant],
+) -> anyhow::Result<Verdict> {
+    let only = args.coupons == Coupons::Only;
+    let material = Material::preset("pla").context("the PLA preset")?;
+    let finished = run_all(design, variants, &args.out, true, |v, dir| {
+        let outcome = pipeline::run(&v.design, opts)?;
+        let coupons = coupons_for(&outcome, args.coupons)?;
+        let mut timings = outcome.timings.clone();
+        let (batch, notes) = stage_files(
+            &outcome,
+            v.design.blade.rotation,
+            &coupons,
+            only,
+            dir,
+            formats,
+            &mut timings,
+        )?;
+        let row = SummaryRow::of(
+            &v.name,
+            &v.name,
+            &v.design,
+            &outcome,
+            &material,
+            Fill::DEFAULT,
+            None,
+        )?;
+        let mut lines: Vec<String> = outcome
+            .warnings
+            .iter()
+            .map(|w| format!("warning: variant \"{}\": {w}", v.name))
+            .collect();
+        lines.extend(
+            notes
+                .iter()
+                .map(|n| format!("note: variant \"{}\": {n}", v.name)),
+        );
+        Ok(Done {
+            row,
+            batch,
+            extra: lines,
+        })
+    })?;
+    if args.json {
+        let json = serde_json::json!({
+            "design": design.name,
+            "variants": finished.rows,
+            "files": finished.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
+        });
+        outln!("{}", serde_json::to_string_pretty(&json)?);
+    } else if !ctx.quiet {
+        let mut text = format!(
+            "{}: {} variants (blade mass for PLA, walls 1.2 mm, infill 20 %)\n",
+            design.name,
+            finished.rows.len()
+        );
+        for line in finished.extras.iter().flatten() {
+            text.push_str(&format!("  {line}\n"));
+        }
+        text.push_str(&table(&finished.rows));
+        for f in &finished.files {
+            text.push_str(&format!("  wrote {}\n", f.display()));
+        }
+        super::emit(&text);
     }
     Ok(Verdict::Done)
 }
@@ -106,32 +213,82 @@ fn check_tolerance(t: f64) -> anyhow::Result<()> {
     Ok(())
 }
 
-/// Writes every part in every format, and the root-transition picture, as one batch:
-/// all files appear, or none.
+/// The fit coupons `--coupons` asks for: none, or those of the design (none in `auto`
+/// mode when it has nothing to test; an error in `only` mode).
+fn coupons_for(outcome: &Outcome, when: Coupons) -> anyhow::Result<Vec<Coupon>> {
+    match (when, coupon::coupons(outcome, &CouponOptions::DEFAULT)) {
+        (Coupons::None, _) => Ok(Vec::new()),
+        (Coupons::Auto, Err(CouponError::NothingToTest { .. })) => Ok(Vec::new()),
+        (_, result) => Ok(result.context("--coupons")?),
+    }
+}
+
+/// Writes every part in every format (only the coupons with `only`), the coupons in the
+/// mesh formats, and the root-transition picture, as one batch: all files appear, or
+/// none.
 fn write_files(
     outcome: &Outcome,
     rotation: spanwright::design::Rotation,
+    coupons: &[Coupon],
+    only: bool,
     dir: &Path,
     formats: &[Format],
     timings: &mut Timings,
 ) -> anyhow::Result<(Vec<PathBuf>, Vec<StepNote>)> {
+    let (batch, notes) = stage_files(outcome, rotation, coupons, only, dir, formats, timings)?;
+    Ok((batch.commit()?, notes))
+}
+
+/// Stages the files [`write_files`] writes, in a batch not yet committed.
+fn stage_files(
+    outcome: &Outcome,
+    rotation: spanwright::design::Rotation,
+    coupons: &[Coupon],
+    only: bool,
+    dir: &Path,
+    formats: &[Format],
+    timings: &mut Timings,
+) -> anyhow::Result<(Batch, Vec<StepNote>)> {
     std::fs::create_dir_all(dir)
         .with_context(|| format!("cannot create the output folder {}", dir.display()))?;
     let mut batch = Batch::new();
-    let notes = stage_outcome(&mut batch, outcome, dir, formats, timings)?;
-    if outcome.blade.blade.root().is_some() {
+    let mut notes = if only {
+        Vec::new()
+    } else {
+        stage_outcome(&mut batch, outcome, dir, formats, timings)?
+    };
+    for c in coupons {
+        for &format in formats {
+            let name = c.part.name();
+            match format {
+                Format::Mesh(m) => {
+                    let path = dir.join(file_name(name, format));
+                    batch.write(&path, |w| {
+                        write_mesh_to(w, m, name, std::slice::from_ref(&c.part))
+                    })?;
+                }
+                Format::Step => notes.push(StepNote::NotWritten {
+                    part: name.to_string(),
+                    reason: "coupons are written as meshes only".into(),
+                }),
+            }
+        }
+    }
+    if !only && outcome.blade.blade.root().is_some() {
         // A picture of the root transition: outlines from root face to tip, along the span.
         let path = dir.join(format!("{}-transition.svg", outcome.blade.name));
         let svg = spanwright::report::transition_svg(&outcome.blade.blade, 12);
         batch.write(&path, |w| w.write_all(svg.as_bytes()))?;
     }
-    timings.time("previews", || -> anyhow::Result<()> {
-        for (name, png) in spanwright::report::previews(outcome, rotation) {
-            batch.write(&dir.join(name), |w| w.write_all(&png))?;
-        }
-        Ok(())
-    })?;
-    Ok((batch.commit()?, notes))
+    if !only {
+        timings.time("previews", || -> anyhow::Result<()> {
+            for (name, png) in spanwright::report::previews(outcome, rotation) {
+                batch.write(&dir.join(name), |w| w.write_all(&png))?;
+            }
+            Ok(())
+        })?;
+    }
+    Ok((batch, notes))
 }
 
 /// What a build made, for people and scripts.
@@ -151,10 +308,31 @@ struct Summary {
     parts: Vec<PartLine>,
     rotor: Option<String>,
     warnings: Vec<SteepStep>,
+    coupons: Vec<CouponLine>,
     step_notes: Vec<StepNote>,
     files: Vec<String>,
     timings: Timings,
     seconds: f64,
+}
+
+/// One fit coupon of the summary.
+#[derive(Debug, serde::Serialize)]
+struct CouponLine {
+    kind: coupon::CouponKind,
+    name: String,
+    volume_mm3: f64,
+    clearance_mm: f64,
+}
+
+impl CouponLine {
+    fn of(c: &Coupon) -> CouponLine {
+        CouponLine {
+            kind: c.kind,
+            name: c.part.name().to_string(),
+            volume_mm3: c.part.report().volume,
+            clearance_mm: c.clearance,
+        }
+    }
 }
 
 /// One part of the summary.
@@ -210,6 +388,7 @@ impl Summary {
                 .as_ref()
                 .map(|r| hand_description(&r.spec, design.blade.rotation, design.blade.flow)),
             warnings: outcome.warnings.clone(),
+            coupons: Vec::new(),
             step_notes: notes.to_vec(),
             files: files.iter().map(|p| p.display().to_string()).collect(),
             timings: timings.clone(),
@@ -272,6 +451,19 @@ impl Summary {
         }
         if let Some(r) = &self.rotor {
             let _ = writeln!(s, "  rotor: {r}");
+        }
+        if let Some(first) = self.coupons.first() {
+            let list: Vec<String> = self
+                .coupons
+                .iter()
+                .map(|c| format!("{} {:.2} cm³", c.name, c.volume_mm3 / 1000.0))
+                .collect();
+            let _ = writeln!(
+                s,
+                "  fit coupons: {}; the socket is {:.2} mm wider than the shank (rotor.hub.socket-clearance): print them before the rotor",
+                list.join(", "),
+                first.clearance_mm
+            );
         }
         for n in &self.step_notes {
             let _ = writeln!(s, "  note: {n}");

@@ -4,11 +4,12 @@ use super::{load, Context, Verdict};
 use anyhow::Context as _;
 use spanwright::atomic::Batch;
 use spanwright::check::CheckedPart;
+use spanwright::design::Design;
 use spanwright::export::{write_mesh_to, MeshFormat};
 use spanwright::fit::{
-    self, fit_part, plan_job, plate_svg, BladeAxes, FitFigures, FitOptions, JobItem, JobPlan,
-    JobReport, LayoutOptions, PoseClass, PrintOptions, PrintabilityOptions, Printer, PrinterSpec,
-    SpanLayout, Volume, MAX_COPIES,
+    self, fit_part, plan_job, plate_svg, FitFigures, FitOptions, JobItem, JobPlan, JobReport,
+    LayoutOptions, PoseClass, PrintOptions, PrintabilityOptions, Printer, PrinterSpec, Volume,
+    MAX_COPIES,
 };
 use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{self, Outcome, PartKind};
@@ -106,9 +107,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         let spec = design.table_mm::<PrinterSpec>("printer")?;
         let outcome = pipeline::run(&design, &pipeline::Options::default())
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
-        let axes = BladeAxes::of_design(&design);
-        let span = SpanLayout::of_blade(&outcome.blade.blade, design.blade.min_te_thickness);
-        (Vec::new(), Some((outcome, axes, span)), spec)
+        (Vec::new(), Some((outcome, design)), spec)
     };
     let printer = resolve_printer(&args, cli_spec, file_spec)?;
     let pose = match &args.pose {
@@ -127,7 +126,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     let plan = plan_job(&job, &printer, &layout_opts, &PrintabilityOptions::DEFAULT)?;
     let assembled = if args.assembled {
         Some(assembled(
-            outcome.as_ref().map(|(o, _, _)| o),
+            outcome.as_ref().map(|(o, _)| o),
             &job,
             &printer,
             &fit_opts,
@@ -142,7 +141,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         Vec::new()
     };
     let summary = FitSummary {
-        notes: notes(&plan.report, outcome.as_ref().map(|(o, _, _)| o), stl),
+        notes: notes(&plan.report, outcome.as_ref().map(|(o, _)| o), stl),
         job: plan.report,
         assembled,
         files: files.iter().map(|p| p.display().to_string()).collect(),
@@ -240,33 +239,16 @@ fn resolve_printer(
     Ok(spec.resolve(&origin)?)
 }
 
-/// What goes to the printer: the outcome's print set (the one-piece rotor, or the blade
-/// once per blade and the hub), or the STL part; `--copies` sets the blade's count. The
-/// blade's pose is chosen with its axes (layers along the span) and the pose asked for.
+/// What goes to the printer: a design's job (see [`fit::design_job`]), or the STL part
+/// (`--copies` copies of it).
 fn job_items<'a>(
     stl: &'a [CheckedPart],
-    outcome: Option<&'a (Outcome, BladeAxes, SpanLayout)>,
+    outcome: Option<&'a (Outcome, Design)>,
     copies: Option<usize>,
     pose: Option<PoseClass>,
 ) -> Vec<JobItem<'a>> {
     match outcome {
-        Some((o, axes, span)) => o
-            .print_set()
-            .into_iter()
-            .map(|(kind, part, n)| {
-                let blade = kind == PartKind::Blade;
-                JobItem {
-                    part,
-                    copies: if blade { copies.unwrap_or(n) } else { n },
-                    print: PrintOptions {
-                        axes: blade.then_some(*axes),
-                        pose: if blade { pose } else { None },
-                        ..PrintOptions::DEFAULT
-                    },
-                    span: blade.then_some(*span),
-                }
-            })
-            .collect(),
+        Some((o, design)) => fit::design_job(o, design, copies, pose),
         None => stl
             .iter()
             .map(|part| JobItem {

@@ -4,11 +4,16 @@
 use std::io::IsTerminal as _;
 use std::path::{Path, PathBuf};
 
+use super::variants::{run_all, table, Done};
 use super::{load, Verdict};
 use anyhow::Context as _;
 use spanwright::atomic::Batch;
+use spanwright::design::variants::{variants, Variant};
+use spanwright::design::Design;
+use spanwright::pipeline;
 use spanwright::props::{Fill, LoadCase, Material, ThrustSpread, CAUTIONS};
-use spanwright::report::{self, Pictures, Report, ReportInput, STEPS};
+use spanwright::report::numbers::{number, Decimals};
+use spanwright::report::{self, Pictures, Report, ReportInput, SummaryRow, STEPS};
 
 /// Arguments of `spanwright report`.
 #[derive(Debug, clap::Args)]
@@ -121,6 +126,10 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
         (parts[0].name().to_string(), parts, None, None)
     } else if args.input.len() == 1 {
         let design = load::design(first, None)?;
+        let variants = variants(&design)?;
+        if !variants.is_empty() {
+            return report_variants(&args, ctx, &material, fill, &design, &variants);
+        }
         let outcome = spanwright::pipeline::run(&design, &spanwright::pipeline::Options::default())
             .with_context(|| format!("building the parts of {}", first.display()))?;
         let blade = outcome.blade_part().clone();
@@ -146,33 +155,14 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
         Some(d) => spanwright::pipeline::read_rotor(d)?.map(|r| r.blades),
         None => None,
     };
-    let load = if args.rpm.is_some() || args.wind.is_some() || args.thrust.is_some() {
-        let defaults = LoadCase::default();
-        Some(LoadCase {
-            rpm: args.rpm.unwrap_or(0.0),
-            wind: args.wind.unwrap_or(0.0),
-            blades: args.blades.or(design_blades).unwrap_or(defaults.blades),
-            air_density: args.air_density,
-            thrust_coefficient: args
-                .thrust_coefficient
-                .unwrap_or(defaults.thrust_coefficient),
-            thrust: args.thrust,
-            spread: if args.spread == "uniform" {
-                ThrustSpread::Uniform
-            } else {
-                ThrustSpread::Annulus
-            },
-            safety_factor: args.safety_factor,
-        })
-    } else {
-        None
-    };
+    let load = load_case(&args, design_blades);
     let input = ReportInput {
         name: name.clone(),
         source: Some(source),
         parts: &parts,
         stations: design.as_ref().map(|d| d.stations.as_slice()),
         blade: outcome.as_ref().map(|o| &o.blade.blade),
+        rotation: design.as_ref().map(|d| d.blade.rotation),
         material,
         fill,
         load,
@@ -218,6 +208,116 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
     })
 }
 
+/// The operating point the command line asks for (`None` without `--rpm`, `--wind` or
+/// `--thrust`); the blade count from `--blades`, else the design's, else the default.
+fn load_case(args: &Args, design_blades: Option<u32>) -> Option<LoadCase> {
+    if args.rpm.is_none() && args.wind.is_none() && args.thrust.is_none() {
+        return None;
+    }
+    let defaults = LoadCase::default();
+    Some(LoadCase {
+        rpm: args.rpm.unwrap_or(0.0),
+        wind: args.wind.unwrap_or(0.0),
+        blades: args.blades.or(design_blades).unwrap_or(defaults.blades),
+        air_density: args.air_density,
+        thrust_coefficient: args
+            .thrust_coefficient
+            .unwrap_or(defaults.thrust_coefficient),
+        thrust: args.thrust,
+        spread: if args.spread == "uniform" {
+            ThrustSpread::Uniform
+        } else {
+            ThrustSpread::Annulus
+        },
+        safety_factor: args.safety_factor,
+    })
+}
+
+/// Reports on every variant of the design side by side, each in its own folder, and
+/// writes the summary table (see `cli::variants`).
+fn report_variants(
+    args: &Args,
+    ctx: &super::Context,
+    material: &Material,
+    fill: Fill,
+    design: &Design,
+    variants: &[Variant],
+) -> anyhow::Result<Verdict> {
+    let source = args.input[0].display().to_string();
+    let finished = run_all(design, variants, &args.out, !args.no_files, |v, dir| {
+        let d = &v.design;
+        let outcome = pipeline::run(d, &pipeline::Options::default())?;
+        let parts = vec![outcome.blade_part().clone()];
+        let input = ReportInput {
+            name: d.name.clone(),
+            source: Some(source.clone()),
+            parts: &parts,
+            stations: Some(&d.stations),
+            blade: Some(&outcome.blade.blade),
+            rotation: Some(d.blade.rotation),
+            material: material.clone(),
+            fill,
+            load: load_case(args, pipeline::read_rotor(d)?.map(|r| r.blades)),
+            extra_radii: args.at.clone(),
+            stress_cuts: args.cuts,
+            picture_cuts: 11,
+        };
+        let (rep, pictures) = report::build(&input, &mut |_, _| {})?;
+        let batch = if args.no_files {
+            Batch::new()
+        } else {
+            let json = serde_json::to_string_pretty(&rep).context("encoding the JSON report")?;
+            stage_files(dir, &file_stem(&d.name), &rep, &pictures, &json)?
+        };
+        let row = SummaryRow::of(
+            &v.name,
+            &v.name,
+            d,
+            &outcome,
+            material,
+            fill,
+            rep.stress.as_ref(),
+        )?;
+        Ok(Done {
+            row,
+            batch,
+            extra: rep.stress.as_ref().map(|t| t.passes),
+        })
+    })?;
+    if args.json {
+        let json = serde_json::json!({
+            "design": design.name,
+            "variants": finished.rows,
+            "files": finished.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
+        });
+        outln!("{}", serde_json::to_string_pretty(&json)?);
+    } else if !ctx.quiet {
+        let mut text = format!(
+            "{}: {} variants ({}, walls {} mm, infill {} %)\n",
+            design.name,
+            finished.rows.len(),
+            material.name,
+            number(fill.wall, Decimals::Mm),
+            number(fill.infill * 100.0, Decimals::Percent)
+        );
+        text.push_str(&table(&finished.rows));
+        for f in &finished.files {
+            text.push_str(&format!("  wrote {}\n", f.display()));
+        }
+        super::emit(&text);
+    }
+    if args.rpm.is_some() || args.wind.is_some() || args.thrust.is_some() {
+        for c in CAUTIONS {
+            eprintln!("caution: {c}");
+        }
+    }
+    Ok(if finished.extras.contains(&Some(false)) {
+        Verdict::Failed
+    } else {
+        Verdict::Done
+    })
+}
+
 /// A safe file stem from a name.
 fn file_stem(name: &str) -> String {
     let s: String = name
@@ -246,6 +346,17 @@ fn write_files(
 ) -> anyhow::Result<Vec<PathBuf>> {
     std::fs::create_dir_all(out)
         .with_context(|| format!("creating the output folder {}", out.display()))?;
+    Ok(stage_files(out, stem, rep, pictures, json)?.commit()?)
+}
+
+/// Stages the report's files (JSON, HTML, pictures) in `out`, not yet committed.
+fn stage_files(
+    out: &Path,
+    stem: &str,
+    rep: &Report,
+    pictures: &Pictures,
+    json: &str,
+) -> anyhow::Result<Batch> {
     let decl = "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
     let mut files: Vec<(String, String)> = vec![
         (format!("{stem}-report.json"), format!("{json}\n")),
@@ -269,36 +380,51 @@ fn write_files(
     for (file, text) in files {
         batch.write(&out.join(file), |w| w.write_all(text.as_bytes()))?;
     }
-    Ok(batch.commit()?)
+    if let Some(p) = &pictures.preview {
+        batch.write(&out.join(format!("{stem}-preview.png")), |w| {
+            w.write_all(&p.png)
+        })?;
+    }
+    Ok(batch)
 }
 
+/// The report in words, numbers written as in the HTML report (`report::numbers`).
 fn summary(rep: &Report, written: &[PathBuf]) -> String {
     use std::fmt::Write as _;
+    use Decimals as D;
     let mut out = String::new();
     let _ = writeln!(
         out,
-        "{} ({}, walls {} mm, infill {:.0} %)",
+        "{} ({}, walls {} mm, infill {} %)",
         rep.name,
         rep.material.name,
-        rep.fill.wall,
-        rep.fill.infill * 100.0
+        number(rep.fill.wall, D::Mm),
+        number(rep.fill.infill * 100.0, D::Percent)
     );
     for p in &rep.parts {
         let _ = writeln!(
-        out,
-            "  {}: mass {:.1} g, volume {:.0} mm3, centre of mass ({:.1}, {:.1}, {:.1}) mm, I about rotor axis {:.4e} g mm2",
-            p.name, p.mass, p.volume, p.centroid[0], p.centroid[1], p.centroid[2], p.inertia_rotor_axis
+            out,
+            "  {}: mass {} g, volume {} mm³, centre of mass ({}, {}, {}) mm, I about rotor axis {} g mm²",
+            p.name,
+            number(p.mass, D::G),
+            number(p.volume, D::Mm3),
+            number(p.centroid[0], D::Mm),
+            number(p.centroid[1], D::Mm),
+            number(p.centroid[2], D::Mm),
+            number(p.inertia_rotor_axis, D::GMm2)
         );
     }
     if let Some(b) = &rep.balance {
         let _ = writeln!(
             out,
-            "  balance: {:.1} g mm static imbalance ({:.3} mm offset), parts differ by {:.2} g",
-            b.imbalance, b.offset, b.mass_spread
+            "  balance: {} g mm static imbalance ({} mm offset), parts differ by {} g",
+            number(b.imbalance, D::GMm),
+            number(b.offset, D::Mm),
+            number(b.mass_spread, D::G)
         );
     }
     if !rep.sections.is_empty() {
-        let _ = writeln!(out, "  sections (mm, mm2, mm4, deg):");
+        let _ = writeln!(out, "  sections (mm, mm², mm⁴, deg):");
         let _ = writeln!(
             out,
             "  {:>9} {:>9} {:>11} {:>11} {:>11} {:>7}",
@@ -307,22 +433,27 @@ fn summary(rep: &Report, written: &[PathBuf]) -> String {
         for s in &rep.sections {
             let _ = writeln!(
                 out,
-                "  {:>9.2} {:>9.2} {:>11.4e} {:>11.4e} {:>11.4e} {:>7.2}",
-                s.radius, s.area, s.ixx, s.iyy, s.ixy, s.angle
+                "  {:>9} {:>9} {:>11} {:>11} {:>11} {:>7}",
+                number(s.radius, D::Mm),
+                number(s.area, D::Mm2),
+                number(s.ixx, D::Mm4),
+                number(s.iyy, D::Mm4),
+                number(s.ixy, D::Mm4),
+                number(s.angle, D::Deg)
             );
         }
     }
     if let Some(t) = &rep.stress {
         let _ = writeln!(
-        out,
-            "  stress at {} rpm, {} m/s: smallest safety factor {:.2} at r = {:.1} mm ({} the required {}), tip deflection {:.2} mm",
-            t.load.rpm,
-            t.load.wind,
-            t.min_safety_factor,
-            t.critical_radius,
+            out,
+            "  stress at {} rpm, {} m/s: smallest safety factor {} at r = {} mm ({} the required {}), tip deflection {} mm",
+            number(t.load.rpm, D::Rpm),
+            number(t.load.wind, D::MPerS),
+            number(t.min_safety_factor, D::Ratio),
+            number(t.critical_radius, D::Mm),
             if t.passes { "reaches" } else { "DOES NOT reach" },
-            t.load.safety_factor,
-            t.tip_deflection
+            number(t.load.safety_factor, D::Ratio),
+            number(t.tip_deflection, D::Mm)
         );
     }
     for w in written {

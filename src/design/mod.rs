@@ -145,6 +145,7 @@ mod suggest;
 mod table;
 mod toml_file;
 mod units;
+pub mod variants;
 
 pub use error::{DesignError, Problem};
 pub use stacking::{Stacking, StackingValueError};

@@ -2,10 +2,11 @@
 //! estimate and pictures.
 
 use super::model::{BalanceSummary, PartSummary, Report, Units, SCHEMA_ID};
+use super::preview::{render, Item, Marks, PreviewOptions};
 use super::{planform_svg, stack_svg, stress_svg, three_view_svg};
 use crate::blade::Blade;
 use crate::check::CheckedPart;
-use crate::design::Station;
+use crate::design::{Rotation, Station};
 use crate::props::{
     section_table, span_radii, Balance, Fill, LoadCase, Material, Slice, SliceError, StressError,
     StressTable,
@@ -26,6 +27,9 @@ pub struct ReportInput<'a> {
     /// The blade the first part was built from, when known: its stacking axis is drawn
     /// and its stacking summarised.
     pub blade: Option<&'a Blade>,
+    /// The rotor's sense of rotation, when known (a design's `blade.rotation`): the
+    /// preview then draws it and the wind.
+    pub rotation: Option<Rotation>,
     /// Material.
     pub material: Material,
     /// Fill model.
@@ -51,6 +55,37 @@ pub struct Pictures {
     pub three_view: String,
     /// Stress and safety factor against radius (only with a load case).
     pub stress: Option<String>,
+    /// Shaded 3-D preview of every part as placed (see [`super::preview`]), with the
+    /// rotation sense and the wind when the rotation is known.
+    pub preview: Option<PreviewPng>,
+}
+
+/// A PNG picture and its size.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PreviewPng {
+    /// The PNG file's bytes.
+    pub png: Vec<u8>,
+    /// Width, px.
+    pub width: u32,
+    /// Height, px.
+    pub height: u32,
+}
+
+impl PreviewPng {
+    /// The preview of `parts` as they are placed (blade frame), seen from
+    /// [`PreviewOptions::DEFAULT`]'s view, with the marks of `rotation` when given (the
+    /// arc just outside the parts' reach from the rotor axis).
+    pub fn of_parts(parts: &[CheckedPart], rotation: Option<Rotation>) -> PreviewPng {
+        let items: Vec<Item<'_>> = parts.iter().map(|p| Item::new(p.mesh())).collect();
+        let marks = rotation.map(|r| Marks::blade_frame(r, 0.0));
+        let opts = PreviewOptions::DEFAULT;
+        let image = render(&items, marks.as_ref(), &opts);
+        PreviewPng {
+            png: image.png(),
+            width: image.width,
+            height: image.height,
+        }
+    }
 }
 
 /// Why a report could not be made.
@@ -184,6 +219,7 @@ pub fn build(
         sections: stack_svg(&input.name, &slices, &axis_at_cuts, false),
         three_view: three_view_svg(first.name(), mesh, &axis, false),
         stress: stress.as_ref().map(|t| stress_svg(first.name(), t, false)),
+        preview: Some(PreviewPng::of_parts(input.parts, input.rotation)),
     };
     progress(4, "report");
     let report = Report {

@@ -1,5 +1,6 @@
 //! Stress and safety factor against radius.
 
+use super::numbers::{number, Decimals as D};
 use crate::props::StressTable;
 use crate::svg::{Chart, Series, Svg};
 
@@ -18,7 +19,9 @@ pub fn stress_svg(name: &str, table: &StressTable, standalone: bool) -> String {
     Chart {
         title: format!(
             "Stress at {} rpm, {} m/s: {name} ({})",
-            table.load.rpm, table.load.wind, table.material.name
+            number(table.load.rpm, D::Rpm),
+            number(table.load.wind, D::MPerS),
+            table.material.name
         ),
         x_label: "radius (mm)".into(),
         y_label: "stress (MPa)".into(),
@@ -39,8 +42,9 @@ pub fn stress_svg(name: &str, table: &StressTable, standalone: bool) -> String {
     let cap = (table.load.safety_factor * 10.0).max(10.0);
     Chart {
         title: format!(
-            "Safety factor (smallest {:.2} at r = {:.1} mm)",
-            table.min_safety_factor, table.critical_radius
+            "Safety factor (smallest {} at r = {} mm)",
+            number(table.min_safety_factor, D::Ratio),
+            number(table.critical_radius, D::Mm)
         ),
         x_label: "radius (mm)".into(),
         y_label: format!("strength / stress (shown up to {cap})"),

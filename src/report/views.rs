@@ -7,7 +7,9 @@
 //! Layout (third-angle style, views aligned): the plan view (looking downstream, along
 //! +y: radius z to the right, chordwise x up) at the top left, the edge view (looking
 //! along -x: z to the right, y up) below it, the end view from the tip (looking along -z:
-//! y to the right, x up) on the right.
+//! y to the right, x up) on the right. One scale for all three, as large as the width
+//! allows with every view and its title inside the picture; the picture is as tall as
+//! its views (at most 900 px wide).
 //!
 //! When the stacking axis is given (points root to tip in the blade frame, see
 //! [`crate::blade::Blade::stacking_axis`]) it is drawn in every view: an orange line in
@@ -17,12 +19,70 @@ use std::collections::HashMap;
 
 use nalgebra::{Point3, Vector3};
 
+use super::numbers::{fixed, number, Decimals};
 use super::stack::AXIS_COLOUR;
 use crate::mesh::TriMesh;
 use crate::svg::Svg;
 
 /// Dihedral angle above which an edge is drawn as a crease, degrees. Default 40.
 pub const CREASE_DEGREES: f64 = 40.0;
+
+/// Largest picture width, px (the HTML report's column is 960 px wide).
+const MAX_WIDTH: f64 = 900.0;
+/// Smallest picture width, px (room for the line of overall sizes).
+const MIN_WIDTH: f64 = 720.0;
+/// Largest height of the two stacked views together, px.
+const MAX_VIEWS_HEIGHT: f64 = 720.0;
+/// Left edge of the plan and edge views, px (room for the x dimension's label).
+const LEFT: f64 = 80.0;
+/// Top edge of the plan and end views, px (room for the title and the y dimension).
+const TOP: f64 = 70.0;
+/// Gap between views, px (room for a view's title under it).
+const GAP: f64 = 50.0;
+/// Right margin, px.
+const RIGHT: f64 = 20.0;
+/// Width kept for the end view's title ("from the tip, looking along -z" at 10 px).
+const END_TITLE: f64 = 200.0;
+/// Distance of the z dimension line below the edge view, px.
+const DIM_BELOW: f64 = 40.0;
+/// Height from the z dimension line to the bottom, px (its label and the line of
+/// overall sizes).
+const FOOT: f64 = 48.0;
+
+/// Where the views go: one scale for all three (aligned views), as large as the width
+/// allows with the end view's title kept inside, the stacked views no taller than
+/// [`MAX_VIEWS_HEIGHT`]; the picture as tall as its content (nothing left empty).
+struct Layout {
+    scale: f64,
+    width: f64,
+    height: f64,
+    /// Left edge of the end view, px.
+    x_end: f64,
+    /// Top edge of the edge view, px.
+    y_edge: f64,
+}
+
+impl Layout {
+    /// The layout for a part of extents `ex`, `ey`, `ez` (mm, positive).
+    fn new(ex: f64, ey: f64, ez: f64) -> Layout {
+        let avail = MAX_WIDTH - LEFT - GAP - RIGHT;
+        // The plan (ez wide) and the end view (ey wide, at least its title) side by side.
+        let by_width = (avail / (ez + ey)).min((avail - END_TITLE) / ez);
+        let by_height = MAX_VIEWS_HEIGHT / (ex + ey);
+        let scale = by_width.min(by_height);
+        let x_end = LEFT + scale * ez + GAP;
+        let width = (x_end + (scale * ey).max(END_TITLE) + RIGHT).clamp(MIN_WIDTH, MAX_WIDTH);
+        let y_edge = TOP + scale * ex + GAP;
+        let height = y_edge + scale * ey + DIM_BELOW + FOOT;
+        Layout {
+            scale,
+            width: width.ceil(),
+            height: height.ceil(),
+            x_end,
+            y_edge,
+        }
+    }
+}
 
 /// Edges of `mesh` that outline it when seen along `dir`.
 pub fn outline_edges(mesh: &TriMesh, dir: &Vector3<f64>) -> Vec<(Point3<f64>, Point3<f64>)> {
@@ -69,7 +129,23 @@ pub fn three_view_svg(
     axis: &[Point3<f64>],
     standalone: bool,
 ) -> String {
-    let (w, h, m) = (900.0, 620.0, 50.0);
+    let Some(bb) = mesh.bounding_box() else {
+        let (w, h) = (MAX_WIDTH, 120.0);
+        let mut svg = Svg::new(w, h);
+        svg.text(
+            w / 2.0,
+            20.0,
+            14.0,
+            "middle",
+            &format!("Three views: {name} (mm)"),
+        );
+        svg.text(w / 2.0, h / 2.0, 12.0, "middle", "empty part");
+        return svg.finish("Three views", standalone);
+    };
+    let size = bb.size();
+    let (ex, ey, ez) = (size.x.max(1e-6), size.y.max(1e-6), size.z.max(1e-6));
+    let l = Layout::new(ex, ey, ez);
+    let (w, h, s, m) = (l.width, l.height, l.scale, GAP);
     let mut svg = Svg::new(w, h);
     svg.text(
         w / 2.0,
@@ -78,19 +154,8 @@ pub fn three_view_svg(
         "middle",
         &format!("Three views: {name} (mm)"),
     );
-    let Some(bb) = mesh.bounding_box() else {
-        svg.text(w / 2.0, h / 2.0, 12.0, "middle", "empty part");
-        return svg.finish("Three views", standalone);
-    };
-    let size = bb.size();
-    let (ex, ey, ez) = (size.x.max(1e-6), size.y.max(1e-6), size.z.max(1e-6));
-    // Horizontal: z then y (end view); vertical: x then y (edge view).
-    let s = ((w - 4.0 * m) / (ez + ey)).min((h - 4.0 * m - 20.0) / (ex + ey));
-    let left = 1.5 * m;
-    let top = 30.0 + m;
-    let x_end = left + s * ez + m; // left edge of the end view
-    let y_edge = top + s * ex + m; // top edge of the edge view
-                                   // Plan view: z -> right, x -> up.
+    let (left, top, x_end, y_edge) = (LEFT, TOP, l.x_end, l.y_edge);
+    // Plan view: z -> right, x -> up.
     let plan = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), top + s * (bb.max.x - p.x));
     // Edge view: z -> right, y -> up.
     let edge = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), y_edge + s * (bb.max.y - p.y));
@@ -135,26 +200,27 @@ pub fn three_view_svg(
             svg.text(mid.0, mid.1 - 6.0, 11.0, "middle", &text);
         }
     };
-    let below = y_edge + s * ey + 24.0;
+    let mm = |v: f64| number(v, Decimals::Mm);
+    let below = y_edge + s * ey + DIM_BELOW;
     dim(
         &mut svg,
         (left, below),
         (left + s * ez, below),
-        format!("z: {:.1} (r {:.1} to {:.1})", size.z, bb.min.z, bb.max.z),
+        format!("z: {} (r {} to {})", mm(size.z), mm(bb.min.z), mm(bb.max.z)),
         false,
     );
     dim(
         &mut svg,
         (left - 12.0, top),
         (left - 12.0, top + s * ex),
-        format!("x: {:.1}", size.x),
+        format!("x: {}", mm(size.x)),
         true,
     );
     dim(
         &mut svg,
         (x_end, top - 12.0),
         (x_end + s * ey, top - 12.0),
-        format!("y: {:.1}", size.y),
+        format!("y: {}", mm(size.y)),
         false,
     );
     svg.text(
@@ -163,8 +229,11 @@ pub fn three_view_svg(
         11.0,
         "start",
         &format!(
-            "overall {:.1} x {:.1} x {:.1} mm (x chordwise, y along the rotor axis, z radius); scale {:.3} px/mm",
-            size.x, size.y, size.z, s
+            "overall {} × {} × {} mm (x chordwise, y along the rotor axis, z radius); scale {} px/mm",
+            mm(size.x),
+            mm(size.y),
+            mm(size.z),
+            fixed(s, 3)
         ),
     );
     svg.finish(&format!("Three views of {name}"), standalone)
