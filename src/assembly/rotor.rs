@@ -262,7 +262,7 @@ pub fn rigid(m: &Matrix4<f64>) -> IsometryMatrix3<f64> {
 
 impl Rotor {
     /// The rotation-sense and flow-side check of every placed blade mesh (`placed[k]`
-    /// is the blade placed by `transforms[k]`; see [`super::hand`]), at the stations
+    /// is the blade placed by `transforms[k]`; see `check_hand`), at the stations
     /// strictly inside the span and midway between stations ([`super::hand_radii`]).
     pub fn check_hand(&self, placed: &[&TriMesh], opts: &HandOptions) -> Vec<HandReport> {
         let radii = hand_radii(&self.station_radii);

@@ -2,7 +2,7 @@
 //! layer direction, each with its reason in words.
 //!
 //! # Rules (common practice)
-//! * **Supports** are needed when the overhang area ([`super::underside`]) is larger than
+//! * **Supports** are needed when the overhang area ([`super::underside()`]) is larger than
 //!   [`AdviceOptions::support_free_area`] (default 25 mm^2, about a 5 mm square: short
 //!   bridges and small islands print without support).
 //! * **Brim** is advised when the part stands more than [`AdviceOptions::brim_aspect`]

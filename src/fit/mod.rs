@@ -3,7 +3,7 @@
 //! * [`PrinterSpec`] / [`Printer`]: the build volume (box or round bed), margin from the
 //!   walls and top, clearance between parts, nozzle and minimum feature size, in mm;
 //!   generic size presets ([`PRESETS`]); read from a design file's `[printer]` table with
-//!   `design.table::<PrinterSpec>("printer")` and [`PrinterSpec::scaled`].
+//!   `design.table_mm::<PrinterSpec>("printer")`.
 //! * [`fit_part`]: does one part fit, in which orientation (angles and matrix), with what
 //!   gaps; if not, the smallest overshoot found and a uniform scale that fits. The search
 //!   is a branch and bound over "down" directions with the yaw solved exactly by rotating
@@ -16,7 +16,7 @@
 //!   for every copy; [`JobPlan::plate`] gives a plate's checked parts, placed, for the
 //!   writers.
 //! * [`orient`]: the pose a person would print, among those that fit: least overhang
-//!   needing support ([`underside`]), contact with the bed, layers along a blade's span
+//!   needing support ([`underside()`]), contact with the bed, layers along a blade's span
 //!   (the main stress); the best few poses offered in [`Fit::orientation`] with their
 //!   figures and why one was chosen; pose classes ([`PoseClass`]: root down, flat on
 //!   the pressure side, on the leading edge, ...) can be asked for.

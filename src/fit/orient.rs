@@ -12,7 +12,7 @@
 //! height  = part height / usable printer height
 //! ```
 //!
-//! * **support**: the surface needing support ([`super::underside`]) against half the
+//! * **support**: the surface needing support ([`super::underside()`]) against half the
 //!   surface (a closed part turns about half its surface downward).
 //! * **layers**: a blade's main stress runs along its span (bending about the chord and
 //!   centrifugal tension, see [`crate::props`]). For a uniaxial stress `s` along a

@@ -105,7 +105,7 @@ pub fn preset(name: &str) -> Option<Volume> {
 }
 
 /// A printer as written in a design file's `[printer]` table or assembled from
-/// command-line options. Lengths are in the file's unit (see [`PrinterSpec::scaled`]).
+/// command-line options. Lengths are in the file's unit (read it with `Design::table_mm`, which converts them).
 ///
 /// ```toml
 /// [printer]

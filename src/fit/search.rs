@@ -148,7 +148,7 @@ pub struct Fit {
     /// Print score of the placement (lower is better; see [`super::orient`]); infinite
     /// when it does not fit.
     pub score: f64,
-    /// Area resting on the bed in the chosen pose, mm^2 (see [`super::underside`]).
+    /// Area resting on the bed in the chosen pose, mm^2 (see [`super::underside()`]).
     pub bed_contact: f64,
     /// Area needing support in the chosen pose, mm^2: faces steeper than the overhang
     /// angle (default 45 degrees from vertical, common practice) above the first layer.

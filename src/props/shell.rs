@@ -67,7 +67,7 @@ pub const OFFSET_ARC_ANGLE: f64 = 0.01;
 type Loops = Vec<Vec<Point2<f64>>>;
 
 /// Largest distance between an offset's round joins and the chords that replace them,
-/// at a wall of 10 mm or less, mm (from [`OFFSET_ARC_ANGLE`]); an offset region is off by
+/// at a wall of 10 mm or less, mm (from the arc angle of the offsets); an offset region is off by
 /// at most this times the arcs' length.
 pub const OFFSET_ARC_TOLERANCE: f64 = 1.3e-4;
 
