@@ -47,10 +47,11 @@
 //! * **Flat** (`flat-depth`): the shank's lower (pressure) side is cut flat at
 //!   `thickness/2 - depth` from the axis along the straight shank, against rotation in
 //!   the hub; the transition blends it away. It is part of the skin, so STEP has it.
-//! * **Mounting features** (mesh only: STEP carries the skin without them, see
-//!   [`RootSpec::mesh_only_features`]): an optional flange plate with a fillet at the
-//!   root face, a coaxial blind bore with a drill-point cone, built as surfaces of
-//!   revolution sharing the skin's root ring (see [`crate::mount`]). The wall left
+//! * **Mounting features** ([`RootSpec::mount_features`]): an optional flange plate with
+//!   a fillet at the root face, a coaxial blind bore with a drill-point cone, built in
+//!   the mesh as surfaces of revolution sharing the skin's root ring (see
+//!   [`crate::mount`]) and in the exact solid from the same dimensions (see
+//!   [`crate::brep`]). The wall left
 //!   around the bore (to the shank, the flat, and beyond its point) is checked against
 //!   `min-wall`. Cross holes through the straight round shank along the rotor axis are cut
 //!   into the skin's mesh (see [`crate::mount`]); each raises the genus by one.
@@ -94,7 +95,7 @@ pub struct RootSpec {
     /// Optional coaxial blind bore from the root face.
     pub bore: Option<BoreSpec>,
     /// Cross holes through the round shank along the rotor axis (y), e.g. for a pin or
-    /// a bolt through the hub; each makes the part one genus higher (mesh only).
+    /// a bolt through the hub; each makes the part one genus higher.
     #[serde(default)]
     pub cross_holes: Vec<CrossHoleSpec>,
     /// Shank centre in the blade frame (x, y), mm: set by
@@ -467,12 +468,9 @@ impl RootSpec {
 }
 
 impl RootSpec {
-    /// The mounting features that exist only in the mesh (STL, 3MF, OBJ), not in the STEP
-    /// solid, which carries the skin (shank, flat, transition, blade) alone: `"flange"`
-    /// (the STEP skin then starts at the top of the flange's fillet), `"bore"` and
-    /// `"cross holes"`.
-    /// Empty when the STEP solid is complete. The build command prints these.
-    pub fn mesh_only_features(&self) -> Vec<&'static str> {
+    /// The mounting features cut into the root beyond the bare shank, in words:
+    /// `"flange"`, `"bore"` and `"cross holes"`; empty for a bare shank.
+    pub fn mount_features(&self) -> Vec<&'static str> {
         let mut out = Vec::new();
         if self.flange.is_some() {
             out.push("flange");

@@ -287,21 +287,16 @@ fn round_tip_closes_over_half_the_tip_chord() {
 }
 
 #[test]
-fn mesh_only_features_are_listed() {
+fn mount_features_are_listed() {
     let m = model(&design(
         &root(20.0, "flat-depth = 1\nflange = { diameter = 30, thickness = 2 }\nbore = { diameter = 5, depth = 8 }\n"),
         40,
         0.05,
     ));
     let r = m.blade.root().expect("root");
-    assert_eq!(r.mesh_only_features(), vec!["flange", "bore"]);
+    assert_eq!(r.mount_features(), vec!["flange", "bore"]);
     let m = model(&design(&root(20.0, "flat-depth = 1\n"), 40, 0.05));
-    assert!(m
-        .blade
-        .root()
-        .expect("root")
-        .mesh_only_features()
-        .is_empty());
+    assert!(m.blade.root().expect("root").mount_features().is_empty());
 }
 
 // ---- clear errors that say what to change and by how much ----
@@ -530,7 +525,7 @@ fn two_cross_holes_with_flange_and_bore_are_genus_two() {
     );
     assert!(report.is_ok(), "{report}");
     assert_eq!(
-        m.blade.root().expect("root").mesh_only_features(),
+        m.blade.root().expect("root").mount_features(),
         vec!["flange", "bore", "cross holes"]
     );
 }

@@ -555,6 +555,29 @@ impl Hub {
                 push_facing(mesh, [centre, f0, f1], d);
             }
         }
+        // Interior columns, two per angular step of the rim's polygon: a rim triangle then
+        // spans less than one step around the axis (also beside a socket opening, where
+        // points nearer the outline than a third of a column are left out), so it stays
+        // within the tolerance of the cylinder: a step's sagitta is (see `circle_sides`).
+        let du = rr * TAU / (2 * n) as f64;
+        let rows = ((2.0 * h / du).ceil() as usize).max(1);
+        let outlines: Vec<Vec<Point2<f64>>> =
+            holes.iter().map(|r| flat[r.clone()].to_vec()).collect();
+        for j in 1..2 * n {
+            for k in 1..rows {
+                let q = Point2::new(du * j as f64, -h + 2.0 * h * k as f64 / rows as f64);
+                let near = outlines
+                    .iter()
+                    .any(|o| point_in_polygon(o, &q) || distance_to_outline(o, &q) < du / 3.0);
+                if near {
+                    continue;
+                }
+                let theta = start + q.x / rr;
+                let v = mesh.push_vertex(Point3::new(rr * theta.sin(), q.y, rr * theta.cos()));
+                flat.push(q);
+                index.push(v);
+            }
+        }
         let vertices: Vec<SPoint<f64>> = flat.iter().map(|p| SPoint::new(p.x, p.y)).collect();
         let Ok(cdt) =
             ConstrainedDelaunayTriangulation::<SPoint<f64>>::bulk_load_cdt(vertices, edges)
@@ -584,6 +607,18 @@ impl Hub {
             mesh: self.mesh(tol),
         }
     }
+}
+
+/// Distance from `q` to the closed polygon `outline`.
+fn distance_to_outline(outline: &[Point2<f64>], q: &Point2<f64>) -> f64 {
+    (0..outline.len())
+        .map(|i| {
+            let (a, b) = (outline[i], outline[(i + 1) % outline.len()]);
+            let ab = b - a;
+            let t = ((q - a).dot(&ab) / ab.norm_squared().max(f64::MIN_POSITIVE)).clamp(0.0, 1.0);
+            (a + ab * t - q).norm()
+        })
+        .fold(f64::INFINITY, f64::min)
 }
 
 /// Volume of one radial socket: a cylinder of radius `rs` along a radius of the disc,

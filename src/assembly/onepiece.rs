@@ -93,7 +93,7 @@ pub fn one_piece(
         ));
     }
     if let Some(root) = &blade.facts.root {
-        let f = root.mesh_only_features();
+        let f = root.mount_features();
         if !f.is_empty() {
             return Err(bad(
                 "rotor.one-piece",

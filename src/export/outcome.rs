@@ -1,29 +1,31 @@
 //! Every file of a pipeline outcome: each part in each requested format, staged in one
 //! [`Batch`] so that the files appear together or not at all.
 //!
+//! STEP: each part's exact solid (see [`crate::brep`]): the blade with its root
+//! features, the hub, the one-piece rotor; the assembled rotor as an ISO 10303 assembly
+//! (one product per distinct part, an instance per blade). A part whose features cannot
+//! be exact gets no STEP file and a [`StepNote`] saying why.
+//!
 //! File names: `<part name>.<extension>` (`<part name>-ascii.stl` for ASCII STL), where
 //! the part name is the design name plus its kind's suffix (see
 //! [`crate::pipeline::PartKind::suffix`]).
 
-use super::{step_solid, step_text, write_mesh_to, ExportError, Format, MeshFormat, StepHeader};
+use super::{
+    step_assembly_text, step_text, write_mesh_to, ExportError, Format, MeshFormat, StepHeader,
+};
 use crate::atomic::Batch;
+use crate::brep::{blade_solid, hub_solid, one_piece_solid, BrepError, PrismHub};
 use crate::pipeline::{BuiltPart, Outcome, PartKind, Timings};
+use nalgebra::Matrix4;
 use std::fmt;
 use std::path::Path;
 use truck_modeling::Solid;
 
-/// What a STEP file leaves out, or why a part has none: the exact solid must be the part
-/// the mesh files describe, so where it cannot be, the user is told.
+/// Why a part has no STEP file: the exact solid must be the part the mesh files
+/// describe, so where it cannot be, no file is written and the user is told why.
 #[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
 #[serde(rename_all = "kebab-case", tag = "kind")]
 pub enum StepNote {
-    /// The exact solid lacks features that the mesh files have.
-    MissingFeatures {
-        /// The part.
-        part: String,
-        /// The features, in words.
-        features: Vec<String>,
-    },
     /// No STEP file was written for the part.
     NotWritten {
         /// The part.
@@ -36,11 +38,6 @@ pub enum StepNote {
 impl fmt::Display for StepNote {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
-            StepNote::MissingFeatures { part, features } => write!(
-                f,
-                "the STEP solid of {part} carries the skin (shank, transition, blade, tip) but not the {} (mesh files only)",
-                features.join(", ")
-            ),
             StepNote::NotWritten { part, reason } => {
                 write!(f, "no STEP file for {part}: {reason}")
             }
@@ -77,17 +74,9 @@ pub fn stage_outcome(
                     timings.time(m.extension(), || stage_mesh(batch, &path, m, part))?;
                 }
                 Format::Step => {
-                    let solids = timings.time("step", || step_solids(outcome, part))?;
-                    match solids {
-                        Ok(solids) => {
-                            let text = step_text(
-                                &solids,
-                                &StepHeader::for_design(&part.name),
-                                &file_name(&part.name, format),
-                            );
-                            batch.write(&path, |w| w.write_all(text.as_bytes()))?;
-                            notes.extend(missing_features(outcome, part));
-                        }
+                    let text = timings.time("step", || step_file(outcome, part, format))?;
+                    match text {
+                        Ok(text) => batch.write(&path, |w| w.write_all(text.as_bytes()))?,
                         Err(note) => notes.push(note),
                     }
                 }
@@ -95,6 +84,23 @@ pub fn stage_outcome(
         }
     }
     Ok(notes)
+}
+
+/// The STEP text of a part, or why there is none.
+fn step_file(
+    outcome: &Outcome,
+    part: &BuiltPart,
+    format: Format,
+) -> Result<Result<String, StepNote>, ExportError> {
+    let header = StepHeader::for_design(&part.name);
+    let file = file_name(&part.name, format);
+    Ok(match exact(outcome, part)? {
+        Ok(Exact::Solid(solid)) => Ok(step_text(&[(part.name.clone(), solid)], &header, &file)),
+        Ok(Exact::Assembly(products, instances)) => {
+            Ok(step_assembly_text(&products, &instances, &header, &file)?)
+        }
+        Err(note) => Err(note),
+    })
 }
 
 fn stage_mesh(
@@ -110,48 +116,94 @@ fn stage_mesh(
     Ok(batch.write(path, |w| write_mesh_to(w, format, &name, &part.bodies))?)
 }
 
-/// The exact solids of a part (name, solid), or why it has none.
-fn step_solids(
-    outcome: &Outcome,
-    part: &BuiltPart,
-) -> Result<Result<Vec<(String, Solid)>, StepNote>, ExportError> {
-    match part.kind {
-        PartKind::Blade => Ok(Ok(vec![(
-            part.name.clone(),
-            step_solid(&outcome.blade.skin)?,
-        )])),
-        PartKind::Rotor => {
-            let Some(rotor) = &outcome.rotor else {
-                return Ok(Err(not_written(
-                    part,
-                    "the outcome has no rotor placements",
-                )));
-            };
-            let solid = step_solid(&outcome.blade.skin)?;
-            let placed = rotor
-                .transforms
-                .iter()
-                .enumerate()
-                .map(|(k, m)| {
-                    let cols: [[f64; 4]; 4] =
-                        std::array::from_fn(|c| std::array::from_fn(|r| m[(r, c)]));
-                    let placed = truck_modeling::builder::transformed(
-                        &solid,
-                        truck_modeling::Matrix4::from(cols),
-                    );
-                    (format!("{}-blade-{}", outcome.blade.name, k + 1), placed)
-                })
-                .collect();
-            Ok(Ok(placed))
-        }
-        PartKind::Hub => Ok(Err(not_written(
-            part,
-            "the hub's exact solid is not built yet; use the mesh files",
-        ))),
-        PartKind::OnePiece => Ok(Err(not_written(
-            part,
-            "the one-piece rotor's exact solid is not built yet; use the mesh files",
-        ))),
+/// The exact solid(s) of a part, as one STEP file's content.
+enum Exact {
+    /// One solid (a plain STEP solid).
+    Solid(Solid),
+    /// An assembly: products and placed instances (product index, placement).
+    Assembly(Vec<(String, Solid)>, Vec<(usize, Matrix4<f64>)>),
+}
+
+/// The exact solid of a part, built from the same skin and feature dimensions as its
+/// mesh; a feature that cannot be exact becomes a note and no file.
+fn exact(outcome: &Outcome, part: &BuiltPart) -> Result<Result<Exact, StepNote>, ExportError> {
+    let built = match part.kind {
+        PartKind::Blade => blade(outcome).map(Exact::Solid),
+        PartKind::Hub => hub(outcome).map(Exact::Solid),
+        PartKind::Rotor => rotor(outcome),
+        PartKind::OnePiece => one_piece(outcome).map(Exact::Solid),
+    };
+    match built {
+        Ok(e) => Ok(Ok(e)),
+        Err(e @ BrepError::NotExact { .. }) => Ok(Err(not_written(part, &e.to_string()))),
+        Err(e) => Err(e.into()),
+    }
+}
+
+fn blade(outcome: &Outcome) -> Result<Solid, BrepError> {
+    let b = &outcome.blade;
+    blade_solid(&b.skin, b.blade.root(), b.blade.root_face())
+}
+
+fn hub(outcome: &Outcome) -> Result<Solid, BrepError> {
+    let hub = outcome
+        .rotor
+        .as_ref()
+        .and_then(|r| r.hub.as_ref())
+        .ok_or_else(|| missing("hub", "the outcome has no hub"))?;
+    hub_solid(hub)
+}
+
+/// The rotor as an assembly: the blade product placed once per blade, the hub once.
+fn rotor(outcome: &Outcome) -> Result<Exact, BrepError> {
+    let rotor = outcome
+        .rotor
+        .as_ref()
+        .ok_or_else(|| missing("rotor", "the outcome has no rotor placements"))?;
+    let name = &outcome.blade.name;
+    let mut products = vec![(format!("{name}-blade"), blade(outcome)?)];
+    let mut instances: Vec<(usize, Matrix4<f64>)> =
+        rotor.transforms.iter().map(|m| (0, *m)).collect();
+    if rotor.hub.is_some() {
+        products.push((format!("{name}-hub"), hub(outcome)?));
+        instances.push((1, Matrix4::identity()));
+    }
+    Ok(Exact::Assembly(products, instances))
+}
+
+fn one_piece(outcome: &Outcome) -> Result<Solid, BrepError> {
+    let b = &outcome.blade;
+    let rotor = outcome
+        .rotor
+        .as_ref()
+        .ok_or_else(|| missing("one-piece rotor", "the outcome has no rotor placements"))?;
+    let spec = rotor.spec.one_piece.as_ref().ok_or_else(|| {
+        missing(
+            "one-piece rotor",
+            "the rotor has no [rotor.one-piece] table",
+        )
+    })?;
+    let ring: Vec<nalgebra::Point3<f64>> = b
+        .tessellation
+        .root_ring
+        .iter()
+        .map(|&i| b.mesh().vertices[i as usize])
+        .collect();
+    let hub = PrismHub::new(
+        &ring,
+        b.blade.root_face(),
+        &rotor.spec,
+        rotor.rotation,
+        spec,
+    );
+    one_piece_solid(&b.skin, &rotor.transforms, &hub)
+}
+
+fn missing(feature: &str, problem: &str) -> BrepError {
+    BrepError::BadFeature {
+        feature: feature.to_string(),
+        problem: problem.to_string(),
+        fix: "this is a bug: please report it with the design file".to_string(),
     }
 }
 
@@ -160,26 +212,4 @@ fn not_written(part: &BuiltPart, reason: &str) -> StepNote {
         part: part.name.clone(),
         reason: reason.to_string(),
     }
-}
-
-/// The mesh features a blade's (or rotor's) STEP solid lacks.
-fn missing_features(outcome: &Outcome, part: &BuiltPart) -> Option<StepNote> {
-    let mut features: Vec<String> = outcome
-        .blade
-        .blade
-        .root()
-        .map(|r| {
-            r.mesh_only_features()
-                .into_iter()
-                .map(String::from)
-                .collect()
-        })
-        .unwrap_or_default();
-    if part.kind == PartKind::Rotor && outcome.rotor.as_ref().is_some_and(|r| r.hub.is_some()) {
-        features.push("hub".into());
-    }
-    (!features.is_empty()).then(|| StepNote::MissingFeatures {
-        part: part.name.clone(),
-        features,
-    })
 }
