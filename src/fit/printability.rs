@@ -12,9 +12,13 @@
 //! cannot be printed as a solid wall (both common practice). The section layer can
 //! thicken the trailing edge: set `[blade] min-te-thickness` in the design file.
 
-use super::hull::{self, P2};
+use super::hull;
 use super::Printer;
 use crate::mesh::TriMesh;
+use nalgebra::Point2;
+
+/// A point in the plane, mm (the slicer's own; [`hull`] takes `Point2`).
+type P2 = [f64; 2];
 
 /// Options of the printability check.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -166,7 +170,8 @@ pub fn slice(mesh: &TriMesh, z: f64) -> Vec<[P2; 2]> {
 /// Measures one section given as segments: `(chord, thickness, te_thickness)`.
 fn measure(segments: &[[P2; 2]], probe: f64, stations: usize) -> Option<(f64, f64, f64)> {
     let pts: Vec<P2> = segments.iter().flat_map(|s| [s[0], s[1]]).collect();
-    let h = hull::convex_hull(&pts);
+    let pts: Vec<Point2<f64>> = pts.iter().map(|&p| p.into()).collect();
+    let h: Vec<P2> = hull::convex_hull(&pts).iter().map(|p| [p.x, p.y]).collect();
     if h.len() < 2 {
         return None;
     }

@@ -45,7 +45,7 @@
 //! break it join the subset and the search goes on. The numbers reported (size, gaps,
 //! overshoot, scale) are measured on every vertex.
 
-use super::hull::{self, P2};
+use super::hull;
 use super::orient::{
     rank_key, reasons, span_to_layers_deg, Choice, Orientation, Pose, PrintOptions, Scored, Scorer,
 };
@@ -53,7 +53,7 @@ use super::pose::PoseClass;
 use super::yaw::best_yaw;
 use super::{FitError, Printer, Volume};
 use crate::mesh::TriMesh;
-use nalgebra::{Matrix3, Matrix4, Point3, Rotation3, Vector3};
+use nalgebra::{Matrix3, Matrix4, Point2, Point3, Rotation3, Vector3};
 use std::cmp::Ordering;
 use std::collections::{BTreeMap, BinaryHeap};
 
@@ -219,13 +219,13 @@ fn rotation(up: &Vector3<f64>, yaw: f64) -> Matrix3<f64> {
 fn evaluate(pts: &[Vector3<f64>], up: Vector3<f64>, av: &Avail) -> Eval {
     let (b1, b2) = frame(&up);
     let (mut z0, mut z1) = (f64::MAX, f64::MIN);
-    let p2: Vec<P2> = pts
+    let p2: Vec<Point2<f64>> = pts
         .iter()
         .map(|v| {
             let z = up.dot(v);
             z0 = z0.min(z);
             z1 = z1.max(z);
-            [b1.dot(v), b2.dot(v)]
+            Point2::new(b1.dot(v), b2.dot(v))
         })
         .collect();
     let hull2 = hull::convex_hull(&p2);
@@ -498,14 +498,14 @@ fn measure(
             }
         }
         Volume::Round { diameter, height } => {
-            let p2: Vec<P2> = rotated.iter().map(|p| [p.x, p.y]).collect();
+            let p2: Vec<Point2<f64>> = rotated.iter().map(|p| Point2::new(p.x, p.y)).collect();
             let h2 = hull::convex_hull(&p2);
             let (c, r) = hull::enclosing_circle(&h2);
-            let t = Vector3::new(cx - c[0], cy - c[1], -lo[2]);
+            let t = Vector3::new(cx - c.x, cy - c.y, -lo[2]);
             // Exact radial reach of the placed vertices from the bed centre.
             let (mut reach, mut far) = (0.0f64, 0usize);
             for (i, p) in p2.iter().enumerate() {
-                let d = ((p[0] - c[0]).powi(2) + (p[1] - c[1]).powi(2)).sqrt();
+                let d = ((p.x - c.x).powi(2) + (p.y - c.y).powi(2)).sqrt();
                 if d > reach {
                     reach = d;
                     far = i;

@@ -116,7 +116,7 @@ pub fn plate_svg(plate: &Plate, printer: &Printer, title: &str) -> String {
         let pts: Vec<String> = p
             .footprint
             .iter()
-            .map(|q| format!("{},{}", n(u(q[0])), n(v(q[1]))))
+            .map(|q| format!("{},{}", n(u(q.x)), n(v(q.y))))
             .collect();
         let _ = writeln!(
             s,
@@ -124,8 +124,8 @@ pub fn plate_svg(plate: &Plate, printer: &Printer, title: &str) -> String {
             pts.join(" ")
         );
         let k = p.footprint.len().max(1) as f64;
-        let cx = p.footprint.iter().map(|q| q[0]).sum::<f64>() / k;
-        let cy = p.footprint.iter().map(|q| q[1]).sum::<f64>() / k;
+        let cx = p.footprint.iter().map(|q| q.x).sum::<f64>() / k;
+        let cy = p.footprint.iter().map(|q| q.y).sum::<f64>() / k;
         let _ = writeln!(
             s,
             r#"<text x="{}" y="{}" text-anchor="middle">{}</text>"#,

@@ -11,7 +11,7 @@
 //! ratios cross, which is solved in closed form. Every event and every crossing is
 //! visited, so the yaw returned is exact (to rounding), not sampled.
 
-use super::hull::P2;
+use nalgebra::{Point2, Vector2};
 use std::f64::consts::{FRAC_PI_2, PI};
 
 /// Result of [`best_yaw`].
@@ -27,14 +27,14 @@ pub struct Yaw {
     pub wy: f64,
 }
 
-fn dot(p: P2, u: P2) -> f64 {
-    p[0] * u[0] + p[1] * u[1]
+fn dot(p: Point2<f64>, u: Vector2<f64>) -> f64 {
+    p.x * u.x + p.y * u.y
 }
 
 /// Widths of a point set along `u(t)` and `v(t)`, by a full scan (for checks and ends).
-pub fn widths(points: &[P2], t: f64) -> (f64, f64) {
-    let u = [t.cos(), t.sin()];
-    let v = [-t.sin(), t.cos()];
+pub fn widths(points: &[Point2<f64>], t: f64) -> (f64, f64) {
+    let u = Vector2::new(t.cos(), t.sin());
+    let v = Vector2::new(-t.sin(), t.cos());
     let (mut u0, mut u1, mut v0, mut v1) = (f64::MAX, f64::MIN, f64::MAX, f64::MIN);
     for &p in points {
         let (a, b) = (dot(p, u), dot(p, v));
@@ -52,7 +52,7 @@ pub fn widths(points: &[P2], t: f64) -> (f64, f64) {
 /// The yaw minimising `max(w_x / a, w_y / b)` for a convex polygon given
 /// counter-clockwise (as from [`super::hull::convex_hull`]); `a`, `b` > 0 are the
 /// available lengths along the bed's x and y, mm.
-pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
+pub fn best_yaw(hull: &[Point2<f64>], a: f64, b: f64) -> Yaw {
     let n = hull.len();
     let eval = |t: f64| {
         let (wx, wy) = widths(hull, t);
@@ -68,8 +68,8 @@ pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
         if n < 2 {
             return eval(0.0);
         }
-        let d = [hull[1][0] - hull[0][0], hull[1][1] - hull[0][1]];
-        let phi = d[1].atan2(d[0]);
+        let d = hull[1] - hull[0];
+        let phi = d.y.atan2(d.x);
         let cands = [phi, phi + FRAC_PI_2];
         return cands
             .iter()
@@ -81,7 +81,7 @@ pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
     let mut events: Vec<f64> = Vec::with_capacity(2 * n + 2);
     for i in 0..n {
         let (p, q) = (hull[i], hull[(i + 1) % n]);
-        let normal = (-(q[0] - p[0])).atan2(q[1] - p[1]); // outward normal of a CCW edge
+        let normal = (-(q.x - p.x)).atan2(q.y - p.y); // outward normal of a CCW edge
         let base = normal.rem_euclid(FRAC_PI_2);
         events.push(base);
         events.push(base + FRAC_PI_2);
@@ -92,12 +92,12 @@ pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
     events.dedup_by(|x, y| (*x - *y).abs() < 1e-15);
 
     // Support indices for +u, -u, +v, -v, advanced monotonically (calipers).
-    let argmax = |dir: P2| -> usize {
+    let argmax = |dir: Vector2<f64>| -> usize {
         (0..n)
             .max_by(|&i, &j| dot(hull[i], dir).total_cmp(&dot(hull[j], dir)))
             .unwrap_or(0)
     };
-    let advance = |idx: &mut usize, dir: P2| {
+    let advance = |idx: &mut usize, dir: Vector2<f64>| {
         for _ in 0..n {
             let next = (*idx + 1) % n;
             if dot(hull[next], dir) > dot(hull[*idx], dir) {
@@ -107,9 +107,14 @@ pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
             }
         }
     };
-    let dirs = |t: f64| -> [P2; 4] {
+    let dirs = |t: f64| -> [Vector2<f64>; 4] {
         let (c, s) = (t.cos(), t.sin());
-        [[c, s], [-c, -s], [-s, c], [s, -c]]
+        [
+            Vector2::new(c, s),
+            Vector2::new(-c, -s),
+            Vector2::new(-s, c),
+            Vector2::new(s, -c),
+        ]
     };
     let t0 = 0.5 * (events[0] + events[1]);
     let d0 = dirs(t0);
@@ -125,18 +130,12 @@ pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
         for k in 0..4 {
             advance(&mut idx[k], d[k]);
         }
-        let e = [
-            hull[idx[0]][0] - hull[idx[1]][0],
-            hull[idx[0]][1] - hull[idx[1]][1],
-        ];
-        let f = [
-            hull[idx[2]][0] - hull[idx[3]][0],
-            hull[idx[2]][1] - hull[idx[3]][1],
-        ];
+        let e = hull[idx[0]] - hull[idx[1]];
+        let f = hull[idx[2]] - hull[idx[3]];
         let piece = |t: f64| {
             let (c, s) = (t.cos(), t.sin());
-            let wx = e[0] * c + e[1] * s;
-            let wy = -f[0] * s + f[1] * c;
+            let wx = e.x * c + e.y * s;
+            let wy = -f.x * s + f.y * c;
             Yaw {
                 angle: t,
                 ratio: (wx / a).max(wy / b),
@@ -146,8 +145,8 @@ pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
         };
         let mut cands = vec![lo, hi];
         // Crossing wx / a = wy / b:  alpha cos t + beta sin t = 0.
-        let alpha = e[0] / a - f[1] / b;
-        let beta = e[1] / a + f[0] / b;
+        let alpha = e.x / a - f.y / b;
+        let beta = e.y / a + f.x / b;
         if alpha != 0.0 || beta != 0.0 {
             let t = (-alpha).atan2(beta).rem_euclid(PI);
             if t > lo && t < hi {
@@ -168,13 +167,17 @@ pub fn best_yaw(hull: &[P2], a: f64, b: f64) -> Yaw {
 mod tests {
     use super::*;
 
+    fn pts(xy: &[[f64; 2]]) -> Vec<Point2<f64>> {
+        xy.iter().map(|&[x, y]| Point2::new(x, y)).collect()
+    }
+
     #[test]
     fn rectangle_fits_diagonally() {
         // Elementary geometry: a 100 x 4 rectangle in a 80 x 80 square. Tilted by t, its
         // box is (100 cos t + 4 sin t) wide and (100 sin t + 4 cos t) high; at t = 45 deg
         // both are 104 / sqrt 2 = 73.54 < 80, so it fits diagonally while its length
         // exceeds the side.
-        let r = [[0.0, 0.0], [100.0, 0.0], [100.0, 4.0], [0.0, 4.0]];
+        let r = pts(&[[0.0, 0.0], [100.0, 0.0], [100.0, 4.0], [0.0, 4.0]]);
         let y = best_yaw(&r, 80.0, 80.0);
         let expect = 104.0 / 2f64.sqrt() / 80.0;
         assert!((y.ratio - expect).abs() < 1e-9, "{y:?}");
@@ -190,13 +193,13 @@ mod tests {
     #[test]
     fn exact_against_fine_sampling() {
         // Independent check: a dense scan over yaw never beats the calipers result.
-        let poly = super::super::hull::convex_hull(&[
+        let poly = super::super::hull::convex_hull(&pts(&[
             [0.0, 0.0],
             [120.0, 10.0],
             [118.0, 25.0],
             [30.0, 40.0],
             [-5.0, 22.0],
-        ]);
+        ]));
         let y = best_yaw(&poly, 90.0, 70.0);
         let scan = (0..200_000)
             .map(|i| {
