@@ -83,8 +83,8 @@ pub fn add_mount_features(
 /// The shank centre (x, y; z = 0): recorded by the blade; else the middle of the ring's
 /// bounding box (a circle or an ellipse centred on the stacking axis).
 fn shank_centre(mesh: &TriMesh, ring: &[u32], root: &RootSpec) -> Point3<f64> {
-    if let Some([x, y]) = root.centre {
-        return Point3::new(x, y, 0.0);
+    if let Some(p) = root.centre {
+        return Point3::new(p.x, p.y, 0.0);
     }
     let p0 = mesh.vertices[ring[0] as usize];
     let (mut lo, mut hi) = (p0, p0);
