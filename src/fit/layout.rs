@@ -340,10 +340,9 @@ fn in_circle(poly: &[Point2<f64>], x: f64, r: f64) -> Option<(f64, f64)> {
 fn spot(
     variants: &[Shape],
     obstacles: &[Vec<Point2<f64>>],
-    rect: [f64; 4],
-    c: f64,
-    circle: Option<f64>,
+    bed: &Bed,
 ) -> Option<(f64, f64, usize)> {
+    let (rect, c, circle) = (bed.rect, bed.clearance, bed.circle);
     let mut best: Option<(f64, f64, usize)> = None;
     for (vi, v) in variants.iter().enumerate() {
         let mut xs = vec![rect[0]];
@@ -412,116 +411,147 @@ pub fn layout_fitted(
     for part in &parts[fits.len()..] {
         fits.push(fit_part(&part.name, &part.mesh, printer, &opts.fit)?);
     }
-    let (a, _, _) = printer.available();
-    let m = printer.margin;
-    let c = printer.clearance;
-    // Usable rectangle on the bed.
-    let rect = match printer.volume {
-        Volume::Box { x, y, .. } => [m, m, x - m, y - m],
-        Volume::Round { .. } => {
-            let r = 0.5 * a;
-            [-r, -r, r, r]
-        }
-    };
-    let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
+    let bed = Bed::of(printer);
     let mut unplaced = Vec::new();
     let mut shapes: Vec<(usize, Shape, f64)> = Vec::new();
     let mut alone: Vec<Placed> = Vec::new();
     for (i, part) in parts.iter().enumerate() {
-        let f = fits[i].clone();
+        let f = &fits[i];
         if !f.fits {
-            unplaced.push((i, f));
+            unplaced.push((i, f.clone()));
             continue;
         }
-        // Narrowest across the bed: an edge of the footprint along x.
-        let base = shape(part, f.placement.rotation);
-        let mut best: Option<Shape> = None;
-        let n = base.poly.len();
-        for k in 0..n.max(1) {
-            let t = if n >= 2 {
-                let (p, q) = (base.poly[k], base.poly[(k + 1) % n]);
-                -(q.y - p.y).atan2(q.x - p.x)
-            } else {
-                0.0
-            };
-            let s = base.turned(t);
-            if s.size[0] <= ra + 1e-9
-                && s.size[1] <= rb + 1e-9
-                && best.as_ref().is_none_or(|bs| s.size[1] < bs.size[1])
-            {
-                best = Some(s);
-            }
-        }
-        match best {
+        match narrowest(part, f.placement.rotation, bed.rect) {
             Some(s) => {
                 let area = hull::area(&s.poly).abs();
                 shapes.push((i, s, area));
             }
-            None => {
-                // Fits the volume only as the single-part search placed it.
-                let pts: Vec<Point2<f64>> = part
-                    .mesh
-                    .vertices
-                    .iter()
-                    .map(|v| {
-                        let q = f.placement.apply(v);
-                        Point2::new(q.x, q.y)
-                    })
-                    .collect();
-                alone.push(Placed {
-                    part: i,
-                    name: part.name.clone(),
-                    placement: f.placement,
-                    footprint: hull::convex_hull(&pts),
-                    size: f.size,
-                });
-            }
+            None => alone.push(as_fitted(i, part, f)),
         }
     }
+    // Largest footprint first (input order among equals).
     shapes.sort_by(|p, q| q.2.total_cmp(&p.2).then(p.0.cmp(&q.0)));
-    let circle = match printer.volume {
-        Volume::Round { .. } => Some(0.5 * a),
-        Volume::Box { .. } => None,
-    };
+    let mut plates = pack(shapes, parts, &fits, &bed, opts.flips, &mut alone);
+    for p in alone {
+        plates.push(Plate { parts: vec![p] });
+    }
+    for p in &mut plates {
+        p.parts.sort_by_key(|x| x.part);
+    }
+    Ok(Layout {
+        plates,
+        unplaced,
+        fits,
+    })
+}
+
+/// The usable bed: the rectangle parts are placed in (for a round bed, the square
+/// around the usable circle, whose radius `circle` is), and the clearance between parts.
+struct Bed {
+    rect: [f64; 4],
+    circle: Option<f64>,
+    clearance: f64,
+}
+
+impl Bed {
+    fn of(printer: &Printer) -> Bed {
+        let (a, _, _) = printer.available();
+        let m = printer.margin;
+        let (rect, circle) = match printer.volume {
+            Volume::Box { x, y, .. } => ([m, m, x - m, y - m], None),
+            Volume::Round { .. } => {
+                let r = 0.5 * a;
+                ([-r, -r, r, r], Some(r))
+            }
+        };
+        Bed {
+            rect,
+            circle,
+            clearance: printer.clearance,
+        }
+    }
+}
+
+/// The part in `rotation`, turned about the vertical so its footprint is narrowest
+/// across the bed (an edge of the footprint along x), if it then fits `rect`.
+fn narrowest(part: &Part, rotation: Matrix3<f64>, rect: [f64; 4]) -> Option<Shape> {
+    let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
+    let base = shape(part, rotation);
+    let mut best: Option<Shape> = None;
+    let n = base.poly.len();
+    for k in 0..n.max(1) {
+        let t = if n >= 2 {
+            let (p, q) = (base.poly[k], base.poly[(k + 1) % n]);
+            -(q.y - p.y).atan2(q.x - p.x)
+        } else {
+            0.0
+        };
+        let s = base.turned(t);
+        if s.size[0] <= ra + 1e-9
+            && s.size[1] <= rb + 1e-9
+            && best.as_ref().is_none_or(|bs| s.size[1] < bs.size[1])
+        {
+            best = Some(s);
+        }
+    }
+    best
+}
+
+/// Part `i` exactly as the single-part search placed it (it fits the volume only so):
+/// for a plate of its own.
+fn as_fitted(i: usize, part: &Part, f: &Fit) -> Placed {
+    let pts: Vec<Point2<f64>> = part
+        .mesh
+        .vertices
+        .iter()
+        .map(|v| {
+            let q = f.placement.apply(v);
+            Point2::new(q.x, q.y)
+        })
+        .collect();
+    Placed {
+        part: i,
+        name: part.name.clone(),
+        placement: f.placement,
+        footprint: hull::convex_hull(&pts),
+        size: f.size,
+    }
+}
+
+/// Places the shapes in order at the lowest, then leftmost, free spot of the first
+/// plate that has one (as they are, or turned by 180 degrees with `flips`), opening a
+/// new plate when none has; a shape that finds no spot even on an empty plate goes to
+/// `alone` as fitted.
+fn pack(
+    shapes: Vec<(usize, Shape, f64)>,
+    parts: &[Part],
+    fits: &[Fit],
+    bed: &Bed,
+    flips: bool,
+    alone: &mut Vec<Placed>,
+) -> Vec<Plate> {
     let mut plates: Vec<(Plate, Vec<Vec<Point2<f64>>>)> = Vec::new();
     for (i, s, _) in shapes {
         let mut variants = vec![s];
-        if opts.flips {
+        if flips {
             let flipped = variants[0].turned(std::f64::consts::PI);
             variants.push(flipped);
         }
         let mut found = None;
         for (pi, (_, obstacles)) in plates.iter().enumerate() {
-            if let Some(b) = spot(&variants, obstacles, rect, c, circle) {
+            if let Some(b) = spot(&variants, obstacles, bed) {
                 found = Some((pi, b));
                 break;
             }
         }
         if found.is_none() {
-            if let Some(b) = spot(&variants, &[], rect, c, circle) {
+            if let Some(b) = spot(&variants, &[], bed) {
                 plates.push((Plate::default(), Vec::new()));
                 found = Some((plates.len() - 1, b));
             }
         }
         let Some((pi, (y, x, vi))) = found else {
-            // Fits the volume only as the single-part search placed it.
-            let f = &fits[i];
-            let pts: Vec<Point2<f64>> = parts[i]
-                .mesh
-                .vertices
-                .iter()
-                .map(|v| {
-                    let q = f.placement.apply(v);
-                    Point2::new(q.x, q.y)
-                })
-                .collect();
-            alone.push(Placed {
-                part: i,
-                name: parts[i].name.clone(),
-                placement: f.placement,
-                footprint: hull::convex_hull(&pts),
-                size: f.size,
-            });
+            alone.push(as_fitted(i, &parts[i], &fits[i]));
             continue;
         };
         let v = &variants[vi];
@@ -540,16 +570,5 @@ pub fn layout_fitted(
         plates[pi].0.parts.push(placed);
         plates[pi].1.push(poly);
     }
-    let mut plates: Vec<Plate> = plates.into_iter().map(|p| p.0).collect();
-    for p in alone {
-        plates.push(Plate { parts: vec![p] });
-    }
-    for p in &mut plates {
-        p.parts.sort_by_key(|x| x.part);
-    }
-    Ok(Layout {
-        plates,
-        unplaced,
-        fits,
-    })
+    plates.into_iter().map(|p| p.0).collect()
 }
