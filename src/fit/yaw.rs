@@ -53,31 +53,61 @@ pub fn widths(points: &[Point2<f64>], t: f64) -> (f64, f64) {
 /// counter-clockwise (as from [`super::hull::convex_hull`]); `a`, `b` > 0 are the
 /// available lengths along the bed's x and y, mm.
 pub fn best_yaw(hull: &[Point2<f64>], a: f64, b: f64) -> Yaw {
-    let n = hull.len();
-    let eval = |t: f64| {
-        let (wx, wy) = widths(hull, t);
-        Yaw {
-            angle: t,
-            ratio: (wx / a).max(wy / b),
-            wx,
-            wy,
-        }
-    };
-    if n < 3 {
-        // A point or a segment: lay the segment along the longer usable side.
-        if n < 2 {
-            return eval(0.0);
-        }
-        let d = hull[1] - hull[0];
-        let phi = d.y.atan2(d.x);
-        let cands = [phi, phi + FRAC_PI_2];
-        return cands
-            .iter()
-            .map(|&t| eval(t.rem_euclid(PI)))
-            .min_by(|p, q| p.ratio.total_cmp(&q.ratio))
-            .unwrap_or_else(|| eval(0.0));
+    if hull.len() < 3 {
+        return degenerate_yaw(hull, a, b);
     }
-    // Event angles in [0, pi): every edge normal, shifted by multiples of pi/2.
+    let events = event_angles(hull);
+    let mut calipers = Calipers::new(hull, 0.5 * (events[0] + events[1]));
+    let mut best = scan(hull, a, b, 0.0);
+    for w in events.windows(2) {
+        let (lo, hi) = (w[0], w[1]);
+        if hi - lo < 1e-15 {
+            continue;
+        }
+        let piece = calipers.piece(0.5 * (lo + hi), a, b);
+        for t in [Some(lo), Some(hi), piece.crossing(lo, hi)]
+            .into_iter()
+            .flatten()
+        {
+            let y = piece.at(t);
+            if y.ratio < best.ratio {
+                best = y;
+            }
+        }
+    }
+    best
+}
+
+/// The yaw at angle `t` by a full scan of the points.
+fn scan(points: &[Point2<f64>], a: f64, b: f64, t: f64) -> Yaw {
+    let (wx, wy) = widths(points, t);
+    Yaw {
+        angle: t,
+        ratio: (wx / a).max(wy / b),
+        wx,
+        wy,
+    }
+}
+
+/// A point or a segment: the segment laid along the longer usable side.
+fn degenerate_yaw(hull: &[Point2<f64>], a: f64, b: f64) -> Yaw {
+    if hull.len() < 2 {
+        return scan(hull, a, b, 0.0);
+    }
+    let d = hull[1] - hull[0];
+    let phi = d.y.atan2(d.x);
+    let cands = [phi, phi + FRAC_PI_2];
+    cands
+        .iter()
+        .map(|&t| scan(hull, a, b, t.rem_euclid(PI)))
+        .min_by(|p, q| p.ratio.total_cmp(&q.ratio))
+        .unwrap_or_else(|| scan(hull, a, b, 0.0))
+}
+
+/// Event angles in `[0, pi]`, sorted: every edge's outward normal, shifted by multiples
+/// of pi/2, and both ends.
+fn event_angles(hull: &[Point2<f64>]) -> Vec<f64> {
+    let n = hull.len();
     let mut events: Vec<f64> = Vec::with_capacity(2 * n + 2);
     for i in 0..n {
         let (p, q) = (hull[i], hull[(i + 1) % n]);
@@ -90,77 +120,98 @@ pub fn best_yaw(hull: &[Point2<f64>], a: f64, b: f64) -> Yaw {
     events.push(PI);
     events.sort_by(f64::total_cmp);
     events.dedup_by(|x, y| (*x - *y).abs() < 1e-15);
+    events
+}
 
-    // Support indices for +u, -u, +v, -v, advanced monotonically (calipers).
-    let argmax = |dir: Vector2<f64>| -> usize {
-        (0..n)
-            .max_by(|&i, &j| dot(hull[i], dir).total_cmp(&dot(hull[j], dir)))
-            .unwrap_or(0)
-    };
-    let advance = |idx: &mut usize, dir: Vector2<f64>| {
-        for _ in 0..n {
-            let next = (*idx + 1) % n;
-            if dot(hull[next], dir) > dot(hull[*idx], dir) {
-                *idx = next;
-            } else {
-                break;
-            }
-        }
-    };
-    let dirs = |t: f64| -> [Vector2<f64>; 4] {
-        let (c, s) = (t.cos(), t.sin());
-        [
-            Vector2::new(c, s),
-            Vector2::new(-c, -s),
-            Vector2::new(-s, c),
-            Vector2::new(s, -c),
-        ]
-    };
-    let t0 = 0.5 * (events[0] + events[1]);
-    let d0 = dirs(t0);
-    let mut idx = [argmax(d0[0]), argmax(d0[1]), argmax(d0[2]), argmax(d0[3])];
-    let mut best = eval(0.0);
-    for w in events.windows(2) {
-        let (lo, hi) = (w[0], w[1]);
-        if hi - lo < 1e-15 {
-            continue;
-        }
-        let mid = 0.5 * (lo + hi);
-        let d = dirs(mid);
-        for k in 0..4 {
-            advance(&mut idx[k], d[k]);
-        }
-        let e = hull[idx[0]] - hull[idx[1]];
-        let f = hull[idx[2]] - hull[idx[3]];
-        let piece = |t: f64| {
-            let (c, s) = (t.cos(), t.sin());
-            let wx = e.x * c + e.y * s;
-            let wy = -f.x * s + f.y * c;
-            Yaw {
-                angle: t,
-                ratio: (wx / a).max(wy / b),
-                wx,
-                wy,
-            }
+/// The directions `+u, -u, +v, -v` at angle `t`.
+fn directions(t: f64) -> [Vector2<f64>; 4] {
+    let (c, s) = (t.cos(), t.sin());
+    [
+        Vector2::new(c, s),
+        Vector2::new(-c, -s),
+        Vector2::new(-s, c),
+        Vector2::new(s, -c),
+    ]
+}
+
+/// Support vertices for `+u, -u, +v, -v`, advanced monotonically as the angle grows.
+struct Calipers<'a> {
+    hull: &'a [Point2<f64>],
+    idx: [usize; 4],
+}
+
+impl<'a> Calipers<'a> {
+    /// The support vertices at angle `t`, by a full scan.
+    fn new(hull: &'a [Point2<f64>], t: f64) -> Self {
+        let argmax = |dir: Vector2<f64>| -> usize {
+            (0..hull.len())
+                .max_by(|&i, &j| dot(hull[i], dir).total_cmp(&dot(hull[j], dir)))
+                .unwrap_or(0)
         };
-        let mut cands = vec![lo, hi];
-        // Crossing wx / a = wy / b:  alpha cos t + beta sin t = 0.
-        let alpha = e.x / a - f.y / b;
-        let beta = e.y / a + f.x / b;
-        if alpha != 0.0 || beta != 0.0 {
-            let t = (-alpha).atan2(beta).rem_euclid(PI);
-            if t > lo && t < hi {
-                cands.push(t);
-            }
-        }
-        for t in cands {
-            let y = piece(t);
-            if y.ratio < best.ratio {
-                best = y;
-            }
+        let d = directions(t);
+        Calipers {
+            hull,
+            idx: [argmax(d[0]), argmax(d[1]), argmax(d[2]), argmax(d[3])],
         }
     }
-    best
+
+    /// Advances the support vertices to angle `t` (inside the next interval between
+    /// events) and returns the widths there as a [`Piece`].
+    fn piece(&mut self, t: f64, a: f64, b: f64) -> Piece {
+        let (hull, n) = (self.hull, self.hull.len());
+        let d = directions(t);
+        for (idx, dir) in self.idx.iter_mut().zip(d) {
+            for _ in 0..n {
+                let next = (*idx + 1) % n;
+                if dot(hull[next], dir) > dot(hull[*idx], dir) {
+                    *idx = next;
+                } else {
+                    break;
+                }
+            }
+        }
+        Piece {
+            e: hull[self.idx[0]] - hull[self.idx[1]],
+            f: hull[self.idx[2]] - hull[self.idx[3]],
+            a,
+            b,
+        }
+    }
+}
+
+/// The widths between two events: `w_x = e . u(t)`, `w_y = f . v(t)` for fixed `e`, `f`.
+struct Piece {
+    e: Vector2<f64>,
+    f: Vector2<f64>,
+    a: f64,
+    b: f64,
+}
+
+impl Piece {
+    fn at(&self, t: f64) -> Yaw {
+        let (e, f) = (self.e, self.f);
+        let (c, s) = (t.cos(), t.sin());
+        let wx = e.x * c + e.y * s;
+        let wy = -f.x * s + f.y * c;
+        Yaw {
+            angle: t,
+            ratio: (wx / self.a).max(wy / self.b),
+            wx,
+            wy,
+        }
+    }
+
+    /// Where `w_x / a = w_y / b` inside `(lo, hi)`: `alpha cos t + beta sin t = 0`.
+    fn crossing(&self, lo: f64, hi: f64) -> Option<f64> {
+        let (e, f) = (self.e, self.f);
+        let alpha = e.x / self.a - f.y / self.b;
+        let beta = e.y / self.a + f.x / self.b;
+        if alpha == 0.0 && beta == 0.0 {
+            return None;
+        }
+        let t = (-alpha).atan2(beta).rem_euclid(PI);
+        (t > lo && t < hi).then_some(t)
+    }
 }
 
 #[cfg(test)]
