@@ -4,7 +4,8 @@
 use std::fmt::Write;
 
 use super::build::Pictures;
-use super::model::Report;
+use super::model::{BalanceSummary, PartSummary, Report};
+use crate::props::{SectionProps, StressTable};
 use crate::svg::escape;
 
 fn num(v: f64) -> String {
@@ -20,6 +21,23 @@ fn num(v: f64) -> String {
 /// The HTML document.
 pub fn html(report: &Report, pictures: &Pictures) -> String {
     let mut h = String::new();
+    head(&mut h, report);
+    material(&mut h, report);
+    mass_table(&mut h, &report.parts);
+    if let Some(b) = &report.balance {
+        balance(&mut h, b);
+    }
+    figures(&mut h, pictures);
+    section_table(&mut h, &report.sections);
+    if let Some(t) = &report.stress {
+        stress(&mut h, t);
+    }
+    h.push_str("</body>\n</html>\n");
+    h
+}
+
+/// The document head and style, the title, input, generator, units and cautions.
+fn head(h: &mut String, report: &Report) {
     let name = escape(&report.name);
     let _ = write!(
         h,
@@ -50,6 +68,10 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
         let _ = writeln!(h, "<li>{}</li>", escape(c));
     }
     h.push_str("</ul></div>\n");
+}
+
+/// The material and how the fill is taken.
+fn material(h: &mut String, report: &Report) {
     let m = &report.material;
     let _ = writeln!(
         h,
@@ -64,8 +86,12 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
         report.fill.wall,
         report.fill.infill * 100.0
     );
+}
+
+/// One row per part: volume, mass, centre of mass, moments, size.
+fn mass_table(h: &mut String, parts: &[PartSummary]) {
     h.push_str("<h2>Mass properties</h2>\n<table><tr><th>part</th><th>triangles</th><th>volume mm3</th><th>area mm2</th><th>fill</th><th>mass g</th><th>centre of mass mm</th><th>principal moments g mm2</th><th>I about rotor axis g mm2</th><th>size mm</th></tr>\n");
-    for p in &report.parts {
+    for p in parts {
         let _ = writeln!(
             h,
             "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{:.3}</td><td>{}</td><td>({}, {}, {})</td><td>{}, {}, {}</td><td>{}</td><td>{} x {} x {}</td></tr>",
@@ -88,20 +114,26 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
         );
     }
     h.push_str("</table>\n");
-    if let Some(b) = &report.balance {
-        let _ = writeln!(
-            h,
-            "<h2>Balance</h2><p>Total mass {} g; centre of mass {} mm from the rotor axis: static \
-             imbalance {} g mm. Heaviest part {} minus lightest part {}: {} g. Balance the real \
-             rotor; printed parts vary.</p>",
-            num(b.total_mass),
-            num(b.offset),
-            num(b.imbalance),
-            b.heaviest,
-            b.lightest,
-            num(b.mass_spread)
-        );
-    }
+}
+
+/// The rotor's static balance.
+fn balance(h: &mut String, b: &BalanceSummary) {
+    let _ = writeln!(
+        h,
+        "<h2>Balance</h2><p>Total mass {} g; centre of mass {} mm from the rotor axis: static \
+         imbalance {} g mm. Heaviest part {} minus lightest part {}: {} g. Balance the real \
+         rotor; printed parts vary.</p>",
+        num(b.total_mass),
+        num(b.offset),
+        num(b.imbalance),
+        b.heaviest,
+        b.lightest,
+        num(b.mass_spread)
+    );
+}
+
+/// The pictures, inline.
+fn figures(h: &mut String, pictures: &Pictures) {
     h.push_str("<h2>Pictures</h2>\n");
     for svg in [
         pictures.planform.as_deref(),
@@ -114,8 +146,12 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
     {
         let _ = writeln!(h, "<figure>\n{svg}</figure>");
     }
+}
+
+/// One row per section cut: area, centroid, second moments.
+fn section_table(h: &mut String, sections: &[SectionProps]) {
     h.push_str("<h2>Section properties</h2>\n<p>Second moments about the centroid; the polar moment Ixx + Iyy overestimates the torsional stiffness of thin closed sections (an estimate).</p>\n<table><tr><th>r mm</th><th>loops</th><th>area mm2</th><th>cx mm</th><th>cy mm</th><th>Ixx mm4</th><th>Iyy mm4</th><th>Ixy mm4</th><th>I1 mm4</th><th>I2 mm4</th><th>angle deg</th><th>polar mm4</th></tr>\n");
-    for s in &report.sections {
+    for s in sections {
         let _ = writeln!(
             h,
             "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{:.2}</td><td>{}</td></tr>",
@@ -124,45 +160,45 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
         );
     }
     h.push_str("</table>\n");
-    if let Some(t) = &report.stress {
-        let verdict = if t.passes {
-            "<span class=\"pass\">reaches</span>"
-        } else {
-            "<span class=\"fail\">DOES NOT reach</span>"
-        };
+}
+
+/// The stress estimate: verdict, assumptions and a table of about 25 rows.
+fn stress(h: &mut String, t: &StressTable) {
+    let verdict = if t.passes {
+        "<span class=\"pass\">reaches</span>"
+    } else {
+        "<span class=\"fail\">DOES NOT reach</span>"
+    };
+    let _ = writeln!(
+        h,
+        "<h2>Stress estimate</h2><p>At {} rpm and {} m/s: thrust {} N per blade, mass {} g, \
+         smallest safety factor {} at r = {} mm, which {verdict} the required {}. Tip \
+         deflection {} mm. This is an estimate, not a certification.</p>\n<h3>Assumptions</h3><ul>",
+        t.load.rpm,
+        t.load.wind,
+        num(t.thrust_per_blade),
+        num(t.mass),
+        num(t.min_safety_factor),
+        num(t.critical_radius),
+        t.load.safety_factor,
+        num(t.tip_deflection)
+    );
+    for a in &t.assumptions {
+        let _ = writeln!(h, "<li>{}</li>", escape(a));
+    }
+    h.push_str("</ul>\n<table><tr><th>r mm</th><th>area mm2</th><th>fill</th><th>centrifugal N</th><th>centrifugal MPa</th><th>moment N mm</th><th>tension MPa</th><th>compression MPa</th><th>safety factor</th><th>deflection mm</th></tr>\n");
+    let step = (t.rows.len() / 25).max(1);
+    for (i, r) in t.rows.iter().enumerate() {
+        if i % step != 0 && i + 1 != t.rows.len() {
+            continue;
+        }
         let _ = writeln!(
             h,
-            "<h2>Stress estimate</h2><p>At {} rpm and {} m/s: thrust {} N per blade, mass {} g, \
-             smallest safety factor {} at r = {} mm, which {verdict} the required {}. Tip \
-             deflection {} mm. This is an estimate, not a certification.</p>\n<h3>Assumptions</h3><ul>",
-            t.load.rpm,
-            t.load.wind,
-            num(t.thrust_per_blade),
-            num(t.mass),
-            num(t.min_safety_factor),
-            num(t.critical_radius),
-            t.load.safety_factor,
-            num(t.tip_deflection)
+            "<tr><td>{}</td><td>{}</td><td>{:.3}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
+            num(r.section.radius), num(r.section.area), r.fill, num(r.centrifugal_force),
+            num(r.centrifugal_stress), num(r.bending_moment), num(r.max_tension),
+            num(r.max_compression), num(r.safety_factor), num(r.deflection)
         );
-        for a in &t.assumptions {
-            let _ = writeln!(h, "<li>{}</li>", escape(a));
-        }
-        h.push_str("</ul>\n<table><tr><th>r mm</th><th>area mm2</th><th>fill</th><th>centrifugal N</th><th>centrifugal MPa</th><th>moment N mm</th><th>tension MPa</th><th>compression MPa</th><th>safety factor</th><th>deflection mm</th></tr>\n");
-        let step = (t.rows.len() / 25).max(1);
-        for (i, r) in t.rows.iter().enumerate() {
-            if i % step != 0 && i + 1 != t.rows.len() {
-                continue;
-            }
-            let _ = writeln!(
-                h,
-                "<tr><td>{}</td><td>{}</td><td>{:.3}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
-                num(r.section.radius), num(r.section.area), r.fill, num(r.centrifugal_force),
-                num(r.centrifugal_stress), num(r.bending_moment), num(r.max_tension),
-                num(r.max_compression), num(r.safety_factor), num(r.deflection)
-            );
-        }
-        h.push_str("</table>\n");
     }
-    h.push_str("</body>\n</html>\n");
-    h
+    h.push_str("</table>\n");
 }
