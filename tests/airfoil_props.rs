@@ -89,14 +89,17 @@ fn section_invariants(s: &Section) -> Result<(), TestCaseError> {
     let again = r
         .resample(RESAMPLED)
         .map_err(|e| TestCaseError::fail(format!("does not resample again: {e}")))?;
-    let moved = again
-        .points()
-        .iter()
-        .zip(q)
-        .map(|(a, b)| (a - b).norm())
-        .fold(0.0, f64::max);
+    let moved = farthest_apart(again.points(), q);
     prop_assert!(moved < 1e-9, "resampling again moved a point by {moved}");
     Ok(())
+}
+
+/// The largest distance between corresponding points.
+fn farthest_apart(a: &[Point2<f64>], b: &[Point2<f64>]) -> f64 {
+    a.iter()
+        .zip(b)
+        .map(|(p, q)| (p - q).norm())
+        .fold(0.0, f64::max)
 }
 
 /// Accepted sections keep the invariants; refused ones are an error, not a panic.
@@ -203,23 +206,13 @@ proptest! {
         }
         let back = normalize("m", &moved).unwrap();
         section_invariants(&back)?;
-        let worst = back
-            .points()
-            .iter()
-            .zip(s.points())
-            .map(|(a, b)| (a - b).norm())
-            .fold(0.0, f64::max);
+        let worst = farthest_apart(back.points(), s.points());
         prop_assert!(worst < 1e-6, "{}", worst);
         // Written in either layout and read back: the same again.
         let text = spanwright::airfoil::to_text(&back, if reversed { Layout::Sides } else { Layout::Loop }, "p", 12).unwrap();
         let again = parse(&text, "p.dat").unwrap();
         section_invariants(&again)?;
-        let worst = again
-            .points()
-            .iter()
-            .zip(s.points())
-            .map(|(a, b)| (a - b).norm())
-            .fold(0.0, f64::max);
+        let worst = farthest_apart(again.points(), s.points());
         prop_assert!(worst < 1e-6, "{}", worst);
     }
 }
