@@ -207,7 +207,7 @@ impl Blade {
             self.sweep.eval(first),
             self.prebend.eval(first),
         )[0];
-        root.centre = Some([centre.x, centre.y]);
+        root.centre = Some(Point2::new(centre.x, centre.y));
         self.root = Some(root);
         let (shank, air) = (self.shank_outline(), self.airfoil_outline(self.radii[0]));
         let travel = shank

@@ -12,7 +12,7 @@
 
 use crate::mesh::TriMesh;
 use crate::root::RootSpec;
-use nalgebra::{Point3, Vector3};
+use nalgebra::{Point2, Point3, Vector3};
 
 /// Why a cross hole could not be cut into the meshed shank. Validated roots
 /// ([`RootSpec::validate`]) leave room for every hole, so these are rare; each says what
@@ -67,10 +67,13 @@ pub fn add_mount_features(
     if !root.cross_holes.is_empty() && ring.len() > 2 {
         let c = shank_centre(mesh, ring, root);
         let r_shank = 0.5 * root.shank_diameter;
-        let holes: Vec<(f64, f64)> = root
+        let holes: Vec<CrossHole> = root
             .cross_holes
             .iter()
-            .map(|h| (face + h.at, 0.5 * h.diameter))
+            .map(|h| CrossHole {
+                z: face + h.at,
+                r: 0.5 * h.diameter,
+            })
             .collect();
         add_cross_holes(mesh, ring, grid_vertices, c, r_shank, &holes)?;
     }
@@ -80,8 +83,8 @@ pub fn add_mount_features(
 /// The shank centre (x, y; z = 0): recorded by the blade; else the middle of the ring's
 /// bounding box (a circle or an ellipse centred on the stacking axis).
 fn shank_centre(mesh: &TriMesh, ring: &[u32], root: &RootSpec) -> Point3<f64> {
-    if let Some([x, y]) = root.centre {
-        return Point3::new(x, y, 0.0);
+    if let Some(p) = root.centre {
+        return Point3::new(p.x, p.y, 0.0);
     }
     let p0 = mesh.vertices[ring[0] as usize];
     let (mut lo, mut hi) = (p0, p0);
@@ -232,8 +235,15 @@ fn fan(mesh: &mut TriMesh, ring: &[u32], apex: u32, c: Point3<f64>) {
 /// Points per hole loop (entry and exit curves).
 const HOLE_STEPS: usize = 96;
 
-/// Cuts cross holes (each `(z_c, r_h)`: axis along y through the shank axis at height
-/// `z_c`, radius `r_h`) through the skin's straight round shank (radius `r_shank` about
+/// A cross hole: its axis runs along y through the shank axis at height `z`; radius `r`,
+/// mm.
+#[derive(Debug, Clone, Copy)]
+struct CrossHole {
+    z: f64,
+    r: f64,
+}
+
+/// Cuts cross holes through the skin's straight round shank (radius `r_shank` about
 /// `c`), all in one band of the skin.
 ///
 /// The skin is the tessellation's structured grid: vertex `(i, j)` (column `i` around
@@ -252,173 +262,344 @@ fn add_cross_holes(
     grid_vertices: usize,
     c: Point3<f64>,
     r_shank: f64,
-    holes: &[(f64, f64)],
+    holes: &[CrossHole],
 ) -> Result<(), MountError> {
-    use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
-    use std::f64::consts::TAU;
-    let nv = (ring[1] - ring[0]) as usize;
-    if nv < 2 {
-        return Err(MountError::TooFewRows);
-    }
-    let nu = ring.len();
-    let vertex = |i: usize, j: usize| ring[i] + j as u32;
-    let zs: Vec<f64> = (0..nv)
-        .map(|j| mesh.vertices[vertex(0, j) as usize].z)
-        .collect();
-    let z_lo = holes
-        .iter()
-        .map(|h| h.0 - h.1)
-        .fold(f64::INFINITY, f64::min);
-    let z_hi = holes
-        .iter()
-        .map(|h| h.0 + h.1)
-        .fold(f64::NEG_INFINITY, f64::max);
-    let r_min = holes.iter().map(|h| h.1).fold(f64::INFINITY, f64::min);
-    let Some(ja) = (0..nv).rev().find(|&j| zs[j] < z_lo) else {
-        return Err(MountError::NoRowBelow);
-    };
-    let Some(jb) = (0..nv).find(|&j| zs[j] > z_hi) else {
-        return Err(MountError::NoRowBeyond);
-    };
-    // Distance from a point to the nearest hole's rim, measured across x and z (the
-    // holes' axes run along y): negative inside a hole.
-    let clear = |p: &Point3<f64>| {
-        holes
-            .iter()
-            .map(|&(z_c, r_h)| ((p.x - c.x).powi(2) + (p.z - z_c).powi(2)).sqrt() - r_h)
-            .fold(f64::INFINITY, f64::min)
-    };
-    // Columns by angle, starting at the one farthest from the hole's ends (+-y).
-    let theta = |p: &Point3<f64>| (p.y - c.y).atan2(p.x - c.x);
-    let th: Vec<f64> = (0..nu)
-        .map(|i| theta(&mesh.vertices[vertex(i, ja) as usize]))
-        .collect();
-    let ks = (0..nu)
-        .min_by(|&a, &b| th[a].sin().abs().total_cmp(&th[b].sin().abs()))
-        .unwrap_or(0);
-    let wrap = |a: f64| a.rem_euclid(TAU);
-    let orient = if wrap(th[(ks + 1) % nu] - th[ks]) < std::f64::consts::PI {
-        1.0
-    } else {
-        -1.0
-    };
-    let u_of = |a: f64| r_shank * wrap(orient * (a - th[ks]));
+    let band = Band::around(mesh, ring, holes)?;
+    let unrolled = Unrolled::new(mesh, &band, c, r_shank);
+    let mut cdt = BandPoints::default();
+    cdt.add_boundary(&band, &unrolled);
+    cdt.add_inner_grid(mesh, &band, &unrolled, holes, c);
+    cdt.add_levels(mesh, &band, &unrolled, holes, c);
+    let loops = cdt.add_hole_loops(mesh, &unrolled, holes);
+    let faces = cdt.triangulate()?;
+    remove_band(mesh, grid_vertices, &band);
+    add_band_faces(mesh, &cdt, &faces, &loops, c);
+    add_hole_walls(mesh, holes, &loops, c);
+    Ok(())
+}
 
-    // CDT vertices: (u, z) and the mesh vertex each stands for.
-    let mut uv: Vec<(f64, f64)> = Vec::new();
-    let mut ids: Vec<u32> = Vec::new();
-    let mut edges: Vec<[usize; 2]> = Vec::new();
-    // Boundary loop: bottom row left to right, right side up, top row right to left,
-    // left side down. The cut column stands at u = 0 (left) and u = 2 pi R (right).
-    let mut boundary: Vec<usize> = Vec::new();
-    let push = |uv: &mut Vec<(f64, f64)>, ids: &mut Vec<u32>, p: (f64, f64), id: u32| {
-        uv.push(p);
-        ids.push(id);
-        uv.len() - 1
-    };
-    let col = |t: usize| (ks + t) % nu;
-    let u_col = |t: usize| {
+/// The rows of the skin's grid that enclose every hole: rows `ja` (below the holes) to
+/// `jb` (beyond them).
+struct Band<'a> {
+    /// The skin's root ring: column `i` starts at vertex `ring[i]`.
+    ring: &'a [u32],
+    /// Rows along the span.
+    rows: usize,
+    /// Height of each row (the root ring lies in planes z = const).
+    zs: Vec<f64>,
+    /// Last row wholly below the holes.
+    ja: usize,
+    /// First row wholly beyond the holes.
+    jb: usize,
+}
+
+impl<'a> Band<'a> {
+    fn around(mesh: &TriMesh, ring: &'a [u32], holes: &[CrossHole]) -> Result<Self, MountError> {
+        let rows = (ring[1] - ring[0]) as usize;
+        if rows < 2 {
+            return Err(MountError::TooFewRows);
+        }
+        let zs: Vec<f64> = (0..rows)
+            .map(|j| mesh.vertices[(ring[0] + j as u32) as usize].z)
+            .collect();
+        let z_lo = holes
+            .iter()
+            .map(|h| h.z - h.r)
+            .fold(f64::INFINITY, f64::min);
+        let z_hi = holes
+            .iter()
+            .map(|h| h.z + h.r)
+            .fold(f64::NEG_INFINITY, f64::max);
+        let Some(ja) = (0..rows).rev().find(|&j| zs[j] < z_lo) else {
+            return Err(MountError::NoRowBelow);
+        };
+        let Some(jb) = (0..rows).find(|&j| zs[j] > z_hi) else {
+            return Err(MountError::NoRowBeyond);
+        };
+        Ok(Band {
+            ring,
+            rows,
+            zs,
+            ja,
+            jb,
+        })
+    }
+
+    /// Columns around the section.
+    fn columns(&self) -> usize {
+        self.ring.len()
+    }
+
+    /// The grid vertex of column `i`, row `j`.
+    fn vertex(&self, i: usize, j: usize) -> u32 {
+        self.ring[i] + j as u32
+    }
+
+    /// The rows strictly between `ja` and `jb` with their heights.
+    fn inner_rows(&self) -> impl DoubleEndedIterator<Item = (usize, f64)> + '_ {
+        (self.ja + 1..self.jb).map(|j| (j, self.zs[j]))
+    }
+}
+
+/// The band unrolled to `(u, z)` with `u = R theta`: columns by angle about the shank
+/// axis, starting at the one farthest from the holes' ends (+-y), which stands at both
+/// `u = 0` and `u = 2 pi R`.
+struct Unrolled {
+    c: Point3<f64>,
+    r_shank: f64,
+    /// Angle of each column (at row `ja`).
+    th: Vec<f64>,
+    /// The cut column.
+    ks: usize,
+    /// +1 when the columns run counter-clockwise, else -1.
+    orient: f64,
+}
+
+impl Unrolled {
+    fn new(mesh: &TriMesh, band: &Band<'_>, c: Point3<f64>, r_shank: f64) -> Self {
+        let nu = band.columns();
+        let th: Vec<f64> = (0..nu)
+            .map(|i| theta(c, &mesh.vertices[band.vertex(i, band.ja) as usize]))
+            .collect();
+        let ks = (0..nu)
+            .min_by(|&a, &b| th[a].sin().abs().total_cmp(&th[b].sin().abs()))
+            .unwrap_or(0);
+        let orient = if wrap(th[(ks + 1) % nu] - th[ks]) < std::f64::consts::PI {
+            1.0
+        } else {
+            -1.0
+        };
+        Unrolled {
+            c,
+            r_shank,
+            th,
+            ks,
+            orient,
+        }
+    }
+
+    fn columns(&self) -> usize {
+        self.th.len()
+    }
+
+    /// `u` of the angle `a`.
+    fn u_of(&self, a: f64) -> f64 {
+        self.r_shank * wrap(self.orient * (a - self.th[self.ks]))
+    }
+
+    /// `u` of a point on the shank.
+    fn u_at(&self, p: &Point3<f64>) -> f64 {
+        self.u_of(theta(self.c, p))
+    }
+
+    /// The grid column at step `t` from the cut.
+    fn col(&self, t: usize) -> usize {
+        (self.ks + t) % self.columns()
+    }
+
+    /// `u` of the column at step `t` from the cut (`t = columns()` is the cut again, at
+    /// the right end).
+    fn u_col(&self, t: usize) -> f64 {
         if t == 0 {
             0.0
-        } else if t == nu {
-            r_shank * TAU
+        } else if t == self.columns() {
+            self.r_shank * std::f64::consts::TAU
         } else {
-            u_of(th[col(t)])
+            self.u_of(self.th[self.col(t)])
         }
-    };
-    for t in 0..=nu {
-        let k = push(&mut uv, &mut ids, (u_col(t), zs[ja]), vertex(col(t), ja));
-        boundary.push(k);
     }
-    for (j, &z) in zs.iter().enumerate().take(jb).skip(ja + 1) {
-        let k = push(&mut uv, &mut ids, (u_col(nu), z), vertex(col(0), j));
-        boundary.push(k);
+}
+
+/// Angle of `p` about the shank axis through `c`.
+fn theta(c: Point3<f64>, p: &Point3<f64>) -> f64 {
+    (p.y - c.y).atan2(p.x - c.x)
+}
+
+/// `a` in `[0, 2 pi)`.
+fn wrap(a: f64) -> f64 {
+    a.rem_euclid(std::f64::consts::TAU)
+}
+
+/// Distance from a point to the nearest hole's rim, measured across x and z (the holes'
+/// axes run along y): negative inside a hole.
+fn clearance(holes: &[CrossHole], c: Point3<f64>, p: &Point3<f64>) -> f64 {
+    holes
+        .iter()
+        .map(|h| ((p.x - c.x).powi(2) + (p.z - h.z).powi(2)).sqrt() - h.r)
+        .fold(f64::INFINITY, f64::min)
+}
+
+/// Smallest spacing of the hole curves' points along z.
+fn hole_spacing(holes: &[CrossHole]) -> f64 {
+    let r_min = holes.iter().map(|h| h.r).fold(f64::INFINITY, f64::min);
+    std::f64::consts::TAU * r_min / HOLE_STEPS as f64
+}
+
+/// The constrained triangulation's input: points in `(u, z)`, the mesh vertex each
+/// stands for, and the constrained edges.
+#[derive(Default)]
+struct BandPoints {
+    uz: Vec<Point2<f64>>,
+    ids: Vec<u32>,
+    edges: Vec<[usize; 2]>,
+}
+
+/// A hole's entry (+y) and exit (-y) loops: indices into [`BandPoints`] and the mesh
+/// vertices.
+struct HoleLoops {
+    points: Vec<Vec<usize>>,
+    vertices: Vec<Vec<u32>>,
+}
+
+impl BandPoints {
+    fn push(&mut self, u: f64, z: f64, id: u32) -> usize {
+        self.uz.push(Point2::new(u, z));
+        self.ids.push(id);
+        self.uz.len() - 1
     }
-    for t in (0..=nu).rev() {
-        let k = push(&mut uv, &mut ids, (u_col(t), zs[jb]), vertex(col(t), jb));
-        boundary.push(k);
+
+    /// Boundary loop: bottom row left to right, right side up, top row right to left,
+    /// left side down; constrained edges all round.
+    fn add_boundary(&mut self, band: &Band<'_>, un: &Unrolled) {
+        let nu = band.columns();
+        let (ja, jb) = (band.ja, band.jb);
+        let mut boundary: Vec<usize> = Vec::new();
+        for t in 0..=nu {
+            boundary.push(self.push(un.u_col(t), band.zs[ja], band.vertex(un.col(t), ja)));
+        }
+        for (j, z) in band.inner_rows() {
+            boundary.push(self.push(un.u_col(nu), z, band.vertex(un.col(0), j)));
+        }
+        for t in (0..=nu).rev() {
+            boundary.push(self.push(un.u_col(t), band.zs[jb], band.vertex(un.col(t), jb)));
+        }
+        for (j, z) in band.inner_rows().rev() {
+            boundary.push(self.push(0.0, z, band.vertex(un.col(0), j)));
+        }
+        for w in 0..boundary.len() {
+            self.edges
+                .push([boundary[w], boundary[(w + 1) % boundary.len()]]);
+        }
     }
-    for j in (ja + 1..jb).rev() {
-        let k = push(&mut uv, &mut ids, (0.0, zs[j]), vertex(col(0), j));
-        boundary.push(k);
-    }
-    for w in 0..boundary.len() {
-        edges.push([boundary[w], boundary[(w + 1) % boundary.len()]]);
-    }
-    let dz_min = TAU * r_min / HOLE_STEPS as f64;
-    // Inner grid vertices clear of the hole (distance from the hole's axis, measured
-    // across x and z since the axis runs along y).
-    for t in 1..nu {
-        for (j, &z) in zs.iter().enumerate().take(jb).skip(ja + 1) {
-            let id = vertex(col(t), j);
-            let p = mesh.vertices[id as usize];
-            if clear(&p) > 0.5 * dz_min {
-                push(&mut uv, &mut ids, (u_col(t), z), id);
+
+    /// Inner grid vertices clear of the holes.
+    fn add_inner_grid(
+        &mut self,
+        mesh: &TriMesh,
+        band: &Band<'_>,
+        un: &Unrolled,
+        holes: &[CrossHole],
+        c: Point3<f64>,
+    ) {
+        let dz_min = hole_spacing(holes);
+        for t in 1..band.columns() {
+            for (j, z) in band.inner_rows() {
+                let id = band.vertex(un.col(t), j);
+                if clearance(holes, c, &mesh.vertices[id as usize]) > 0.5 * dz_min {
+                    self.push(un.u_col(t), z, id);
+                }
             }
         }
     }
-    // Extra levels between the rows, as dense as the hole's curve, so no triangle
-    // spans a wide angle (its chord would sink into the shank): points on each column's
-    // straight line between the band's two rows, clear of the hole.
-    let dz = dz_min.max((zs[jb] - zs[ja]) / 96.0);
-    let levels = ((zs[jb] - zs[ja]) / dz).floor() as usize;
-    for l in 1..levels {
-        let z = zs[ja] + dz * l as f64;
-        if (ja..=jb).any(|j| (zs[j] - z).abs() < 0.5 * dz) {
-            continue;
+
+    /// Extra levels between the rows, as dense as the hole's curve, so no triangle
+    /// spans a wide angle (its chord would sink into the shank): new vertices on each
+    /// column's straight line between the band's two rows, clear of the holes.
+    fn add_levels(
+        &mut self,
+        mesh: &mut TriMesh,
+        band: &Band<'_>,
+        un: &Unrolled,
+        holes: &[CrossHole],
+        c: Point3<f64>,
+    ) {
+        let (ja, jb, zs) = (band.ja, band.jb, &band.zs);
+        let dz = hole_spacing(holes).max((zs[jb] - zs[ja]) / 96.0);
+        let levels = ((zs[jb] - zs[ja]) / dz).floor() as usize;
+        for l in 1..levels {
+            let z = zs[ja] + dz * l as f64;
+            if (ja..=jb).any(|j| (zs[j] - z).abs() < 0.5 * dz) {
+                continue;
+            }
+            let f = (z - zs[ja]) / (zs[jb] - zs[ja]);
+            for t in 1..band.columns() {
+                let (a, b) = (
+                    mesh.vertices[band.vertex(un.col(t), ja) as usize],
+                    mesh.vertices[band.vertex(un.col(t), jb) as usize],
+                );
+                let p = a + (b - a) * f;
+                if clearance(holes, c, &p) > dz {
+                    let id = mesh.push_vertex(p);
+                    self.push(un.u_col(t), z, id);
+                }
+            }
         }
-        let f = (z - zs[ja]) / (zs[jb] - zs[ja]);
-        for t in 1..nu {
-            let (a, b) = (
-                mesh.vertices[vertex(col(t), ja) as usize],
-                mesh.vertices[vertex(col(t), jb) as usize],
-            );
-            let p = a + (b - a) * f;
-            if clear(&p) > dz {
+    }
+
+    /// Entry (+y) and exit (-y) curves of each hole as constrained loops:
+    /// `x' = r_h cos(phi)`, `z = z_c + r_h sin(phi)`, `y' = +-sqrt(R^2 - x'^2)` on the
+    /// shank cylinder.
+    fn add_hole_loops(
+        &mut self,
+        mesh: &mut TriMesh,
+        un: &Unrolled,
+        holes: &[CrossHole],
+    ) -> HoleLoops {
+        let (c, r_shank) = (un.c, un.r_shank);
+        let mut loops = HoleLoops {
+            points: Vec::new(),
+            vertices: Vec::new(),
+        };
+        for (side, h) in holes.iter().flat_map(|h| [(1.0, h), (-1.0, h)]) {
+            let mut lp = Vec::with_capacity(HOLE_STEPS);
+            let mut li = Vec::with_capacity(HOLE_STEPS);
+            for k in 0..HOLE_STEPS {
+                let phi = std::f64::consts::TAU * k as f64 / HOLE_STEPS as f64;
+                let xr = h.r * phi.cos();
+                let yr = side * (r_shank * r_shank - xr * xr).max(0.0).sqrt();
+                let p = Point3::new(c.x + xr, c.y + yr, h.z + h.r * phi.sin());
                 let id = mesh.push_vertex(p);
-                push(&mut uv, &mut ids, (u_col(t), z), id);
+                lp.push(self.push(un.u_at(&p), p.z, id));
+                li.push(id);
             }
+            for k in 0..HOLE_STEPS {
+                self.edges.push([lp[k], lp[(k + 1) % HOLE_STEPS]]);
+            }
+            loops.points.push(lp);
+            loops.vertices.push(li);
         }
+        loops
     }
-    // Entry (+y) and exit (-y) curves: x' = r_h cos(phi), z = z_c + r_h sin(phi),
-    // y' = +-sqrt(R^2 - x'^2) on the shank cylinder.
-    let mut loops: Vec<Vec<usize>> = Vec::new();
-    let mut loop_ids: Vec<Vec<u32>> = Vec::new();
-    for (side, &(z_c, r_h)) in holes.iter().flat_map(|h| [(1.0, h), (-1.0, h)]) {
-        let mut lp = Vec::with_capacity(HOLE_STEPS);
-        let mut li = Vec::with_capacity(HOLE_STEPS);
-        for k in 0..HOLE_STEPS {
-            let phi = TAU * k as f64 / HOLE_STEPS as f64;
-            let xr = r_h * phi.cos();
-            let yr = side * (r_shank * r_shank - xr * xr).max(0.0).sqrt();
-            let p = Point3::new(c.x + xr, c.y + yr, z_c + r_h * phi.sin());
-            let id = mesh.push_vertex(p);
-            let q = push(&mut uv, &mut ids, (u_of(theta(&p)), p.z), id);
-            lp.push(q);
-            li.push(id);
+
+    /// The constrained Delaunay triangulation of the points: its triangles as point
+    /// indices.
+    fn triangulate(&self) -> Result<Vec<[usize; 3]>, MountError> {
+        use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
+        let verts: Vec<SPoint<f64>> = self.uz.iter().map(|p| SPoint::new(p.x, p.y)).collect();
+        let n = verts.len();
+        let mut conflict = false;
+        let Ok(cdt) = ConstrainedDelaunayTriangulation::<SPoint<f64>>::try_bulk_load_cdt(
+            verts,
+            self.edges.clone(),
+            |_| conflict = true,
+        ) else {
+            return Err(MountError::BandNotTriangulated);
+        };
+        if conflict || cdt.num_vertices() != n {
+            return Err(MountError::OutlinesCrossGrid);
         }
-        for k in 0..HOLE_STEPS {
-            edges.push([lp[k], lp[(k + 1) % HOLE_STEPS]]);
-        }
-        loops.push(lp);
-        loop_ids.push(li);
+        Ok(cdt
+            .inner_faces()
+            .map(|face| face.vertices().map(|v| v.fix().index()))
+            .collect())
     }
-    let verts: Vec<SPoint<f64>> = uv.iter().map(|&(u, z)| SPoint::new(u, z)).collect();
-    let n = verts.len();
-    let mut conflict = false;
-    let Ok(cdt) =
-        ConstrainedDelaunayTriangulation::<SPoint<f64>>::try_bulk_load_cdt(verts, edges, |_| {
-            conflict = true
-        })
-    else {
-        return Err(MountError::BandNotTriangulated);
-    };
-    if conflict || cdt.num_vertices() != n {
-        return Err(MountError::OutlinesCrossGrid);
-    }
-    // Remove the band's old triangles: grid triangles with every vertex in rows
-    // ja..=jb that reach inside the band.
-    let row = |v: u32| (v as usize) % nv;
+}
+
+/// Removes the band's old triangles: grid triangles with every vertex in rows
+/// `ja..=jb` that reach inside the band.
+fn remove_band(mesh: &mut TriMesh, grid_vertices: usize, band: &Band<'_>) {
+    let (rows, ja, jb) = (band.rows, band.ja, band.jb);
+    let row = |v: u32| (v as usize) % rows;
     mesh.triangles.retain(|t| {
         let grid = t.iter().all(|&v| (v as usize) < grid_vertices);
         if !grid {
@@ -431,26 +612,34 @@ fn add_cross_holes(
         );
         !(lo >= ja && hi <= jb && hi > ja && lo < jb)
     });
-    let hole_polys: Vec<Vec<nalgebra::Point2<f64>>> = loops
+}
+
+/// The band's new triangles, those inside a hole loop left out, facing away from the
+/// shank axis.
+fn add_band_faces(
+    mesh: &mut TriMesh,
+    cdt: &BandPoints,
+    faces: &[[usize; 3]],
+    loops: &HoleLoops,
+    c: Point3<f64>,
+) {
+    let uz = &cdt.uz;
+    let hole_polys: Vec<Vec<Point2<f64>>> = loops
+        .points
         .iter()
-        .map(|lp| {
-            lp.iter()
-                .map(|&k| nalgebra::Point2::new(uv[k].0, uv[k].1))
-                .collect()
-        })
+        .map(|lp| lp.iter().map(|&k| uz[k]).collect())
         .collect();
-    for face in cdt.inner_faces() {
-        let [a, b, cc] = face.vertices().map(|v| v.fix().index());
-        let cu = (uv[a].0 + uv[b].0 + uv[cc].0) / 3.0;
-        let cz = (uv[a].1 + uv[b].1 + uv[cc].1) / 3.0;
-        let q = nalgebra::Point2::new(cu, cz);
+    for &[a, b, cc] in faces {
+        let cu = (uz[a].x + uz[b].x + uz[cc].x) / 3.0;
+        let cz = (uz[a].y + uz[b].y + uz[cc].y) / 3.0;
+        let q = Point2::new(cu, cz);
         if hole_polys
             .iter()
             .any(|poly| crate::planar::point_in_polygon(poly, &q))
         {
             continue;
         }
-        let t = [ids[a], ids[b], ids[cc]];
+        let t = [cdt.ids[a], cdt.ids[b], cdt.ids[cc]];
         let centroid = Point3::from(
             (mesh.vertices[t[0] as usize].coords
                 + mesh.vertices[t[1] as usize].coords
@@ -460,18 +649,20 @@ fn add_cross_holes(
         let outward = Vector3::new(centroid.x - c.x, centroid.y - c.y, 0.0);
         push_oriented(mesh, t, outward);
     }
-    // The hole's wall: straight segments from entry to exit, facing the hole's axis.
-    for (h, &(z_c, _)) in holes.iter().enumerate() {
-        let (entry, exit) = (&loop_ids[2 * h], &loop_ids[2 * h + 1]);
+}
+
+/// Each hole's wall: straight segments from entry to exit, facing the hole's axis.
+fn add_hole_walls(mesh: &mut TriMesh, holes: &[CrossHole], loops: &HoleLoops, c: Point3<f64>) {
+    for (h, hole) in holes.iter().enumerate() {
+        let (entry, exit) = (&loops.vertices[2 * h], &loops.vertices[2 * h + 1]);
         for k in 0..HOLE_STEPS {
             let k1 = (k + 1) % HOLE_STEPS;
             let p = mesh.vertices[entry[k] as usize];
             let q = mesh.vertices[entry[k1] as usize];
             let mid = Point3::from((p.coords + q.coords) * 0.5);
-            let outward = Vector3::new(c.x - mid.x, 0.0, z_c - mid.z);
+            let outward = Vector3::new(c.x - mid.x, 0.0, hole.z - mid.z);
             push_oriented(mesh, [entry[k], entry[k1], exit[k1]], outward);
             push_oriented(mesh, [entry[k], exit[k1], exit[k]], outward);
         }
     }
-    Ok(())
 }

@@ -101,7 +101,7 @@ pub struct RootSpec {
     /// Shank centre in the blade frame (x, y), mm: set by
     /// [`crate::blade::Blade::with_root`] for the mount features.
     #[serde(skip)]
-    pub(crate) centre: Option<[f64; 2]>,
+    pub(crate) centre: Option<nalgebra::Point2<f64>>,
 }
 
 fn default_min_wall() -> f64 {

@@ -1,49 +1,17 @@
 //! `spanwright build` as a user meets it: exit codes, messages that name the file and the
 //! line or key, and nothing half-written in the output folder.
 
-use std::path::{Path, PathBuf};
-use std::process::Command;
+mod support;
 
-struct Run {
-    code: i32,
-    stdout: String,
-    stderr: String,
-    out: PathBuf,
-    _dir: tempfile::TempDir,
-}
+use support::{run_in_temp, Run};
 
-/// Writes `files` into a fresh temp dir and runs `spanwright build <args>` there.
-fn run(files: &[(&str, &str)], args: &[&str]) -> Run {
-    let dir = tempfile::tempdir().unwrap();
-    for (name, text) in files {
-        std::fs::write(dir.path().join(name), text).unwrap();
-    }
-    let out = dir.path().join("out");
-    let output = Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .current_dir(dir.path())
-        .arg("build")
-        .args(args)
-        .arg("--out")
-        .arg(&out)
-        .output()
-        .unwrap();
-    Run {
-        code: output.status.code().unwrap_or(-1),
-        stdout: String::from_utf8_lossy(&output.stdout).into_owned(),
-        stderr: String::from_utf8_lossy(&output.stderr).into_owned(),
-        out,
-        _dir: dir,
-    }
-}
-
-fn files_in(dir: &Path) -> Vec<String> {
-    std::fs::read_dir(dir)
-        .map(|rd| {
-            rd.filter_map(|e| e.ok())
-                .map(|e| e.file_name().to_string_lossy().into_owned())
-                .collect()
-        })
-        .unwrap_or_default()
+/// Writes `files` into a fresh temp dir and runs `spanwright build <args> --out out`
+/// there.
+fn build(files: &[(&str, &str)], args: &[&str]) -> Run {
+    let mut all = vec!["build"];
+    all.extend_from_slice(args);
+    all.extend(["--out", "out"]);
+    run_in_temp(files, &all)
 }
 
 const GOOD_CSV: &str =
@@ -51,7 +19,7 @@ const GOOD_CSV: &str =
 
 #[test]
 fn builds_a_bare_csv_with_a_section_name() {
-    let r = run(
+    let r = build(
         &[(
             "t.csv",
             "radius [mm],chord [mm],twist [deg]\n40,60,25\n280,25,3\n",
@@ -59,9 +27,7 @@ fn builds_a_bare_csv_with_a_section_name() {
         &["t.csv", "--section", "naca4412", "--format", "stl,3mf,step"],
     );
     assert_eq!(r.code, 0, "{}", r.stderr);
-    let mut files = files_in(&r.out);
-    files.sort();
-    assert_eq!(files, ["t-preview.png", "t.3mf", "t.step", "t.stl"]);
+    assert_eq!(r.files("out"), ["t-preview.png", "t.3mf", "t.step", "t.stl"]);
     assert!(
         r.stdout.contains("closed, oriented, no self-intersection"),
         "{}",
@@ -71,7 +37,7 @@ fn builds_a_bare_csv_with_a_section_name() {
 
 #[test]
 fn json_summary_is_valid_json() {
-    let r = run(&[("t.csv", GOOD_CSV)], &["t.csv", "--json"]);
+    let r = build(&[("t.csv", GOOD_CSV)], &["t.csv", "--json"]);
     assert_eq!(r.code, 0, "{}", r.stderr);
     let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
     assert!(v["triangles"].as_u64().unwrap() > 1000);
@@ -109,7 +75,7 @@ fn malformed_inputs_exit_2_name_the_place_and_write_nothing() {
     assert!(cases.len() >= 15);
     for (name, files, args, needles) in cases {
         let files: Vec<(&str, &str)> = files.iter().map(|(n, t)| (*n, t.as_str())).collect();
-        let r = run(&files, &args);
+        let r = build(&files, &args);
         assert_eq!(r.code, 2, "{name}: exit {} stderr {}", r.code, r.stderr);
         for needle in needles {
             assert!(
@@ -120,9 +86,9 @@ fn malformed_inputs_exit_2_name_the_place_and_write_nothing() {
         }
         assert!(!r.stderr.contains("panicked"), "{name}: {}", r.stderr);
         assert!(
-            files_in(&r.out).is_empty(),
+            r.files("out").is_empty(),
             "{name}: wrote {:?}",
-            files_in(&r.out)
+            r.files("out")
         );
     }
 }
@@ -133,7 +99,7 @@ fn a_part_that_fails_its_checks_is_not_written_and_exits_1() {
     // the spanwise spline through such sections folds the surface through itself, and
     // the tool must refuse the part.
     let csv = "radius,chord,twist,section\n40,60,0,naca4412\n41,60,85,naca4412\n42,60,-80,naca4412\n43,60,80,naca4412\n200,30,0,naca4412\n";
-    let r = run(&[("fold.csv", csv)], &["fold.csv"]);
+    let r = build(&[("fold.csv", csv)], &["fold.csv"]);
     assert_eq!(r.code, 1, "{}{}", r.stdout, r.stderr);
     assert!(r.stderr.contains("nothing was written"), "{}", r.stderr);
     // The steep steps are named as the likely cause, with both rows.
@@ -143,5 +109,5 @@ fn a_part_that_fails_its_checks_is_not_written_and_exits_1() {
         "{}",
         r.stderr
     );
-    assert!(files_in(&r.out).is_empty());
+    assert!(r.files("out").is_empty());
 }

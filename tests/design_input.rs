@@ -5,6 +5,9 @@
 //! the International System of Units (SI)", 2008 edition, Appendix B (B.8 and B.9):
 //! 1 in = 2.54 cm exactly, 1 rad = 57.29578 degrees (180/pi).
 
+#[macro_use]
+mod support;
+
 use std::fs;
 use std::path::{Path, PathBuf};
 
@@ -27,10 +30,6 @@ fn load_err(path: &Path) -> DesignError {
         Ok(d) => panic!("expected an error, got {d:?}"),
         Err(e) => e,
     }
-}
-
-fn near(a: f64, b: f64, tol: f64) {
-    assert!((a - b).abs() <= tol, "{a} != {b} (tolerance {tol})");
 }
 
 /// Asserts that some line of the error names `file`, `line` and contains all `words`.
@@ -93,23 +92,23 @@ fn inline_toml_is_read() {
     assert_eq!(d.name, "demo");
     assert_eq!(d.stations.len(), 2);
     let s = &d.stations[0];
-    near(s.radius, 20.0, 1e-12);
-    near(s.chord, 30.0, 1e-12);
-    near(s.twist, 35.0, 1e-12);
+    assert_near!(s.radius, 20.0, 1e-12);
+    assert_near!(s.chord, 30.0, 1e-12);
+    assert_near!(s.twist, 35.0, 1e-12);
     assert_eq!(s.section, "naca4415");
-    near(s.thickness.unwrap(), 0.15, 1e-12);
+    assert_near!(s.thickness.unwrap(), 0.15, 1e-12);
     let t = &d.stations[1];
     assert_eq!(t.section, "naca4412", "default section from [blade]");
     assert_eq!(t.thickness, None);
-    near(t.sweep, 1.5, 1e-12);
-    near(t.prebend, -2.0, 1e-12);
+    assert_near!(t.sweep, 1.5, 1e-12);
+    assert_near!(t.prebend, -2.0, 1e-12);
     assert!(t.origin.contains("station[2]"), "{}", t.origin);
     assert_eq!(d.blade.flow, Flow::Propeller);
     assert_eq!(d.blade.rotation, Rotation::Cw);
-    near(d.blade.stacking.chord_fraction().unwrap(), 0.3, 1e-12);
+    assert_near!(d.blade.stacking.chord_fraction().unwrap(), 0.3, 1e-12);
     assert_eq!(d.blade.points_per_side, 90);
-    near(d.blade.tolerance, 0.02, 1e-12);
-    near(d.blade.min_te_thickness.unwrap(), 0.5, 1e-12);
+    assert_near!(d.blade.tolerance, 0.02, 1e-12);
+    assert_near!(d.blade.min_te_thickness.unwrap(), 0.5, 1e-12);
     assert!(d.tables.contains_key("rotor"));
     assert_eq!(d.source.as_deref(), Some(p.as_path()));
 }
@@ -123,11 +122,11 @@ fn defaults_apply() {
     )
     .unwrap();
     assert_eq!(d.name, "design");
-    near(d.blade.stacking.chord_fraction().unwrap(), 0.25, 0.0);
+    assert_near!(d.blade.stacking.chord_fraction().unwrap(), 0.25, 0.0);
     assert_eq!(d.blade.flow, Flow::Turbine);
     assert_eq!(d.blade.rotation, Rotation::Ccw);
     assert_eq!(d.blade.points_per_side, 120);
-    near(d.length_to_mm, 1.0, 0.0);
+    assert_near!(d.length_to_mm, 1.0, 0.0);
 }
 
 #[test]
@@ -147,13 +146,13 @@ fn toml_with_csv_table_and_units() {
     let d = design::load(&p).unwrap();
     assert_eq!(d.name, "m");
     // 1 m = 1000 mm (SI definition of the prefix milli, NIST SP 811, 2008, Table 5).
-    near(d.stations[0].radius, 100.0, 1e-9);
-    near(d.stations[1].chord, 20.0, 1e-9);
-    near(d.stations[0].twist, 0.3 * DEG_PER_RAD, 1e-4);
-    near(d.stations[1].twist, 0.05 * DEG_PER_RAD, 1e-5);
+    assert_near!(d.stations[0].radius, 100.0, 1e-9);
+    assert_near!(d.stations[1].chord, 20.0, 1e-9);
+    assert_near!(d.stations[0].twist, 0.3 * DEG_PER_RAD, 1e-4);
+    assert_near!(d.stations[1].twist, 0.05 * DEG_PER_RAD, 1e-5);
     assert_eq!(d.stations[1].section, "naca2412");
     assert!(d.stations[0].origin.contains("rows.csv:2"));
-    near(d.length_to_mm, 1000.0, 1e-12);
+    assert_near!(d.length_to_mm, 1000.0, 1e-12);
     // Other tables stay in the file's unit; Design::mm converts.
     #[derive(serde::Deserialize)]
     #[serde(deny_unknown_fields, rename_all = "kebab-case")]
@@ -161,7 +160,7 @@ fn toml_with_csv_table_and_units() {
         bore_diameter: f64,
     }
     let root: Root = d.table("root").unwrap().unwrap();
-    near(root.bore_diameter * d.length_to_mm, 8.0, 1e-9);
+    assert_near!(root.bore_diameter * d.length_to_mm, 8.0, 1e-9);
     assert!(d.table::<Root>("tip").unwrap().is_none());
 }
 
@@ -174,11 +173,11 @@ fn inches_are_exact() {
         None,
     )
     .unwrap();
-    near(d.stations[0].radius, INCH_MM, 1e-12);
-    near(d.stations[0].chord, 2.0 * INCH_MM, 1e-12);
-    near(d.stations[0].sweep, 0.5 * INCH_MM, 1e-12);
-    near(d.stations[1].radius, 254.0, 1e-12);
-    near(d.length_to_mm, INCH_MM, 1e-15);
+    assert_near!(d.stations[0].radius, INCH_MM, 1e-12);
+    assert_near!(d.stations[0].chord, 2.0 * INCH_MM, 1e-12);
+    assert_near!(d.stations[0].sweep, 0.5 * INCH_MM, 1e-12);
+    assert_near!(d.stations[1].radius, 254.0, 1e-12);
+    assert_near!(d.length_to_mm, INCH_MM, 1e-15);
 }
 
 #[test]
@@ -197,11 +196,11 @@ fn csv_header_units_and_spreadsheet_quirks() {
     let d = design::load(&p).unwrap();
     assert_eq!(d.name, "sheet");
     assert_eq!(d.stations.len(), 2);
-    near(d.stations[0].radius, 2.0 * INCH_MM, 1e-12);
-    near(d.stations[1].radius, 10.0 * INCH_MM, 1e-12);
-    near(d.stations[0].chord, 50.5, 1e-12);
-    near(d.stations[0].twist, 0.2 * DEG_PER_RAD, 1e-5);
-    near(d.stations[0].thickness.unwrap(), 0.15, 1e-12);
+    assert_near!(d.stations[0].radius, 2.0 * INCH_MM, 1e-12);
+    assert_near!(d.stations[1].radius, 10.0 * INCH_MM, 1e-12);
+    assert_near!(d.stations[0].chord, 50.5, 1e-12);
+    assert_near!(d.stations[0].twist, 0.2 * DEG_PER_RAD, 1e-5);
+    assert_near!(d.stations[0].thickness.unwrap(), 0.15, 1e-12);
     assert_eq!(d.stations[1].thickness, None);
     assert_eq!(d.stations[1].section, "naca4412");
     // Line numbers count the comment and blank lines.
@@ -229,13 +228,13 @@ fn demo_designs_are_valid() {
     let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples");
     let t = design::load(&root.join("garden-turbine.toml")).unwrap();
     assert_eq!(t.stations.len(), 10);
-    near(t.stations.last().unwrap().radius, 280.0, 1e-12);
+    assert_near!(t.stations.last().unwrap().radius, 280.0, 1e-12);
     assert_eq!(t.stations[0].section, "naca4415");
     assert_eq!(t.stations[9].section, "naca4412");
     assert!(t.tables.contains_key("rotor") && t.tables.contains_key("printer"));
     let f = design::load(&root.join("desk-fan.toml")).unwrap();
     assert_eq!(f.blade.flow, Flow::Propeller);
-    near(f.stations.last().unwrap().radius, 60.0, 1e-12);
+    assert_near!(f.stations.last().unwrap().radius, 60.0, 1e-12);
     #[derive(serde::Deserialize)]
     #[serde(rename_all = "kebab-case")]
     struct Rotor {
@@ -734,7 +733,7 @@ fn csv_not_utf8_and_tabs() {
         "radius\tchord\ttwist\tsection\n1\t2,5\t3\ts\n4\t2\t1\ts\n",
     );
     let d = design::load(&p).unwrap();
-    near(d.stations[0].chord, 2.5, 1e-12);
+    assert_near!(d.stations[0].chord, 2.5, 1e-12);
 }
 
 #[test]
@@ -752,7 +751,7 @@ fn toml_thickness_as_fraction_is_caught() {
     );
     assert!(s.contains("write 12 for 12 %"), "{s}");
     let ok = design::parse_toml_str(&text.replace("0.12", "12"), None).unwrap();
-    near(ok.stations[0].thickness.unwrap(), 0.12, 1e-12);
+    assert_near!(ok.stations[0].thickness.unwrap(), 0.12, 1e-12);
     assert_eq!(
         ok.stations[1].section, "naca0012",
         "section names are trimmed"

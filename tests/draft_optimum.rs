@@ -4,13 +4,15 @@
 //! Sources named beside each check. Values marked "from memory" were recalled, not read
 //! from the book at hand; their tolerances are loose on purpose.
 
+mod support;
+
 use spanwright::design::Flow;
 use spanwright::draft::{
     self as drafting, draft, optimum, DraftError, DraftSpec, LinearRange, Method, Severity,
     Spacing, CSV_HEADER, LINE_SAMPLES,
 };
 use std::f64::consts::PI;
-use std::process::Command;
+use support::{run_in, Ran};
 
 /// A small wind turbine (invented demo values): R = 600 mm, hub 90 mm, 3 blades,
 /// lambda = 6, Cl = 1.0 at alpha = 6 degrees.
@@ -503,13 +505,11 @@ fn spec_reads_from_toml_with_defaults() {
     assert!(toml::from_str::<DraftSpec>("tip_radius = 1.0\nbogus = 2").is_err());
 }
 
-fn cli(args: &[&str], dir: &std::path::Path) -> std::process::Output {
-    Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .arg("draft")
-        .args(args)
-        .current_dir(dir)
-        .output()
-        .unwrap()
+/// Runs `spanwright draft <args>` in `dir`.
+fn cli(args: &[&str], dir: &std::path::Path) -> Ran {
+    let mut all = vec!["draft"];
+    all.extend_from_slice(args);
+    run_in(dir, &all)
 }
 
 const GOOD: [&str; 12] = [
@@ -541,12 +541,7 @@ fn cli_writes_the_table_atomically() {
         "demo",
     ]);
     let out = cli(&args, dir.path());
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    assert_eq!(out.code, 0, "{}", out.stderr.as_str());
     let path = dir.path().join("out").join("demo.csv");
     let mut rd = csv::Reader::from_path(&path).unwrap();
     assert_eq!(rd.headers().unwrap(), CSV_HEADER.as_slice());
@@ -556,13 +551,13 @@ fn cli_writes_the_table_atomically() {
         .map(|e| e.unwrap().file_name())
         .collect();
     assert_eq!(left.len(), 1, "temporary files left behind: {left:?}");
-    let err = String::from_utf8_lossy(&out.stderr);
+    let err = out.stderr.as_str();
     assert!(err.contains("rpm") && err.contains("IEC 61400-2"), "{err}");
     // The JSON sidecar reads back with serde_json and agrees with the CSV.
     let mut args = GOOD.to_vec();
     args.extend(["--json", "d.json", "-o", "d.csv"]);
     let out = cli(&args, dir.path());
-    assert_eq!(out.status.code(), Some(0));
+    assert_eq!(out.code, 0);
     let v: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(dir.path().join("d.json")).unwrap()).unwrap();
     let cp = v["power_coefficient"].as_f64().unwrap();
@@ -575,8 +570,10 @@ fn cli_writes_the_table_atomically() {
     let mut args = GOOD.to_vec();
     args.extend(["-o", "-"]);
     let out = cli(&args, dir.path());
-    assert_eq!(out.status.code(), Some(0));
-    assert!(String::from_utf8_lossy(&out.stdout)
+    assert_eq!(out.code, 0);
+    assert!(out
+        .stdout
+        .as_str()
         .starts_with("radius [mm],chord [mm],twist [deg],section"));
 }
 
@@ -599,8 +596,8 @@ fn cli_exits_2_on_bad_input() {
             None => args.extend(extra.iter().copied()),
         }
         let out = cli(&args, dir.path());
-        let err = String::from_utf8_lossy(&out.stderr);
-        assert_eq!(out.status.code(), Some(2), "{extra:?}: {err}");
+        let err = out.stderr.as_str();
+        assert_eq!(out.code, 2, "{extra:?}: {err}");
         assert!(
             err.contains(needle),
             "{extra:?}: message lacks `{needle}`: {err}"
@@ -608,8 +605,8 @@ fn cli_exits_2_on_bad_input() {
     }
     // Missing required values.
     let out = cli(&["--tip-radius", "600"], dir.path());
-    assert_eq!(out.status.code(), Some(2));
-    assert!(String::from_utf8_lossy(&out.stderr).contains("--design-cl"));
+    assert_eq!(out.code, 2);
+    assert!(out.stderr.as_str().contains("--design-cl"));
     assert!(
         !dir.path().join("out").exists(),
         "nothing written on bad input"
@@ -650,12 +647,7 @@ fn cli_reads_a_spec_file_and_options_override_it() {
         &["--spec", "spec.toml", "--stations", "5", "-o", "t.csv"],
         dir.path(),
     );
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    assert_eq!(out.code, 0, "{}", out.stderr.as_str());
     let mut rd = csv::Reader::from_path(dir.path().join("t.csv")).unwrap();
     assert_eq!(rd.records().count(), 5);
     // A bad key in the spec file: exit 2, naming the file and the key.
@@ -665,8 +657,8 @@ fn cli_reads_a_spec_file_and_options_override_it() {
     )
     .unwrap();
     let out = cli(&["--spec", "bad.toml"], dir.path());
-    let err = String::from_utf8_lossy(&out.stderr);
-    assert_eq!(out.status.code(), Some(2));
+    let err = out.stderr.as_str();
+    assert_eq!(out.code, 2);
     assert!(err.contains("bad.toml") && err.contains("bladez"), "{err}");
 }
 

@@ -2,8 +2,10 @@
 //! independent readers (stl_io for STL, the zip crate for the 3MF package, quick-xml for
 //! the SVG).
 
+mod support;
+
 use std::path::Path;
-use std::process::Command;
+use support::{run_in, Ran};
 
 /// Writes a closed a x b x c box as binary STL with stl_io.
 fn write_box_stl(path: &Path, a: f32, b: f32, c: f32) {
@@ -27,25 +29,23 @@ fn write_box_stl(path: &Path, a: f32, b: f32, c: f32) {
     stl_io::write_stl(&mut f, out.iter()).unwrap();
 }
 
-fn run(dir: &Path, args: &[&str]) -> (i32, String, String) {
-    let o = Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .current_dir(dir)
-        .arg("fit")
-        .args(args)
-        .output()
-        .unwrap();
-    (
-        o.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&o.stdout).into_owned(),
-        String::from_utf8_lossy(&o.stderr).into_owned(),
-    )
+/// Runs `spanwright fit <args>` in `dir`: (exit code, standard output, standard error).
+fn fit(dir: &Path, args: &[&str]) -> (i32, String, String) {
+    let mut all = vec!["fit"];
+    all.extend_from_slice(args);
+    let Ran {
+        code,
+        stdout,
+        stderr,
+    } = run_in(dir, &all);
+    (code, stdout, stderr)
 }
 
 #[test]
 fn fits_writes_plates_exit_0() {
     let dir = tempfile::tempdir().unwrap();
     write_box_stl(&dir.path().join("tile.stl"), 60.0, 40.0, 5.0);
-    let (code, out, err) = run(
+    let (code, out, err) = fit(
         dir.path(),
         &[
             "tile.stl",
@@ -95,7 +95,7 @@ fn too_big_exit_1_and_bad_input_exit_2() {
     write_box_stl(&dir.path().join("slab.stl"), 100.0, 100.0, 100.0);
     // A 100 mm cube cannot fit a 90 mm cube whatever the orientation (its width is at
     // least 100 in every direction).
-    let (code, out, _) = run(
+    let (code, out, _) = fit(
         dir.path(),
         &["slab.stl", "--volume", "90,90,90", "--margin", "0"],
     );
@@ -104,27 +104,26 @@ fn too_big_exit_1_and_bad_input_exit_2() {
         out.contains("DOES NOT FIT") && out.contains("scale"),
         "{out}"
     );
-    let (code, _, err) = run(dir.path(), &["missing.stl", "--printer", "small-180"]);
+    let (code, _, err) = fit(dir.path(), &["missing.stl", "--printer", "small-180"]);
     assert_eq!(code, 2);
     assert!(err.contains("missing.stl"), "{err}");
-    let (code, _, err) = run(dir.path(), &["slab.stl", "--printer", "huge"]);
+    let (code, _, err) = fit(dir.path(), &["slab.stl", "--printer", "huge"]);
     assert_eq!(code, 2);
     assert!(err.contains("huge") && err.contains("medium-220"), "{err}");
-    let (code, _, err) = run(dir.path(), &["slab.stl"]);
+    let (code, _, err) = fit(dir.path(), &["slab.stl"]);
     assert_eq!(code, 2);
     assert!(err.contains("--printer"), "{err}");
     std::fs::write(dir.path().join("junk.stl"), b"solid x\nfacet oops\n").unwrap();
-    let (code, _, err) = run(dir.path(), &["junk.stl", "--printer", "small-180"]);
+    let (code, _, err) = fit(dir.path(), &["junk.stl", "--printer", "small-180"]);
     assert_eq!(code, 2, "{err}");
 }
 
 #[test]
 fn design_file_printer_table_and_override() {
     // The example design carries `[printer] volume = [220, 220, 250]` (mm).
-    let design = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/garden-turbine.toml");
     let dir = tempfile::tempdir().unwrap();
-    let d = design.to_str().unwrap();
-    let (code, out, err) = run(dir.path(), &[d, "--no-files", "--json"]);
+    let d = "@/examples/garden-turbine.toml";
+    let (code, out, err) = fit(dir.path(), &[d, "--no-files", "--json"]);
     assert!(code == 0 || code == 1, "{err}");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["printer"]["volume"]["x"], 220.0, "{out}");
@@ -140,7 +139,7 @@ fn design_file_printer_table_and_override() {
             .sum();
         assert_eq!(n, 4);
     }
-    let (_, out, err) = run(
+    let (_, out, err) = fit(
         dir.path(),
         &[d, "--no-files", "--json", "--printer", "large-300"],
     );
@@ -159,7 +158,7 @@ fn assembled_rotor_as_one_part() {
     // sqrt(100^2 + 5^2) = 100.1 mm of the axis).
     let dir = tempfile::tempdir().unwrap();
     write_box_stl(&dir.path().join("bar.stl"), 10.0, 4.0, 100.0);
-    let (code, out, err) = run(
+    let (code, out, err) = fit(
         dir.path(),
         &[
             "bar.stl",
@@ -178,7 +177,7 @@ fn assembled_rotor_as_one_part() {
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["assembled"]["fits"], true, "{out}");
     assert_eq!(v["assembled"]["blades"], 3);
-    let (_, out, err) = run(
+    let (_, out, err) = fit(
         dir.path(),
         &[
             "bar.stl",

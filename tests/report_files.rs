@@ -1,14 +1,15 @@
 //! Report outputs: the JSON report validates against its documented schema, every SVG
 //! parses as XML (quick-xml), files are written atomically, and the CLI runs end to end.
 
-mod props_support;
+mod support;
 
-use props_support::demo_blade;
 use serde_json::Value;
 use spanwright::design::Station;
 use spanwright::mesh::Part;
 use spanwright::props::{Fill, LoadCase, Material};
 use spanwright::report::{self, ReportInput, SCHEMA};
+use support::run_in;
+use support::shapes::demo_blade;
 
 /// A minimal JSON Schema checker for the keywords our schema uses: `type`, `required`,
 /// `properties`, `items`, `$ref` (local), `oneOf`, `const`, `enum`, `minItems`,
@@ -269,8 +270,9 @@ fn cli_reports_an_stl() {
     let stl = dir.path().join("demo.stl");
     write_stl(&blade, &stl);
     let out = dir.path().join("reports");
-    let run = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .args([
+    let run = run_in(
+        dir.path(),
+        &[
             "report",
             stl.to_str().unwrap(),
             "--rpm",
@@ -278,20 +280,19 @@ fn cli_reports_an_stl() {
             "--wind",
             "8",
             "--json",
-        ])
-        .args(["--material", "pa12", "--out", out.to_str().unwrap()])
-        .output()
-        .unwrap();
-    let stderr = String::from_utf8_lossy(&run.stderr);
-    assert!(
-        run.status.code() == Some(0) || run.status.code() == Some(1),
-        "{stderr}"
+            "--material",
+            "pa12",
+            "--out",
+            out.to_str().unwrap(),
+        ],
     );
+    let stderr = &run.stderr;
+    assert!(run.code == 0 || run.code == 1, "{stderr}");
     assert!(
         stderr.contains("caution"),
         "cautions must be printed: {stderr}"
     );
-    let v: Value = serde_json::from_slice(&run.stdout).unwrap();
+    let v: Value = serde_json::from_str(&run.stdout).unwrap();
     let schema: Value = serde_json::from_str(SCHEMA).unwrap();
     let mut errs = Vec::new();
     validate(&schema, &schema, &v, "$", &mut errs);
@@ -320,23 +321,18 @@ fn cli_reports_an_stl() {
     let other = blade.transformed(&quarter.to_homogeneous());
     let stl2 = dir.path().join("other.stl");
     write_stl(&other, &stl2);
-    let two = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .args([
+    let two = run_in(
+        dir.path(),
+        &[
             "report",
             stl.to_str().unwrap(),
             stl2.to_str().unwrap(),
             "--json",
             "--no-files",
-        ])
-        .output()
-        .unwrap();
-    assert_eq!(
-        two.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&two.stderr)
+        ],
     );
-    let v: Value = serde_json::from_slice(&two.stdout).unwrap();
+    assert_eq!(two.code, 0, "{}", two.stderr);
+    let v: Value = serde_json::from_str(&two.stdout).unwrap();
     let m = v["parts"][0]["mass"].as_f64().unwrap();
     let c = &v["parts"][0]["centroid"];
     let rho = c[0].as_f64().unwrap().hypot(c[2].as_f64().unwrap());
@@ -347,18 +343,18 @@ fn cli_reports_an_stl() {
         2f64.sqrt() * m * rho
     );
     // Bad input: an unknown material is exit code 2 with a message naming it.
-    let bad = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .args([
+    let bad = run_in(
+        dir.path(),
+        &[
             "report",
             stl.to_str().unwrap(),
             "--material",
             "balsa",
             "--no-files",
-        ])
-        .output()
-        .unwrap();
-    assert_eq!(bad.status.code(), Some(2));
-    assert!(String::from_utf8_lossy(&bad.stderr).contains("balsa"));
+        ],
+    );
+    assert_eq!(bad.code, 2);
+    assert!(bad.stderr.contains("balsa"));
 }
 
 #[test]

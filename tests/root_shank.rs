@@ -2,6 +2,9 @@
 //! elementary geometry (volumes of cylinders, cones and circular segments) and against
 //! the mesh checks of `spanwright::check`.
 
+#[macro_use]
+mod support;
+
 use spanwright::blade::{BladeError, Region};
 use spanwright::check::{check_solid, CheckOptions};
 use spanwright::design::parse_toml_str;
@@ -81,20 +84,12 @@ fn volume(extra: &str) -> f64 {
     m.mesh().signed_volume()
 }
 
-fn near_rel(got: f64, want: f64, rel: f64, what: &str) {
-    assert!(
-        ((got - want) / want).abs() < rel,
-        "{what}: {got} vs {want} (relative {:.2e}, allowed {rel})",
-        (got - want) / want
-    );
-}
-
 #[test]
 fn straight_shank_volume_is_pi_d2_l_over_4() {
     // Cylinder volume pi d² L / 4 (elementary geometry): two designs that differ only in
     // shank length (20 vs 40 mm) differ by a 20 mm cylinder of 20 mm diameter.
     let diff = volume(&root(40.0, "")) - volume(&root(20.0, ""));
-    near_rel(diff, PI * 20.0 * 20.0 * 20.0 / 4.0, 2e-3, "shank cylinder");
+    assert_rel!(diff, PI * 20.0 * 20.0 * 20.0 / 4.0, 2e-3, "shank cylinder");
 }
 
 #[test]
@@ -108,7 +103,7 @@ fn bore_removes_cylinder_and_drill_point_cone() {
     let hc = r / 59.0f64.to_radians().tan();
     let plain = volume(&root(20.0, ""));
     let bored = volume(&root(20.0, "bore = { diameter = 6.4, depth = 10 }\n"));
-    near_rel(
+    assert_rel!(
         plain - bored,
         PI * d * d * h / 4.0 + PI * r * r * hc / 3.0,
         2e-3,
@@ -119,7 +114,7 @@ fn bore_removes_cylinder_and_drill_point_cone() {
         20.0,
         "bore = { diameter = 6.4, depth = 10, point-angle = 180 }\n",
     ));
-    near_rel(
+    assert_rel!(
         plain - flat,
         PI * d * d * h / 4.0,
         2e-3,
@@ -132,7 +127,7 @@ fn flat_removes_a_circular_segment_along_the_straight_shank() {
     // Section of the flatted shank: circle less the segment of depth 2 mm (CRC circular
     // segment formula above); two shank lengths differ by that prism over 20 mm.
     let diff = volume(&root(40.0, "flat-depth = 2\n")) - volume(&root(20.0, "flat-depth = 2\n"));
-    near_rel(
+    assert_rel!(
         diff,
         (PI * 100.0 - segment_area(10.0, 2.0)) * 20.0,
         2e-3,
@@ -156,7 +151,7 @@ fn flange_adds_a_plate_and_a_fillet() {
     let spandrel = f * f * (1.0 - PI / 4.0);
     let xbar = r + f * (10.0 - 3.0 * PI) / (12.0 - 3.0 * PI);
     let want = PI * (big_d * big_d / 4.0 - r * r) * t + 2.0 * PI * xbar * spandrel;
-    near_rel(flanged - plain, want, 5e-3, "flange and fillet");
+    assert_rel!(flanged - plain, want, 5e-3, "flange and fillet");
 }
 
 /// Largest distance between corresponding points of two rings.
@@ -207,9 +202,9 @@ fn transition_is_continuous_in_position_and_slope_and_monotone_in_area() {
     let areas: Vec<f64> = (0..=200)
         .map(|i| b.area_at(z0 + (z1 - z0) * i as f64 / 200.0))
         .collect();
-    near_rel(areas[0], PI * 100.0, 2e-3, "shank section area");
+    assert_rel!(areas[0], PI * 100.0, 2e-3, "shank section area");
     // NACA Report 460 thickness integral: area = 0.68508 t c² (open trailing edge).
-    near_rel(
+    assert_rel!(
         areas[200],
         0.68508 * 0.12 * 1600.0,
         5e-3,
@@ -226,7 +221,7 @@ fn transition_is_continuous_in_position_and_slope_and_monotone_in_area() {
     assert!(centre.norm() < 1e-9, "shank centre {centre}");
     // Width: the circle's 20 mm, seen through its discrete points (sagitta of a
     // 2 * pi / 120 step on a 10 mm radius is under 3e-3 mm).
-    near_rel(bb.size().x, 20.0, 3e-4, "shank width");
+    assert_rel!(bb.size().x, 20.0, 3e-4, "shank width");
 }
 
 #[test]
@@ -398,8 +393,8 @@ fn shank_smaller_than_a_tapering_first_station_is_refused() {
     ));
     match e {
         RootError::Waist { start, end, .. } => {
-            near_rel(start, PI * 36.0, 2e-3, "shank area");
-            near_rel(end, 0.68508 * 0.12 * 1600.0, 1e-2, "first station area");
+            assert_rel!(start, PI * 36.0, 2e-3, "shank area");
+            assert_rel!(end, 0.68508 * 0.12 * 1600.0, 1e-2, "first station area");
         }
         other => panic!("{other:?}"),
     }
@@ -498,7 +493,7 @@ fn cross_hole_removes_the_drilled_volume_and_adds_one_genus() {
     assert!(report.is_ok(), "{report}");
     assert_eq!(report.genus, Some(1));
     let plain = volume(&root(25.0, ""));
-    near_rel(
+    assert_rel!(
         plain - holed.mesh().signed_volume(),
         cross_hole_volume(2.5, 10.0),
         2e-3,

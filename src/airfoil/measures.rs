@@ -32,14 +32,14 @@ pub struct Measures {
     /// The leading-edge point (the outline's foremost point), chord units: (0, 0) when
     /// the chord line was drawn to the farthest point, a little ahead of and above it on
     /// a cambered section in its published frame.
-    pub leading_edge: [f64; 2],
+    pub leading_edge: Point2<f64>,
     /// Leading-edge radius estimate: radius of curvature of the outline's spline at the
     /// leading edge.
     pub le_radius: f64,
     /// Enclosed area (polygon through the section's own points), chord².
     pub area: f64,
     /// Centroid of the enclosed area, chord units.
-    pub centroid: [f64; 2],
+    pub centroid: Point2<f64>,
 }
 
 /// Largest value of `v` over the stations `x`, refined by the parabola through the best
@@ -128,7 +128,7 @@ impl Section {
         let (area, centroid) = area_centroid(self.points());
         let le = self.points()[self.leading_edge_index()];
         Ok(Measures {
-            leading_edge: [le.x, le.y],
+            leading_edge: le,
             thickness,
             thickness_at,
             camber,
@@ -136,7 +136,7 @@ impl Section {
             te_thickness: self.te_gap(),
             le_radius,
             area,
-            centroid: [centroid.x, centroid.y],
+            centroid,
         })
     }
 }

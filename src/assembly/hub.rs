@@ -158,19 +158,34 @@ impl HubSpec {
     /// root, and resolves its defaults and the angles of its holes for the blade's
     /// rotation sense. Errors name `rotor.<key>` or `rotor.hub.<key>`.
     pub fn resolve(&self, rotor: &RotorSpec, blade: &BladeFacts) -> Result<Hub, AssemblyError> {
-        let rotation = blade.rotation;
-        let hub_radius = rotor.hub_radius;
-        let bad = |key: &str, msg: String| AssemblyError::new(key, msg);
-        let positive = |key: &str, v: f64| {
-            if v > 0.0 && v.is_finite() {
-                Ok(v)
-            } else {
-                Err(bad(
-                    key,
-                    format!("{v} is not a positive number of millimetres; give a positive size"),
-                ))
-            }
+        let disc = self.disc(rotor.hub_radius)?;
+        let bolts = self.bolts(&disc)?;
+        let blades = rotor.blades.max(1);
+        let between = hub_angle(
+            blade.rotation,
+            rotor.azimuth_offset + 180.0 / f64::from(blades),
+        );
+        let sockets = match (&blade.root, self.sockets) {
+            (Some(root), true) => Some(self.sockets(root, rotor, blade, &disc)?),
+            _ => None,
         };
+        if let (Some(s), Some(b)) = (&sockets, bolts) {
+            bolts_clear_sockets(s, b, between, &disc)?;
+        }
+        Ok(Hub {
+            radius: disc.radius,
+            thickness: disc.thickness,
+            bore_radius: disc.bore_radius,
+            bolts,
+            bolt_phase: between,
+            rim_start: if sockets.is_some() { between } else { 0.0 },
+            sockets,
+        })
+    }
+
+    /// The disc's size and the wall it keeps, checked: positive sizes and the wall
+    /// around the bore.
+    fn disc(&self, hub_radius: f64) -> Result<Disc, AssemblyError> {
         let thickness = positive("rotor.hub.thickness", self.thickness)?;
         let wall = positive("rotor.hub.min-wall", self.min_wall)?;
         let radius = 0.5
@@ -194,202 +209,266 @@ impl HubSpec {
                 ),
             ));
         }
-        let bolts = if self.bolt_count == 0 {
-            None
-        } else {
-            let n = self.bolt_count;
-            let d = self.bolt_diameter.ok_or_else(|| {
-                bad(
-                    "rotor.hub.bolt-diameter",
-                    format!(
-                        "bolt-count = {n} needs bolt-diameter (mm); add it or set bolt-count = 0"
-                    ),
-                )
-            })?;
-            let c = self.bolt_circle.ok_or_else(|| {
-                bad(
-                    "rotor.hub.bolt-circle",
-                    format!("bolt-count = {n} needs bolt-circle (diameter through the hole centres, mm); add it or set bolt-count = 0"),
-                )
-            })?;
-            let rh = 0.5 * positive("rotor.hub.bolt-diameter", d)?;
-            let rc = 0.5 * positive("rotor.hub.bolt-circle", c)?;
-            let inner = rc - rh - rb;
-            let outer = radius - rc - rh;
-            let between = if n > 1 {
-                2.0 * rc * (PI / n as f64).sin() - 2.0 * rh
-            } else {
-                f64::INFINITY
-            };
-            for (what, left) in [
-                ("to the bore", inner),
-                ("to the rim", outer),
-                ("between neighbouring holes", between),
-            ] {
-                if left < wall {
-                    return Err(bad(
-                        "rotor.hub.bolt-circle",
-                        format!(
-                            "bolt holes of {d:.2} mm on a {c:.2} mm circle leave {left:.2} mm {what}, under rotor.hub.min-wall = {wall:.2} mm; change bolt-circle, bolt-diameter or bolt-count"
-                        ),
-                    ));
-                }
-            }
-            Some((n, rh, rc))
-        };
-        let blades = rotor.blades.max(1);
-        let between = hub_angle(rotation, rotor.azimuth_offset + 180.0 / f64::from(blades));
-        let sockets = match (&blade.root, self.sockets) {
-            (Some(root), true) => {
-                Some(self.sockets(root, rotor, blade, (radius, thickness, rb, wall))?)
-            }
-            _ => None,
-        };
-        if let (Some(s), Some((n, rh, rc))) = (&sockets, bolts) {
-            for k in 0..n {
-                let a = (between + 360.0 * f64::from(k) / f64::from(n)).to_radians();
-                let p = Point2::new(rc * a.sin(), rc * a.cos());
-                for &angle in &s.angles {
-                    let (f, e) = socket_axis(angle, s.floor, radius);
-                    let left = seg_dist(p, f, e) - rh - s.radius;
-                    if left < wall {
-                        return Err(bad(
-                            "rotor.hub.bolt-circle",
-                            format!(
-                                "bolt hole {} comes within {left:.2} mm of a blade socket, under rotor.hub.min-wall = {wall:.2} mm; change bolt-circle, bolt-diameter or bolt-count",
-                                k + 1
-                            ),
-                        ));
-                    }
-                }
-            }
-        }
-        Ok(Hub {
+        Ok(Disc {
             radius,
             thickness,
             bore_radius,
-            bolts,
-            bolt_phase: between,
-            rim_start: if sockets.is_some() { between } else { 0.0 },
-            sockets,
+            wall,
         })
     }
 
-    /// Resolves and checks the blade sockets; `disc` = (radius, thickness, bore radius,
-    /// min wall), mm.
+    /// The bolt holes (count, hole radius, circle radius), checked against the bore, the
+    /// rim and each other; `None` without bolts.
+    fn bolts(&self, disc: &Disc) -> Result<Option<(u32, f64, f64)>, AssemblyError> {
+        if self.bolt_count == 0 {
+            return Ok(None);
+        }
+        let (radius, rb, wall) = (disc.radius, disc.bore(), disc.wall);
+        let n = self.bolt_count;
+        let d = self.bolt_diameter.ok_or_else(|| {
+            bad(
+                "rotor.hub.bolt-diameter",
+                format!("bolt-count = {n} needs bolt-diameter (mm); add it or set bolt-count = 0"),
+            )
+        })?;
+        let c = self.bolt_circle.ok_or_else(|| {
+            bad(
+                "rotor.hub.bolt-circle",
+                format!("bolt-count = {n} needs bolt-circle (diameter through the hole centres, mm); add it or set bolt-count = 0"),
+            )
+        })?;
+        let rh = 0.5 * positive("rotor.hub.bolt-diameter", d)?;
+        let rc = 0.5 * positive("rotor.hub.bolt-circle", c)?;
+        let inner = rc - rh - rb;
+        let outer = radius - rc - rh;
+        let between = if n > 1 {
+            2.0 * rc * (PI / n as f64).sin() - 2.0 * rh
+        } else {
+            f64::INFINITY
+        };
+        for (what, left) in [
+            ("to the bore", inner),
+            ("to the rim", outer),
+            ("between neighbouring holes", between),
+        ] {
+            if left < wall {
+                return Err(bad(
+                    "rotor.hub.bolt-circle",
+                    format!(
+                        "bolt holes of {d:.2} mm on a {c:.2} mm circle leave {left:.2} mm {what}, under rotor.hub.min-wall = {wall:.2} mm; change bolt-circle, bolt-diameter or bolt-count"
+                    ),
+                ));
+            }
+        }
+        Ok(Some((n, rh, rc)))
+    }
+
+    /// Resolves and checks the blade sockets.
     fn sockets(
         &self,
         root: &RootSpec,
         rotor: &RotorSpec,
         blade: &BladeFacts,
-        disc: (f64, f64, f64, f64),
+        disc: &Disc,
     ) -> Result<Sockets, AssemblyError> {
-        let rotation = blade.rotation;
-        let (radius, thickness, rb, wall) = disc;
-        let bad = |key: &str, msg: String| Err(AssemblyError::new(key, msg));
         let clearance = self.socket_clearance;
-        if !(clearance >= 0.0 && clearance.is_finite()) {
-            return bad(
-                "rotor.hub.socket-clearance",
-                format!("{clearance}: give a clearance of zero or more millimetres"),
-            );
-        }
-        if rotor.cone != 0.0 {
-            return bad(
-                "rotor.cone",
-                format!(
-                    "{} degrees: hub sockets are cut radially in the plane of rotation; set cone = 0, or rotor.hub.sockets = false",
-                    rotor.cone
-                ),
-            );
-        }
-        if root.flange.is_some() {
-            return bad(
-                "rotor.hub.sockets",
-                "the blade root has a flange (root.flange), which a round socket cannot take; remove the flange or set rotor.hub.sockets = false".into(),
-            );
-        }
-        let off = blade.shank_offset;
-        if off > 0.25 * clearance {
-            return bad(
-                "rotor.hub.sockets",
-                format!(
-                    "the shank is centred {off:.2} mm off the stacking axis (first station sweep and prebend), more than a quarter of rotor.hub.socket-clearance = {clearance:.2} mm; set them to 0 at the first station or set rotor.hub.sockets = false"
-                ),
-            );
-        }
+        socket_allowed(clearance, root, rotor, blade)?;
         let face = blade.root_face;
         let socket_radius = 0.5 * (root.shank_diameter.max(root.thickness()) + clearance);
         let floor = face - 0.5 * clearance;
-        if radius <= face {
-            return bad(
-                "rotor.hub.diameter",
-                format!(
-                    "the hub's rim at radius {radius:.2} mm does not reach the blade's root face at {face:.2} mm, so no socket can hold the shank; enlarge the hub or lengthen root.shank-length"
-                ),
-            );
-        }
-        if radius > face + root.shank_length {
-            return bad(
-                "rotor.hub.diameter",
-                format!(
-                    "the hub's rim at radius {radius:.2} mm reaches past the round shank (root face {face:.2} mm + root.shank-length {:.2} mm); make the hub smaller or the shank longer",
-                    root.shank_length
-                ),
-            );
-        }
-        if socket_radius + wall > 0.5 * thickness {
-            return bad(
-                "rotor.hub.thickness",
-                format!(
-                    "{thickness:.2} mm leaves {:.2} mm over the {:.2} mm socket, under rotor.hub.min-wall = {wall:.2} mm; make the hub at least {:.2} mm thick",
-                    0.5 * thickness - socket_radius,
-                    2.0 * socket_radius,
-                    2.0 * (socket_radius + wall)
-                ),
-            );
-        }
-        if floor - rb < wall {
-            return bad(
-                "rotor.hub.bore",
-                format!(
-                    "the socket floors at radius {floor:.2} mm leave {:.2} mm to the bore, under rotor.hub.min-wall = {wall:.2} mm; use a smaller bore or a longer shank",
-                    floor - rb
-                ),
-            );
-        }
+        socket_fits_disc(root, face, socket_radius, floor, disc)?;
         let blades = rotor.blades.max(1);
         let angles: Vec<f64> = (0..blades)
             .map(|k| {
                 hub_angle(
-                    rotation,
+                    blade.rotation,
                     rotor.azimuth_offset + 360.0 * f64::from(k) / f64::from(blades),
                 )
             })
             .collect();
-        if blades > 1 {
-            let (a0, a1) = (
-                socket_axis(angles[0], floor, radius),
-                socket_axis(angles[1], floor, radius),
-            );
-            let gap =
-                seg_dist(a0.0, a1.0, a1.1).min(seg_dist(a1.0, a0.0, a0.1)) - 2.0 * socket_radius;
-            if gap < wall {
-                return bad(
-                    "rotor.blades",
-                    format!(
-                        "{blades} sockets of {:.2} mm leave {gap:.2} mm between neighbours at their floors, under rotor.hub.min-wall = {wall:.2} mm; use fewer blades, a thinner shank or a longer shank",
-                        2.0 * socket_radius
-                    ),
-                );
-            }
-        }
-        Ok(Sockets {
+        let sockets = Sockets {
             radius: socket_radius,
             floor,
             angles,
-        })
+        };
+        sockets_apart(&sockets, disc)?;
+        Ok(sockets)
     }
+}
+
+/// The disc of a hub being resolved, mm.
+struct Disc {
+    radius: f64,
+    thickness: f64,
+    bore_radius: Option<f64>,
+    /// Smallest wall kept.
+    wall: f64,
+}
+
+impl Disc {
+    /// The bore radius, 0 without a bore.
+    fn bore(&self) -> f64 {
+        self.bore_radius.unwrap_or(0.0)
+    }
+}
+
+fn bad(key: &str, msg: String) -> AssemblyError {
+    AssemblyError::new(key, msg)
+}
+
+/// `v` when it is a positive, finite number of millimetres, else an error naming `key`.
+fn positive(key: &str, v: f64) -> Result<f64, AssemblyError> {
+    if v > 0.0 && v.is_finite() {
+        Ok(v)
+    } else {
+        Err(bad(
+            key,
+            format!("{v} is not a positive number of millimetres; give a positive size"),
+        ))
+    }
+}
+
+/// Whether sockets can be cut at all: a clearance of zero or more, no cone, no flange,
+/// and the shank on the stacking axis within a quarter of the clearance.
+fn socket_allowed(
+    clearance: f64,
+    root: &RootSpec,
+    rotor: &RotorSpec,
+    blade: &BladeFacts,
+) -> Result<(), AssemblyError> {
+    if !(clearance >= 0.0 && clearance.is_finite()) {
+        return Err(bad(
+            "rotor.hub.socket-clearance",
+            format!("{clearance}: give a clearance of zero or more millimetres"),
+        ));
+    }
+    if rotor.cone != 0.0 {
+        return Err(bad(
+            "rotor.cone",
+            format!(
+                "{} degrees: hub sockets are cut radially in the plane of rotation; set cone = 0, or rotor.hub.sockets = false",
+                rotor.cone
+            ),
+        ));
+    }
+    if root.flange.is_some() {
+        return Err(bad(
+            "rotor.hub.sockets",
+            "the blade root has a flange (root.flange), which a round socket cannot take; remove the flange or set rotor.hub.sockets = false".into(),
+        ));
+    }
+    let off = blade.shank_offset;
+    if off > 0.25 * clearance {
+        return Err(bad(
+            "rotor.hub.sockets",
+            format!(
+                "the shank is centred {off:.2} mm off the stacking axis (first station sweep and prebend), more than a quarter of rotor.hub.socket-clearance = {clearance:.2} mm; set them to 0 at the first station or set rotor.hub.sockets = false"
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// Whether a socket of `socket_radius` with its floor at `floor` fits the disc: the rim
+/// between the root face and the shank's end, walls above, below and to the bore.
+fn socket_fits_disc(
+    root: &RootSpec,
+    face: f64,
+    socket_radius: f64,
+    floor: f64,
+    disc: &Disc,
+) -> Result<(), AssemblyError> {
+    let (radius, thickness, rb, wall) = (disc.radius, disc.thickness, disc.bore(), disc.wall);
+    if radius <= face {
+        return Err(bad(
+            "rotor.hub.diameter",
+            format!(
+                "the hub's rim at radius {radius:.2} mm does not reach the blade's root face at {face:.2} mm, so no socket can hold the shank; enlarge the hub or lengthen root.shank-length"
+            ),
+        ));
+    }
+    if radius > face + root.shank_length {
+        return Err(bad(
+            "rotor.hub.diameter",
+            format!(
+                "the hub's rim at radius {radius:.2} mm reaches past the round shank (root face {face:.2} mm + root.shank-length {:.2} mm); make the hub smaller or the shank longer",
+                root.shank_length
+            ),
+        ));
+    }
+    if socket_radius + wall > 0.5 * thickness {
+        return Err(bad(
+            "rotor.hub.thickness",
+            format!(
+                "{thickness:.2} mm leaves {:.2} mm over the {:.2} mm socket, under rotor.hub.min-wall = {wall:.2} mm; make the hub at least {:.2} mm thick",
+                0.5 * thickness - socket_radius,
+                2.0 * socket_radius,
+                2.0 * (socket_radius + wall)
+            ),
+        ));
+    }
+    if floor - rb < wall {
+        return Err(bad(
+            "rotor.hub.bore",
+            format!(
+                "the socket floors at radius {floor:.2} mm leave {:.2} mm to the bore, under rotor.hub.min-wall = {wall:.2} mm; use a smaller bore or a longer shank",
+                floor - rb
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// Whether neighbouring sockets keep the wall between them at their floors.
+fn sockets_apart(s: &Sockets, disc: &Disc) -> Result<(), AssemblyError> {
+    let blades = s.angles.len();
+    if blades < 2 {
+        return Ok(());
+    }
+    let (a0, a1) = (
+        socket_axis(s.angles[0], s.floor, disc.radius),
+        socket_axis(s.angles[1], s.floor, disc.radius),
+    );
+    let gap = seg_dist(a0.0, a1.0, a1.1).min(seg_dist(a1.0, a0.0, a0.1)) - 2.0 * s.radius;
+    if gap < disc.wall {
+        return Err(bad(
+            "rotor.blades",
+            format!(
+                "{blades} sockets of {:.2} mm leave {gap:.2} mm between neighbours at their floors, under rotor.hub.min-wall = {:.2} mm; use fewer blades, a thinner shank or a longer shank",
+                2.0 * s.radius,
+                disc.wall
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// Whether each bolt hole keeps the wall to every blade socket.
+fn bolts_clear_sockets(
+    s: &Sockets,
+    (n, rh, rc): (u32, f64, f64),
+    between: f64,
+    disc: &Disc,
+) -> Result<(), AssemblyError> {
+    let wall = disc.wall;
+    for k in 0..n {
+        let a = (between + 360.0 * f64::from(k) / f64::from(n)).to_radians();
+        let p = Point2::new(rc * a.sin(), rc * a.cos());
+        for &angle in &s.angles {
+            let (f, e) = socket_axis(angle, s.floor, disc.radius);
+            let left = seg_dist(p, f, e) - rh - s.radius;
+            if left < wall {
+                return Err(bad(
+                    "rotor.hub.bolt-circle",
+                    format!(
+                        "bolt hole {} comes within {left:.2} mm of a blade socket, under rotor.hub.min-wall = {wall:.2} mm; change bolt-circle, bolt-diameter or bolt-count",
+                        k + 1
+                    ),
+                ));
+            }
+        }
+    }
+    Ok(())
 }
 
 /// Sides of an inscribed polygon whose sagitta `r (1 - cos(pi / n))` is at most `tol`

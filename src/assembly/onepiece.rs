@@ -78,7 +78,38 @@ pub fn one_piece(
     rotor: &RotorSpec,
     spec: &OnePieceSpec,
 ) -> Result<Part, AssemblyError> {
-    let bad = |key: &str, msg: String| AssemblyError::new(key, msg);
+    check_rotor(blade, rotor)?;
+    let frames = Frames::new(blade, rotor);
+    let prism = Prism::size(
+        blade.facts.root_face,
+        rotor.blades as usize,
+        &frames.ring_face,
+        spec,
+    )?;
+    let mut mesh = TriMesh::new();
+    let rings = add_blades(&mut mesh, blade, &frames.placed);
+    let mut corners = Corners::new(prism.z0);
+    add_side_faces(&mut mesh, &mut corners, &frames, &prism, &rings)?;
+    let bore = spec
+        .bore
+        .map(|d| (0.5 * d, bore_sides(0.5 * d, blade.facts.tolerance)));
+    let bore_rings = add_end_faces(&mut mesh, &corners, &prism, bore)?;
+    if let [top, bottom] = &bore_rings[..] {
+        add_bore_wall(&mut mesh, top, bottom);
+    }
+    Ok(Part {
+        name: format!("{}-rotor-one-piece", blade.name),
+        mesh,
+    })
+}
+
+fn bad(key: &str, msg: String) -> AssemblyError {
+    AssemblyError::new(key, msg)
+}
+
+/// What a one-piece rotor asks of the rotor and the blade: at least 3 blades, no cone,
+/// a bare shank, and the hub radius at the blade's root face.
+fn check_rotor(blade: &OnePieceBlade<'_>, rotor: &RotorSpec) -> Result<(), AssemblyError> {
     let b = rotor.blades as usize;
     if b < 3 {
         return Err(bad(
@@ -108,120 +139,188 @@ pub fn one_piece(
             format!("{:.3} mm, but the blades' root face is at {:.3} mm: a one-piece rotor needs them equal", rotor.hub_radius, z0),
         ));
     }
-    let ring = blade.root_ring;
-    let blade_mesh = blade.mesh;
-    let ring2: Vec<Point2<f64>> = ring
-        .iter()
-        .map(|&i| {
-            let p = blade_mesh.vertices[i as usize];
-            Point2::new(p.x, p.y)
-        })
-        .collect();
+    Ok(())
+}
 
-    // Azimuth-only frames (pitch 0) define the hub faces; the blades carry their pitch.
-    let mut flat = rotor.clone();
-    flat.pitch = 0.0;
-    let rotation = blade.facts.rotation;
-    let frames: Vec<Matrix4<f64>> = (0..b as u32)
-        .map(|k| blade_transform(&flat, rotation, z0, k))
-        .collect();
-    let placed: Vec<Matrix4<f64>> = (0..b as u32)
-        .map(|k| blade_transform(rotor, rotation, z0, k))
-        .collect();
-    // Ring in face coordinates (x, y of the azimuth frame): pitch turns it in its plane.
-    let pitch_only = frames[0].try_inverse().expect("rigid") * placed[0];
-    let ring_face: Vec<Point2<f64>> = ring2
-        .iter()
-        .map(|p| {
-            let q = pitch_only.transform_point(&Point3::new(p.x, p.y, z0));
-            Point2::new(q.x, q.y)
-        })
-        .collect();
+/// Where the blades go: the hub's face frames and the placed blades' transforms, and
+/// the root ring in face coordinates.
+struct Frames {
+    /// Azimuth-only frames (pitch 0): they define the hub's side faces.
+    faces: Vec<Matrix4<f64>>,
+    /// The blades' transforms, pitch included.
+    placed: Vec<Matrix4<f64>>,
+    /// The root ring in face coordinates (x, y of the azimuth frame): pitch turns it in
+    /// its plane.
+    ring_face: Vec<Point2<f64>>,
+}
 
-    // Hub size: face width from the prism, thickness from the roots.
-    let half_w = z0 * (PI / b as f64).tan();
-    let (ylo, yhi) = ring_face
-        .iter()
-        .fold((f64::MAX, f64::MIN), |(a, c), p| (a.min(p.y), c.max(p.y)));
-    let xmax = ring_face.iter().map(|p| p.x.abs()).fold(0.0, f64::max);
-    let wall = spec.wall;
-    if xmax + wall > half_w {
-        return Err(bad(
-            "rotor.hub-radius",
-            format!(
-                "the blade root ({:.2} mm wide from the axis line) does not fit the hub's {:.2} mm faces with {:.2} mm of wall; move the first station (the root face) and rotor.hub-radius out by about {:.1} mm, or narrow the root chord",
-                2.0 * xmax,
-                2.0 * half_w,
-                wall,
-                (xmax + wall - half_w) / (PI / b as f64).tan()
-            ),
-        ));
+impl Frames {
+    fn new(blade: &OnePieceBlade<'_>, rotor: &RotorSpec) -> Self {
+        let z0 = blade.facts.root_face;
+        let mut flat = rotor.clone();
+        flat.pitch = 0.0;
+        let rotation = blade.facts.rotation;
+        let faces: Vec<Matrix4<f64>> = (0..rotor.blades)
+            .map(|k| blade_transform(&flat, rotation, z0, k))
+            .collect();
+        let placed: Vec<Matrix4<f64>> = (0..rotor.blades)
+            .map(|k| blade_transform(rotor, rotation, z0, k))
+            .collect();
+        let pitch_only = faces[0].try_inverse().expect("rigid") * placed[0];
+        let ring_face: Vec<Point2<f64>> = blade
+            .root_ring
+            .iter()
+            .map(|&i| {
+                let p = blade.mesh.vertices[i as usize];
+                let q = pitch_only.transform_point(&Point3::new(p.x, p.y, z0));
+                Point2::new(q.x, q.y)
+            })
+            .collect();
+        Frames {
+            faces,
+            placed,
+            ring_face,
+        }
     }
-    let yc = 0.5 * (ylo + yhi);
-    let need = (yhi - ylo) + 2.0 * wall;
-    let h = spec.thickness.unwrap_or(need);
-    if h < need {
-        return Err(bad(
-            "rotor.one-piece.thickness",
-            format!(
-                "{h:.2} mm is {:.2} mm short of the blade roots' {:.2} mm plus the walls",
-                need - h,
-                yhi - ylo
-            ),
-        ));
-    }
-    let (y_bot, y_top) = (yc - 0.5 * h, yc + 0.5 * h);
-    if let Some(d) = spec.bore {
-        // The bore must stay inside the prism's inscribed circle, clear of the roots.
-        let inner = z0 - wall;
-        if !(d > 0.0) || 0.5 * d > inner {
+}
+
+/// The hub prism's size, mm: side faces at `z0` from the axis, `2 half_w` wide, from
+/// `y_bot` to `y_top` along the rotor axis.
+struct Prism {
+    z0: f64,
+    half_w: f64,
+    y_bot: f64,
+    y_top: f64,
+}
+
+impl Prism {
+    /// Face width from the prism, thickness from the roots; checks the walls around
+    /// the roots and the bore.
+    fn size(
+        z0: f64,
+        b: usize,
+        ring_face: &[Point2<f64>],
+        spec: &OnePieceSpec,
+    ) -> Result<Prism, AssemblyError> {
+        let half_w = z0 * (PI / b as f64).tan();
+        let (ylo, yhi) = ring_face
+            .iter()
+            .fold((f64::MAX, f64::MIN), |(a, c), p| (a.min(p.y), c.max(p.y)));
+        let xmax = ring_face.iter().map(|p| p.x.abs()).fold(0.0, f64::max);
+        let wall = spec.wall;
+        if xmax + wall > half_w {
             return Err(bad(
-                "rotor.one-piece.bore",
+                "rotor.hub-radius",
                 format!(
-                    "{d:.2} mm: give a bore smaller than {:.2} mm (the hub radius less the wall)",
-                    2.0 * inner
+                    "the blade root ({:.2} mm wide from the axis line) does not fit the hub's {:.2} mm faces with {:.2} mm of wall; move the first station (the root face) and rotor.hub-radius out by about {:.1} mm, or narrow the root chord",
+                    2.0 * xmax,
+                    2.0 * half_w,
+                    wall,
+                    (xmax + wall - half_w) / (PI / b as f64).tan()
                 ),
             ));
         }
+        let yc = 0.5 * (ylo + yhi);
+        let need = (yhi - ylo) + 2.0 * wall;
+        let h = spec.thickness.unwrap_or(need);
+        if h < need {
+            return Err(bad(
+                "rotor.one-piece.thickness",
+                format!(
+                    "{h:.2} mm is {:.2} mm short of the blade roots' {:.2} mm plus the walls",
+                    need - h,
+                    yhi - ylo
+                ),
+            ));
+        }
+        if let Some(d) = spec.bore {
+            // The bore must stay inside the prism's inscribed circle, clear of the roots.
+            let inner = z0 - wall;
+            if !(d > 0.0) || 0.5 * d > inner {
+                return Err(bad(
+                    "rotor.one-piece.bore",
+                    format!(
+                        "{d:.2} mm: give a bore smaller than {:.2} mm (the hub radius less the wall)",
+                        2.0 * inner
+                    ),
+                ));
+            }
+        }
+        Ok(Prism {
+            z0,
+            half_w,
+            y_bot: yc - 0.5 * h,
+            y_top: yc + 0.5 * h,
+        })
     }
+}
 
-    // Blades without their root caps.
-    let mut mesh = TriMesh::new();
-    let mut cut = blade_mesh.clone();
+/// Appends the placed blades without their root caps; returns each blade's root ring
+/// in `mesh`.
+fn add_blades(
+    mesh: &mut TriMesh,
+    blade: &OnePieceBlade<'_>,
+    placed: &[Matrix4<f64>],
+) -> Vec<Vec<u32>> {
+    let mut cut = blade.mesh.clone();
     cut.triangles.drain(blade.root_cap.clone());
-    let mut rings: Vec<Vec<u32>> = Vec::with_capacity(b);
-    for m in &placed {
+    let mut rings: Vec<Vec<u32>> = Vec::with_capacity(placed.len());
+    for m in placed {
         let offset = mesh.vertices.len() as u32;
         mesh.append(&cut.transformed(m));
-        rings.push(ring.iter().map(|&i| i + offset).collect());
+        rings.push(blade.root_ring.iter().map(|&i| i + offset).collect());
+    }
+    rings
+}
+
+/// The prism's corners, shared between the side faces and the end polygons.
+struct Corners {
+    tol: f64,
+    list: Vec<(Point3<f64>, u32)>,
+}
+
+impl Corners {
+    fn new(z0: f64) -> Self {
+        Corners {
+            tol: 1e-9 * z0.max(1.0),
+            list: Vec::new(),
+        }
     }
 
-    // Prism corners, shared between side faces and the end polygons.
-    let mut corners: Vec<(Point3<f64>, u32)> = Vec::new();
-    let mut corner = |mesh: &mut TriMesh, p: Point3<f64>| -> u32 {
-        if let Some((_, i)) = corners
-            .iter()
-            .find(|(q, _)| (q - p).norm() < 1e-9 * z0.max(1.0))
-        {
+    /// The vertex at `p`, pushed to `mesh` the first time.
+    fn vertex(&mut self, mesh: &mut TriMesh, p: Point3<f64>) -> u32 {
+        if let Some((_, i)) = self.list.iter().find(|(q, _)| (q - p).norm() < self.tol) {
             return *i;
         }
         let i = mesh.push_vertex(p);
-        corners.push((p, i));
+        self.list.push((p, i));
         i
-    };
-    for (k, frame) in frames.iter().enumerate() {
+    }
+}
+
+/// Each side face: its rectangle with the blade's root ring cut out, triangulated in
+/// face coordinates.
+fn add_side_faces(
+    mesh: &mut TriMesh,
+    corners: &mut Corners,
+    frames: &Frames,
+    prism: &Prism,
+    rings: &[Vec<u32>],
+) -> Result<(), AssemblyError> {
+    let (half_w, z0) = (prism.half_w, prism.z0);
+    for (k, frame) in frames.faces.iter().enumerate() {
         let local = [
-            (-half_w, y_bot),
-            (half_w, y_bot),
-            (half_w, y_top),
-            (-half_w, y_top),
+            (-half_w, prism.y_bot),
+            (half_w, prism.y_bot),
+            (half_w, prism.y_top),
+            (-half_w, prism.y_top),
         ];
         let ids: Vec<u32> = local
             .iter()
-            .map(|&(x, y)| corner(&mut mesh, frame.transform_point(&Point3::new(x, y, z0))))
+            .map(|&(x, y)| corners.vertex(mesh, frame.transform_point(&Point3::new(x, y, z0))))
             .collect();
         let mut pts: Vec<Point2<f64>> = local.iter().map(|&(x, y)| Point2::new(x, y)).collect();
-        pts.extend(ring_face.iter().copied());
+        pts.extend(frames.ring_face.iter().copied());
         let all: Vec<u32> = ids
             .iter()
             .copied()
@@ -235,17 +334,24 @@ pub fn one_piece(
         })?;
         let outward = frame.transform_vector(&Vector3::z());
         for t in tris {
-            push_facing(&mut mesh, [all[t[0]], all[t[1]], all[t[2]]], outward);
+            push_facing(mesh, [all[t[0]], all[t[1]], all[t[2]]], outward);
         }
     }
+    Ok(())
+}
 
-    // End polygons (and the bore), in (x, z) of the rotor frame.
-    let bore_n = spec
-        .bore
-        .map(|d| bore_sides(0.5 * d, blade.facts.tolerance));
+/// The top and bottom polygons, with the bore (`(radius, sides)`) cut out, in (x, z)
+/// of the rotor frame; returns the bore's rings (top, then bottom).
+fn add_end_faces(
+    mesh: &mut TriMesh,
+    corners: &Corners,
+    prism: &Prism,
+    bore: Option<(f64, usize)>,
+) -> Result<Vec<Vec<u32>>, AssemblyError> {
     let mut bore_rings = Vec::new();
-    for (y, up) in [(y_top, true), (y_bot, false)] {
+    for (y, up) in [(prism.y_top, true), (prism.y_bot, false)] {
         let mut poly: Vec<(Point3<f64>, u32)> = corners
+            .list
             .iter()
             .filter(|(p, _)| (p.y - y).abs() < 1e-9)
             .copied()
@@ -255,12 +361,12 @@ pub fn one_piece(
         let mut ids: Vec<u32> = poly.iter().map(|(_, i)| *i).collect();
         let outline = 0..pts.len();
         let mut loops = vec![outline];
-        if let (Some(d), Some(n)) = (spec.bore, bore_n) {
+        if let Some((r, n)) = bore {
             let start = pts.len();
             let mut ringv = Vec::with_capacity(n);
             for s in 0..n {
                 let a = TAU * s as f64 / n as f64;
-                let p = Point3::new(0.5 * d * a.cos(), y, 0.5 * d * a.sin());
+                let p = Point3::new(r * a.cos(), y, r * a.sin());
                 let i = mesh.push_vertex(p);
                 pts.push(Point2::new(p.x, p.z));
                 ids.push(i);
@@ -277,25 +383,24 @@ pub fn one_piece(
         })?;
         let outward = Vector3::y() * if up { 1.0 } else { -1.0 };
         for t in tris {
-            push_facing(&mut mesh, [ids[t[0]], ids[t[1]], ids[t[2]]], outward);
+            push_facing(mesh, [ids[t[0]], ids[t[1]], ids[t[2]]], outward);
         }
     }
-    if let [top, bottom] = &bore_rings[..] {
-        let n = top.len();
-        for s in 0..n {
-            let s1 = (s + 1) % n;
-            let mid = (mesh.vertices[top[s] as usize].coords
-                + mesh.vertices[bottom[s1] as usize].coords)
-                * 0.5;
-            let inward = -Vector3::new(mid.x, 0.0, mid.z);
-            push_facing(&mut mesh, [top[s], top[s1], bottom[s1]], inward);
-            push_facing(&mut mesh, [top[s], bottom[s1], bottom[s]], inward);
-        }
+    Ok(bore_rings)
+}
+
+/// The bore's wall between its top and bottom rings, facing the axis.
+fn add_bore_wall(mesh: &mut TriMesh, top: &[u32], bottom: &[u32]) {
+    let n = top.len();
+    for s in 0..n {
+        let s1 = (s + 1) % n;
+        let mid = (mesh.vertices[top[s] as usize].coords
+            + mesh.vertices[bottom[s1] as usize].coords)
+            * 0.5;
+        let inward = -Vector3::new(mid.x, 0.0, mid.z);
+        push_facing(mesh, [top[s], top[s1], bottom[s1]], inward);
+        push_facing(mesh, [top[s], bottom[s1], bottom[s]], inward);
     }
-    Ok(Part {
-        name: format!("{}-rotor-one-piece", blade.name),
-        mesh,
-    })
 }
 
 /// Sides of a bore polygon whose sagitta stays within `tol` (at least 24).

@@ -63,7 +63,7 @@ pub struct StationStacking {
     pub rule: Stacking,
     /// The stacking point in the station's section frame (unit chord, leading edge at
     /// the origin, see [`crate::conventions`]).
-    pub point: [f64; 2],
+    pub point: Point2<f64>,
 }
 
 /// Where the stacking axis passes through every section of a blade.
@@ -169,7 +169,7 @@ impl StackLine {
             stations.push(StationStacking {
                 radius: radii[i],
                 rule,
-                point: [point.x, point.y],
+                point,
             });
         }
         let fraction = match chord.as_slice() {

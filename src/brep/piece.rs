@@ -117,7 +117,7 @@ impl PieceSpec {
         let Some(root) = root else {
             return spec;
         };
-        let centre = root.centre.unwrap_or([0.0, 0.0]);
+        let centre = root.centre.map_or([0.0, 0.0], |p| [p.x, p.y]);
         spec.flange = root.flange.as_ref().map(|f| Flange {
             centre,
             diameter: f.diameter,

@@ -160,78 +160,51 @@ fn list<T>(
     Ok(())
 }
 
-fn plural(n: usize, one: &'static str, many: &'static str) -> &'static str {
-    if n == 1 {
-        one
-    } else {
-        many
-    }
-}
-
 impl fmt::Display for Finding {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        const VERTEX: (&str, &str) = ("vertex", "vertices");
+        const TRIANGLE: (&str, &str) = ("triangle", "triangles");
         match self {
             Finding::Empty => f.write_str("broken: the mesh has no triangles"),
             Finding::NonFinite(l) => {
-                write!(
-                    f,
-                    "broken: {} {} with a NaN or infinite coordinate: ",
-                    l.count,
-                    plural(l.count, "vertex", "vertices")
-                )?;
+                counted(f, "broken: ", l.count, VERTEX)?;
+                f.write_str(" with a NaN or infinite coordinate: ")?;
                 list(f, l, ", ", |f, v| write!(f, "{v}"))
             }
             Finding::IndexOutOfRange {
                 vertex_count,
                 triangles,
             } => {
+                counted(f, "broken: ", triangles.count, TRIANGLE)?;
                 write!(
                     f,
-                    "broken: {} {} name a vertex index >= {vertex_count} (the vertex count): ",
-                    triangles.count,
-                    plural(triangles.count, "triangle", "triangles")
+                    " name a vertex index >= {vertex_count} (the vertex count): "
                 )?;
                 list(f, triangles, ", ", |f, t| write!(f, "{t}"))
             }
             Finding::RepeatedIndex(l) => {
-                write!(
-                    f,
-                    "broken: {} {} name the same vertex twice (drop them, e.g. with check::weld): ",
-                    l.count,
-                    plural(l.count, "triangle", "triangles")
-                )?;
+                counted(f, "broken: ", l.count, TRIANGLE)?;
+                f.write_str(" name the same vertex twice (drop them, e.g. with check::weld): ")?;
                 list(f, l, ", ", |f, t| write!(f, "{t}"))
             }
             Finding::OverusedEdges(l) => {
-                write!(
-                    f,
-                    "non-manifold: {} {} used by more than two triangles: ",
-                    l.count,
-                    plural(l.count, "edge", "edges")
-                )?;
+                counted(f, "non-manifold: ", l.count, ("edge", "edges"))?;
+                f.write_str(" used by more than two triangles: ")?;
                 list(f, l, "; ", |f, e| {
                     write!(f, "edge ({}, {}) by triangles ", e.edge[0], e.edge[1])?;
                     join(f, &e.triangles)
                 })
             }
             Finding::NonManifoldVertices(l) => {
-                write!(
-                    f,
-                    "non-manifold: {} {} where separate fans of triangles meet at one point: ",
-                    l.count,
-                    plural(l.count, "vertex", "vertices")
-                )?;
+                counted(f, "non-manifold: ", l.count, VERTEX)?;
+                f.write_str(" where separate fans of triangles meet at one point: ")?;
                 list(f, l, "; ", |f, v| {
                     write!(f, "vertex {} joins {} fans", v.vertex, v.fans)
                 })
             }
             Finding::SameDirection(l) => {
-                write!(
-                    f,
-                    "inconsistent orientation: {} {} of neighbours run their shared edge the same way (neighbours must run it in opposite directions; reverse the wrong triangle): ",
-                    l.count,
-                    plural(l.count, "pair", "pairs")
-                )?;
+                counted(f, "inconsistent orientation: ", l.count, ("pair", "pairs"))?;
+                f.write_str(" of neighbours run their shared edge the same way (neighbours must run it in opposite directions; reverse the wrong triangle): ")?;
                 list(f, l, "; ", |f, e| {
                     write!(f, "triangles ")?;
                     join(f, &e.triangles)?;
@@ -239,12 +212,8 @@ impl fmt::Display for Finding {
                 })
             }
             Finding::BoundaryEdges(l) => {
-                write!(
-                    f,
-                    "open: {} boundary {} used by one triangle only (close the hole, or weld coincident vertices with check::weld): ",
-                    l.count,
-                    plural(l.count, "edge", "edges")
-                )?;
+                counted(f, "open: ", l.count, ("boundary edge", "boundary edges"))?;
+                f.write_str(" used by one triangle only (close the hole, or weld coincident vertices with check::weld): ")?;
                 list(f, l, "; ", |f, e| {
                     write!(f, "edge {} -> {} of triangle ", e.edge[0], e.edge[1])?;
                     join(f, &e.triangles)
@@ -254,11 +223,10 @@ impl fmt::Display for Finding {
                 threshold,
                 triangles,
             } => {
+                counted(f, "degenerate: ", triangles.count, TRIANGLE)?;
                 write!(
                     f,
-                    "degenerate: {} {} with area below {threshold:.3e} mm² (collinear or coincident corners): ",
-                    triangles.count,
-                    plural(triangles.count, "triangle", "triangles")
+                    " with area below {threshold:.3e} mm² (collinear or coincident corners): "
                 )?;
                 list(f, triangles, ", ", |f, t| write!(f, "{t}"))
             }
@@ -283,16 +251,27 @@ impl fmt::Display for Finding {
                 "genus {genus} (through-holes), expected {expected}"
             ),
             Finding::SelfIntersection(l) => {
-                write!(
+                counted(
                     f,
-                    "self-intersection: {} triangle {} cross or touch away from shared edges and vertices: ",
+                    "self-intersection: ",
                     l.count,
-                    plural(l.count, "pair", "pairs")
+                    ("triangle pair", "triangle pairs"),
                 )?;
+                f.write_str(" cross or touch away from shared edges and vertices: ")?;
                 list(f, l, ", ", |f, p| write!(f, "({}, {})", p[0], p[1]))
             }
         }
     }
+}
+
+/// Writes `<prefix><count> <noun>`, the noun singular (`one`) or plural (`many`).
+fn counted(
+    f: &mut fmt::Formatter<'_>,
+    prefix: &str,
+    count: usize,
+    (one, many): (&str, &str),
+) -> fmt::Result {
+    write!(f, "{prefix}{count} {}", if count == 1 { one } else { many })
 }
 
 /// Writes "a", "a and b" or "a, b and c".

@@ -61,174 +61,230 @@ use crate::mesh::TriMesh;
 /// consistently oriented), components, genus, and the self-intersection test (when
 /// [`CheckOptions::self_intersection`] is set; degenerate triangles are left out of it).
 pub fn check_solid(mesh: &TriMesh, opts: &CheckOptions) -> CheckReport {
-    let cap = opts.max_listed;
-    let nv = mesh.vertices.len();
-    let mut findings = Vec::new();
-    let mut report = CheckReport {
-        grade: Grade::Solid,
-        triangles: mesh.triangles.len(),
-        vertices: 0,
-        edges: 0,
-        euler: 0,
-        components: 0,
-        genus: None,
-        volume: 0.0,
-        area: 0.0,
-        self_intersection_tested: false,
-        findings: Vec::new(),
-    };
-    if mesh.triangles.is_empty() {
-        findings.push(Finding::Empty);
-    }
-
-    // Indices, repeated indices, coordinates.
-    let mut out_of_range = Listed::new();
-    let mut repeated = Listed::new();
-    let mut valid = vec![false; mesh.triangles.len()];
-    for (t, tri) in mesh.triangles.iter().enumerate() {
-        if tri.iter().any(|&i| i as usize >= nv) {
-            out_of_range.push(t, cap);
-        } else if tri[0] == tri[1] || tri[1] == tri[2] || tri[0] == tri[2] {
-            repeated.push(t, cap);
-        } else {
-            valid[t] = true;
-        }
-    }
-    let mut non_finite = Listed::new();
-    for (i, p) in mesh.vertices.iter().enumerate() {
-        if !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite()) {
-            non_finite.push(i as u32, cap);
-        }
-    }
-    let broken = !out_of_range.is_empty() || !non_finite.is_empty();
-    if !non_finite.is_empty() {
-        findings.push(Finding::NonFinite(non_finite));
-    }
-    if !out_of_range.is_empty() {
-        findings.push(Finding::IndexOutOfRange {
-            vertex_count: nv,
-            triangles: out_of_range,
-        });
-    }
-    if !repeated.is_empty() {
-        findings.push(Finding::RepeatedIndex(repeated));
-    }
+    let mut run = Checking::new(mesh, opts);
+    let valid = run.indices();
     let comps = components(mesh);
-    report.components = comps.len();
-    if broken {
-        return finish(report, findings);
-    }
-
-    // Edge use, orientation, fans, Euler characteristic.
+    run.report.components = comps.len();
+    let Some(valid) = valid else {
+        return run.finish();
+    };
     let use_tri: Vec<u32> = (0..mesh.triangles.len() as u32)
         .filter(|&t| valid[t as usize])
         .collect();
-    let topo = topology::analyse(&mesh.triangles, &use_tri, nv, cap);
-    report.vertices = topo.vertices;
-    report.edges = topo.edges;
-    report.euler = topo.euler();
-    let closed = topo.closed_manifold();
-    let oriented = topo.same_direction.is_empty();
-    if !topo.overused.is_empty() {
-        findings.push(Finding::OverusedEdges(topo.overused.clone()));
+    let (closed, oriented) = run.topology(&use_tri);
+    let (diag, active) = run.degenerate(&use_tri, valid);
+    run.volume(&use_tri, diag, closed && oriented);
+    run.components_and_genus(&comps, closed);
+    if opts.self_intersection {
+        run.self_intersection(&active);
     }
-    if !topo.fans.is_empty() {
-        findings.push(Finding::NonManifoldVertices(topo.fans.clone()));
-    }
-    if !oriented {
-        findings.push(Finding::SameDirection(topo.same_direction.clone()));
-    }
-    if !topo.boundary.is_empty() {
-        findings.push(Finding::BoundaryEdges(topo.boundary.clone()));
-    }
+    run.finish()
+}
 
-    // Degenerate triangles, relative to the size of the mesh.
-    let diag = mesh.bounding_box().map(|b| b.size().norm()).unwrap_or(0.0);
-    let threshold = opts.degenerate_area * diag * diag;
-    let mut degenerate = Listed::new();
-    let mut active = valid.clone();
-    let mut area = 0.0;
-    for &t in &use_tri {
-        let a = 0.5 * mesh.scaled_normal(t as usize).norm();
-        area += a;
-        if a.is_nan() || a <= threshold {
-            degenerate.push(t as usize, cap);
-            active[t as usize] = false;
+/// A check in progress: the report filled in step by step and the findings so far.
+struct Checking<'a> {
+    mesh: &'a TriMesh,
+    opts: &'a CheckOptions,
+    report: CheckReport,
+    findings: Vec<Finding>,
+}
+
+impl<'a> Checking<'a> {
+    fn new(mesh: &'a TriMesh, opts: &'a CheckOptions) -> Self {
+        let mut findings = Vec::new();
+        if mesh.triangles.is_empty() {
+            findings.push(Finding::Empty);
+        }
+        Checking {
+            mesh,
+            opts,
+            report: CheckReport {
+                grade: Grade::Solid,
+                triangles: mesh.triangles.len(),
+                vertices: 0,
+                edges: 0,
+                euler: 0,
+                components: 0,
+                genus: None,
+                volume: 0.0,
+                area: 0.0,
+                self_intersection_tested: false,
+                findings: Vec::new(),
+            },
+            findings,
         }
     }
-    report.area = area;
-    if !degenerate.is_empty() {
-        findings.push(Finding::Degenerate {
-            threshold,
-            triangles: degenerate,
-        });
-    }
 
-    // Volume, about the box centre for precision far from the origin.
-    let centre = mesh
-        .bounding_box()
-        .map(|b| nalgebra::center(&b.min, &b.max))
-        .unwrap_or_else(nalgebra::Point3::origin);
-    report.volume = use_tri
-        .iter()
-        .map(|&t| {
-            let [a, b, c] = mesh.corners(t as usize).map(|p| p - centre);
-            a.dot(&b.cross(&c))
-        })
-        .sum::<f64>()
-        / 6.0;
-    if closed && oriented {
-        // Zero within the rounding of the sum: |V| below 1e-12 of the box volume scale.
-        if report.volume.abs() <= 1e-12 * diag * diag * diag {
-            findings.push(Finding::ZeroVolume {
-                volume: report.volume,
+    /// Indices, repeated indices, coordinates. Returns which triangles are valid, or
+    /// `None` when the mesh is broken (an index out of range or a non-finite vertex).
+    fn indices(&mut self) -> Option<Vec<bool>> {
+        let (mesh, cap) = (self.mesh, self.opts.max_listed);
+        let nv = mesh.vertices.len();
+        let mut out_of_range = Listed::new();
+        let mut repeated = Listed::new();
+        let mut valid = vec![false; mesh.triangles.len()];
+        for (t, tri) in mesh.triangles.iter().enumerate() {
+            if tri.iter().any(|&i| i as usize >= nv) {
+                out_of_range.push(t, cap);
+            } else if tri[0] == tri[1] || tri[1] == tri[2] || tri[0] == tri[2] {
+                repeated.push(t, cap);
+            } else {
+                valid[t] = true;
+            }
+        }
+        let mut non_finite = Listed::new();
+        for (i, p) in mesh.vertices.iter().enumerate() {
+            if !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite()) {
+                non_finite.push(i as u32, cap);
+            }
+        }
+        let broken = !out_of_range.is_empty() || !non_finite.is_empty();
+        if !non_finite.is_empty() {
+            self.findings.push(Finding::NonFinite(non_finite));
+        }
+        if !out_of_range.is_empty() {
+            self.findings.push(Finding::IndexOutOfRange {
+                vertex_count: nv,
+                triangles: out_of_range,
             });
-        } else if report.volume < 0.0 {
-            findings.push(Finding::InsideOut {
-                volume: report.volume,
+        }
+        if !repeated.is_empty() {
+            self.findings.push(Finding::RepeatedIndex(repeated));
+        }
+        (!broken).then_some(valid)
+    }
+
+    /// Edge use, orientation, fans, Euler characteristic. Returns (closed manifold,
+    /// consistently oriented).
+    fn topology(&mut self, use_tri: &[u32]) -> (bool, bool) {
+        let mesh = self.mesh;
+        let topo = topology::analyse(
+            &mesh.triangles,
+            use_tri,
+            mesh.vertices.len(),
+            self.opts.max_listed,
+        );
+        self.report.vertices = topo.vertices;
+        self.report.edges = topo.edges;
+        self.report.euler = topo.euler();
+        let closed = topo.closed_manifold();
+        let oriented = topo.same_direction.is_empty();
+        if !topo.overused.is_empty() {
+            self.findings
+                .push(Finding::OverusedEdges(topo.overused.clone()));
+        }
+        if !topo.fans.is_empty() {
+            self.findings
+                .push(Finding::NonManifoldVertices(topo.fans.clone()));
+        }
+        if !oriented {
+            self.findings
+                .push(Finding::SameDirection(topo.same_direction.clone()));
+        }
+        if !topo.boundary.is_empty() {
+            self.findings
+                .push(Finding::BoundaryEdges(topo.boundary.clone()));
+        }
+        (closed, oriented)
+    }
+
+    /// Degenerate triangles, relative to the size of the mesh, and the surface area.
+    /// Returns the box diagonal and the triangles left for the self-intersection test.
+    fn degenerate(&mut self, use_tri: &[u32], valid: Vec<bool>) -> (f64, Vec<bool>) {
+        let mesh = self.mesh;
+        let diag = mesh.bounding_box().map(|b| b.size().norm()).unwrap_or(0.0);
+        let threshold = self.opts.degenerate_area * diag * diag;
+        let mut degenerate = Listed::new();
+        let mut active = valid;
+        let mut area = 0.0;
+        for &t in use_tri {
+            let a = 0.5 * mesh.scaled_normal(t as usize).norm();
+            area += a;
+            if a.is_nan() || a <= threshold {
+                degenerate.push(t as usize, self.opts.max_listed);
+                active[t as usize] = false;
+            }
+        }
+        self.report.area = area;
+        if !degenerate.is_empty() {
+            self.findings.push(Finding::Degenerate {
+                threshold,
+                triangles: degenerate,
             });
+        }
+        (diag, active)
+    }
+
+    /// Volume, about the box centre for precision far from the origin; judged only
+    /// when the mesh is `closed_and_oriented`.
+    fn volume(&mut self, use_tri: &[u32], diag: f64, closed_and_oriented: bool) {
+        let mesh = self.mesh;
+        let centre = mesh
+            .bounding_box()
+            .map(|b| nalgebra::center(&b.min, &b.max))
+            .unwrap_or_else(nalgebra::Point3::origin);
+        let volume = use_tri
+            .iter()
+            .map(|&t| {
+                let [a, b, c] = mesh.corners(t as usize).map(|p| p - centre);
+                a.dot(&b.cross(&c))
+            })
+            .sum::<f64>()
+            / 6.0;
+        self.report.volume = volume;
+        if closed_and_oriented {
+            // Zero within the rounding of the sum: |V| below 1e-12 of the box volume scale.
+            if volume.abs() <= 1e-12 * diag * diag * diag {
+                self.findings.push(Finding::ZeroVolume { volume });
+            } else if volume < 0.0 {
+                self.findings.push(Finding::InsideOut { volume });
+            }
         }
     }
 
-    // Components and genus.
-    if report.components > 1 {
-        let mut sizes = Listed::new();
-        for c in &comps {
-            sizes.push(c.len(), cap);
+    /// Components (one expected) and, when closed, the genus against the expected one.
+    fn components_and_genus(&mut self, comps: &[Vec<usize>], closed: bool) {
+        let report = &mut self.report;
+        if report.components > 1 {
+            let mut sizes = Listed::new();
+            for c in comps {
+                sizes.push(c.len(), self.opts.max_listed);
+            }
+            self.findings.push(Finding::Components { sizes });
         }
-        findings.push(Finding::Components { sizes });
-    }
-    if closed {
-        let twice_genus = 2 * report.components as i64 - report.euler;
-        if twice_genus >= 0 && twice_genus % 2 == 0 {
-            let genus = (twice_genus / 2) as u32;
-            report.genus = Some(genus);
-            if let Some(expected) = opts.expected_genus {
-                if genus != expected {
-                    findings.push(Finding::Genus { genus, expected });
+        if closed {
+            let twice_genus = 2 * report.components as i64 - report.euler;
+            if twice_genus >= 0 && twice_genus % 2 == 0 {
+                let genus = (twice_genus / 2) as u32;
+                report.genus = Some(genus);
+                if let Some(expected) = self.opts.expected_genus {
+                    if genus != expected {
+                        self.findings.push(Finding::Genus { genus, expected });
+                    }
                 }
             }
         }
     }
 
-    if opts.self_intersection {
-        report.self_intersection_tested = true;
-        let pairs = intersections::self_intersections(mesh, &active);
+    /// Pairs of `active` triangles that meet where they should not.
+    fn self_intersection(&mut self, active: &[bool]) {
+        self.report.self_intersection_tested = true;
+        let pairs = intersections::self_intersections(self.mesh, active);
         if !pairs.is_empty() {
             let mut l = Listed::new();
             for p in pairs {
-                l.push(p, cap);
+                l.push(p, self.opts.max_listed);
             }
-            findings.push(Finding::SelfIntersection(l));
+            self.findings.push(Finding::SelfIntersection(l));
         }
     }
-    finish(report, findings)
-}
 
-/// Sorts the findings worst first and sets the grade.
-fn finish(mut report: CheckReport, mut findings: Vec<Finding>) -> CheckReport {
-    findings.sort_by_key(|f| f.grade());
-    report.grade = findings.first().map_or(Grade::Solid, |f| f.grade());
-    report.findings = findings;
-    report
+    /// Sorts the findings worst first and sets the grade.
+    fn finish(self) -> CheckReport {
+        let (mut report, mut findings) = (self.report, self.findings);
+        findings.sort_by_key(|f| f.grade());
+        report.grade = findings.first().map_or(Grade::Solid, |f| f.grade());
+        report.findings = findings;
+        report
+    }
 }

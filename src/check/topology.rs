@@ -37,7 +37,19 @@ impl Topology {
 /// Analyses `triangles[t]` for the `t` in `use_tri` (indices already known to be in range
 /// and distinct within each triangle). `nv` is the vertex count, `cap` the list cap.
 pub(crate) fn analyse(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize, cap: usize) -> Topology {
-    // One record per directed edge: (undirected key, triangle, slot k of edge k -> k+1).
+    let mut topo = Topology {
+        faces: use_tri.len(),
+        ..Topology::default()
+    };
+    let mut corners = topo.edges_of(triangles, &directed_edges(triangles, use_tri), cap);
+    topo.fans_of(triangles, use_tri, &mut corners, cap);
+    debug_assert!(topo.vertices <= nv);
+    topo
+}
+
+/// One record per directed edge: (undirected key, triangle, slot k of edge k -> k+1),
+/// sorted so the uses of one edge stand together.
+fn directed_edges(triangles: &[[u32; 3]], use_tri: &[u32]) -> Vec<(u64, u32, u8)> {
     let mut rec: Vec<(u64, u32, u8)> = Vec::with_capacity(use_tri.len() * 3);
     for &t in use_tri {
         let tri = triangles[t as usize];
@@ -48,100 +60,112 @@ pub(crate) fn analyse(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize, cap: u
         }
     }
     rec.sort_unstable();
+    rec
+}
 
-    let mut topo = Topology {
-        faces: use_tri.len(),
-        ..Topology::default()
-    };
-    // Corners (3 t + k) joined across each edge used exactly twice: the corners of one
-    // vertex that end in the same set form one fan.
-    let mut corners = Dsu::new(triangles.len() * 3);
-    let directed = |t: u32, k: u8| {
-        let tri = triangles[t as usize];
-        [tri[k as usize], tri[(k as usize + 1) % 3]]
-    };
+/// The runs of equal keys in a sorted list, as index ranges.
+fn runs<'a, T, K: PartialEq + 'a>(
+    sorted: &'a [T],
+    key: impl Fn(&T) -> K + 'a,
+) -> impl Iterator<Item = std::ops::Range<usize>> + 'a {
     let mut i = 0;
-    while i < rec.len() {
+    std::iter::from_fn(move || {
+        if i >= sorted.len() {
+            return None;
+        }
         let mut j = i + 1;
-        while j < rec.len() && rec[j].0 == rec[i].0 {
+        while j < sorted.len() && key(&sorted[j]) == key(&sorted[i]) {
             j += 1;
         }
-        topo.edges += 1;
-        let group = &rec[i..j];
-        match group.len() {
-            1 => {
-                let (_, t, k) = group[0];
-                topo.boundary.push(
-                    EdgeUse {
-                        edge: directed(t, k),
-                        triangles: vec![t as usize],
-                    },
-                    cap,
-                );
-            }
-            2 => {
-                let (_, t1, k1) = group[0];
-                let (_, t2, k2) = group[1];
-                let (e1, e2) = (directed(t1, k1), directed(t2, k2));
-                if e1 == e2 {
-                    topo.same_direction.push(
+        let run = i..j;
+        i = j;
+        Some(run)
+    })
+}
+
+impl Topology {
+    /// Counts the edges and lists those used once, more than twice, or twice in the
+    /// same direction. Returns the corners (3 t + k) joined across each edge used
+    /// exactly twice: the corners of one vertex that end in the same set form one fan.
+    fn edges_of(&mut self, triangles: &[[u32; 3]], rec: &[(u64, u32, u8)], cap: usize) -> Dsu {
+        let mut corners = Dsu::new(triangles.len() * 3);
+        let directed = |t: u32, k: u8| {
+            let tri = triangles[t as usize];
+            [tri[k as usize], tri[(k as usize + 1) % 3]]
+        };
+        for run in runs(rec, |r| r.0) {
+            self.edges += 1;
+            let group = &rec[run];
+            match group.len() {
+                1 => {
+                    let (_, t, k) = group[0];
+                    self.boundary.push(
                         EdgeUse {
-                            edge: e1,
-                            triangles: vec![t1 as usize, t2 as usize],
+                            edge: directed(t, k),
+                            triangles: vec![t as usize],
                         },
                         cap,
                     );
                 }
-                for v in e1 {
-                    let c1 = corner(triangles, t1, v);
-                    let c2 = corner(triangles, t2, v);
-                    corners.union(c1, c2);
+                2 => {
+                    let (_, t1, k1) = group[0];
+                    let (_, t2, k2) = group[1];
+                    let (e1, e2) = (directed(t1, k1), directed(t2, k2));
+                    if e1 == e2 {
+                        self.same_direction.push(
+                            EdgeUse {
+                                edge: e1,
+                                triangles: vec![t1 as usize, t2 as usize],
+                            },
+                            cap,
+                        );
+                    }
+                    for v in e1 {
+                        let c1 = corner(triangles, t1, v);
+                        let c2 = corner(triangles, t2, v);
+                        corners.union(c1, c2);
+                    }
+                }
+                _ => {
+                    let key = group[0].0;
+                    self.overused.push(
+                        EdgeUse {
+                            edge: [(key >> 32) as u32, key as u32],
+                            triangles: group.iter().map(|r| r.1 as usize).collect(),
+                        },
+                        cap,
+                    );
                 }
             }
-            _ => {
-                let key = group[0].0;
-                topo.overused.push(
-                    EdgeUse {
-                        edge: [(key >> 32) as u32, key as u32],
-                        triangles: group.iter().map(|r| r.1 as usize).collect(),
+        }
+        corners
+    }
+
+    /// Counts the vertices and lists those with more than one fan: distinct corner sets
+    /// among the vertex's corners.
+    fn fans_of(&mut self, triangles: &[[u32; 3]], use_tri: &[u32], corners: &mut Dsu, cap: usize) {
+        let mut vc: Vec<(u32, u32)> = Vec::with_capacity(use_tri.len() * 3);
+        for &t in use_tri {
+            for k in 0..3 {
+                let c = 3 * t + k;
+                vc.push((triangles[t as usize][k as usize], corners.find(c)));
+            }
+        }
+        vc.sort_unstable();
+        vc.dedup();
+        for run in runs(&vc, |x| x.0) {
+            self.vertices += 1;
+            if run.len() > 1 {
+                self.fans.push(
+                    VertexFans {
+                        vertex: vc[run.start].0,
+                        fans: run.len(),
                     },
                     cap,
                 );
             }
         }
-        i = j;
     }
-
-    // Fans per vertex: distinct corner sets among the vertex's corners.
-    let mut vc: Vec<(u32, u32)> = Vec::with_capacity(use_tri.len() * 3);
-    for &t in use_tri {
-        for k in 0..3 {
-            let c = 3 * t + k;
-            vc.push((triangles[t as usize][k as usize], corners.find(c)));
-        }
-    }
-    vc.sort_unstable();
-    vc.dedup();
-    let mut i = 0;
-    while i < vc.len() {
-        let mut j = i + 1;
-        while j < vc.len() && vc[j].0 == vc[i].0 {
-            j += 1;
-        }
-        topo.vertices += 1;
-        if j - i > 1 {
-            topo.fans.push(
-                VertexFans {
-                    vertex: vc[i].0,
-                    fans: j - i,
-                },
-                cap,
-            );
-        }
-        i = j;
-    }
-    debug_assert!(topo.vertices <= nv);
-    topo
 }
 
 /// The corner id (3 t + k) of vertex `v` in triangle `t`.

@@ -170,142 +170,144 @@ impl DraftSpec {
 
     /// Every problem with the values, all at once (empty when the spec is usable).
     pub fn problems(&self) -> Vec<BadValue> {
-        let mut out = Vec::new();
-        let mut bad = |key: &str, value: String, message: String| {
-            out.push(BadValue {
-                key: key.to_owned(),
-                value,
-                message,
-            })
-        };
+        let mut out = Problems(Vec::new());
+        self.size_problems(&mut out);
+        self.design_point_problems(&mut out);
+        if !(2..=10_000).contains(&self.stations) {
+            out.bad(
+                "stations",
+                self.stations.to_string(),
+                "must be between 2 and 10000",
+            );
+        }
+        self.linear_problems(&mut out);
+        if let Some(v) = self.wind_speed {
+            out.positive("wind_speed", v, "must be a positive speed in m/s");
+        }
+        if self.section.trim().is_empty() || self.section.contains(['\n', '\r']) {
+            out.bad(
+                "section",
+                format!("{:?}", self.section),
+                "must name a section, e.g. naca4412",
+            );
+        }
+        if let Some(ld) = self.lift_drag {
+            out.positive("lift_drag", ld, "must be a positive ratio Cl/Cd, e.g. 50");
+        }
+        if let Some(m) = self.min_chord {
+            out.positive(
+                "min_chord",
+                m,
+                "must be a positive length in mm (a zero chord cannot be built)",
+            );
+        }
+        out.0
+    }
+
+    /// The name, the radii and the blade count.
+    fn size_problems(&self, out: &mut Problems) {
         if self.name.trim().is_empty() || self.name.contains(['/', '\\']) {
-            bad(
+            out.bad(
                 "name",
                 format!("{:?}", self.name),
-                "must be a plain, non-empty file name (it names the output file)".into(),
+                "must be a plain, non-empty file name (it names the output file)",
             );
         }
-        let r = self.tip_radius;
-        if !(r.is_finite() && r > 0.0) {
-            bad(
-                "tip_radius",
-                r.to_string(),
-                "must be a positive length in mm, e.g. 600".into(),
-            );
-        }
-        let h = self.hub_radius;
+        let (r, h) = (self.tip_radius, self.hub_radius);
+        out.positive("tip_radius", r, "must be a positive length in mm, e.g. 600");
         if !(h.is_finite() && h > 0.0) {
-            bad(
-                "hub_radius",
-                h.to_string(),
-                "must be a positive length in mm (the blade root sits on a hub), e.g. 10 to 20 % of the tip radius".into(),
-            );
+            out.bad("hub_radius", h.to_string(), "must be a positive length in mm (the blade root sits on a hub), e.g. 10 to 20 % of the tip radius");
         } else if r.is_finite() && h >= r {
-            bad(
+            out.bad(
                 "hub_radius",
                 h.to_string(),
                 format!("must be below the tip radius ({r} mm)"),
             );
         }
         if self.blades == 0 {
-            bad("blades", "0".into(), "needs at least 1 blade".into());
+            out.bad("blades", "0".into(), "needs at least 1 blade");
         }
-        let l = self.tip_speed_ratio;
-        if !(l.is_finite() && l > 0.0) {
-            bad(
-                "tip_speed_ratio",
-                l.to_string(),
-                "must be positive; small wind turbines commonly use 4 to 8".into(),
-            );
-        }
+    }
+
+    /// The design point: tip speed ratio, lift coefficient, angles of attack.
+    fn design_point_problems(&self, out: &mut Problems) {
+        out.positive(
+            "tip_speed_ratio",
+            self.tip_speed_ratio,
+            "must be positive; small wind turbines commonly use 4 to 8",
+        );
         let cl = self.design_cl;
         if !(cl.is_finite() && cl > 0.0 && cl <= 3.0) {
-            bad(
+            out.bad(
                 "design_cl",
                 cl.to_string(),
-                "must be above 0 and at most 3; take the lift coefficient at the best lift-to-drag ratio of the section's polar (often 0.8 to 1.2)".into(),
+                "must be above 0 and at most 3; take the lift coefficient at the best lift-to-drag ratio of the section's polar (often 0.8 to 1.2)",
             );
         }
         let a = self.design_alpha;
         if !(a.is_finite() && a > -20.0 && a < 30.0) {
-            bad(
+            out.bad(
                 "design_alpha",
                 a.to_string(),
-                "must be an angle of attack in degrees between -20 and 30, from the section's polar".into(),
+                "must be an angle of attack in degrees between -20 and 30, from the section's polar",
             );
         }
         let s = self.stall_alpha;
         if !(s.is_finite() && s > 0.0 && s < 45.0) {
-            bad(
+            out.bad(
                 "stall_alpha",
                 s.to_string(),
-                "must be an angle in degrees between 0 and 45".into(),
+                "must be an angle in degrees between 0 and 45",
             );
         }
-        if !(2..=10_000).contains(&self.stations) {
-            bad(
-                "stations",
-                self.stations.to_string(),
-                "must be between 2 and 10000".into(),
+    }
+
+    /// The linearisation range: fractions in order, outside the hub.
+    fn linear_problems(&self, out: &mut Problems) {
+        let Some(range) = self.linear else {
+            return;
+        };
+        let (r, h) = (self.tip_radius, self.hub_radius);
+        let ok = range.from.is_finite()
+            && range.to.is_finite()
+            && range.from < range.to
+            && range.to <= 1.0;
+        if !ok {
+            out.bad(
+                "linear",
+                format!("{}..{}", range.from, range.to),
+                "must be fractions of the tip radius with from < to <= 1, e.g. 0.5..0.9",
+            );
+        } else if r.is_finite() && r > 0.0 && h.is_finite() && range.from * r < h {
+            out.bad(
+                "linear",
+                format!("{}..{}", range.from, range.to),
+                format!(
+                    "starts inside the hub: from must be at least hub / tip = {:.3}",
+                    h / r
+                ),
             );
         }
-        if let Some(range) = self.linear {
-            let ok = range.from.is_finite()
-                && range.to.is_finite()
-                && range.from < range.to
-                && range.to <= 1.0;
-            if !ok {
-                bad(
-                    "linear",
-                    format!("{}..{}", range.from, range.to),
-                    "must be fractions of the tip radius with from < to <= 1, e.g. 0.5..0.9".into(),
-                );
-            } else if r.is_finite() && r > 0.0 && h.is_finite() && range.from * r < h {
-                bad(
-                    "linear",
-                    format!("{}..{}", range.from, range.to),
-                    format!(
-                        "starts inside the hub: from must be at least hub / tip = {:.3}",
-                        h / r
-                    ),
-                );
-            }
+    }
+}
+
+/// The problems found so far.
+struct Problems(Vec<BadValue>);
+
+impl Problems {
+    fn bad(&mut self, key: &str, value: String, message: impl Into<String>) {
+        self.0.push(BadValue {
+            key: key.to_owned(),
+            value,
+            message: message.into(),
+        });
+    }
+
+    /// A problem unless `v` is finite and positive.
+    fn positive(&mut self, key: &str, v: f64, message: &str) {
+        if !(v.is_finite() && v > 0.0) {
+            self.bad(key, v.to_string(), message);
         }
-        if let Some(v) = self.wind_speed {
-            if !(v.is_finite() && v > 0.0) {
-                bad(
-                    "wind_speed",
-                    v.to_string(),
-                    "must be a positive speed in m/s".into(),
-                );
-            }
-        }
-        if self.section.trim().is_empty() || self.section.contains(['\n', '\r']) {
-            bad(
-                "section",
-                format!("{:?}", self.section),
-                "must name a section, e.g. naca4412".into(),
-            );
-        }
-        if let Some(ld) = self.lift_drag {
-            if !(ld.is_finite() && ld > 0.0) {
-                bad(
-                    "lift_drag",
-                    ld.to_string(),
-                    "must be a positive ratio Cl/Cd, e.g. 50".into(),
-                );
-            }
-        }
-        if let Some(m) = self.min_chord {
-            if !(m.is_finite() && m > 0.0) {
-                bad(
-                    "min_chord",
-                    m.to_string(),
-                    "must be a positive length in mm (a zero chord cannot be built)".into(),
-                );
-            }
-        }
-        out
     }
 }
 

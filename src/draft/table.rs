@@ -215,49 +215,113 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
     if spec.flow == Flow::Propeller {
         return Err(DraftError::Propeller);
     }
-    let alpha_d = spec.design_alpha.to_radians();
     let radii = station_radii(
         spec.hub_radius,
         spec.tip_radius,
         spec.stations,
         spec.spacing,
     );
-
-    // Straight lines over the chosen range, fitted to uniform samples of the ideal blade.
-    let (chord_line, twist_line) = match spec.linear {
-        None => (None, None),
-        Some(range) => {
-            let (a, b) = (range.from * spec.tip_radius, range.to * spec.tip_radius);
-            let xs: Vec<f64> = (0..LINE_SAMPLES)
-                .map(|i| a + (b - a) * i as f64 / (LINE_SAMPLES - 1) as f64)
-                .collect();
-            let (mut cs, mut ts) = (Vec::new(), Vec::new());
-            for &x in &xs {
-                let (phi, c, _) = ideal(spec, x);
-                cs.push(c);
-                ts.push((phi - alpha_d).to_degrees());
-            }
-            let chord = Line::fit(&xs, &cs).ok_or(DraftError::NotFinite("chord line", a))?;
-            let twist = Line::fit(&xs, &ts).ok_or(DraftError::NotFinite("twist line", a))?;
-            (Some(chord), Some(twist))
-        }
-    };
-
+    let lines = Lines::fit(spec)?;
     let floor = spec.chord_floor();
+    let (stations, floored) = draft_stations(spec, &radii, &lines, floor)?;
+    let mut remarks = Vec::new();
+    let power_coefficient = ideal_power(spec, &mut remarks);
+    let blade_power_coefficient = blade_power(spec, &lines, floor, &mut remarks);
+    let (rpm, tip_speed) = match spec.wind_speed {
+        Some(v) => (
+            Some(rotor_rpm(spec.tip_speed_ratio, v, spec.tip_radius)),
+            Some(spec.tip_speed_ratio * v),
+        ),
+        None => (None, None),
+    };
+    remarks.extend(judge(spec, &stations, &floored, floor, rpm, tip_speed));
+    remarks.sort_by_key(|r| std::cmp::Reverse(r.severity));
+    Ok(DraftTable {
+        spec: spec.clone(),
+        stations,
+        power_coefficient,
+        blade_power_coefficient,
+        chord_line: lines.chord,
+        twist_line: lines.twist,
+        rpm,
+        tip_speed,
+        remarks,
+    })
+}
+
+/// The straight chord and twist lines, when linearised.
+struct Lines {
+    /// Chord, mm against radius in mm.
+    chord: Option<Line>,
+    /// Twist, degrees against radius in mm.
+    twist: Option<Line>,
+}
+
+impl Lines {
+    /// Straight lines over the chosen range, fitted to uniform samples of the ideal
+    /// blade.
+    fn fit(spec: &DraftSpec) -> Result<Lines, DraftError> {
+        let Some(range) = spec.linear else {
+            return Ok(Lines {
+                chord: None,
+                twist: None,
+            });
+        };
+        let alpha_d = spec.design_alpha.to_radians();
+        let (a, b) = (range.from * spec.tip_radius, range.to * spec.tip_radius);
+        let xs: Vec<f64> = (0..LINE_SAMPLES)
+            .map(|i| a + (b - a) * i as f64 / (LINE_SAMPLES - 1) as f64)
+            .collect();
+        let (mut cs, mut ts) = (Vec::new(), Vec::new());
+        for &x in &xs {
+            let (phi, c, _) = ideal(spec, x);
+            cs.push(c);
+            ts.push((phi - alpha_d).to_degrees());
+        }
+        let chord = Line::fit(&xs, &cs).ok_or(DraftError::NotFinite("chord line", a))?;
+        let twist = Line::fit(&xs, &ts).ok_or(DraftError::NotFinite("twist line", a))?;
+        Ok(Lines {
+            chord: Some(chord),
+            twist: Some(twist),
+        })
+    }
+
+    /// Chord at radius `r` before the floor: the line's, else the ideal one.
+    fn chord_at(&self, r: f64, ideal_chord: f64) -> f64 {
+        self.chord.map_or(ideal_chord, |l| l.at(r))
+    }
+
+    /// Twist at radius `r`, radians: the line's, else the flow angle `phi` less the
+    /// design angle of attack `alpha_d`.
+    fn twist_at(&self, r: f64, phi: f64, alpha_d: f64) -> f64 {
+        self.twist.map_or(phi - alpha_d, |l| l.at(r).to_radians())
+    }
+}
+
+/// The stations at `radii` and the indices of those whose chord was raised to the
+/// floor.
+///
+/// # Errors
+/// [`DraftError::NotFinite`], or [`DraftError::NonPositiveChord`] listing every station
+/// where the straight chord reaches zero.
+fn draft_stations(
+    spec: &DraftSpec,
+    radii: &[f64],
+    lines: &Lines,
+    floor: f64,
+) -> Result<(Vec<DraftStation>, Vec<usize>), DraftError> {
+    let alpha_d = spec.design_alpha.to_radians();
     let mut stations = Vec::with_capacity(radii.len());
     let mut floored = Vec::new();
     let mut non_positive = Vec::new();
     for (i, &r) in radii.iter().enumerate() {
         let (phi, ideal_chord, f) = ideal(spec, r);
-        let mut chord = chord_line.map_or(ideal_chord, |l| l.at(r));
-        let twist_rad = match twist_line {
-            Some(l) => l.at(r).to_radians(),
-            None => phi - alpha_d,
-        };
+        let mut chord = lines.chord_at(r, ideal_chord);
+        let twist_rad = lines.twist_at(r, phi, alpha_d);
         if !(chord.is_finite() && twist_rad.is_finite()) {
             return Err(DraftError::NotFinite("chord or twist", r));
         }
-        if chord_line.is_some() && chord <= 0.0 {
+        if lines.chord.is_some() && chord <= 0.0 {
             non_positive.push(i);
         }
         if chord < floor {
@@ -291,8 +355,12 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
                 .join(", "),
         });
     }
+    Ok((stations, floored))
+}
 
-    let mut remarks = Vec::new();
+/// Ideal power coefficient of the optimum rotor, clamped to the Betz limit (with a
+/// warning should rounding take it above).
+fn ideal_power(spec: &DraftSpec, remarks: &mut Vec<Remark>) -> f64 {
     let raw_cp = optimum::power_coefficient(
         spec.tip_speed_ratio,
         &PowerOptions {
@@ -303,7 +371,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
             panels: DEFAULT_PANELS,
         },
     );
-    let power_coefficient = if raw_cp > BETZ_LIMIT {
+    if raw_cp > BETZ_LIMIT {
         remarks.push(Remark::new(
             Severity::Warning,
             format!(
@@ -315,10 +383,13 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
         BETZ_LIMIT
     } else {
         raw_cp.max(0.0)
-    };
+    }
+}
 
-    // Rough BEM estimate of the blade as written (chord and twist between the stations
-    // follow the same rules as at them).
+/// Rough BEM estimate of the blade as written (chord and twist between the stations
+/// follow the same rules as at them), with a note when some annuli found no balance.
+fn blade_power(spec: &DraftSpec, lines: &Lines, floor: f64, remarks: &mut Vec<Remark>) -> f64 {
+    let alpha_d = spec.design_alpha.to_radians();
     let bem_input = bem::BemInput {
         blades: spec.blades,
         tip_radius: spec.tip_radius,
@@ -333,8 +404,8 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
     };
     let (blade_cp, failed) = bem::power_coefficient(&bem_input, |r| {
         let (phi, c, _) = ideal(spec, r);
-        let chord = chord_line.map_or(c, |l| l.at(r)).max(floor);
-        let twist = twist_line.map_or(phi - alpha_d, |l| l.at(r).to_radians());
+        let chord = lines.chord_at(r, c).max(floor);
+        let twist = lines.twist_at(r, phi, alpha_d);
         (chord, twist)
     });
     if failed > 0 {
@@ -347,29 +418,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
             ),
         ));
     }
-    let blade_power_coefficient = blade_cp.clamp(0.0, BETZ_LIMIT);
-
-    let (rpm, tip_speed) = match spec.wind_speed {
-        Some(v) => (
-            Some(rotor_rpm(spec.tip_speed_ratio, v, spec.tip_radius)),
-            Some(spec.tip_speed_ratio * v),
-        ),
-        None => (None, None),
-    };
-
-    remarks.extend(judge(spec, &stations, &floored, floor, rpm, tip_speed));
-    remarks.sort_by_key(|r| std::cmp::Reverse(r.severity));
-    Ok(DraftTable {
-        spec: spec.clone(),
-        stations,
-        power_coefficient,
-        blade_power_coefficient,
-        chord_line,
-        twist_line,
-        rpm,
-        tip_speed,
-        remarks,
-    })
+    blade_cp.clamp(0.0, BETZ_LIMIT)
 }
 
 /// Notes, cautions and warnings on a drafted blade.
@@ -381,6 +430,34 @@ fn judge(
     rpm: Option<f64>,
     tip_speed: Option<f64>,
 ) -> Vec<Remark> {
+    let mut out = design_point_remarks(spec);
+    out.extend(station_remarks(spec, stations));
+    if !floored.is_empty() {
+        out.push(Remark::at(
+            Severity::Note,
+            format!(
+                "chord raised to the floor {floor:.2} mm (tip loss or the straight line take it \
+                 lower); set `min_chord` to change"
+            ),
+            floored.to_vec(),
+        ));
+    }
+    if let (Some(n), Some(u)) = (rpm, tip_speed) {
+        out.extend(speed_remarks(spec, n, u));
+    }
+    out.push(Remark::new(
+        Severity::Caution,
+        "this is an aerodynamic draft, not a structural design. Spinning blades store energy \
+         and can break and throw parts; printed parts vary in strength with material, print \
+         orientation and layer bonding. Provide overspeed protection, keep people out of the \
+         plane of rotation, and follow local codes, the standards for small wind turbines \
+         (IEC 61400-2) and licensed engineering practice before anything spins",
+    ));
+    out
+}
+
+/// Remarks on the design point: tip speed ratio, lift coefficient, angle of attack.
+fn design_point_remarks(spec: &DraftSpec) -> Vec<Remark> {
     let mut out = Vec::new();
     let l = spec.tip_speed_ratio;
     if l < TSR_USUAL.0 || l > TSR_USUAL.1 {
@@ -422,6 +499,12 @@ fn judge(
             ),
         ));
     }
+    out
+}
+
+/// Remarks naming stations: overlapping blades, large twist, stall, little load.
+fn station_remarks(spec: &DraftSpec, stations: &[DraftStation]) -> Vec<Remark> {
+    let mut out = Vec::new();
     let pick = |test: &dyn Fn(&DraftStation) -> bool| -> Vec<usize> {
         stations
             .iter()
@@ -489,47 +572,32 @@ fn judge(
             negative,
         ));
     }
-    if !floored.is_empty() {
-        out.push(Remark::at(
-            Severity::Note,
-            format!(
-                "chord raised to the floor {floor:.2} mm (tip loss or the straight line take it \
-                 lower); set `min_chord` to change"
-            ),
-            floored.to_vec(),
-        ));
-    }
-    if let (Some(n), Some(u)) = (rpm, tip_speed) {
-        let v = spec.wind_speed.unwrap_or(0.0);
+    out
+}
+
+/// Cautions on the rotor speed `n` (rpm) and tip speed `u` (m/s) at the given wind.
+fn speed_remarks(spec: &DraftSpec, n: f64, u: f64) -> Vec<Remark> {
+    let v = spec.wind_speed.unwrap_or(0.0);
+    let mut out = vec![Remark::new(
+        Severity::Caution,
+        format!(
+            "at {v} m/s the rotor turns about {n:.0} rpm with a tip speed of {u:.1} m/s. A \
+             rotor that loses its load or meets a gust can overspeed, commonly to 1.5 to 2 \
+             times the design speed (common practice), i.e. {:.0} to {:.0} rpm; centrifugal \
+             loads grow with the square of speed",
+            1.5 * n,
+            2.0 * n
+        ),
+    )];
+    if u > TIP_SPEED_CAUTION {
         out.push(Remark::new(
             Severity::Caution,
             format!(
-                "at {v} m/s the rotor turns about {n:.0} rpm with a tip speed of {u:.1} m/s. A \
-                 rotor that loses its load or meets a gust can overspeed, commonly to 1.5 to 2 \
-                 times the design speed (common practice), i.e. {:.0} to {:.0} rpm; centrifugal \
-                 loads grow with the square of speed",
-                1.5 * n,
-                2.0 * n
+                "tip speed {u:.1} m/s is above {TIP_SPEED_CAUTION} m/s: noise, leading-edge \
+                 wear and blade loads rise quickly on small rotors (common practice)"
             ),
         ));
-        if u > TIP_SPEED_CAUTION {
-            out.push(Remark::new(
-                Severity::Caution,
-                format!(
-                    "tip speed {u:.1} m/s is above {TIP_SPEED_CAUTION} m/s: noise, leading-edge \
-                     wear and blade loads rise quickly on small rotors (common practice)"
-                ),
-            ));
-        }
     }
-    out.push(Remark::new(
-        Severity::Caution,
-        "this is an aerodynamic draft, not a structural design. Spinning blades store energy \
-         and can break and throw parts; printed parts vary in strength with material, print \
-         orientation and layer bonding. Provide overspeed protection, keep people out of the \
-         plane of rotation, and follow local codes, the standards for small wind turbines \
-         (IEC 61400-2) and licensed engineering practice before anything spins",
-    ));
     out
 }
 

@@ -1,13 +1,10 @@
 //! Planar convex hulls, the smallest enclosing circle, and the support subset of a
 //! point cloud in space.
 
-use nalgebra::{Point3, Vector3};
+use nalgebra::{Point2, Point3, Vector3};
 
-/// A point in the plane, mm.
-pub type P2 = [f64; 2];
-
-fn cross(o: P2, a: P2, b: P2) -> f64 {
-    (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0])
+fn cross(o: Point2<f64>, a: Point2<f64>, b: Point2<f64>) -> f64 {
+    (a.x - o.x) * (b.y - o.y) - (a.y - o.y) * (b.x - o.x)
 }
 
 /// Convex hull of planar points by Andrew's monotone chain (A. M. Andrew, "Another
@@ -15,21 +12,21 @@ fn cross(o: P2, a: P2, b: P2) -> f64 {
 /// Letters 9, 1979). Counter-clockwise, without repeated or collinear points; one or two
 /// points when the input is degenerate, none when it is empty. Non-finite points are
 /// skipped.
-pub fn convex_hull(points: &[P2]) -> Vec<P2> {
-    let mut pts: Vec<P2> = points
+pub fn convex_hull(points: &[Point2<f64>]) -> Vec<Point2<f64>> {
+    let mut pts: Vec<Point2<f64>> = points
         .iter()
         .copied()
-        .filter(|p| p[0].is_finite() && p[1].is_finite())
+        .filter(|p| p.x.is_finite() && p.y.is_finite())
         .collect();
-    pts.sort_by(|a, b| a[0].total_cmp(&b[0]).then(a[1].total_cmp(&b[1])));
+    pts.sort_by(|a, b| a.x.total_cmp(&b.x).then(a.y.total_cmp(&b.y)));
     pts.dedup();
     if pts.len() < 3 {
         return pts;
     }
-    let mut hull: Vec<P2> = Vec::with_capacity(2 * pts.len());
+    let mut hull: Vec<Point2<f64>> = Vec::with_capacity(2 * pts.len());
     for pass in 0..2 {
         let start = hull.len();
-        let iter: Box<dyn Iterator<Item = &P2>> = if pass == 0 {
+        let iter: Box<dyn Iterator<Item = &Point2<f64>>> = if pass == 0 {
             Box::new(pts.iter())
         } else {
             Box::new(pts.iter().rev())
@@ -52,12 +49,12 @@ pub fn convex_hull(points: &[P2]) -> Vec<P2> {
 }
 
 /// Area of a simple polygon by the shoelace formula, positive counter-clockwise, mm^2.
-pub fn area(poly: &[P2]) -> f64 {
+pub fn area(poly: &[Point2<f64>]) -> f64 {
     let n = poly.len();
     (0..n)
         .map(|i| {
             let (a, b) = (poly[i], poly[(i + 1) % n]);
-            a[0] * b[1] - a[1] * b[0]
+            a.x * b.y - a.y * b.x
         })
         .sum::<f64>()
         * 0.5
@@ -66,9 +63,9 @@ pub fn area(poly: &[P2]) -> f64 {
 /// Smallest circle enclosing the points: `(centre, radius)`, by Welzl's move-to-front
 /// algorithm (E. Welzl, "Smallest enclosing disks (balls and ellipsoids)", LNCS 555,
 /// 1991), on a fixed pseudo-random order so results are reproducible.
-pub fn enclosing_circle(points: &[P2]) -> (P2, f64) {
+pub fn enclosing_circle(points: &[Point2<f64>]) -> (Point2<f64>, f64) {
     if points.is_empty() {
-        return ([0.0, 0.0], 0.0);
+        return (Point2::origin(), 0.0);
     }
     let mut pts = points.to_vec();
     // Deterministic shuffle (linear congruential generator) for expected linear time.
@@ -81,8 +78,8 @@ pub fn enclosing_circle(points: &[P2]) -> (P2, f64) {
         pts.swap(i, j);
     }
     let eps = 1e-12;
-    let inside = |c: (P2, f64), p: P2| {
-        ((p[0] - c.0[0]).powi(2) + (p[1] - c.0[1]).powi(2)).sqrt() <= c.1 * (1.0 + eps) + eps
+    let inside = |c: (Point2<f64>, f64), p: Point2<f64>| {
+        ((p.x - c.0.x).powi(2) + (p.y - c.0.y).powi(2)).sqrt() <= c.1 * (1.0 + eps) + eps
     };
     let mut c = (pts[0], 0.0);
     for i in 1..pts.len() {
@@ -105,17 +102,14 @@ pub fn enclosing_circle(points: &[P2]) -> (P2, f64) {
     c
 }
 
-fn circle2(a: P2, b: P2) -> (P2, f64) {
-    let c = [0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1])];
-    (
-        c,
-        0.5 * ((a[0] - b[0]).powi(2) + (a[1] - b[1]).powi(2)).sqrt(),
-    )
+fn circle2(a: Point2<f64>, b: Point2<f64>) -> (Point2<f64>, f64) {
+    let c = Point2::new(0.5 * (a.x + b.x), 0.5 * (a.y + b.y));
+    (c, 0.5 * ((a.x - b.x).powi(2) + (a.y - b.y).powi(2)).sqrt())
 }
 
-fn circle3(a: P2, b: P2, c: P2) -> (P2, f64) {
-    let (bx, by) = (b[0] - a[0], b[1] - a[1]);
-    let (cx, cy) = (c[0] - a[0], c[1] - a[1]);
+fn circle3(a: Point2<f64>, b: Point2<f64>, c: Point2<f64>) -> (Point2<f64>, f64) {
+    let (bx, by) = (b.x - a.x, b.y - a.y);
+    let (cx, cy) = (c.x - a.x, c.y - a.y);
     let d = 2.0 * (bx * cy - by * cx);
     if d.abs() < 1e-300 {
         // Collinear: the circle on the farthest pair.
@@ -129,7 +123,7 @@ fn circle3(a: P2, b: P2, c: P2) -> (P2, f64) {
     let c2 = cx * cx + cy * cy;
     let ux = (cy * b2 - by * c2) / d;
     let uy = (bx * c2 - cx * b2) / d;
-    ([a[0] + ux, a[1] + uy], (ux * ux + uy * uy).sqrt())
+    (Point2::new(a.x + ux, a.y + uy), (ux * ux + uy * uy).sqrt())
 }
 
 /// Unit directions spread evenly over the sphere (Fibonacci lattice).
@@ -189,11 +183,15 @@ pub fn support_subset(vertices: &[Point3<f64>], count: usize) -> Vec<usize> {
 mod tests {
     use super::*;
 
+    fn pts(xy: &[[f64; 2]]) -> Vec<Point2<f64>> {
+        xy.iter().map(|&[x, y]| Point2::new(x, y)).collect()
+    }
+
     #[test]
     fn hull_of_square_with_inner_and_edge_points() {
         // Elementary geometry: the hull of a square's corners plus inner and edge points
         // is the square, area 4.
-        let pts = [
+        let pts = pts(&[
             [0.0, 0.0],
             [2.0, 0.0],
             [2.0, 2.0],
@@ -201,7 +199,7 @@ mod tests {
             [1.0, 1.0],
             [1.0, 0.0],
             [0.5, 1.5],
-        ];
+        ]);
         let h = convex_hull(&pts);
         assert_eq!(h.len(), 4);
         assert!((area(&h) - 4.0).abs() < 1e-12);
@@ -211,14 +209,12 @@ mod tests {
     fn circle_of_triangle_and_square() {
         // Elementary geometry: the smallest circle of a right triangle has the hypotenuse
         // as diameter; of a unit square, half its diagonal as radius.
-        let (c, r) = enclosing_circle(&[[0.0, 0.0], [4.0, 0.0], [0.0, 3.0], [1.0, 1.0]]);
-        assert!(
-            (r - 2.5).abs() < 1e-12 && (c[0] - 2.0).abs() < 1e-12 && (c[1] - 1.5).abs() < 1e-12
-        );
-        let (_, r) = enclosing_circle(&[[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]]);
+        let (c, r) = enclosing_circle(&pts(&[[0.0, 0.0], [4.0, 0.0], [0.0, 3.0], [1.0, 1.0]]));
+        assert!((r - 2.5).abs() < 1e-12 && (c.x - 2.0).abs() < 1e-12 && (c.y - 1.5).abs() < 1e-12);
+        let (_, r) = enclosing_circle(&pts(&[[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]]));
         assert!((r - 0.5 * 2f64.sqrt()).abs() < 1e-12);
         // Acute triangle: the circumcircle, R = a / (2 sin A); equilateral side 1: 1/sqrt 3.
-        let (_, r) = enclosing_circle(&[[0.0, 0.0], [1.0, 0.0], [0.5, 0.75f64.sqrt()]]);
+        let (_, r) = enclosing_circle(&pts(&[[0.0, 0.0], [1.0, 0.0], [0.5, 0.75f64.sqrt()]]));
         assert!((r - 1.0 / 3f64.sqrt()).abs() < 1e-12);
     }
 }

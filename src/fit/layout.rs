@@ -21,11 +21,11 @@
 //! only as [`super::fit_part`] placed it, e.g. diagonally or tilted) gets a plate of its
 //! own in that placement.
 
-use super::hull::{self, P2};
+use super::hull;
 use super::search::{fit_part, Fit, FitOptions, Placement};
 use super::{FitError, Printer, Volume};
 use crate::mesh::Part;
-use nalgebra::{Matrix3, Rotation3, Vector3};
+use nalgebra::{Matrix3, Point2, Rotation3, Vector2, Vector3};
 
 /// Options of the layout.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -60,7 +60,7 @@ pub struct Placed {
     /// Where it goes, in the printer frame.
     pub placement: Placement,
     /// Its footprint on the bed (convex, counter-clockwise), printer frame, mm.
-    pub footprint: Vec<P2>,
+    pub footprint: Vec<Point2<f64>>,
     /// Extents along x, y, z once placed, mm.
     pub size: [f64; 3],
 }
@@ -104,7 +104,7 @@ impl Layout {
 }
 
 /// Distance between two convex polygons (0 when they overlap), mm.
-pub fn polygon_distance(p: &[P2], q: &[P2]) -> f64 {
+pub fn polygon_distance(p: &[Point2<f64>], q: &[Point2<f64>]) -> f64 {
     if overlap(p, q) {
         return 0.0;
     }
@@ -119,19 +119,19 @@ pub fn polygon_distance(p: &[P2], q: &[P2]) -> f64 {
     d
 }
 
-fn point_segment(p: P2, a: P2, b: P2) -> f64 {
-    let (dx, dy) = (b[0] - a[0], b[1] - a[1]);
+fn point_segment(p: Point2<f64>, a: Point2<f64>, b: Point2<f64>) -> f64 {
+    let (dx, dy) = (b.x - a.x, b.y - a.y);
     let l2 = dx * dx + dy * dy;
     let t = if l2 > 0.0 {
-        (((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / l2).clamp(0.0, 1.0)
+        (((p.x - a.x) * dx + (p.y - a.y) * dy) / l2).clamp(0.0, 1.0)
     } else {
         0.0
     };
-    ((p[0] - a[0] - t * dx).powi(2) + (p[1] - a[1] - t * dy).powi(2)).sqrt()
+    ((p.x - a.x - t * dx).powi(2) + (p.y - a.y - t * dy).powi(2)).sqrt()
 }
 
 /// Separating-axis test for convex polygons (touching counts as overlap).
-fn overlap(p: &[P2], q: &[P2]) -> bool {
+fn overlap(p: &[Point2<f64>], q: &[Point2<f64>]) -> bool {
     for poly in [p, q] {
         let n = poly.len();
         if n < 2 {
@@ -139,10 +139,10 @@ fn overlap(p: &[P2], q: &[P2]) -> bool {
         }
         for i in 0..n {
             let (a, b) = (poly[i], poly[(i + 1) % n]);
-            let axis = [a[1] - b[1], b[0] - a[0]];
-            let proj = |s: &[P2]| {
+            let axis = Vector2::new(a.y - b.y, b.x - a.x);
+            let proj = |s: &[Point2<f64>]| {
                 s.iter().fold((f64::MAX, f64::MIN), |(lo, hi), v| {
-                    let d = v[0] * axis[0] + v[1] * axis[1];
+                    let d = v.x * axis.x + v.y * axis.y;
                     (lo.min(d), hi.max(d))
                 })
             };
@@ -157,7 +157,7 @@ fn overlap(p: &[P2], q: &[P2]) -> bool {
 }
 
 /// A convex polygon enclosing `hull` bounded by its support lines in `k` directions.
-fn circumscribed(hull: &[P2], k: usize) -> Vec<P2> {
+fn circumscribed(hull: &[Point2<f64>], k: usize) -> Vec<Point2<f64>> {
     if hull.len() < 3 {
         return hull.to_vec();
     }
@@ -167,44 +167,39 @@ fn circumscribed(hull: &[P2], k: usize) -> Vec<P2> {
             let (c, s) = (t.cos(), t.sin());
             let sup = hull
                 .iter()
-                .map(|p| p[0] * c + p[1] * s)
+                .map(|p| p.x * c + p.y * s)
                 .fold(f64::MIN, f64::max);
             (c, s, sup)
         })
         .collect();
-    let mut out: Vec<P2> = (0..k)
+    let mut out: Vec<Point2<f64>> = (0..k)
         .map(|i| {
             let (a, b) = (h[i], h[(i + 1) % k]);
             let det = a.0 * b.1 - a.1 * b.0;
-            [(a.2 * b.1 - a.1 * b.2) / det, (a.0 * b.2 - a.2 * b.0) / det]
+            Point2::new((a.2 * b.1 - a.1 * b.2) / det, (a.0 * b.2 - a.2 * b.0) / det)
         })
         .collect();
     out = hull::convex_hull(&out);
     out
 }
 
-fn bbox(p: &[P2]) -> [f64; 4] {
+fn bbox(p: &[Point2<f64>]) -> [f64; 4] {
     p.iter()
         .fold([f64::MAX, f64::MAX, f64::MIN, f64::MIN], |b, v| {
-            [
-                b[0].min(v[0]),
-                b[1].min(v[1]),
-                b[2].max(v[0]),
-                b[3].max(v[1]),
-            ]
+            [b[0].min(v.x), b[1].min(v.y), b[2].max(v.x), b[3].max(v.y)]
         })
 }
 
-fn shifted(p: &[P2], dx: f64, dy: f64) -> Vec<P2> {
-    p.iter().map(|v| [v[0] + dx, v[1] + dy]).collect()
+fn shifted(p: &[Point2<f64>], dx: f64, dy: f64) -> Vec<Point2<f64>> {
+    p.iter().map(|v| Point2::new(v.x + dx, v.y + dy)).collect()
 }
 
 /// A part ready to pack: rotation and footprint with its box corner at the origin.
 struct Shape {
     rotation: Matrix3<f64>,
     /// Footprint moved so its box starts at (0, 0), with the offset applied.
-    poly: Vec<P2>,
-    offset: [f64; 2],
+    poly: Vec<Point2<f64>>,
+    offset: Vector2<f64>,
     z0: f64,
     size: [f64; 3],
 }
@@ -217,7 +212,7 @@ fn shape(part: &Part, rotation: Matrix3<f64>) -> Shape {
         .filter(|v| v.coords.iter().all(|c| c.is_finite()))
         .map(|v| rotation * v.coords)
         .collect();
-    let p2: Vec<P2> = pts.iter().map(|p| [p.x, p.y]).collect();
+    let p2: Vec<Point2<f64>> = pts.iter().map(|p| Point2::new(p.x, p.y)).collect();
     let (z0, z1) = pts
         .iter()
         .fold((f64::MAX, f64::MIN), |(a, b), p| (a.min(p.z), b.max(p.z)));
@@ -226,12 +221,12 @@ fn shape(part: &Part, rotation: Matrix3<f64>) -> Shape {
 }
 
 impl Shape {
-    fn new(rotation: Matrix3<f64>, poly: Vec<P2>, z0: f64, height: f64) -> Shape {
+    fn new(rotation: Matrix3<f64>, poly: Vec<Point2<f64>>, z0: f64, height: f64) -> Shape {
         let b = bbox(&poly);
         Shape {
             rotation,
             poly: shifted(&poly, -b[0], -b[1]),
-            offset: [b[0], b[1]],
+            offset: Vector2::new(b[0], b[1]),
             z0,
             size: [b[2] - b[0], b[3] - b[1], height],
         }
@@ -241,12 +236,12 @@ impl Shape {
     /// is the turned footprint, so the polygon turns and nothing is re-projected.
     fn turned(&self, t: f64) -> Shape {
         let (c, s) = (t.cos(), t.sin());
-        let poly: Vec<P2> = self
+        let poly: Vec<Point2<f64>> = self
             .poly
             .iter()
             .map(|p| {
-                let (x, y) = (p[0] + self.offset[0], p[1] + self.offset[1]);
-                [c * x - s * y, s * x + c * y]
+                let (x, y) = (p.x + self.offset.x, p.y + self.offset.y);
+                Point2::new(c * x - s * y, s * x + c * y)
             })
             .collect();
         let rot = Rotation3::from_axis_angle(&Vector3::z_axis(), t).into_inner() * self.rotation;
@@ -256,7 +251,14 @@ impl Shape {
 
 /// The lowest y in `[y0, y1]` at which `poly` (box at the origin) shifted to x is at least
 /// `c` from every obstacle, if any.
-fn lowest_y(poly: &[P2], x: f64, y0: f64, y1: f64, obstacles: &[Vec<P2>], c: f64) -> Option<f64> {
+fn lowest_y(
+    poly: &[Point2<f64>],
+    x: f64,
+    y0: f64,
+    y1: f64,
+    obstacles: &[Vec<Point2<f64>>],
+    c: f64,
+) -> Option<f64> {
     if y1 < y0 {
         return None;
     }
@@ -320,16 +322,16 @@ fn lowest_y(poly: &[P2], x: f64, y0: f64, y1: f64, obstacles: &[Vec<P2>], c: f64
 
 /// Bottom `y` range in which `poly` (box at the origin) shifted to `x` stays inside the
 /// circle of radius `r` about the origin, if any.
-fn in_circle(poly: &[P2], x: f64, r: f64) -> Option<(f64, f64)> {
+fn in_circle(poly: &[Point2<f64>], x: f64, r: f64) -> Option<(f64, f64)> {
     let (mut lo, mut hi) = (f64::MIN, f64::MAX);
     for v in poly {
-        let u = v[0] + x;
+        let u = v.x + x;
         if u.abs() > r {
             return None;
         }
         let h = (r * r - u * u).sqrt();
-        lo = lo.max(-h - v[1]);
-        hi = hi.min(h - v[1]);
+        lo = lo.max(-h - v.y);
+        hi = hi.min(h - v.y);
     }
     (lo <= hi).then_some((lo, hi))
 }
@@ -337,11 +339,10 @@ fn in_circle(poly: &[P2], x: f64, r: f64) -> Option<(f64, f64)> {
 /// The lowest, then leftmost, free spot `(y, x, variant)` for a part among `obstacles`.
 fn spot(
     variants: &[Shape],
-    obstacles: &[Vec<P2>],
-    rect: [f64; 4],
-    c: f64,
-    circle: Option<f64>,
+    obstacles: &[Vec<Point2<f64>>],
+    bed: &Bed,
 ) -> Option<(f64, f64, usize)> {
+    let (rect, c, circle) = (bed.rect, bed.clearance, bed.circle);
     let mut best: Option<(f64, f64, usize)> = None;
     for (vi, v) in variants.iter().enumerate() {
         let mut xs = vec![rect[0]];
@@ -410,121 +411,152 @@ pub fn layout_fitted(
     for part in &parts[fits.len()..] {
         fits.push(fit_part(&part.name, &part.mesh, printer, &opts.fit)?);
     }
-    let (a, _, _) = printer.available();
-    let m = printer.margin;
-    let c = printer.clearance;
-    // Usable rectangle on the bed.
-    let rect = match printer.volume {
-        Volume::Box { x, y, .. } => [m, m, x - m, y - m],
-        Volume::Round { .. } => {
-            let r = 0.5 * a;
-            [-r, -r, r, r]
-        }
-    };
-    let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
+    let bed = Bed::of(printer);
     let mut unplaced = Vec::new();
     let mut shapes: Vec<(usize, Shape, f64)> = Vec::new();
     let mut alone: Vec<Placed> = Vec::new();
     for (i, part) in parts.iter().enumerate() {
-        let f = fits[i].clone();
+        let f = &fits[i];
         if !f.fits {
-            unplaced.push((i, f));
+            unplaced.push((i, f.clone()));
             continue;
         }
-        // Narrowest across the bed: an edge of the footprint along x.
-        let base = shape(part, f.placement.rotation);
-        let mut best: Option<Shape> = None;
-        let n = base.poly.len();
-        for k in 0..n.max(1) {
-            let t = if n >= 2 {
-                let (p, q) = (base.poly[k], base.poly[(k + 1) % n]);
-                -(q[1] - p[1]).atan2(q[0] - p[0])
-            } else {
-                0.0
-            };
-            let s = base.turned(t);
-            if s.size[0] <= ra + 1e-9
-                && s.size[1] <= rb + 1e-9
-                && best.as_ref().is_none_or(|bs| s.size[1] < bs.size[1])
-            {
-                best = Some(s);
-            }
-        }
-        match best {
+        match narrowest(part, f.placement.rotation, bed.rect) {
             Some(s) => {
                 let area = hull::area(&s.poly).abs();
                 shapes.push((i, s, area));
             }
-            None => {
-                // Fits the volume only as the single-part search placed it.
-                let pts: Vec<P2> = part
-                    .mesh
-                    .vertices
-                    .iter()
-                    .map(|v| {
-                        let q = f.placement.apply(v);
-                        [q.x, q.y]
-                    })
-                    .collect();
-                alone.push(Placed {
-                    part: i,
-                    name: part.name.clone(),
-                    placement: f.placement,
-                    footprint: hull::convex_hull(&pts),
-                    size: f.size,
-                });
-            }
+            None => alone.push(as_fitted(i, part, f)),
         }
     }
+    // Largest footprint first (input order among equals).
     shapes.sort_by(|p, q| q.2.total_cmp(&p.2).then(p.0.cmp(&q.0)));
-    let circle = match printer.volume {
-        Volume::Round { .. } => Some(0.5 * a),
-        Volume::Box { .. } => None,
-    };
-    let mut plates: Vec<(Plate, Vec<Vec<P2>>)> = Vec::new();
+    let mut plates = pack(shapes, parts, &fits, &bed, opts.flips, &mut alone);
+    for p in alone {
+        plates.push(Plate { parts: vec![p] });
+    }
+    for p in &mut plates {
+        p.parts.sort_by_key(|x| x.part);
+    }
+    Ok(Layout {
+        plates,
+        unplaced,
+        fits,
+    })
+}
+
+/// The usable bed: the rectangle parts are placed in (for a round bed, the square
+/// around the usable circle, whose radius `circle` is), and the clearance between parts.
+struct Bed {
+    rect: [f64; 4],
+    circle: Option<f64>,
+    clearance: f64,
+}
+
+impl Bed {
+    fn of(printer: &Printer) -> Bed {
+        let (a, _, _) = printer.available();
+        let m = printer.margin;
+        let (rect, circle) = match printer.volume {
+            Volume::Box { x, y, .. } => ([m, m, x - m, y - m], None),
+            Volume::Round { .. } => {
+                let r = 0.5 * a;
+                ([-r, -r, r, r], Some(r))
+            }
+        };
+        Bed {
+            rect,
+            circle,
+            clearance: printer.clearance,
+        }
+    }
+}
+
+/// The part in `rotation`, turned about the vertical so its footprint is narrowest
+/// across the bed (an edge of the footprint along x), if it then fits `rect`.
+fn narrowest(part: &Part, rotation: Matrix3<f64>, rect: [f64; 4]) -> Option<Shape> {
+    let (ra, rb) = (rect[2] - rect[0], rect[3] - rect[1]);
+    let base = shape(part, rotation);
+    let mut best: Option<Shape> = None;
+    let n = base.poly.len();
+    for k in 0..n.max(1) {
+        let t = if n >= 2 {
+            let (p, q) = (base.poly[k], base.poly[(k + 1) % n]);
+            -(q.y - p.y).atan2(q.x - p.x)
+        } else {
+            0.0
+        };
+        let s = base.turned(t);
+        if s.size[0] <= ra + 1e-9
+            && s.size[1] <= rb + 1e-9
+            && best.as_ref().is_none_or(|bs| s.size[1] < bs.size[1])
+        {
+            best = Some(s);
+        }
+    }
+    best
+}
+
+/// Part `i` exactly as the single-part search placed it (it fits the volume only so):
+/// for a plate of its own.
+fn as_fitted(i: usize, part: &Part, f: &Fit) -> Placed {
+    let pts: Vec<Point2<f64>> = part
+        .mesh
+        .vertices
+        .iter()
+        .map(|v| {
+            let q = f.placement.apply(v);
+            Point2::new(q.x, q.y)
+        })
+        .collect();
+    Placed {
+        part: i,
+        name: part.name.clone(),
+        placement: f.placement,
+        footprint: hull::convex_hull(&pts),
+        size: f.size,
+    }
+}
+
+/// Places the shapes in order at the lowest, then leftmost, free spot of the first
+/// plate that has one (as they are, or turned by 180 degrees with `flips`), opening a
+/// new plate when none has; a shape that finds no spot even on an empty plate goes to
+/// `alone` as fitted.
+fn pack(
+    shapes: Vec<(usize, Shape, f64)>,
+    parts: &[Part],
+    fits: &[Fit],
+    bed: &Bed,
+    flips: bool,
+    alone: &mut Vec<Placed>,
+) -> Vec<Plate> {
+    let mut plates: Vec<(Plate, Vec<Vec<Point2<f64>>>)> = Vec::new();
     for (i, s, _) in shapes {
         let mut variants = vec![s];
-        if opts.flips {
+        if flips {
             let flipped = variants[0].turned(std::f64::consts::PI);
             variants.push(flipped);
         }
         let mut found = None;
         for (pi, (_, obstacles)) in plates.iter().enumerate() {
-            if let Some(b) = spot(&variants, obstacles, rect, c, circle) {
+            if let Some(b) = spot(&variants, obstacles, bed) {
                 found = Some((pi, b));
                 break;
             }
         }
         if found.is_none() {
-            if let Some(b) = spot(&variants, &[], rect, c, circle) {
+            if let Some(b) = spot(&variants, &[], bed) {
                 plates.push((Plate::default(), Vec::new()));
                 found = Some((plates.len() - 1, b));
             }
         }
         let Some((pi, (y, x, vi))) = found else {
-            // Fits the volume only as the single-part search placed it.
-            let f = &fits[i];
-            let pts: Vec<P2> = parts[i]
-                .mesh
-                .vertices
-                .iter()
-                .map(|v| {
-                    let q = f.placement.apply(v);
-                    [q.x, q.y]
-                })
-                .collect();
-            alone.push(Placed {
-                part: i,
-                name: parts[i].name.clone(),
-                placement: f.placement,
-                footprint: hull::convex_hull(&pts),
-                size: f.size,
-            });
+            alone.push(as_fitted(i, &parts[i], &fits[i]));
             continue;
         };
         let v = &variants[vi];
         let poly = shifted(&v.poly, x, y);
-        let t = Vector3::new(x - v.offset[0], y - v.offset[1], -v.z0);
+        let t = Vector3::new(x - v.offset.x, y - v.offset.y, -v.z0);
         let placed = Placed {
             part: i,
             name: parts[i].name.clone(),
@@ -538,16 +570,5 @@ pub fn layout_fitted(
         plates[pi].0.parts.push(placed);
         plates[pi].1.push(poly);
     }
-    let mut plates: Vec<Plate> = plates.into_iter().map(|p| p.0).collect();
-    for p in alone {
-        plates.push(Plate { parts: vec![p] });
-    }
-    for p in &mut plates {
-        p.parts.sort_by_key(|x| x.part);
-    }
-    Ok(Layout {
-        plates,
-        unplaced,
-        fits,
-    })
+    plates.into_iter().map(|p| p.0).collect()
 }

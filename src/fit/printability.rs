@@ -313,11 +313,8 @@ impl Printability {
 /// Measures one section given as segments: `(chord, thickness, te_thickness)`.
 fn measure(segments: &[[Point2<f64>; 2]], probe: f64, stations: usize) -> Option<(f64, f64, f64)> {
     // The chord: the diameter of the point set, found on its convex hull.
-    let pts: Vec<hull::P2> = segments.iter().flatten().map(|p| [p.x, p.y]).collect();
-    let h: Vec<Point2<f64>> = hull::convex_hull(&pts)
-        .into_iter()
-        .map(|[x, y]| Point2::new(x, y))
-        .collect();
+    let pts: Vec<Point2<f64>> = segments.iter().flatten().copied().collect();
+    let h: Vec<Point2<f64>> = hull::convex_hull(&pts);
     if h.len() < 2 {
         return None;
     }
@@ -578,11 +575,10 @@ mod tests {
             (seed >> 11) as f64 / (1u64 << 53) as f64
         };
         for n in [3usize, 4, 10, 50, 300] {
-            let pts: Vec<hull::P2> = (0..n).map(|_| [rnd() * 40.0, rnd() * 3.0]).collect();
-            let h: Vec<Point2<f64>> = hull::convex_hull(&pts)
-                .into_iter()
-                .map(|[x, y]| Point2::new(x, y))
+            let pts: Vec<Point2<f64>> = (0..n)
+                .map(|_| Point2::new(rnd() * 40.0, rnd() * 3.0))
                 .collect();
+            let h: Vec<Point2<f64>> = hull::convex_hull(&pts);
             let brute = h
                 .iter()
                 .flat_map(|p| h.iter().map(move |q| (q - p).norm()))

@@ -45,7 +45,7 @@
 //! break it join the subset and the search goes on. The numbers reported (size, gaps,
 //! overshoot, scale) are measured on every vertex.
 
-use super::hull::{self, P2};
+use super::hull;
 use super::orient::{
     rank_key, reasons, span_to_layers_deg, Choice, Orientation, Pose, PrintOptions, Scored, Scorer,
 };
@@ -53,7 +53,7 @@ use super::pose::PoseClass;
 use super::yaw::best_yaw;
 use super::{FitError, Printer, Volume};
 use crate::mesh::TriMesh;
-use nalgebra::{Matrix3, Matrix4, Point3, Rotation3, Vector3};
+use nalgebra::{Matrix3, Matrix4, Point2, Point3, Rotation3, Vector3};
 use std::cmp::Ordering;
 use std::collections::{BTreeMap, BinaryHeap};
 
@@ -219,13 +219,13 @@ fn rotation(up: &Vector3<f64>, yaw: f64) -> Matrix3<f64> {
 fn evaluate(pts: &[Vector3<f64>], up: Vector3<f64>, av: &Avail) -> Eval {
     let (b1, b2) = frame(&up);
     let (mut z0, mut z1) = (f64::MAX, f64::MIN);
-    let p2: Vec<P2> = pts
+    let p2: Vec<Point2<f64>> = pts
         .iter()
         .map(|v| {
             let z = up.dot(v);
             z0 = z0.min(z);
             z1 = z1.max(z);
-            [b1.dot(v), b2.dot(v)]
+            Point2::new(b1.dot(v), b2.dot(v))
         })
         .collect();
     let hull2 = hull::convex_hull(&p2);
@@ -498,14 +498,14 @@ fn measure(
             }
         }
         Volume::Round { diameter, height } => {
-            let p2: Vec<P2> = rotated.iter().map(|p| [p.x, p.y]).collect();
+            let p2: Vec<Point2<f64>> = rotated.iter().map(|p| Point2::new(p.x, p.y)).collect();
             let h2 = hull::convex_hull(&p2);
             let (c, r) = hull::enclosing_circle(&h2);
-            let t = Vector3::new(cx - c[0], cy - c[1], -lo[2]);
+            let t = Vector3::new(cx - c.x, cy - c.y, -lo[2]);
             // Exact radial reach of the placed vertices from the bed centre.
             let (mut reach, mut far) = (0.0f64, 0usize);
             for (i, p) in p2.iter().enumerate() {
-                let d = ((p[0] - c[0]).powi(2) + (p[1] - c[1]).powi(2)).sqrt();
+                let d = ((p.x - c.x).powi(2) + (p.y - c.y).powi(2)).sqrt();
                 if d > reach {
                     reach = d;
                     far = i;
@@ -553,6 +553,39 @@ pub fn fit_part(
     printer: &Printer,
     opts: &FitOptions,
 ) -> Result<Fit, FitError> {
+    check_indices(name, mesh)?;
+    let mut run = PoseSearch::new(name, mesh, printer, opts)?;
+    let mut subset: Vec<usize> = hull::support_subset(&run.verts, opts.support_directions);
+    for round in 0..4 {
+        if round == 3 {
+            // Last resort: every vertex (always exact, slower).
+            subset = (0..run.verts.len()).collect();
+        }
+        match run.round(&subset) {
+            Round::NoFit(best) => {
+                let poses = vec![run.no_fit(&best)];
+                return Ok(run.finish(poses, Choice::NoFit));
+            }
+            Round::Fits(offered) => return Ok(run.finish(offered, Choice::Best)),
+            Round::Grow(extra) => {
+                subset.extend(extra);
+                subset.sort_unstable();
+                subset.dedup();
+            }
+        }
+    }
+    // Unreachable in practice: the last round searched every vertex, and a fit found
+    // there is exact. Report the closest placement found.
+    let pts: Vec<Vector3<f64>> = run.verts.iter().map(|v| v - run.centre).collect();
+    let search = branch_and_bound(&pts, run.lip, &run.av, opts);
+    run.evaluated += search.evaluated;
+    run.complete = false;
+    let poses = vec![run.no_fit(&search.best)];
+    Ok(run.finish(poses, Choice::NoFit))
+}
+
+/// Every triangle names a vertex of the mesh.
+fn check_indices(name: &str, mesh: &TriMesh) -> Result<(), FitError> {
     let count = mesh.vertices.len();
     for (t, tri) in mesh.triangles.iter().enumerate() {
         if let Some(&v) = tri.iter().find(|&&v| v as usize >= count) {
@@ -564,31 +597,282 @@ pub fn fit_part(
             });
         }
     }
-    let verts: Vec<Point3<f64>> = mesh
-        .vertices
-        .iter()
-        .copied()
-        .filter(|v| v.coords.iter().all(|c| c.is_finite()))
-        .collect();
-    if verts.is_empty() {
-        return Err(FitError::EmptyPart(name.to_string()));
+    Ok(())
+}
+
+/// What one round of the search found on a subset of the vertices.
+enum Round {
+    /// Proven on the subset: no orientation fits; the closest found.
+    NoFit(Eval),
+    /// Poses that fit, checked on every vertex, best first.
+    Fits(Vec<(Cand, Measure)>),
+    /// No candidate survived the exact check: the vertices that broke them.
+    Grow(Vec<usize>),
+}
+
+/// The search for one part: its finite vertices about their box centre, what the
+/// printer offers, the print scorer, and the count of down directions evaluated.
+struct PoseSearch<'a> {
+    verts: Vec<Point3<f64>>,
+    centre: Point3<f64>,
+    /// `L = 2 R`: how fast extents change with the angle turned (module docs).
+    lip: f64,
+    av: Avail,
+    printer: &'a Printer,
+    opts: &'a FitOptions,
+    scorer: Scorer,
+    /// Large flat faces on the hull: `(outward normal, area)`.
+    flats: Vec<(Vector3<f64>, f64)>,
+    /// Angular resolution, radians.
+    eps: f64,
+    /// Largest ratio that still fits (the tolerance for rounding).
+    fit_limit: f64,
+    evaluated: usize,
+    complete: bool,
+}
+
+impl<'a> PoseSearch<'a> {
+    fn new(
+        name: &str,
+        mesh: &TriMesh,
+        printer: &'a Printer,
+        opts: &'a FitOptions,
+    ) -> Result<Self, FitError> {
+        let verts: Vec<Point3<f64>> = mesh
+            .vertices
+            .iter()
+            .copied()
+            .filter(|v| v.coords.iter().all(|c| c.is_finite()))
+            .collect();
+        if verts.is_empty() {
+            return Err(FitError::EmptyPart(name.to_string()));
+        }
+        let av = Avail::of(printer);
+        let bb =
+            crate::mesh::Aabb::of_points(&verts).ok_or_else(|| FitError::EmptyPart(name.into()))?;
+        let centre = nalgebra::center(&bb.min, &bb.max);
+        let radius = verts
+            .iter()
+            .map(|v| (v - centre).norm())
+            .fold(0.0, f64::max);
+        Ok(PoseSearch {
+            verts,
+            centre,
+            lip: 2.0 * radius,
+            av,
+            printer,
+            opts,
+            scorer: Scorer::new(mesh, av.h, &opts.print),
+            flats: flats(mesh),
+            eps: opts.resolution_deg.to_radians().max(1e-6),
+            fit_limit: 1.0 + opts.tolerance / av.min(),
+            evaluated: 0,
+            complete: true,
+        })
     }
-    let av = Avail::of(printer);
-    let bb =
-        crate::mesh::Aabb::of_points(&verts).ok_or_else(|| FitError::EmptyPart(name.into()))?;
-    let centre = nalgebra::center(&bb.min, &bb.max);
-    let radius = verts
-        .iter()
-        .map(|v| (v - centre).norm())
-        .fold(0.0, f64::max);
-    let lip = 2.0 * radius;
-    let mut subset: Vec<usize> = hull::support_subset(&verts, opts.support_directions);
-    let flat_list = flats(mesh);
-    let scorer = Scorer::new(mesh, av.h, &opts.print);
-    let eps = opts.resolution_deg.to_radians().max(1e-6);
-    let mut evaluated = 0;
-    let mut complete = true;
-    let finish = |poses: Vec<(Cand, Measure)>, choice: Choice, evaluated: usize, complete: bool| {
+
+    /// One round on the vertices `subset`: the best down direction (no fit when even it
+    /// does not fit), candidates, each class's best refined, then the exact check.
+    fn round(&mut self, subset: &[usize]) -> Round {
+        let pts: Vec<Vector3<f64>> = subset
+            .iter()
+            .map(|&i| self.verts[i] - self.centre)
+            .collect();
+        let best = self.best_down(&pts);
+        if best.ratio > self.fit_limit {
+            return Round::NoFit(best);
+        }
+        let mut cands = self.candidates(&pts, &best);
+        // Refine the best of each class (or the best few apart) by a pattern search that
+        // keeps the class and the fit.
+        let opts = self.opts;
+        let starts = distinct(&cands, opts.print.offered.max(3), opts.print.axes.is_some());
+        let refined: Vec<Cand> = starts
+            .into_iter()
+            .map(|start| self.refine(&pts, start))
+            .collect();
+        cands.extend(refined);
+        cands.sort_by_key(Cand::key);
+        let (mut offered, extra) = self.check_exactly(&pts, &cands);
+        if offered.is_empty() {
+            return Round::Grow(extra);
+        }
+        offered.sort_by_key(|o| o.0.key());
+        Round::Fits(offered)
+    }
+
+    /// Evaluates `up` on `pts`, counting it.
+    fn evaluate(&mut self, pts: &[Vector3<f64>], up: Vector3<f64>) -> Eval {
+        self.evaluated += 1;
+        evaluate(pts, up, &self.av)
+    }
+
+    /// The part's flat faces down, then its axes both ways.
+    fn special_directions(&self) -> impl Iterator<Item = Vector3<f64>> + '_ {
+        let axes = [Vector3::x(), Vector3::y(), Vector3::z()]
+            .into_iter()
+            .flat_map(|e| [e, -e]);
+        self.flats.iter().map(|(n, _)| -n).chain(axes)
+    }
+
+    /// The best down direction: the branch and bound's, or a special direction
+    /// evaluated exactly (parts that fit only just, face down, are found whatever the
+    /// resolution).
+    fn best_down(&mut self, pts: &[Vector3<f64>]) -> Eval {
+        let search = branch_and_bound(pts, self.lip, &self.av, self.opts);
+        self.evaluated += search.evaluated;
+        self.complete &= search.complete;
+        let mut best = search.best;
+        let ups: Vec<Vector3<f64>> = self.special_directions().collect();
+        for up in ups {
+            let e = self.evaluate(pts, up);
+            if e.ratio < best.ratio {
+                best = e;
+            }
+        }
+        best
+    }
+
+    /// The fitting candidates, best first: an even lattice, the special directions,
+    /// the classes' centres, the best found and its opposite.
+    fn candidates(&mut self, pts: &[Vector3<f64>], best: &Eval) -> Vec<Cand> {
+        let mut ups: Vec<Vector3<f64>> = hull::sphere_directions(CANDIDATES);
+        ups.extend(self.special_directions());
+        if let Some(ax) = &self.opts.print.axes {
+            ups.extend(PoseClass::ALL.iter().filter_map(|c| ax.centre(*c)));
+        }
+        ups.push(best.up);
+        ups.push(-best.up);
+        let mut cands: Vec<Cand> = Vec::new();
+        for up in ups {
+            let e = self.evaluate(pts, up);
+            if e.ratio <= self.fit_limit {
+                cands.push(Cand {
+                    e,
+                    s: self.scorer.score(&e.up),
+                });
+            }
+        }
+        cands.sort_by_key(Cand::key);
+        cands
+    }
+
+    /// Pattern search from `start` over down directions of its class that still fit,
+    /// halving the step until it is below half the resolution.
+    fn refine(&mut self, pts: &[Vector3<f64>], start: Cand) -> Cand {
+        let mut cur = start;
+        let mut step = 4f64.to_radians();
+        let mut moves = 0;
+        while step >= 0.5 * self.eps && moves < 200 {
+            let (b1, b2) = frame(&cur.e.up);
+            let mut improved = false;
+            for axis in [b1, b2, -b1, -b2] {
+                let r = Rotation3::from_axis_angle(&nalgebra::Unit::new_normalize(axis), step);
+                let up = r * cur.e.up;
+                if self.scorer.class(&up) != start.s.class {
+                    continue;
+                }
+                let e = self.evaluate(pts, up);
+                if e.ratio > self.fit_limit {
+                    continue;
+                }
+                let c = Cand {
+                    e,
+                    s: self.scorer.score(&up),
+                };
+                if c.key() < cur.key() {
+                    cur = c;
+                    improved = true;
+                    moves += 1;
+                    break;
+                }
+            }
+            if !improved {
+                step *= 0.5;
+            }
+        }
+        cur
+    }
+
+    /// Exact check on every vertex, growing the subset when a vertex breaks a fit: the
+    /// best few distinct poses (one per class for a blade) and the requested class.
+    /// Returns them and the vertices that broke fits.
+    fn check_exactly(
+        &mut self,
+        pts: &[Vector3<f64>],
+        cands: &[Cand],
+    ) -> (Vec<(Cand, Measure)>, Vec<usize>) {
+        let opts = self.opts;
+        let print = &opts.print;
+        let mut extra: Vec<usize> = Vec::new();
+        let mut offered: Vec<(Cand, Measure)> = Vec::new();
+        let want = print.offered.max(1);
+        let mut checked = 0;
+        for cand in cands {
+            let have_requested = print
+                .pose
+                .is_none_or(|r| offered.iter().any(|o| o.0.s.class == Some(r)));
+            if (offered.len() >= want && have_requested) || checked >= MAX_EXACT {
+                break;
+            }
+            if offered.len() >= want && cand.s.class != print.pose {
+                continue;
+            }
+            let apart = |o: &(Cand, Measure)| match print.axes {
+                Some(_) => o.0.s.class != cand.s.class,
+                None => o.0.e.up.dot(&cand.e.up) < APART_COS,
+            };
+            if !offered.iter().all(apart) {
+                continue;
+            }
+            checked += 1;
+            let mut e = cand.e;
+            for _ in 0..8 {
+                let m = self.measure(&e);
+                if m.fits {
+                    offered.push((Cand { e, s: cand.s }, m));
+                    break;
+                }
+                extra.extend(&m.extremes);
+                let mut local = pts.to_vec();
+                local.extend(extra.iter().map(|&i| self.verts[i] - self.centre));
+                e = self.evaluate(&local, e.up);
+                if e.ratio > self.fit_limit {
+                    break;
+                }
+            }
+        }
+        (offered, extra)
+    }
+
+    /// Every vertex placed in the orientation of `e`.
+    fn measure(&self, e: &Eval) -> Measure {
+        let rot = rotation(&e.up, e.yaw);
+        measure(
+            &self.verts,
+            rot,
+            self.printer,
+            &self.av,
+            self.opts.tolerance,
+        )
+    }
+
+    /// The closest placement when nothing fits.
+    fn no_fit(&self, e: &Eval) -> (Cand, Measure) {
+        let m = self.measure(e);
+        (
+            Cand {
+                e: *e,
+                s: self.scorer.score(&e.up),
+            },
+            m,
+        )
+    }
+
+    /// The answer: the poses offered (best first), the one chosen (the requested class
+    /// when it fits) and why.
+    fn finish(&self, poses: Vec<(Cand, Measure)>, choice: Choice) -> Fit {
+        let opts = self.opts;
         let poses: Vec<(Pose, Measure)> = poses
             .into_iter()
             .map(|(c, m)| (pose_of(&c, &m, &opts.print), m))
@@ -625,9 +909,9 @@ pub fn fit_part(
             bed_contact: p.underside.contact_area,
             overhang_area: p.underside.overhang_area,
             resolution_deg: opts.resolution_deg,
-            guarantee: lip * eps,
-            complete,
-            evaluated,
+            guarantee: self.lip * self.eps,
+            complete: self.complete,
+            evaluated: self.evaluated,
             orientation: Orientation {
                 chosen,
                 choice,
@@ -637,174 +921,7 @@ pub fn fit_part(
                 poses,
             },
         }
-    };
-    let no_fit = |e: &Eval| {
-        let rot = rotation(&e.up, e.yaw);
-        let m = measure(&verts, rot, printer, &av, opts.tolerance);
-        (
-            Cand {
-                e: *e,
-                s: scorer.score(&e.up),
-            },
-            m,
-        )
-    };
-    for round in 0..4 {
-        if round == 3 {
-            // Last resort: every vertex (always exact, slower).
-            subset = (0..verts.len()).collect();
-        }
-        let pts: Vec<Vector3<f64>> = subset.iter().map(|&i| verts[i] - centre).collect();
-        let search = branch_and_bound(&pts, lip, &av, opts);
-        evaluated += search.evaluated;
-        complete &= search.complete;
-        let fit_limit = 1.0 + opts.tolerance / av.min();
-        // Special directions: flat faces down and the part's own axes, evaluated exactly
-        // (parts that fit only just, face down, are found whatever the resolution).
-        let mut best = search.best;
-        let axes_dirs = [Vector3::x(), Vector3::y(), Vector3::z()]
-            .into_iter()
-            .flat_map(|e| [e, -e]);
-        for up in flat_list.iter().map(|(n, _)| -n).chain(axes_dirs.clone()) {
-            let e = evaluate(&pts, up, &av);
-            evaluated += 1;
-            if e.ratio < best.ratio {
-                best = e;
-            }
-        }
-        if best.ratio > fit_limit {
-            // Proven on a subset of the hull: no orientation fits.
-            return Ok(finish(
-                vec![no_fit(&best)],
-                Choice::NoFit,
-                evaluated,
-                complete,
-            ));
-        }
-        // Candidates: an even lattice, the flat faces, the part's axes, the classes'
-        // centres, the search's best.
-        let mut ups: Vec<Vector3<f64>> = hull::sphere_directions(CANDIDATES);
-        ups.extend(flat_list.iter().map(|(n, _)| -n));
-        ups.extend(axes_dirs);
-        if let Some(ax) = &opts.print.axes {
-            ups.extend(PoseClass::ALL.iter().filter_map(|c| ax.centre(*c)));
-        }
-        ups.push(best.up);
-        ups.push(-best.up);
-        let mut cands: Vec<Cand> = Vec::new();
-        for up in &ups {
-            let e = evaluate(&pts, *up, &av);
-            evaluated += 1;
-            if e.ratio <= fit_limit {
-                cands.push(Cand {
-                    e,
-                    s: scorer.score(&e.up),
-                });
-            }
-        }
-        cands.sort_by_key(Cand::key);
-        // Refine the best of each class (or the best few apart) by a pattern search that
-        // keeps the class and the fit.
-        let starts = distinct(&cands, opts.print.offered.max(3), opts.print.axes.is_some());
-        let mut refined = Vec::new();
-        for start in starts {
-            let mut cur = start;
-            let mut step = 4f64.to_radians();
-            let mut moves = 0;
-            while step >= 0.5 * eps && moves < 200 {
-                let (b1, b2) = frame(&cur.e.up);
-                let mut improved = false;
-                for axis in [b1, b2, -b1, -b2] {
-                    let r = Rotation3::from_axis_angle(&nalgebra::Unit::new_normalize(axis), step);
-                    let up = r * cur.e.up;
-                    if scorer.class(&up) != start.s.class {
-                        continue;
-                    }
-                    let e = evaluate(&pts, up, &av);
-                    evaluated += 1;
-                    if e.ratio > fit_limit {
-                        continue;
-                    }
-                    let c = Cand {
-                        e,
-                        s: scorer.score(&up),
-                    };
-                    if c.key() < cur.key() {
-                        cur = c;
-                        improved = true;
-                        moves += 1;
-                        break;
-                    }
-                }
-                if !improved {
-                    step *= 0.5;
-                }
-            }
-            refined.push(cur);
-        }
-        cands.extend(refined);
-        cands.sort_by_key(Cand::key);
-        // Exact check on every vertex, growing the subset when a vertex breaks a fit; the
-        // best few distinct poses (one per class for a blade) and the requested class.
-        let mut extra: Vec<usize> = Vec::new();
-        let mut offered: Vec<(Cand, Measure)> = Vec::new();
-        let want = opts.print.offered.max(1);
-        let mut checked = 0;
-        for cand in &cands {
-            let have_requested = opts
-                .print
-                .pose
-                .is_none_or(|r| offered.iter().any(|o| o.0.s.class == Some(r)));
-            if (offered.len() >= want && have_requested) || checked >= MAX_EXACT {
-                break;
-            }
-            if offered.len() >= want && cand.s.class != opts.print.pose {
-                continue;
-            }
-            let apart = |o: &(Cand, Measure)| match opts.print.axes {
-                Some(_) => o.0.s.class != cand.s.class,
-                None => o.0.e.up.dot(&cand.e.up) < APART_COS,
-            };
-            if !offered.iter().all(apart) {
-                continue;
-            }
-            checked += 1;
-            let mut e = cand.e;
-            for _ in 0..8 {
-                let rot = rotation(&e.up, e.yaw);
-                let m = measure(&verts, rot, printer, &av, opts.tolerance);
-                if m.fits {
-                    offered.push((Cand { e, s: cand.s }, m));
-                    break;
-                }
-                extra.extend(&m.extremes);
-                let mut local = pts.clone();
-                local.extend(extra.iter().map(|&i| verts[i] - centre));
-                e = evaluate(&local, e.up, &av);
-                evaluated += 1;
-                if e.ratio > fit_limit {
-                    break;
-                }
-            }
-        }
-        if !offered.is_empty() {
-            offered.sort_by_key(|o| o.0.key());
-            return Ok(finish(offered, Choice::Best, evaluated, complete));
-        }
-        subset.extend(extra);
-        subset.sort_unstable();
-        subset.dedup();
     }
-    // Unreachable in practice: the last round searched every vertex, and a fit found
-    // there is exact. Report the closest placement found.
-    let pts: Vec<Vector3<f64>> = verts.iter().map(|v| v - centre).collect();
-    let search = branch_and_bound(&pts, lip, &av, opts);
-    Ok(finish(
-        vec![no_fit(&search.best)],
-        Choice::NoFit,
-        evaluated + search.evaluated,
-        false,
-    ))
 }
 
 /// Down directions of the even lattice tried for the pose.

@@ -1,16 +1,22 @@
 //! Helpers shared by the tests and benchmarks (benchmarks include this file by path):
 //! running the binary in a temp dir, comparing numbers with a stated tolerance, and the
-//! test blades.
+//! test blades; analytic shapes are in [`shapes`].
 #![allow(dead_code, unused_macros)]
+
+pub mod shapes;
 
 use nalgebra::Point3;
 use spanwright::mesh::TriMesh;
 use std::path::{Path, PathBuf};
 
 /// Asserts `|got - want| <= tol`, naming what was compared and the source of `want`:
-/// `assert_near!(v, 24.0, 1e-9, "box volume (elementary)")`.
+/// `assert_near!(v, 24.0, 1e-9, "box volume (elementary)")`; without the fourth
+/// argument the message names the expression compared.
 macro_rules! assert_near {
-    ($got:expr, $want:expr, $tol:expr, $what:expr) => {{
+    ($got:expr, $want:expr, $tol:expr $(,)?) => {
+        assert_near!($got, $want, $tol, stringify!($got))
+    };
+    ($got:expr, $want:expr, $tol:expr, $what:expr $(,)?) => {{
         let (got, want, tol): (f64, f64, f64) = ($got, $want, $tol);
         assert!(
             (got - want).abs() <= tol,
@@ -21,9 +27,13 @@ macro_rules! assert_near {
     }};
 }
 
-/// Asserts `|got / want - 1| <= rel`, naming what was compared and the source.
+/// Asserts `|got / want - 1| <= rel`, naming what was compared and the source (or,
+/// without the fourth argument, the expression compared).
 macro_rules! assert_rel {
-    ($got:expr, $want:expr, $rel:expr, $what:expr) => {{
+    ($got:expr, $want:expr, $rel:expr $(,)?) => {
+        assert_rel!($got, $want, $rel, stringify!($got))
+    };
+    ($got:expr, $want:expr, $rel:expr, $what:expr $(,)?) => {{
         let (got, want, rel): (f64, f64, f64) = ($got, $want, $rel);
         assert!(
             (got / want - 1.0).abs() <= rel,
@@ -35,7 +45,7 @@ macro_rules! assert_rel {
     }};
 }
 
-/// What a run of the binary gave.
+/// What a run of the binary in a temp dir of its own gave.
 pub struct Run {
     /// Exit code (-1 when killed by a signal).
     pub code: i32,
@@ -59,6 +69,16 @@ impl Run {
     }
 }
 
+/// What a run of the binary in a given folder gave.
+pub struct Ran {
+    /// Exit code (-1 when killed by a signal).
+    pub code: i32,
+    /// Standard output.
+    pub stdout: String,
+    /// Standard error.
+    pub stderr: String,
+}
+
 /// Writes `files` (name, text) into a fresh temp dir and runs `spanwright <args>` there.
 /// Paths in `args` starting with `@/` are taken from the project folder (examples,
 /// profiles).
@@ -71,6 +91,22 @@ pub fn run_in_temp(files: &[(&str, &str)], args: &[&str]) -> Run {
         }
         std::fs::write(p, text).unwrap();
     }
+    let Ran {
+        code,
+        stdout,
+        stderr,
+    } = run_in(dir.path(), args);
+    Run {
+        code,
+        stdout,
+        stderr,
+        dir,
+    }
+}
+
+/// Runs `spanwright <args>` in `dir` (for several commands on the same files). Paths in
+/// `args` starting with `@/` are taken from the project folder.
+pub fn run_in(dir: &Path, args: &[&str]) -> Ran {
     let project = Path::new(env!("CARGO_MANIFEST_DIR"));
     let args: Vec<String> = args
         .iter()
@@ -80,15 +116,14 @@ pub fn run_in_temp(files: &[(&str, &str)], args: &[&str]) -> Run {
         })
         .collect();
     let output = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .current_dir(dir.path())
+        .current_dir(dir)
         .args(&args)
         .output()
         .unwrap();
-    Run {
+    Ran {
         code: output.status.code().unwrap_or(-1),
         stdout: String::from_utf8_lossy(&output.stdout).into_owned(),
         stderr: String::from_utf8_lossy(&output.stderr).into_owned(),
-        dir,
     }
 }
 
