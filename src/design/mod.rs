@@ -138,6 +138,7 @@ use std::path::{Path, PathBuf};
 
 mod csv_table;
 mod error;
+mod limits;
 mod rows;
 mod spans;
 mod stacking;
@@ -146,13 +147,26 @@ mod table;
 mod toml_file;
 mod units;
 
+pub use crate::interp::Law;
 pub use error::{DesignError, Problem};
+pub use limits::{
+    DEFAULT_MIN_TE_MM, MAX_FILE_BYTES, MAX_LENGTH_MM, MAX_STATIONS, MAX_TE_CHORD_FRACTION,
+    MAX_TOLERANCE_MM, MIN_CHORD_TOLERANCES, MIN_GAP_TOLERANCES, MIN_SPAN_TOLERANCES,
+    MIN_TOLERANCE_MM,
+};
 pub use stacking::{Stacking, StackingValueError};
 pub use table::Lengths;
 pub use units::{AngleUnit, LengthUnit, RatioUnit};
 
 /// Largest mesh tolerance accepted from a design file or the command line, mm.
-pub const MAX_TOLERANCE: f64 = toml_file::TOLERANCE_MAX_MM;
+pub const MAX_TOLERANCE: f64 = MAX_TOLERANCE_MM;
+
+/// Smallest mesh tolerance accepted from a design file or the command line, mm.
+pub const MIN_TOLERANCE: f64 = MIN_TOLERANCE_MM;
+
+/// The optional top-level tables of later stages, by name. Any other table in a design
+/// file is an error ("did you mean"); a stage that adds a table registers its name here.
+pub const TABLES: [&str; 4] = ["root", "tip", "rotor", "printer"];
 
 /// Which way the rotor exchanges energy with the flow.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
@@ -213,8 +227,12 @@ pub struct BladeOptions {
     pub points_per_side: usize,
     /// Largest allowed distance between mesh and exact surface, mm (default 0.01).
     pub tolerance: f64,
-    /// Minimum trailing-edge thickness, mm, applied by thickening (default: none).
+    /// Minimum trailing-edge thickness, mm, applied by thickening (default
+    /// [`DEFAULT_MIN_TE_MM`], 0.4 mm; 0 or `None` keeps the sections' own edges).
     pub min_te_thickness: Option<f64>,
+    /// How chord, twist, offsets and section shape vary between stations (default
+    /// [`Law::Smooth`], monotone cubic).
+    pub spanwise: Law,
 }
 
 impl Default for BladeOptions {
@@ -225,7 +243,35 @@ impl Default for BladeOptions {
             rotation: Rotation::default(),
             points_per_side: 120,
             tolerance: 0.01,
-            min_te_thickness: None,
+            min_te_thickness: Some(DEFAULT_MIN_TE_MM),
+            spanwise: Law::default(),
+        }
+    }
+}
+
+/// How one column of a CSV station table was read: the header cell as written, the
+/// station value it was read as, and its unit. Displayed as
+/// `'r [mm]' read as radius in mm` or `'notes' ignored (notes)`.
+#[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
+pub struct ColumnRead {
+    /// The header cell as written (trimmed).
+    pub header: String,
+    /// The station value it was read as (`radius`, `chord`, `twist`, `section`,
+    /// `thickness`, `sweep`, `prebend`, `stacking`), or `ignored (notes)`.
+    pub read_as: &'static str,
+    /// The unit its numbers are read in (`mm`, `in`, `deg`, `rad`, `%`, `fraction`, ...),
+    /// for numeric columns.
+    pub unit: Option<&'static str>,
+}
+
+impl std::fmt::Display for ColumnRead {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match (self.read_as, self.unit) {
+            (what, _) if what.starts_with("ignored") => write!(f, "'{}' {what}", self.header),
+            (what, Some(unit)) if !unit.is_empty() => {
+                write!(f, "'{}' read as {what} in {unit}", self.header)
+            }
+            (what, _) => write!(f, "'{}' read as {what}", self.header),
         }
     }
 }
@@ -247,6 +293,9 @@ pub struct Design {
     /// as written: lengths in them are in the file's length unit (multiply by
     /// [`Design::length_to_mm`]). Read one with [`Design::table`].
     pub tables: toml::Table,
+    /// How each column of the CSV station table was read, when the stations come from
+    /// one (empty for `[[station]]` entries): a list to show the user.
+    pub columns: Vec<ColumnRead>,
 }
 
 /// Label used in messages for text given without a file.
@@ -260,12 +309,52 @@ fn stem(file: &Path) -> String {
         .unwrap_or_else(|| "design".into())
 }
 
+/// Why a file could not be read.
+enum ReadFail {
+    /// The operating system's error.
+    Io(std::io::Error),
+    /// Larger than [`MAX_FILE_BYTES`] (its size in bytes).
+    TooLarge(u64),
+}
+
+/// The problem of a file larger than [`MAX_FILE_BYTES`].
+fn too_large(file: &Path, bytes: u64) -> Problem {
+    Problem::new(
+        file,
+        format!(
+            "the file is {:.1} MB, more than the {} MB a design file may be",
+            bytes as f64 / 1_048_576.0,
+            MAX_FILE_BYTES >> 20
+        ),
+    )
+    .hint(format!(
+        "a design of {MAX_STATIONS} stations takes about 50 kB; check that this is the \
+         design table"
+    ))
+}
+
+/// Reads a file of at most [`MAX_FILE_BYTES`] (reading stops past it).
+fn read_limited(path: &Path) -> Result<Vec<u8>, ReadFail> {
+    use std::io::Read;
+    let file = std::fs::File::open(path).map_err(ReadFail::Io)?;
+    let mut bytes = Vec::new();
+    file.take(MAX_FILE_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(ReadFail::Io)?;
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        let size = std::fs::metadata(path).map_or(bytes.len() as u64, |m| m.len());
+        return Err(ReadFail::TooLarge(size));
+    }
+    Ok(bytes)
+}
+
 fn read(path: &Path) -> Result<Vec<u8>, DesignError> {
-    std::fs::read(path).map_err(|e| {
-        DesignError::one(
+    read_limited(path).map_err(|fail| match fail {
+        ReadFail::Io(e) => DesignError::one(
             Problem::new(path, format!("cannot read the file: {e}"))
                 .hint("check the path and the file's permissions"),
-        )
+        ),
+        ReadFail::TooLarge(size) => DesignError::one(too_large(path, size)),
     })
 }
 
@@ -330,21 +419,28 @@ fn csv_design(
 ) -> Result<Design, DesignError> {
     let default_section = default_section.filter(|s| !s.trim().is_empty());
     let mut problems = Vec::new();
-    let rows = csv_table::read(
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        return Err(DesignError::one(too_large(file, bytes.len() as u64)));
+    }
+    let table = csv_table::read(
         bytes,
         file,
-        csv_table::Defaults::default(),
+        &csv_table::Defaults::default(),
         default_section.is_some(),
         &mut problems,
     );
     let whole = error::Loc::new(file, None, None);
-    let stations = rows::validate(
-        &rows,
+    let blade = BladeOptions::default();
+    let rules = rows::Rules {
         default_section,
-        "add a 'section' column or give a default section",
-        &whole,
-        &mut problems,
-    );
+        missing_section_hint: "add a 'section' column or give a default section",
+        whole: &whole,
+        tolerance: Some((
+            blade.tolerance,
+            format!("the default, {} mm", blade.tolerance),
+        )),
+    };
+    let stations = rows::validate(&table.rows, &rules, &mut problems);
     if !problems.is_empty() {
         rows::sort(&mut problems);
         return Err(DesignError { problems });
@@ -353,9 +449,10 @@ fn csv_design(
         name: stem(file),
         source,
         stations,
-        blade: BladeOptions::default(),
+        blade,
         length_to_mm: 1.0,
         tables: toml::Table::new(),
+        columns: table.columns,
     })
 }
 
@@ -371,4 +468,86 @@ pub fn parse_toml_str(text: &str, source: Option<&Path>) -> Result<Design, Desig
         dir,
         source.map(Path::to_path_buf),
     )
+}
+
+impl Design {
+    /// Checks a mesh tolerance (mm) for this design, when it is not the file's own (e.g.
+    /// `--tolerance` on the command line; `from` says where it came from): the range
+    /// [`MIN_TOLERANCE_MM`]..=[`MAX_TOLERANCE_MM`], and the rules the design file's
+    /// tolerance was checked by: every chord at least [`MIN_CHORD_TOLERANCES`]
+    /// tolerances, the span at least [`MIN_SPAN_TOLERANCES`], neighbouring stations at
+    /// least [`MIN_GAP_TOLERANCES`] apart.
+    ///
+    /// # Errors
+    /// A [`DesignError`] naming the figure, the limit and the largest (or smallest)
+    /// tolerance that would do.
+    pub fn check_tolerance(&self, tolerance: f64, from: &str) -> Result<(), DesignError> {
+        let problem = |message: String, hint: String| {
+            Err(DesignError::one(
+                Problem::new(self.file(), message).hint(hint),
+            ))
+        };
+        let (lo, hi) = (MIN_TOLERANCE_MM, MAX_TOLERANCE_MM);
+        let n = limits::show_number;
+        let tolerance_mm = tolerance;
+        let tolerance = n(tolerance_mm);
+        if !(tolerance_mm >= lo && tolerance_mm <= hi) {
+            return problem(
+                format!("tolerance {tolerance} mm ({from}) must be at least {lo} mm and at most {hi} mm"),
+                "give the largest allowed mesh deviation in mm, e.g. 0.01 (a fine print) or 0.001 (a machining file)".into(),
+            );
+        }
+        let Some(thinnest) = self
+            .stations
+            .iter()
+            .min_by(|a, b| a.chord.total_cmp(&b.chord))
+        else {
+            return Ok(());
+        };
+        let most = thinnest.chord / MIN_CHORD_TOLERANCES;
+        if tolerance_mm > most {
+            return problem(
+                format!(
+                    "tolerance {tolerance} mm ({from}) is too coarse for the {} mm chord at {}: \
+                     a chord must be at least {MIN_CHORD_TOLERANCES} tolerances",
+                    n(thinnest.chord),
+                    thinnest.origin
+                ),
+                format!("give a tolerance of at most {} mm", n(most)),
+            );
+        }
+        let radii: Vec<f64> = self.stations.iter().map(|s| s.radius).collect();
+        let span = radii[radii.len() - 1] - radii[0];
+        if tolerance_mm > span / MIN_SPAN_TOLERANCES {
+            return problem(
+                format!(
+                    "tolerance {tolerance} mm ({from}) is too coarse for a blade spanning {} \
+                     mm: the span must be at least {MIN_SPAN_TOLERANCES} tolerances",
+                    n(span)
+                ),
+                format!(
+                    "give a tolerance of at most {} mm",
+                    n(span / MIN_SPAN_TOLERANCES)
+                ),
+            );
+        }
+        let closest = radii
+            .windows(2)
+            .map(|w| w[1] - w[0])
+            .fold(f64::INFINITY, f64::min);
+        if tolerance_mm > closest / MIN_GAP_TOLERANCES {
+            return problem(
+                format!(
+                    "tolerance {tolerance} mm ({from}) is coarser than the {} mm between \
+                     the two closest stations: the mesh cannot tell them apart",
+                    n(closest)
+                ),
+                format!(
+                    "give a tolerance of at most {} mm",
+                    n(closest / MIN_GAP_TOLERANCES)
+                ),
+            );
+        }
+        Ok(())
+    }
 }
