@@ -381,7 +381,8 @@ fn read_row(
         if column.col == Col::Note {
             continue;
         }
-        let cell = record.get(i).map_or("", String::as_str);
+        // Quoted cells keep their inner spaces; no value needs them at its ends.
+        let cell = record.get(i).map_or("", |c| c.trim());
         if cell.is_empty() {
             empty_cell(&mut row, column.col, i < record.len(), section_default, problems);
         } else {

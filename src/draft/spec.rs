@@ -268,7 +268,8 @@ impl DraftSpec {
                     "linear",
                     format!("{}..{}", range.from, range.to),
                     format!(
-                        "starts inside the hub: from must be at least hub / tip = {:.3}",
+                        "starts inside the hub, below the first station: from must be at least \
+                         inner radius / tip radius = {:.3}",
                         h / r
                     ),
                 );
