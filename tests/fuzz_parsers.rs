@@ -195,6 +195,7 @@ const WHOLE_FILE: &[&str] = &[
     "header but no stations",
     "station given",
     "stations given",
+    "stations spanwright accepts",
     "a design file may be",
 ];
 

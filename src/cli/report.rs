@@ -37,11 +37,11 @@ pub struct Args {
     /// Wind speed, m/s, for the thrust (momentum theory).
     #[arg(long)]
     wind: Option<f64>,
-    /// Thrust per blade, N (instead of momentum theory).
-    #[arg(long)]
+    /// Thrust per blade, N (instead of momentum theory); more than 0.
+    #[arg(long, allow_negative_numbers = true)]
     thrust: Option<f64>,
-    /// Thrust coefficient (default 8/9, the Betz optimum).
-    #[arg(long)]
+    /// Thrust coefficient (default 8/9, the Betz optimum); above 0, at most 2.
+    #[arg(long, allow_negative_numbers = true)]
     thrust_coefficient: Option<f64>,
     /// How thrust is spread along the span: annulus (q ~ r) or uniform.
     #[arg(long, default_value = "annulus", value_parser = ["annulus", "uniform"])]

@@ -7,9 +7,9 @@
 //! take (triangles and memory, from its size against its tolerance) is a separate
 //! estimate made before meshing.
 
-/// Largest design file (TOML or CSV) read, bytes (16 MiB). A table of a thousand stations
+/// Largest design file (TOML or CSV) read, bytes (4 MiB). A table of a thousand stations
 /// is about 50 kB; anything near this size is not a design table.
-pub const MAX_FILE_BYTES: u64 = 16 << 20;
+pub const MAX_FILE_BYTES: u64 = 4 << 20;
 
 /// Most stations in a design. Every station is a ring of the loft and a section to
 /// resolve; a thousand already describes any blade finer than it can be printed or
@@ -20,9 +20,10 @@ pub const MAX_STATIONS: usize = 1000;
 /// a larger value is almost always a unit slip (metres or inches with millimetre numbers).
 pub const MAX_LENGTH_MM: f64 = 10_000.0;
 
-/// Smallest mesh tolerance, mm (1 micrometre): finer than any printer or machine tool
-/// can follow, and the mesh grows with the inverse of the tolerance.
-pub const MIN_TOLERANCE_MM: f64 = 0.001;
+/// Smallest mesh tolerance, mm (0.1 micrometre): ten times finer than precision
+/// machining holds (about 1 micrometre, common practice), so no real part needs less;
+/// the mesh grows with the inverse of the tolerance.
+pub const MIN_TOLERANCE_MM: f64 = 1e-4;
 
 /// Largest mesh tolerance, mm.
 pub const MAX_TOLERANCE_MM: f64 = 10.0;

@@ -71,19 +71,23 @@
 //! | `blade.flow` | `"turbine"`, `"propeller"` | `"turbine"` | see [`Flow`] |
 //! | `blade.rotation` | `"ccw"`, `"cw"` | `"ccw"` | seen from upstream, see [`Rotation`] |
 //! | `blade.points-per-side` | integer in 8..=2000 | 120 | section resampling |
-//! | `blade.tolerance` | number, **mm** (whatever `units.length`) | 0.01 | largest mesh deviation, > 0 and <= 10 |
-//! | `blade.min-te-thickness` | number, **mm** (whatever `units.length`) | none | thinnest trailing edge, >= 0 |
-//! | `station` | array of tables (`[[station]]`) | | the stations, root to tip |
-//! | `station[i].radius` | number, length unit | required | distance from the rotor axis, >= 0, strictly increasing |
-//! | `station[i].chord` | number, length unit | required | > 0 |
+//! | `blade.tolerance` | number, length unit | 0.01 mm | largest mesh deviation; at least 0.0001 mm, at most 10 mm (in the file's unit: `0.0004` in an inch file is 0.01016 mm) |
+//! | `blade.min-te-thickness` | number, length unit | 0.4 mm | thinnest trailing edge: thinner edges are opened to it (the build summary lists them); 0 keeps knife edges; at most 10 % of every station's chord |
+//! | `blade.spanwise` | `"smooth"`, `"linear"` | `"smooth"` | how values vary between stations: monotone cubic, or straight lines (see [`Law`]) |
+//! | `station` | array of tables (`[[station]]`) | | the stations, root to tip, 2 to 1000 |
+//! | `station[i].radius` | number, length unit | required | distance from the rotor axis, >= 0, strictly increasing, at most 10 m |
+//! | `station[i].chord` | number, length unit | required | > 0, at most 10 m, at least 20 tolerances |
 //! | `station[i].twist` | number, angle unit | required | within -90..=90 degrees, sign as in [`crate::conventions`] |
 //! | `station[i].section` | string | `blade.section` | section designation or file |
 //! | `station[i].thickness` | number, **percent of chord** | none | relative thickness to scale the section to, 1..=50 |
-//! | `station[i].sweep` | number, length unit | 0 | chordwise offset of the stacking point |
-//! | `station[i].prebend` | number, length unit | 0 | out-of-plane offset, positive downstream |
+//! | `station[i].sweep` | number, length unit | 0 | chordwise offset of the stacking point, at most 10 m either way |
+//! | `station[i].prebend` | number, length unit | 0 | out-of-plane offset, positive downstream, at most 10 m either way |
 //! | `station[i].stacking` | as `blade.stacking` | `blade.stacking` | this station's stacking |
-//! | `stations` | string | | instead of `[[station]]`: a CSV station table, path relative to the TOML file |
-//! | any other table | table | | kept in [`Design::tables`] for a later stage |
+//! | `stations` | string | | instead of `[[station]]`: a CSV station table, path relative to the TOML file (not a TOML file) |
+//! | `root`, `tip`, `rotor`, `printer` | table | | kept in [`Design::tables`] for a later stage ([`TABLES`]) |
+//!
+//! Every length in the file, `blade.tolerance` and `blade.min-te-thickness` included, is in
+//! `units.length`; the design holds millimetres.
 //!
 //! `stacking` values ([`Stacking`]): a number is the chord fraction of a point on the
 //! chord line (0 leading edge, 1 trailing edge); `"quarter-chord"` is the aerodynamic
@@ -97,12 +101,33 @@
 //! blade byte for byte; 0.25 was the historical default.
 //!
 //! Stations are counted from 1 in key paths: `station[1]` is the first `[[station]]`.
-//! Unknown keys in `units`, `blade` and `station` entries are errors (with "did you mean"
-//! when a key is close), as are unknown top-level keys that are not tables and tables
-//! whose name is a near miss of `units`, `blade` or `station`.
+//! Unknown keys and tables anywhere are errors, with "did you mean" when a known name is
+//! close (`[roots]`: did you mean `[root]`?): the keys of `units`, `blade` and `station`
+//! here, top-level tables against this module's and [`TABLES`], and the keys of the
+//! tables of later stages when their stage reads them (`Design::table`).
 //!
 //! Lengths in the other tables (`root`, `rotor`, `printer`, ...) are in the file's length
 //! unit: read them with [`Design::table_mm`] (see [`Lengths`]).
+//!
+//! # Limits
+//!
+//! Plain input sanity, checked while reading (each refusal names the figure, the limit and
+//! a fix; the limits are constants of this module):
+//!
+//! | limit | value | why |
+//! |-------|-------|-----|
+//! | largest radius, chord, sweep, prebend | 10 m ([`MAX_LENGTH_MM`]) | spanwright is for small rotors; a larger number is almost always a unit slip, and the message says so (`radius 280 m: did you mean millimetres? ... units = { length = "m" }`) |
+//! | tolerance | 0.0001 to 10 mm ([`MIN_TOLERANCE_MM`], [`MAX_TOLERANCE_MM`]) | ten times finer than precision machining holds; the mesh grows with 1/tolerance |
+//! | smallest chord | 20 tolerances ([`MIN_CHORD_TOLERANCES`]) | each side of the mesh may lie a tolerance inside the surface: a 10 %-thick section must stay thicker than two tolerances |
+//! | smallest span, first to last station | 20 tolerances ([`MIN_SPAN_TOLERANCES`]) | the same along the span (a 0.001 mm "blade" is a wafer the mesh cannot close) |
+//! | neighbouring stations | at least one tolerance apart ([`MIN_GAP_TOLERANCES`]) | closer, the mesh cannot tell them apart |
+//! | stations | 2 to 1000 ([`MAX_STATIONS`]) | a few dozen describe any blade |
+//! | design file | 4 MiB ([`MAX_FILE_BYTES`]) | a thousand stations take about 50 kB |
+//! | `min-te-thickness` | 10 % of every chord ([`MAX_TE_CHORD_FRACTION`]) | thicker, the edge cuts the section off |
+//!
+//! A tolerance given for one build (`--tolerance`) is checked against the same rules by
+//! [`Design::check_tolerance`]. No limit here has an override: each bounds what the input
+//! can mean, not how long a valid design takes (that is estimated before meshing).
 //!
 //! # CSV station table
 //!
@@ -114,21 +139,24 @@
 //! ```
 //!
 //! * First non-blank, non-comment row: the header, naming the columns in any order and
-//!   case: `radius`, `chord`, `twist` (required), `section` (required unless a default
-//!   section is given by `[blade] section` or by the caller), `thickness`, `sweep`,
-//!   `prebend`, `stacking` (optional). `airfoil` and `profile` are accepted for
-//!   `section`; columns named `note(s)` or `comment(s)` are ignored; any other column is
-//!   an error.
-//! * A unit may follow the name: `radius [mm]`, `chord (in)`, `twist [deg]`,
-//!   `thickness [%]` or `thickness [fraction]`. Without one, the column is in the design's
-//!   units (for a bare CSV: mm, degrees, percent).
+//!   case: `radius` (or `r`), `chord` (or `c`, `chord length`), `twist` (or `twist
+//!   angle`) (required), `section` (required unless a default section is given by
+//!   `[blade] section` or by the caller; `airfoil`, `aerofoil` and `profile` are accepted
+//!   for it), `thickness` (or `t/c`, `relative thickness`), `sweep`, `prebend`,
+//!   `stacking` (optional); columns named `note(s)` or `comment(s)` are ignored; any other
+//!   column is an error.
+//! * A unit may follow the name the usual spreadsheet ways: `radius [mm]`, `chord (in)`,
+//!   `radius_mm`, `r/mm` (ISO 80000-1 quantity/unit), `twist deg`, `thickness [%]` or
+//!   `thickness [fraction]`. Without one, the column is in the design's units (for a bare
+//!   CSV: mm, degrees, percent). [`Design::columns`] says how each column was read
+//!   ([`ColumnRead`], `'r [mm]' read as radius in mm`), for the user.
 //! * `stacking` cells hold a chord fraction or a rule name, as `station[i].stacking`; an
 //!   empty cell takes `blade.stacking`. The column is a fraction of chord unless its header
 //!   says `stacking [%]` (then `30` is 30 % of chord).
 //! * Separator: comma, semicolon or tab, detected from the header. With semicolon or tab,
 //!   a decimal comma (`12,5`) is read as a decimal point.
-//! * Blank rows (also rows of empty cells), `#` comment rows, CRLF and a UTF-8 byte-order
-//!   mark are tolerated; cells may be quoted. Empty optional cells take their default.
+//! * Blank rows (also rows of empty cells), `#` comment rows, LF, CRLF and CR line ends
+//!   and a UTF-8 byte-order mark are tolerated; cells may be quoted. Empty optional cells take their default.
 //!   Trailing empty cells are fine; a row with fewer cells than the header, or with
 //!   filled cells beyond it, is an error.
 //! * [`Station::origin`] is `file:line` for CSV rows and `file:line: station[i]` for

@@ -208,8 +208,7 @@ fn table_size(rows: &[Row], rules: &Rules, problems: &mut Vec<Problem>) -> bool 
             rules
                 .whole
                 .problem(format!(
-                    "{} stations given, more than the {MAX_STATIONS} spanwright accepts",
-                    rows.len()
+                    "the table has more than the {MAX_STATIONS} stations spanwright accepts"
                 ))
                 .hint(
                     "a few dozen stations describe any blade; keep every tenth row, or fewer, \

@@ -455,7 +455,8 @@ impl Reader<'_> {
                 message,
                 Some(format!(
                     "give the largest allowed mesh deviation from {lo} mm (finer than any \
-                     printer or machine tool follows) to {hi} mm; 0.01 mm is a fine print"
+                     machine tool holds) to {hi} mm; 0.01 mm is a fine print, 0.001 mm a \
+                     machining file"
                 )),
             );
             return None;

@@ -5,7 +5,7 @@ use super::sections::{resolve_sections, TeChange};
 use super::{Options, PipelineError, Timings};
 use crate::airfoil::Section;
 use crate::blade::{Blade, BladeError};
-use crate::design::{Design, DesignError};
+use crate::design::Design;
 use crate::loft::Skin;
 use crate::mesh::{Part, TriMesh};
 use crate::root::{RootSpec, TipSpec};
@@ -126,7 +126,10 @@ fn blade_model(design: &Design, sections: &[Section]) -> Result<Blade, PipelineE
 /// A `[root]` or `[tip]` error as a design problem naming the file, line and key.
 fn in_table(design: &Design, e: BladeError) -> PipelineError {
     match e.key() {
-        Some(key) => DesignError::one(design.problem(&key, e.to_string())).into(),
+        Some(key) => PipelineError::Table {
+            problem: design.problem(&key, e.to_string()),
+            cause: e,
+        },
         None => e.into(),
     }
 }
