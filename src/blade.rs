@@ -5,10 +5,12 @@
 //! [`crate::conventions`]. It samples the span into *rings* (placed sections with one
 //! common point structure) for the lofter.
 //!
-//! Spanwise interpolation is monotone cubic ([`crate::interp::Monotone`]): chord, twist,
-//! offsets and every section ordinate vary C1 between stations and never overshoot the
-//! neighbouring station values, so where the section changes along the span its shape
-//! is blended point by point.
+//! Spanwise interpolation follows the design's law ([`crate::interp::Law`],
+//! `blade.spanwise`, stated by [`Blade::spanwise`]): by default monotone cubic
+//! ([`crate::interp::Monotone`]): chord, twist, offsets and every section ordinate vary
+//! C1 between stations and never overshoot the neighbouring station values; or linear
+//! ([`crate::interp::Linear`]): straight lines between stations. Either way, where the
+//! section changes along the span its shape is blended point by point.
 //!
 //! The stacking axis passes through each section at the point its station's rule names
 //! (a chord fraction, the quarter chord, the area centroid or the thickest point); how
@@ -18,7 +20,7 @@
 
 use crate::airfoil::Section;
 use crate::design::{BladeOptions, Flow, Rotation, Stacking, Station};
-use crate::interp::Monotone;
+use crate::interp::{Curve, Law};
 use crate::root::{RootError, RootSpec, TipShape, TipSpec};
 use nalgebra::{Point2, Point3};
 
@@ -42,6 +44,18 @@ pub enum BladeError {
     /// The tip settings cannot be built.
     #[error("tip.length = {0}: must be a positive number of millimetres")]
     TipLength(f64),
+    /// A round tip longer than [`MAX_TIP_CHORDS`] tip chords.
+    #[error(
+        "tip.length = {length} mm is more than {MAX_TIP_CHORDS} times the {chord} mm tip \
+         chord: a round tip closes the blade over about half a chord (the default); for a \
+         longer blade add stations, or give a length of at most {} mm", MAX_TIP_CHORDS * chord
+    )]
+    TipTooLong {
+        /// The length given, mm.
+        length: f64,
+        /// The chord at the last station, mm.
+        chord: f64,
+    },
     /// A station's stacking rule cannot be resolved from its section.
     #[error(
         "{origin}: stacking \"{rule}\" cannot be found on section '{section}': {reason} \
@@ -59,16 +73,28 @@ pub enum BladeError {
     },
 }
 
+impl BladeError {
+    /// The design key at fault, for errors of the `[root]` and `[tip]` tables (so the
+    /// message can name the file and line).
+    pub fn key(&self) -> Option<String> {
+        match self {
+            BladeError::Root(e) => Some(e.key()),
+            BladeError::TipLength(_) | BladeError::TipTooLong { .. } => Some("tip.length".into()),
+            _ => None,
+        }
+    }
+}
+
 /// The spanwise-interpolated blade.
 #[derive(Debug, Clone)]
 pub struct Blade {
     radii: Vec<f64>,
-    chord: Monotone,
-    twist: Monotone,
-    sweep: Monotone,
-    prebend: Monotone,
+    chord: Curve,
+    twist: Curve,
+    sweep: Curve,
+    prebend: Curve,
     /// One interpolant per section coordinate: `shape[k]` = (x, y) of point `k`.
-    shape: Vec<(Monotone, Monotone)>,
+    shape: Vec<(Curve, Curve)>,
     le_index: usize,
     name: String,
     stacking: StackLine,
@@ -90,6 +116,10 @@ pub enum Region {
     /// Rounded tip closure.
     Tip,
 }
+
+/// Longest round tip, in tip chords (`tip.length`): the closure is an ellipse continuing
+/// the blade; much longer, it is no longer a tip but a spike the stations should describe.
+pub const MAX_TIP_CHORDS: f64 = 2.0;
 
 /// The round tip stops where the outline has shrunk to 5 % (sin of the elliptic angle).
 const TIP_END_SIN: f64 = 0.998_749_217_771_908_8; // sqrt(1 - 0.05^2)
@@ -151,9 +181,10 @@ impl Blade {
             .collect();
         let origins: Vec<&str> = stations.iter().map(|s| s.origin.as_str()).collect();
         let stacking = StackLine::new(&radii, &rules, sections, &origins)?;
-        let curve = |f: &dyn Fn(&Station) -> f64| -> Result<Monotone, BladeError> {
+        let law = opts.spanwise;
+        let curve = |f: &dyn Fn(&Station) -> f64| -> Result<Curve, BladeError> {
             let ys: Vec<f64> = stations.iter().map(f).collect();
-            Monotone::new(&radii, &ys).ok_or_else(|| {
+            Curve::new(law, &radii, &ys).ok_or_else(|| {
                 BladeError::Stations("radii must increase strictly and values be finite".into())
             })
         };
@@ -162,9 +193,9 @@ impl Blade {
         for k in 0..n {
             let xs: Vec<f64> = sections.iter().map(|s| s.points()[k].x).collect();
             let ys: Vec<f64> = sections.iter().map(|s| s.points()[k].y).collect();
-            let fx = Monotone::new(&radii, &xs)
+            let fx = Curve::new(law, &radii, &xs)
                 .ok_or_else(|| BladeError::Stations("non-finite section point".into()))?;
-            let fy = Monotone::new(&radii, &ys)
+            let fy = Curve::new(law, &radii, &ys)
                 .ok_or_else(|| BladeError::Stations("non-finite section point".into()))?;
             shape.push((fx, fy));
         }
@@ -260,6 +291,10 @@ impl Blade {
             if !(l > 0.0 && l.is_finite()) {
                 return Err(BladeError::TipLength(l));
             }
+            let chord = self.chord_at(self.tip_radius());
+            if l > MAX_TIP_CHORDS * chord {
+                return Err(BladeError::TipTooLong { length: l, chord });
+            }
         }
         self.tip = tip;
         Ok(self)
@@ -340,7 +375,7 @@ impl Blade {
         a.iter().zip(&b).map(|(p, q)| (q - p) / h).collect()
     }
 
-    fn slope(f: &Monotone, r: f64, h: f64) -> f64 {
+    fn slope(f: &Curve, r: f64, h: f64) -> f64 {
         (f.eval(r + h) - f.eval(r)) / h
     }
 
@@ -485,7 +520,7 @@ impl Blade {
                 let h11 = s * s * s - s * s;
                 let pts = self.transition_outline(s);
                 let h = 1e-5 * (last - first);
-                let cont = |f: &Monotone| f.eval(first) + h11 * l * Self::slope(f, first, h);
+                let cont = |f: &Curve| f.eval(first) + h11 * l * Self::slope(f, first, h);
                 (
                     pts,
                     cont(&self.twist),
@@ -507,7 +542,7 @@ impl Blade {
                     .map(|(p, d)| Point2::from((p.coords + d * dz) * k))
                     .collect();
                 let h = -1e-5 * (last - first);
-                let cont = |f: &Monotone| f.eval(last) + dz * Self::slope(f, last, h);
+                let cont = |f: &Curve| f.eval(last) + dz * Self::slope(f, last, h);
                 (
                     pts,
                     cont(&self.twist),
@@ -516,6 +551,12 @@ impl Blade {
                 )
             }
         }
+    }
+
+    /// How chord, twist, offsets and section shape vary between stations (the design's
+    /// `blade.spanwise`), for the build summary.
+    pub fn spanwise(&self) -> Law {
+        self.chord.law()
     }
 
     /// Root radius (first station), mm.

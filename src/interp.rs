@@ -1,8 +1,16 @@
-//! Spanwise interpolation of station values (chord, twist, thickness, offsets).
+//! Spanwise interpolation of station values (chord, twist, thickness, offsets), by one of
+//! two laws a design chooses ([`Law`], the design key `blade.spanwise`):
 //!
-//! A monotone piecewise cubic Hermite interpolant (PCHIP): C1, passes through every
-//! station, and never overshoots: between two stations the value stays within their
-//! range, so a chord or thickness can not dip or bulge between stations.
+//! * [`Law::Smooth`] (the default), [`Monotone`]: a monotone piecewise cubic Hermite
+//!   interpolant (PCHIP): C1, passes through every station, and never overshoots: between
+//!   two stations the value stays within their range, so a chord or thickness can not dip
+//!   or bulge between stations.
+//! * [`Law::Linear`], [`Linear`]: straight lines between stations (C0, kinks at the
+//!   stations), for a planform meant as straight segments, as many printed tables are.
+//!
+//! [`Curve`] is either, chosen by the law.
+//!
+//! The monotone cubic:
 //! Method: F. N. Fritsch & R. E. Carlson, "Monotone Piecewise Cubic Interpolation",
 //! SIAM J. Numer. Anal. 17(2), 1980, with the harmonic-mean slopes of Fritsch & Butland
 //! (1984) as used by many numerical libraries.
@@ -11,6 +19,131 @@
 //! so the interpolant is an ordinary `splines::Spline` that callers can sample.
 
 use splines::{Interpolation, Key, Spline};
+
+/// How station values vary between stations.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Law {
+    /// Monotone cubic ([`Monotone`]): smooth (C1), never overshooting a station's
+    /// neighbours.
+    #[default]
+    Smooth,
+    /// Straight lines between stations ([`Linear`]).
+    Linear,
+}
+
+impl Law {
+    /// Names accepted in design files (`blade.spanwise`).
+    pub const NAMES: [&'static str; 2] = ["smooth", "linear"];
+
+    /// Reads a law's name (case-insensitive).
+    pub fn parse(name: &str) -> Option<Law> {
+        match name.trim().to_ascii_lowercase().as_str() {
+            "smooth" => Some(Law::Smooth),
+            "linear" => Some(Law::Linear),
+            _ => None,
+        }
+    }
+
+    /// The name as written in a design file.
+    pub fn name(self) -> &'static str {
+        match self {
+            Law::Smooth => "smooth",
+            Law::Linear => "linear",
+        }
+    }
+
+    /// A description for summaries: `smooth (monotone cubic between stations)`.
+    pub fn describe(self) -> &'static str {
+        match self {
+            Law::Smooth => "smooth (monotone cubic between stations)",
+            Law::Linear => "linear (straight lines between stations)",
+        }
+    }
+}
+
+impl std::fmt::Display for Law {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+/// Checks interpolation data: at least two points, equal lengths, finite values, `x`
+/// strictly increasing.
+fn valid(x: &[f64], y: &[f64]) -> bool {
+    x.len() >= 2
+        && y.len() == x.len()
+        && x.iter().chain(y).all(|v| v.is_finite())
+        && x.windows(2).all(|w| w[1] > w[0])
+}
+
+/// Straight lines through `(x_i, y_i)` with strictly increasing `x`. Outside
+/// `[x_0, x_n]` the end values are held (no extrapolation).
+#[derive(Debug, Clone)]
+pub struct Linear {
+    x: Vec<f64>,
+    y: Vec<f64>,
+}
+
+impl Linear {
+    /// Builds the interpolant; `None` for the same data [`Monotone::new`] refuses.
+    pub fn new(x: &[f64], y: &[f64]) -> Option<Self> {
+        valid(x, y).then(|| Self {
+            x: x.to_vec(),
+            y: y.to_vec(),
+        })
+    }
+
+    /// Value at `x`.
+    pub fn eval(&self, x: f64) -> f64 {
+        let n = self.x.len();
+        if x <= self.x[0] {
+            return self.y[0];
+        }
+        if x >= self.x[n - 1] {
+            return self.y[n - 1];
+        }
+        // The segment [x_i, x_{i+1}] holding x.
+        let i = self.x.partition_point(|&xi| xi <= x).clamp(1, n - 1) - 1;
+        let t = (x - self.x[i]) / (self.x[i + 1] - self.x[i]);
+        self.y[i] + t * (self.y[i + 1] - self.y[i])
+    }
+}
+
+/// A spanwise curve by either [`Law`].
+#[derive(Debug, Clone)]
+pub enum Curve {
+    /// Monotone cubic.
+    Smooth(Monotone),
+    /// Straight lines.
+    Linear(Linear),
+}
+
+impl Curve {
+    /// The curve of `law` through the points; `None` as [`Monotone::new`].
+    pub fn new(law: Law, x: &[f64], y: &[f64]) -> Option<Curve> {
+        match law {
+            Law::Smooth => Monotone::new(x, y).map(Curve::Smooth),
+            Law::Linear => Linear::new(x, y).map(Curve::Linear),
+        }
+    }
+
+    /// Value at `x` (end values held outside the stations).
+    pub fn eval(&self, x: f64) -> f64 {
+        match self {
+            Curve::Smooth(m) => m.eval(x),
+            Curve::Linear(l) => l.eval(x),
+        }
+    }
+
+    /// The law of this curve.
+    pub fn law(&self) -> Law {
+        match self {
+            Curve::Smooth(_) => Law::Smooth,
+            Curve::Linear(_) => Law::Linear,
+        }
+    }
+}
 
 /// A monotone C1 interpolant through `(x_i, y_i)` with strictly increasing `x`.
 /// Outside `[x_0, x_n]` the end values are held (no extrapolation).
@@ -26,11 +159,7 @@ impl Monotone {
     /// a value is not finite, or `x` is not strictly increasing.
     pub fn new(x: &[f64], y: &[f64]) -> Option<Self> {
         let n = x.len();
-        if n < 2
-            || y.len() != n
-            || x.iter().chain(y).any(|v| !v.is_finite())
-            || x.windows(2).any(|w| w[1] <= w[0])
-        {
+        if !valid(x, y) {
             return None;
         }
         let h: Vec<f64> = x.windows(2).map(|w| w[1] - w[0]).collect();
@@ -118,6 +247,27 @@ mod tests {
             let t = 7.0 * k as f64 / 99.0;
             assert!((m.eval(t) - (3.0 - 0.5 * t)).abs() < 1e-12);
         }
+    }
+
+    #[test]
+    fn linear_law_is_the_chord_between_stations() {
+        // Linear interpolation: y = y_i + (x - x_i) (y_{i+1} - y_i) / (x_{i+1} - x_i)
+        // (elementary); the midpoint of each segment is the mean of its ends.
+        let x = [0.0, 1.0, 4.0, 5.0];
+        let y = [2.0, 4.0, -2.0, 7.0];
+        let l = Curve::new(Law::Linear, &x, &y).unwrap();
+        assert_eq!(l.law(), Law::Linear);
+        for w in 0..3 {
+            let mid = 0.5 * (x[w] + x[w + 1]);
+            assert!((l.eval(mid) - 0.5 * (y[w] + y[w + 1])).abs() < 1e-12);
+            assert!((l.eval(x[w]) - y[w]).abs() < 1e-12);
+        }
+        assert!((l.eval(2.5) - 1.0).abs() < 1e-12, "halfway along [1, 4]: {}", l.eval(2.5));
+        assert_eq!(l.eval(-1.0), 2.0);
+        assert_eq!(l.eval(9.0), 7.0);
+        assert!(Linear::new(&[0.0, 0.0], &[1.0, 2.0]).is_none());
+        assert_eq!(Law::parse(" Linear "), Some(Law::Linear));
+        assert_eq!(Law::parse("cubic"), None);
     }
 
     #[test]

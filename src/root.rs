@@ -182,8 +182,8 @@ pub enum TipShape {
 /// A root setting that cannot be built, with what to change.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum RootError {
-    /// A length or diameter is not a positive finite number.
-    #[error("root.{key} = {value}: must be a positive number of millimetres")]
+    /// A length, diameter or angle is out of its range (see [`RootError::rule`]).
+    #[error("root.{key} = {value}: {}", RootError::rule(key))]
     NotPositive {
         /// Key path below `root`.
         key: &'static str,
@@ -250,6 +250,38 @@ pub enum RootError {
         /// Smallest diameter that works, mm.
         needed: f64,
     },
+}
+
+impl RootError {
+    /// What a value of the key below `root` must be, for [`RootError::NotPositive`].
+    pub fn rule(key: &str) -> &'static str {
+        match key {
+            "bore.point-angle" => {
+                "must be an angle of more than 0 and at most 180 degrees (118 is the common \
+                 drill point)"
+            }
+            "shank-length" | "flange.fillet" => "must be 0 or more millimetres",
+            "cross-holes.at" => "must be a distance in millimetres",
+            _ => "must be a positive number of millimetres",
+        }
+    }
+
+    /// The design key at fault (`root.shank-length`, ...), for messages that name the
+    /// file and line.
+    pub fn key(&self) -> String {
+        let key = match self {
+            RootError::NotPositive { key, .. } => return format!("root.{key}"),
+            RootError::ThinWall { what, .. } => return (*what).to_string(),
+            RootError::BehindAxis(_) => "shank-length",
+            RootError::TransitionTooShort { .. } => "transition-length",
+            RootError::Waist { .. } => "shank-diameter",
+            RootError::FlatTooDeep { .. } => "flat-depth",
+            RootError::CrossHoleShank => "cross-holes",
+            RootError::FlangeTooLong { .. } => "flange.thickness",
+            RootError::FlangeTooSmall { .. } => "flange.diameter",
+        };
+        format!("root.{key}")
+    }
 }
 
 impl Lengths for RootSpec {

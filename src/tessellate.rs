@@ -48,8 +48,22 @@ pub enum TessellateError {
     #[error("tolerance must be a positive number of millimetres, got {0}")]
     Tolerance(f64),
     /// A cap outline crosses itself, so no cap can close the solid there.
-    #[error("the {0} cap outline crosses itself; the section there self-intersects")]
+    #[error("{}", cap_message(.0))]
     CapSelfIntersects(&'static str),
+}
+
+/// What a self-intersecting cap means for the design, and what to change.
+fn cap_message(which: &str) -> String {
+    let section = if which == "root" {
+        "the first station's section, or the [root] shank at the root face"
+    } else {
+        "the last station's section, or the end of a [tip] shape = \"round\""
+    };
+    format!(
+        "the {which} cap outline crosses itself once meshed: the section there ({section}) \
+         self-intersects, usually at a thin trailing edge; open the trailing edge with [blade] \
+         min-te-thickness (e.g. 0.4 mm), give a finer tolerance, or check that section"
+    )
 }
 
 /// A tessellated skin with the grid parameters it used.

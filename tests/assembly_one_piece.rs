@@ -38,8 +38,8 @@ fn one_piece_volume_is_blades_plus_prism_minus_bore() {
     // sit on the prism's faces from outside, so the volumes add.
     for (bore, genus) in [(None, 0u32), (Some(3.0), 1)] {
         let rotor = match bore {
-            Some(d) => format!("[rotor]\nblades = 5\nhub-radius = 20\n[rotor.one-piece]\nthickness = 16\nbore = {d}\n"),
-            None => "[rotor]\nblades = 5\nhub-radius = 20\n[rotor.one-piece]\nthickness = 16\n".into(),
+            Some(d) => format!("[rotor]\nblades = 5\n[rotor.one-piece]\nthickness = 16\nbore = {d}\n"),
+            None => "[rotor]\nblades = 5\n[rotor.one-piece]\nthickness = 16\n".into(),
         };
         let d = parse_toml_str(&design(&rotor), None).unwrap();
         // The pipeline checks the one-piece rotor with the genus its bore implies.
@@ -70,11 +70,11 @@ fn one_piece_volume_is_blades_plus_prism_minus_bore() {
 fn one_piece_refuses_what_it_cannot_join() {
     let cases = [
         (
-            "[rotor]\nblades = 2\nhub-radius = 20\n[rotor.one-piece]\n",
+            "[rotor]\nblades = 2\n[rotor.one-piece]\n",
             "rotor.blades",
         ),
         (
-            "[rotor]\nblades = 3\nhub-radius = 20\ncone = 3\n[rotor.one-piece]\n",
+            "[rotor]\nblades = 3\ncone = 3\n[rotor.one-piece]\n",
             "rotor.cone",
         ),
         (
@@ -82,15 +82,15 @@ fn one_piece_refuses_what_it_cannot_join() {
             "rotor.hub-radius",
         ),
         (
-            "[rotor]\nblades = 12\nhub-radius = 20\n[rotor.one-piece]\n",
-            "rotor.hub-radius",
+            "[rotor]\nblades = 12\n[rotor.one-piece]\n",
+            "rotor.one-piece",
         ),
         (
-            "[rotor]\nblades = 5\nhub-radius = 20\n[rotor.one-piece]\nthickness = 2\n",
+            "[rotor]\nblades = 5\n[rotor.one-piece]\nthickness = 2\n",
             "rotor.one-piece.thickness",
         ),
         (
-            "[rotor]\nblades = 5\nhub-radius = 20\n[rotor.one-piece]\nbore = 45\n",
+            "[rotor]\nblades = 5\n[rotor.one-piece]\nbore = 45\n",
             "rotor.one-piece.bore",
         ),
     ];

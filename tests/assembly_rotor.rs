@@ -70,7 +70,7 @@ fn build_rotor(d: &Design) -> Result<Built, PipelineError> {
     let rotor = outcome.rotor.clone().ok_or_else(|| {
         PipelineError::from(spanwright::design::DesignError::one(d.problem(
             "rotor",
-            "no [rotor] table: add one with `blades` and `hub-radius` (mm)",
+            "no [rotor] table: add one with `blades`",
         )))
     })?;
     let bodies = &outcome.part(PartKind::Rotor).expect("rotor part").bodies;
@@ -128,11 +128,11 @@ fn design(rotation: &str, flow: &str, section: &str, twist: (f64, f64), rotor: &
 
 const ROTOR: &str = r#"
         blades = 3
-        hub-radius = 30
         pitch = 4
         cone = 5
         azimuth-offset = 10
         [rotor.hub]
+        diameter = 60
         thickness = 12
         bore = 8
         bolt-count = 3
@@ -238,7 +238,7 @@ fn blades_are_spaced_evenly_in_the_sense_of_rotation() {
     // from +z toward -x (conventions: the blade as built moves toward -x at +z).
     for (sense, sign) in [("ccw", -1.0), ("cw", 1.0)] {
         for blades in [2u32, 3, 5] {
-            let rotor_text = format!("blades = {blades}\nhub-radius = 30\ncone = 3\npitch = 2");
+            let rotor_text = format!("blades = {blades}\ncone = 3\npitch = 2");
             let d = design(sense, "turbine", "naca4412", (20.0, 5.0), &rotor_text);
             let rotor = build_rotor(&d).expect("rotor");
             assert_eq!(rotor.blades.len(), blades as usize);
@@ -278,7 +278,7 @@ fn cone_tilts_blades_downstream_about_the_root() {
         "turbine",
         "naca4412",
         (20.0, 5.0),
-        "blades = 1\nhub-radius = 30",
+        "blades = 1",
     ))
     .expect("flat");
     let coned = build_rotor(&design(
@@ -286,7 +286,7 @@ fn cone_tilts_blades_downstream_about_the_root() {
         "turbine",
         "naca4412",
         (20.0, 5.0),
-        "blades = 1\nhub-radius = 30\ncone = 8",
+        "blades = 1\ncone = 8",
     ))
     .expect("coned");
     let (p, q) = (
@@ -304,15 +304,17 @@ fn cone_tilts_blades_downstream_about_the_root() {
 fn pitch_adds_to_twist() {
     // Conventions: pitch turns the leading edge upstream like twist, about the stacking
     // axis, so the chord makes twist + pitch with the plane of rotation. A symmetric,
-    // closed NACA 0012 section makes the chord line the section's longest diameter.
+    // closed NACA 0012 section makes the chord line the section's longest diameter (kept
+    // closed: min-te-thickness 0, no trailing edge opened by default).
     for pitch in [-6.0, 0.0, 7.0] {
-        let d = design(
+        let mut d = design(
             "ccw",
             "turbine",
             "naca0012-closed",
             (10.0, 10.0),
-            &format!("blades = 2\nhub-radius = 30\npitch = {pitch}"),
+            &format!("blades = 2\npitch = {pitch}"),
         );
+        d.blade.min_te_thickness = Some(0.0);
         let rotor = build_rotor(&d).expect("rotor");
         let (le, te) = support::chord_line_at(&rotor.blades[0].mesh, 100.0);
         let angle = (te.y - le.y).atan2(te.x - le.x).to_degrees();
@@ -430,7 +432,7 @@ fn symmetric_sections_leave_the_side_undetermined() {
         "turbine",
         "naca0012",
         (20.0, 5.0),
-        "blades = 2\nhub-radius = 30",
+        "blades = 2",
     );
     let blade = build_blade(&d, &Options::default()).expect("blade");
     let radii = hand_radii(&[40.0, 80.0, 120.0]);
@@ -481,7 +483,7 @@ fn hub_is_a_solid_of_the_right_genus_and_volume() {
         "turbine",
         "naca4412",
         (20.0, 5.0),
-        "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10",
+        "blades = 3\n[rotor.hub]\nthickness = 10\ndiameter = 60",
     ))
     .expect("plain");
     let m = &plain.hub.as_ref().expect("hub").mesh;
@@ -492,18 +494,18 @@ fn hub_is_a_solid_of_the_right_genus_and_volume() {
 #[test]
 fn bad_rotor_tables_name_their_key() {
     let cases = [
-        ("blades = 0\nhub-radius = 30", "rotor.blades"),
+        ("blades = 0", "rotor.blades"),
         ("blades = 3\nhub-radius = -1", "rotor.hub-radius"),
-        ("blades = 3\nhub-radius = 30\ncone = 60", "rotor.cone"),
-        ("blades = 3\nhub-radius = 30\npitch = 95", "rotor.pitch"),
-        ("blades = 3\nhub-radius = 30\nspin = 2", "rotor.spin"),
-        ("blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10\nbore = 59", "rotor.hub.bore"),
+        ("blades = 3\ncone = 60", "rotor.cone"),
+        ("blades = 3\npitch = 95", "rotor.pitch"),
+        ("blades = 3\nspin = 2", "rotor.spin"),
+        ("blades = 3\n[rotor.hub]\nthickness = 10\ndiameter = 60\nbore = 59", "rotor.hub.bore"),
         (
-            "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10\nbolt-count = 4\nbolt-diameter = 5",
+            "blades = 3\n[rotor.hub]\nthickness = 10\ndiameter = 60\nbolt-count = 4\nbolt-diameter = 5",
             "rotor.hub.bolt-circle",
         ),
         (
-            "blades = 3\nhub-radius = 30\n[rotor.hub]\nthickness = 10\nbolt-count = 12\nbolt-diameter = 8\nbolt-circle = 30",
+            "blades = 3\n[rotor.hub]\nthickness = 10\ndiameter = 60\nbolt-count = 12\nbolt-diameter = 8\nbolt-circle = 30",
             "rotor.hub.bolt-circle",
         ),
     ];
@@ -518,7 +520,7 @@ fn bad_rotor_tables_name_their_key() {
         "turbine",
         "naca4412",
         (20.0, 5.0),
-        "blades = 3\nhub-radius = 30",
+        "blades = 3",
     );
     d.tables.remove("rotor");
     let e = build_rotor(&d).expect_err("fails").to_string();
@@ -572,7 +574,6 @@ fn socket_design(rotation: &str, hub: &str) -> Design {
         transition-length = 25
         [rotor]
         blades = 3
-        hub-radius = 35
         pitch = 3
         azimuth-offset = 15
         [rotor.hub]
@@ -778,7 +779,7 @@ fn hubs_over_a_range_of_blades_bolts_and_tolerances_are_solids() {
                 };
                 let spec = RotorSpec {
                     blades,
-                    hub_radius: 35.0,
+                    hub_radius: None,
                     pitch: 0.0,
                     cone: 0.0,
                     azimuth_offset: offset,

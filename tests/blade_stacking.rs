@@ -9,8 +9,12 @@ use spanwright::mesh::Part;
 use spanwright::pipeline::{build_blade, BuiltBlade, Options};
 use spanwright::props::Slice;
 
+/// A design whose sections stay as published (no trailing edge opened: the references
+/// below are the published sections' own centroids and thickest points).
 fn design(toml: &str) -> Design {
-    parse_toml_str(toml, None).expect("valid design")
+    let mut d = parse_toml_str(toml, None).expect("valid design");
+    d.blade.min_te_thickness = Some(0.0);
+    d
 }
 
 fn model_at(d: &Design, tolerance: Option<f64>) -> BuiltBlade {

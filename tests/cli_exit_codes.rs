@@ -23,10 +23,11 @@ chord = 20
 twist = 5
 ";
 
-/// The same blade with a rotor whose hub disc (diameter from hub-radius = 100 mm)
-/// reaches through the blades' roots at 40 mm.
+/// The same blade with a rotor whose hub disc stops short of the blades' root face at
+/// 40 mm (the default diameter), but whose 10 degree cone tilts the root faces into the
+/// disc: the input checks pass, the bodies meet, and the interference check refuses them.
 fn hub_through_blades() -> String {
-    format!("{BLADE}[rotor]\nblades = 3\nhub-radius = 100\n[rotor.hub]\nthickness = 10\n")
+    format!("{BLADE}[rotor]\nblades = 3\ncone = 10\n[rotor.hub]\nthickness = 10\n")
 }
 
 /// A closed box as ASCII STL (3D Systems, 1989: facet normal, outer loop, vertices).
@@ -156,7 +157,7 @@ fn draft_exits_0_2() {
         "draft",
         "--tip-radius",
         "300",
-        "--hub-radius",
+        "--inner-radius",
         "50",
         "--blades",
         "3",

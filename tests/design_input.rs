@@ -239,12 +239,12 @@ fn demo_designs_are_valid() {
     #[serde(rename_all = "kebab-case")]
     struct Rotor {
         blades: u32,
-        hub_radius: f64,
+        hub_radius: Option<f64>,
     }
     let r: Rotor = f.table("rotor").unwrap().unwrap();
     assert_eq!(r.blades, 5);
-    // The fan is printed whole: its blades join the hub at the first station.
-    assert!(r.hub_radius <= f.stations[0].radius);
+    // The blades join the hub at their root face: the demos no longer spell it out.
+    assert_eq!(r.hub_radius, None);
 }
 
 // ---- malformed inputs: each names the file and the line or key ----
@@ -647,7 +647,7 @@ fn table_errors_name_key_path() {
         shape: String,
     }
     let e = d.table::<Tip>("tip").unwrap_err();
-    has(&e, &p, 15, &["tip.extra: unknown field `extra`"]);
+    has(&e, &p, 15, &["tip.extra: unknown key 'extra'"]);
 }
 
 // ---- properties ----
@@ -690,7 +690,7 @@ mod properties {
         /// (NIST SP 811, 2008, Appendix B.8), with the same order and sections.
         #[test]
         fn csv_in_inches_round_trips(
-            steps in proptest::collection::vec(0.01f64..50.0, 2..15),
+            steps in proptest::collection::vec(0.01f64..25.0, 2..15),
             chord in 0.1f64..20.0,
             twist in -60.0f64..60.0,
         ) {

@@ -364,7 +364,7 @@ fn solidity_twist_and_speed_ratio_warnings() {
     // Low tip speed ratio and small hub: wide, heavily twisted root (common practice).
     let spec = DraftSpec {
         tip_speed_ratio: 0.8,
-        hub_radius: 20.0,
+        inner_radius: 20.0,
         blades: 6,
         ..demo()
     };
@@ -442,7 +442,7 @@ fn cosine_spacing_clusters_toward_the_tip() {
 #[test]
 fn bad_input_lists_every_problem_and_propeller_is_refused() {
     let spec = DraftSpec {
-        hub_radius: 700.0,
+        inner_radius: 700.0,
         design_cl: -1.0,
         stations: 1,
         ..demo()
@@ -450,7 +450,7 @@ fn bad_input_lists_every_problem_and_propeller_is_refused() {
     match draft(&spec) {
         Err(DraftError::Invalid(p)) => {
             let keys: Vec<&str> = p.iter().map(|p| p.key.as_str()).collect();
-            assert_eq!(keys, ["hub_radius", "design_cl", "stations"]);
+            assert_eq!(keys, ["inner_radius", "design_cl", "stations"]);
             assert!(p[0].message.contains("600"), "{}", p[0]);
         }
         other => panic!("expected Invalid, got {other:?}"),
@@ -515,7 +515,7 @@ fn cli(args: &[&str], dir: &std::path::Path) -> Ran {
 const GOOD: [&str; 12] = [
     "--tip-radius",
     "600",
-    "--hub-radius",
+    "--inner-radius",
     "90",
     "--blades",
     "3",
@@ -582,7 +582,7 @@ fn cli_exits_2_on_bad_input() {
     let dir = tempfile::tempdir().unwrap();
     let cases: Vec<(Vec<&str>, &str)> = vec![
         (vec!["--tip-radius", "-5"], "tip_radius"),
-        (vec!["--hub-radius", "900"], "hub_radius"),
+        (vec!["--inner-radius", "900"], "inner_radius"),
         (vec!["--linear", "90..50"], "50..90"),
         (vec!["--linear", "10..90"], "hub"),
         (vec!["--flow", "propeller"], "turbine"),
@@ -671,7 +671,7 @@ fn blade_element_estimate_reproduces_the_optimum() {
     for lam in [2.0, 6.0, 9.0] {
         let t = draft(&DraftSpec {
             tip_speed_ratio: lam,
-            hub_radius: 60.0,
+            inner_radius: 60.0,
             ..demo()
         })
         .unwrap();

@@ -32,6 +32,7 @@ fn straight_naca0012_prism_volume() {
         name = "prism"
         [blade]
         section = "naca0012"
+        min-te-thickness = 0
         points-per-side = 200
         tolerance = 0.002
         [[station]]
@@ -59,6 +60,7 @@ fn tapered_blade_volume_is_the_integral_of_section_area() {
         r#"
         [blade]
         section = "naca0015"
+        min-te-thickness = 0
         points-per-side = 160
         tolerance = 0.002
         [[station]]
@@ -85,6 +87,7 @@ fn twist_rotates_the_chord_about_the_stacking_point() {
         r#"
         [blade]
         section = "naca0012-closed"
+        min-te-thickness = 0
         stacking = 0.3
         points-per-side = 120
         [[station]]

@@ -20,6 +20,7 @@ fn design(extra: &str, pps: usize, tol: f64) -> String {
         name = "shank"
         [blade]
         section = "naca0012"
+        min-te-thickness = 0
         points-per-side = {pps}
         tolerance = {tol}
         [[station]]
@@ -51,7 +52,12 @@ fn assert_solid(m: &BuiltBlade) {
 
 fn root_error(text: &str) -> (RootError, String) {
     match try_model(text) {
-        Err(PipelineError::Blade(BladeError::Root(e))) => {
+        // Placed in the design file: the problem names the line and key.
+        Err(PipelineError::Table {
+            cause: BladeError::Root(e),
+            problem,
+        }) => {
+            assert!(problem.key.as_deref().is_some_and(|k| k.starts_with("root")));
             let msg = e.to_string();
             (e, msg)
         }
@@ -228,10 +234,8 @@ fn transition_is_continuous_in_position_and_slope_and_monotone_in_area() {
 fn trailing_edge_keeps_its_printable_thickness_through_the_transition() {
     // min-te-thickness = 0.4 mm (one line of a 0.4 mm nozzle, common practice). The
     // transition never lets the gap fall below the first station's.
-    let text = design(&root(20.0, ""), 60, 0.05).replace(
-        "tolerance = 0.05",
-        "tolerance = 0.05\n        min-te-thickness = 0.4",
-    );
+    let text = design(&root(20.0, ""), 60, 0.05)
+        .replace("min-te-thickness = 0\n", "min-te-thickness = 0.4\n");
     let m = model(&text);
     assert_solid(&m);
     let b = &m.blade;

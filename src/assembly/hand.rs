@@ -229,6 +229,53 @@ pub fn check_hand(
     report
 }
 
+/// Thickness and mid-line of a slice across its chord (from `origin` along `e`, `chord`
+/// long) at 5 % steps.
+struct Profile {
+    /// Chord fraction of the thickest step.
+    s_thick: f64,
+    /// Sum of the mid-line offsets along the chord's normal, mm.
+    mean_sum: f64,
+    /// Steps with both surfaces found.
+    mean_n: usize,
+}
+
+fn profile(
+    segs: &[[Point2<f64>; 2]],
+    origin: Point2<f64>,
+    e: Vector2<f64>,
+    chord: f64,
+) -> Profile {
+    let nrm = Vector2::new(-e.y, e.x);
+    let (mut thickest, mut s_thick, mut mean_sum, mut mean_n) = (0.0, 0.5, 0.0, 0);
+    for k in 1..20 {
+        let s = chord * k as f64 / 20.0;
+        let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
+        for [p, q] in segs {
+            let (sp, sq) = ((p - origin).dot(&e), (q - origin).dot(&e));
+            if (sp - s) * (sq - s) < 0.0 || (sp == s && sq != s) {
+                let w = (s - sp) / (sq - sp);
+                let t = (p + (q - p) * w - origin).dot(&nrm);
+                lo = lo.min(t);
+                hi = hi.max(t);
+            }
+        }
+        if hi > lo {
+            if hi - lo > thickest {
+                thickest = hi - lo;
+                s_thick = k as f64 / 20.0;
+            }
+            mean_sum += 0.5 * (hi + lo);
+            mean_n += 1;
+        }
+    }
+    Profile {
+        s_thick,
+        mean_sum,
+        mean_n,
+    }
+}
+
 fn station(
     segs: &[[Point2<f64>; 2]],
     r: f64,
@@ -255,32 +302,33 @@ fn station(
     if chord <= 0.0 {
         return None;
     }
-    let e = (b - a) / chord;
-    let nrm = Vector2::new(-e.y, e.x);
-    // Thickness and mid-line across the chord at 5 % steps.
-    let (mut thickest, mut s_thick, mut mean_sum, mut mean_n) = (0.0, 0.5, 0.0, 0);
-    for k in 1..20 {
-        let s = chord * k as f64 / 20.0;
-        let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
-        for [p, q] in segs {
-            let (sp, sq) = ((p - a).dot(&e), (q - a).dot(&e));
-            if (sp - s) * (sq - s) < 0.0 || (sp == s && sq != s) {
-                let w = (s - sp) / (sq - sp);
-                let t = (p + (q - p) * w - a).dot(&nrm);
-                lo = lo.min(t);
-                hi = hi.max(t);
-            }
-        }
-        if hi > lo {
-            if hi - lo > thickest {
-                thickest = hi - lo;
-                s_thick = k as f64 / 20.0;
-            }
-            mean_sum += 0.5 * (hi + lo);
-            mean_n += 1;
-        }
+    // The farthest pair gives the ends; the thick end is the leading edge.
+    let first = profile(segs, a, (b - a) / chord, chord);
+    let (le, te) = if first.s_thick <= 0.5 { (a, b) } else { (b, a) };
+    // A blunt trailing edge: the farthest point is one of its two corners. The chord runs
+    // to the middle of the trailing-edge face (the other corner is the point farthest
+    // across the chord within 1 % of chord along it), so an opened trailing edge does not
+    // tilt the chord and fake camber; a knife edge has no face and keeps its point.
+    let e0 = (te - le) / chord;
+    let across0 = Vector2::new(-e0.y, e0.x);
+    let other = pts
+        .iter()
+        .filter(|p| (*p - te).dot(&e0).abs() < 0.01 * chord)
+        .max_by(|p, q| {
+            let d = |x: &Point2<f64>| (x - te).dot(&across0).abs();
+            d(p).total_cmp(&d(q))
+        })
+        .copied()
+        .unwrap_or(te);
+    let te_mid = te + (other - te) * 0.5;
+    let chord = (te_mid - le).norm();
+    if chord <= 0.0 {
+        return None;
     }
-    let (le, te) = if s_thick <= 0.5 { (a, b) } else { (b, a) };
+    let e = (te_mid - le) / chord;
+    let nrm = Vector2::new(-e.y, e.x);
+    let prof = profile(segs, le, e, chord);
+    let (a, b) = (le, te_mid);
     let centre = Point3::new(0.5 * (a.x + b.x), 0.5 * (a.y + b.y), r);
     let v = omega.cross(&(centre - axis_point));
     let v2 = Vector2::new(v.x, v.y);
@@ -289,8 +337,8 @@ fn station(
     } else {
         0.0
     };
-    let camber = if mean_n > 0 {
-        mean_sum / mean_n as f64 / chord
+    let camber = if prof.mean_n > 0 {
+        prof.mean_sum / prof.mean_n as f64 / chord
     } else {
         0.0
     };

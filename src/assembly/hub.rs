@@ -30,7 +30,7 @@
 //! each socket wall is a quad strip from its opening to its floor, closed by a fan.
 //! Sockets are radial, so a coned rotor (`rotor.cone` not 0) cannot have them.
 
-use super::rotor::{AssemblyError, BladeFacts, RotorSpec};
+use super::rotor::{root_face_words, AssemblyError, BladeFacts, RotorSpec};
 use crate::design::Lengths;
 use crate::design::Rotation;
 use crate::mesh::{Part, TriMesh};
@@ -46,7 +46,10 @@ use std::f64::consts::{PI, TAU};
 pub struct HubSpec {
     /// Thickness along the rotor axis, mm.
     pub thickness: f64,
-    /// Disc diameter, mm (default: twice `rotor.hub-radius`).
+    /// Disc diameter, mm. Default: with sockets, the rim halfway along the blade's round
+    /// shank (root face + half of `root.shank-length`); without, the rim half a
+    /// `socket-clearance` short of the blades' root face. Without sockets the rim must stay
+    /// inside the root face; with them, between the root face and the end of the shank.
     pub diameter: Option<f64>,
     /// Central bore diameter, mm (default: no bore).
     pub bore: Option<f64>,
@@ -158,7 +161,7 @@ impl HubSpec {
     /// root, and resolves its defaults and the angles of its holes for the blade's
     /// rotation sense. Errors name `rotor.<key>` or `rotor.hub.<key>`.
     pub fn resolve(&self, rotor: &RotorSpec, blade: &BladeFacts) -> Result<Hub, AssemblyError> {
-        let disc = self.disc(rotor.hub_radius)?;
+        let disc = self.disc(blade)?;
         let bolts = self.bolts(&disc)?;
         let blades = rotor.blades.max(1);
         let between = hub_angle(
@@ -185,14 +188,19 @@ impl HubSpec {
 
     /// The disc's size and the wall it keeps, checked: positive sizes and the wall
     /// around the bore.
-    fn disc(&self, hub_radius: f64) -> Result<Disc, AssemblyError> {
+    fn disc(&self, blade: &BladeFacts) -> Result<Disc, AssemblyError> {
         let thickness = positive("rotor.hub.thickness", self.thickness)?;
         let wall = positive("rotor.hub.min-wall", self.min_wall)?;
+        let socketed = blade.root.is_some() && self.sockets;
         let radius = 0.5
             * positive(
                 "rotor.hub.diameter",
-                self.diameter.unwrap_or(2.0 * hub_radius),
+                self.diameter
+                    .unwrap_or_else(|| 2.0 * self.default_rim(blade, socketed)),
             )?;
+        if !socketed {
+            self.rim_clear_of_blades(radius, blade)?;
+        }
         let bore_radius = match self.bore {
             Some(b) => Some(0.5 * positive("rotor.hub.bore", b)?),
             None => None,
@@ -216,6 +224,48 @@ impl HubSpec {
             wall,
         })
     }
+
+    /// The rim radius when `diameter` is not given, mm: halfway along the round shank when
+    /// sockets hold the shanks, else half a socket clearance short of the root face.
+    fn default_rim(&self, blade: &BladeFacts, socketed: bool) -> f64 {
+        match (&blade.root, socketed) {
+            (Some(root), true) => blade.root_face + 0.5 * root.shank_length,
+            _ => blade.root_face - 0.5 * self.socket_clearance.max(0.0),
+        }
+    }
+
+    /// Without sockets the disc must stop short of the blades' root face, or the two
+    /// bodies meet.
+    fn rim_clear_of_blades(&self, radius: f64, blade: &BladeFacts) -> Result<(), AssemblyError> {
+        let face = blade.root_face;
+        if radius < face {
+            return Ok(());
+        }
+        let why = if blade.root.is_some() {
+            "rotor.hub.sockets = false, so the shanks have no sockets"
+        } else {
+            "the blade has no [root] shank for a socket"
+        };
+        Err(AssemblyError::new(
+            "rotor.hub.diameter",
+            format!(
+                "{:.2} mm puts the hub's rim at {radius:.2} mm from the axis, into the blades, \
+                 whose root face is at {face:.2} mm ({}), and {why}; give a diameter under \
+                 {:.2} mm (leave it out for the default, which stops {:.2} mm short of the root \
+                 face){}",
+                2.0 * radius,
+                root_face_words(blade),
+                2.0 * face,
+                0.5 * self.socket_clearance.max(0.0),
+                if blade.root.is_some() {
+                    ", or set rotor.hub.sockets = true"
+                } else {
+                    ", or add a [root] shank and let the hub hold it in sockets"
+                }
+            ),
+        ))
+    }
+
 
     /// The bolt holes (count, hole radius, circle radius), checked against the bore, the
     /// rim and each other; `None` without bolts.
@@ -379,20 +429,30 @@ fn socket_fits_disc(
     disc: &Disc,
 ) -> Result<(), AssemblyError> {
     let (radius, thickness, rb, wall) = (disc.radius, disc.thickness, disc.bore(), disc.wall);
+    let shank_end = face + root.shank_length;
+    let suggest = 2.0 * (face + 0.5 * root.shank_length);
     if radius <= face {
         return Err(bad(
             "rotor.hub.diameter",
             format!(
-                "the hub's rim at radius {radius:.2} mm does not reach the blade's root face at {face:.2} mm, so no socket can hold the shank; enlarge the hub or lengthen root.shank-length"
+                "{:.2} mm puts the hub's rim at {radius:.2} mm from the axis, short of the blades' root face at {face:.2} mm, so no socket can hold the shank; give a diameter between {:.2} and {:.2} mm (e.g. {suggest:.2}, the default), or lengthen root.shank-length by more than {:.2} mm to bring the root face in",
+                2.0 * radius,
+                2.0 * face,
+                2.0 * shank_end,
+                face - radius,
             ),
         ));
     }
-    if radius > face + root.shank_length {
+    if radius > shank_end {
         return Err(bad(
             "rotor.hub.diameter",
             format!(
-                "the hub's rim at radius {radius:.2} mm reaches past the round shank (root face {face:.2} mm + root.shank-length {:.2} mm); make the hub smaller or the shank longer",
-                root.shank_length
+                "{:.2} mm puts the hub's rim at {radius:.2} mm from the axis, past the end of the round shank at {shank_end:.2} mm (root face {face:.2} mm + root.shank-length {:.2} mm), so the socket would cut into the transition; give a diameter between {:.2} and {:.2} mm (e.g. {suggest:.2}, the default), or shorten root.transition-length by {:.2} mm to move the shank's end out",
+                2.0 * radius,
+                root.shank_length,
+                2.0 * face,
+                2.0 * shank_end,
+                radius - shank_end,
             ),
         ));
     }

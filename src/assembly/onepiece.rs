@@ -2,8 +2,8 @@
 //! construction (no boolean operation).
 //!
 //! The hub is a regular prism with one flat side face per blade, along the rotor axis
-//! (y). Each side face lies in the plane of its blade's root face (at `hub-radius` from
-//! the axis), so the blade's root ring is cut out of that face and shared, vertex for
+//! (y). Each side face lies in the plane of its blade's root face (at the root face's
+//! radius from the axis: the first station, or the root face of a `[root]` shank), so the blade's root ring is cut out of that face and shared, vertex for
 //! vertex, with the blade's skin: the blade grows out of the hub with no seam to weld.
 //! The top and bottom faces are the regular polygon (with an optional central bore,
 //! whose wall joins them). Needs at least 3 blades, no cone, and a root without mesh
@@ -81,7 +81,7 @@ pub fn one_piece(
     check_rotor(blade, rotor)?;
     let frames = Frames::new(blade, rotor);
     let prism = Prism::size(
-        blade.facts.root_face,
+        blade.facts,
         rotor.blades as usize,
         &frames.ring_face,
         spec,
@@ -108,7 +108,7 @@ fn bad(key: &str, msg: String) -> AssemblyError {
 }
 
 /// What a one-piece rotor asks of the rotor and the blade: at least 3 blades, no cone,
-/// a bare shank, and the hub radius at the blade's root face.
+/// a bare shank, and the rotor's own checks.
 fn check_rotor(blade: &OnePieceBlade<'_>, rotor: &RotorSpec) -> Result<(), AssemblyError> {
     let b = rotor.blades as usize;
     if b < 3 {
@@ -132,13 +132,8 @@ fn check_rotor(blade: &OnePieceBlade<'_>, rotor: &RotorSpec) -> Result<(), Assem
             ));
         }
     }
-    let z0 = blade.facts.root_face;
-    if (z0 - rotor.hub_radius).abs() > 1e-6 * z0.max(1.0) {
-        return Err(bad(
-            "rotor.hub-radius",
-            format!("{:.3} mm, but the blades' root face is at {:.3} mm: a one-piece rotor needs them equal", rotor.hub_radius, z0),
-        ));
-    }
+    // The rotor's own checks (a deprecated rotor.hub-radius must equal the root face).
+    rotor.validate(blade.facts)?;
     Ok(())
 }
 
@@ -197,11 +192,12 @@ impl Prism {
     /// Face width from the prism, thickness from the roots; checks the walls around
     /// the roots and the bore.
     fn size(
-        z0: f64,
+        facts: &BladeFacts,
         b: usize,
         ring_face: &[Point2<f64>],
         spec: &OnePieceSpec,
     ) -> Result<Prism, AssemblyError> {
+        let z0 = facts.root_face;
         let half_w = z0 * (PI / b as f64).tan();
         let (ylo, yhi) = ring_face
             .iter()
@@ -210,12 +206,13 @@ impl Prism {
         let wall = spec.wall;
         if xmax + wall > half_w {
             return Err(bad(
-                "rotor.hub-radius",
+                "rotor.one-piece",
                 format!(
-                    "the blade root ({:.2} mm wide from the axis line) does not fit the hub's {:.2} mm faces with {:.2} mm of wall; move the first station (the root face) and rotor.hub-radius out by about {:.1} mm, or narrow the root chord",
+                    "the blade root ({:.2} mm wide from the axis line) does not fit the hub's {:.2} mm faces with rotor.one-piece.wall = {:.2} mm; the faces sit at the blades' root face, {z0:.2} mm from the axis ({}): move the stations out by about {:.1} mm, use fewer blades (wider faces), or narrow the root chord",
                     2.0 * xmax,
                     2.0 * half_w,
                     wall,
+                    super::rotor::root_face_words(facts),
                     (xmax + wall - half_w) / (PI / b as f64).tan()
                 ),
             ));

@@ -84,13 +84,29 @@ pub struct BladeFacts {
 
 /// The `[rotor]` table of a design file (lengths in the file's unit until
 /// [`RotorSpec::to_mm`]; angles always in degrees, whatever the file's angle unit).
+///
+/// | key | default | meaning |
+/// |-----|---------|---------|
+/// | `blades` | required | number of blades, 1 to [`MAX_BLADES`] (one blade needs a counterweight spanwright does not make: see [`Rotor::notes`]) |
+/// | `pitch` | 0 | collective pitch added to the twist, degrees, within ±90 |
+/// | `cone` | 0 | precone, degrees, within ±45 |
+/// | `azimuth-offset` | 0 | angle of the first blade, degrees |
+/// | `[rotor.hub]` | none | a hub disc, see [`HubSpec`] |
+/// | `[rotor.one-piece]` | none | blades and hub as one solid, see [`super::OnePieceSpec`] |
+/// | `hub-radius` | | **no longer needed**: the blades join the hub at their own root face (the first station, or the root face of a `[root]` shank); still read, it must equal that radius and gives a note to remove it |
+///
+/// Where the blades join the hub is the blade's root face, from the stations and
+/// `[root]`; the hub disc's size is `rotor.hub.diameter`. Each has one name.
 #[derive(Debug, Clone, PartialEq, Deserialize)]
 #[serde(rename_all = "kebab-case", deny_unknown_fields)]
 pub struct RotorSpec {
     /// Number of blades (at least 1).
     pub blades: u32,
-    /// Hub radius, mm.
-    pub hub_radius: f64,
+    /// Deprecated and not needed: the radius where the blades join the hub, which is the
+    /// blade's root face. When given it must equal the root face (checked by
+    /// [`RotorSpec::validate`]), mm.
+    #[serde(default)]
+    pub hub_radius: Option<f64>,
     /// Collective pitch added to the twist, degrees (default 0); positive turns the
     /// leading edge upstream.
     #[serde(default)]
@@ -112,7 +128,7 @@ pub const MAX_BLADES: u32 = 64;
 
 impl Lengths for RotorSpec {
     fn to_mm(mut self, k: f64) -> Self {
-        self.hub_radius *= k;
+        self.hub_radius = self.hub_radius.map(|r| r * k);
         self.hub = self.hub.map(|h| h.to_mm(k));
         self.one_piece = self.one_piece.map(|o| o.to_mm(k));
         self
@@ -136,14 +152,24 @@ impl RotorSpec {
                 ),
             );
         }
-        if !(self.hub_radius > 0.0 && self.hub_radius.is_finite()) {
-            return bad(
-                "rotor.hub-radius",
-                format!(
-                    "{} is not a positive number of millimetres; give the hub's radius",
-                    self.hub_radius
-                ),
-            );
+        if let Some(h) = self.hub_radius {
+            let face = blade.root_face;
+            if !((h - face).abs() <= joint_slack(blade)) {
+                return bad(
+                    "rotor.hub-radius",
+                    format!(
+                        "{h} mm, but the blades join the hub at their root face, {face:.3} mm \
+                         from the axis ({}); this key is no longer needed: remove it (to move \
+                         the blades, move the stations{})",
+                        root_face_words(blade),
+                        if blade.root.is_some() {
+                            " or change root.shank-length"
+                        } else {
+                            ""
+                        }
+                    ),
+                );
+            }
         }
         if !(self.pitch.abs() < 90.0) {
             return bad(
@@ -176,6 +202,46 @@ impl RotorSpec {
     }
 }
 
+/// How far the deprecated `rotor.hub-radius` may be from the root face and still mean it:
+/// the mesh tolerance (a value written to the tolerance), at least 1e-6 of the radius.
+fn joint_slack(blade: &BladeFacts) -> f64 {
+    blade.tolerance.max(1e-6 * blade.root_face.abs().max(1.0))
+}
+
+/// Where the root face comes from, in the design's words.
+pub(crate) fn root_face_words(blade: &BladeFacts) -> &'static str {
+    if blade.root.is_some() {
+        "the first station less root.transition-length and root.shank-length"
+    } else {
+        "the first station's radius"
+    }
+}
+
+impl RotorSpec {
+    /// Notes for the user about this rotor (print them with the build summary): a
+    /// deprecated key to remove, and the caution a one-blade rotor needs.
+    pub fn notes(&self) -> Vec<String> {
+        let mut notes = Vec::new();
+        if self.hub_radius.is_some() {
+            notes.push(
+                "rotor.hub-radius is no longer needed (the blades join the hub at their root \
+                 face, and the disc's size is rotor.hub.diameter): remove it"
+                    .to_string(),
+            );
+        }
+        if self.blades == 1 {
+            notes.push(
+                "caution: a one-blade rotor is out of balance by the blade's own weight; it \
+                 needs a counterweight opposite the blade, which spanwright does not make. \
+                 Balance the real rotor before it runs, and follow local codes and licensed \
+                 engineering practice"
+                    .to_string(),
+            );
+        }
+        notes
+    }
+}
+
 /// An assembled rotor in rotor coordinates (mm): where each blade goes and the hub.
 #[derive(Debug, Clone)]
 pub struct Rotor {
@@ -192,6 +258,8 @@ pub struct Rotor {
     pub hub: Option<Hub>,
     /// The design's station radii, mm (where [`Rotor::check_hand`] looks).
     pub station_radii: Vec<f64>,
+    /// Notes for the user ([`RotorSpec::notes`]): deprecated keys and cautions.
+    pub notes: Vec<String>,
 }
 
 /// The rigid transform of blade `k` (see the module docs); `pivot` is the cone pivot's
@@ -248,6 +316,7 @@ pub fn assemble(spec: &RotorSpec, blade: &BladeFacts) -> Result<Rotor, AssemblyE
         transforms,
         hub,
         station_radii: blade.station_radii.clone(),
+        notes: spec.notes(),
     })
 }
 

@@ -32,7 +32,7 @@ pub enum FlowArg {
 #[derive(Debug, clap::Args)]
 #[command(
     after_help = "Example (demo values; take Cl and alpha from your section's polar):
-  spanwright draft --tip-radius 600 --hub-radius 90 --blades 3 --tip-speed-ratio 6 \\
+  spanwright draft --tip-radius 600 --inner-radius 90 --blades 3 --tip-speed-ratio 6 \\
     --design-cl 1.0 --design-alpha 6 --tip-loss --linear 50..90 --wind 10 -o table.csv
   spanwright build table.csv --section naca4412"
 )]
@@ -44,8 +44,17 @@ pub struct Args {
     /// Tip radius, mm.
     #[arg(long, value_name = "MM", allow_negative_numbers = true)]
     tip_radius: Option<f64>,
-    /// Hub (root) radius where the blade starts, mm.
+    /// Radius of the first (innermost) station, where the drafted blade starts, mm.
     #[arg(long, value_name = "MM", allow_negative_numbers = true)]
+    inner_radius: Option<f64>,
+    /// The old name of --inner-radius, still read (with a note to use the new one).
+    #[arg(
+        long,
+        value_name = "MM",
+        allow_negative_numbers = true,
+        hide = true,
+        conflicts_with = "inner_radius"
+    )]
     hub_radius: Option<f64>,
     /// Number of blades.
     #[arg(long, value_name = "N")]
@@ -134,8 +143,28 @@ fn parse_range(text: &str) -> Result<LinearRange, String> {
     })
 }
 
-/// Reads a spec file (TOML, or JSON when the name ends in `.json`).
-fn read_spec(path: &Path) -> anyhow::Result<DraftSpec> {
+/// The note printed when a spec or the command line uses the old name of
+/// `inner_radius`.
+const OLD_NAME_NOTE: &str = "note: the hub radius of a draft is now called the inner radius \
+    (--inner-radius, inner_radius in a spec file): the radius of the first station, where the \
+    drafted blade starts; the old name still works";
+
+/// True when a spec file's text uses the old key `hub_radius` at its top level.
+fn uses_old_name(text: &str, is_json: bool) -> bool {
+    if is_json {
+        serde_json::from_str::<serde_json::Value>(text)
+            .ok()
+            .is_some_and(|v| v.get("hub_radius").is_some())
+    } else {
+        toml::from_str::<toml::Table>(text)
+            .ok()
+            .is_some_and(|t| t.contains_key("hub_radius"))
+    }
+}
+
+/// Reads a spec file (TOML, or JSON when the name ends in `.json`); true when it uses the
+/// old name of `inner_radius`.
+fn read_spec(path: &Path) -> anyhow::Result<(DraftSpec, bool)> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("reading the draft spec {}", path.display()))?;
     let is_json = path
@@ -144,7 +173,7 @@ fn read_spec(path: &Path) -> anyhow::Result<DraftSpec> {
     let spec = if is_json {
         serde_json::from_str(&text).with_context(|| {
             format!(
-                "{}: not a valid draft spec (JSON); keys: tip_radius, hub_radius, blades, \
+                "{}: not a valid draft spec (JSON); keys: tip_radius, inner_radius, blades, \
                  tip_speed_ratio, design_cl, design_alpha, and optional ones",
                 path.display()
             )
@@ -152,26 +181,32 @@ fn read_spec(path: &Path) -> anyhow::Result<DraftSpec> {
     } else {
         toml::from_str(&text).with_context(|| {
             format!(
-                "{}: not a valid draft spec (TOML); keys: tip_radius, hub_radius, blades, \
+                "{}: not a valid draft spec (TOML); keys: tip_radius, inner_radius, blades, \
                  tip_speed_ratio, design_cl, design_alpha, and optional ones",
                 path.display()
             )
         })?
     };
-    Ok(spec)
+    Ok((spec, uses_old_name(&text, is_json)))
 }
 
-/// Builds the spec from the file (if any) and the command-line values.
-fn spec_from(args: &Args) -> anyhow::Result<DraftSpec> {
+/// Builds the spec from the file (if any) and the command-line values; true when either
+/// used the old name of `inner_radius`.
+fn spec_from(args: &Args) -> anyhow::Result<(DraftSpec, bool)> {
+    let mut old_name = args.hub_radius.is_some();
     let mut spec = match &args.spec {
-        Some(path) => read_spec(path)?,
+        Some(path) => {
+            let (spec, old) = read_spec(path)?;
+            old_name |= old;
+            spec
+        }
         None => {
             let mut missing = Vec::new();
             if args.tip_radius.is_none() {
                 missing.push("--tip-radius <MM>");
             }
-            if args.hub_radius.is_none() {
-                missing.push("--hub-radius <MM>");
+            if args.inner_radius.is_none() && args.hub_radius.is_none() {
+                missing.push("--inner-radius <MM>");
             }
             if args.blades.is_none() {
                 missing.push("--blades <N>");
@@ -203,7 +238,10 @@ fn spec_from(args: &Args) -> anyhow::Result<DraftSpec> {
         };
     }
     take!(tip_radius);
-    take!(hub_radius);
+    take!(inner_radius);
+    if let Some(v) = args.hub_radius {
+        spec.inner_radius = v;
+    }
     take!(blades);
     take!(tip_speed_ratio);
     take!(design_cl);
@@ -242,7 +280,7 @@ fn spec_from(args: &Args) -> anyhow::Result<DraftSpec> {
     if args.min_chord.is_some() {
         spec.min_chord = args.min_chord;
     }
-    Ok(spec)
+    Ok((spec, old_name))
 }
 
 /// Creates the folder a file goes into, when it has one.
@@ -261,7 +299,7 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
     if !ctx.quiet {
         let _ = writeln!(
             err,
-            "drafted {} stations ({}{}{}) for R = {} mm, hub {} mm, {} blades, tip speed ratio {}, \
+            "drafted {} stations ({}{}{}) for R = {} mm, first station at {} mm, {} blades, tip speed ratio {}, \
              Cl {}, alpha {}° -> {}",
             table.stations.len(),
             spec.method,
@@ -271,7 +309,7 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
                 None => String::new(),
             },
             spec.tip_radius,
-            spec.hub_radius,
+            spec.inner_radius,
             spec.blades,
             spec.tip_speed_ratio,
             spec.design_cl,
@@ -333,7 +371,10 @@ fn report(table: &DraftTable, args: &Args, ctx: &super::Context, target: &str) {
 
 /// Runs the subcommand.
 pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<super::Verdict> {
-    let spec = spec_from(&args)?;
+    let (spec, old_name) = spec_from(&args)?;
+    if old_name && !ctx.quiet {
+        eprintln!("{OLD_NAME_NOTE}");
+    }
     let table = drafting::draft(&spec)?;
     let to_stdout = args.output.as_deref() == Some(Path::new("-"));
     // Both files appear together or not at all.

@@ -42,11 +42,11 @@ pub struct Args {
     /// Wind speed, m/s, for the thrust (momentum theory).
     #[arg(long)]
     wind: Option<f64>,
-    /// Thrust per blade, N (instead of momentum theory).
-    #[arg(long)]
+    /// Thrust per blade, N (instead of momentum theory); more than 0.
+    #[arg(long, allow_negative_numbers = true)]
     thrust: Option<f64>,
-    /// Thrust coefficient (default 8/9, the Betz optimum).
-    #[arg(long)]
+    /// Thrust coefficient (default 8/9, the Betz optimum); above 0, at most 2.
+    #[arg(long, allow_negative_numbers = true)]
     thrust_coefficient: Option<f64>,
     /// How thrust is spread along the span: annulus (q ~ r) or uniform.
     #[arg(long, default_value = "annulus", value_parser = ["annulus", "uniform"])]
@@ -84,6 +84,35 @@ fn check_number(name: &str, v: f64, ok: bool, hint: &str) -> anyhow::Result<()> 
     Ok(())
 }
 
+/// Largest thrust coefficient accepted. Momentum theory gives at most 1 (C_T = 4a(1 - a)
+/// at a = 1/2); heavily loaded rotors in the turbulent wake state reach about 2 by
+/// Glauert's empirical relation (from memory), and no more.
+const MAX_THRUST_COEFFICIENT: f64 = 2.0;
+
+/// `--thrust` is a positive force and `--thrust-coefficient` lies in
+/// 0..[`MAX_THRUST_COEFFICIENT`].
+fn check_thrust(args: &Args) -> anyhow::Result<()> {
+    if let Some(t) = args.thrust {
+        check_number(
+            "thrust",
+            t,
+            t > 0.0,
+            "give the thrust on one blade as a positive force in N (its direction follows \
+             from the flow mode); leave --thrust out to take it from --wind by momentum theory",
+        )?;
+    }
+    if let Some(c) = args.thrust_coefficient {
+        check_number(
+            "thrust-coefficient",
+            c,
+            c > 0.0 && c <= MAX_THRUST_COEFFICIENT,
+            "give a thrust coefficient above 0 and at most 2: momentum theory gives at most 1 \
+             (8/9 at the Betz optimum, the default), heavily loaded rotors reach about 2",
+        )?;
+    }
+    Ok(())
+}
+
 /// Runs the subcommand.
 pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
     let material: Material = args.material.parse()?;
@@ -116,6 +145,7 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
             args.cuts
         );
     }
+    check_thrust(&args)?;
     let first = &args.input[0];
     let (name, parts, design, outcome) = if args.input.iter().all(|p| load::has_extension(p, "stl"))
     {

@@ -1,35 +1,48 @@
 //! The station table as a spreadsheet exports it (CSV).
 //!
 //! * First non-blank, non-comment row: the header, naming the columns in any order and
-//!   case: `radius`, `chord`, `twist` (required), `section` (required unless a default
-//!   section is given), `thickness`, `sweep`, `prebend`, `stacking` (optional).
-//!   `airfoil` and `profile` are accepted for `section`; columns named `note`, `notes`,
-//!   `comment` or `comments` are ignored; any other column is an error.
-//! * A unit may follow the name in brackets or parentheses: `radius [mm]`, `chord (in)`,
-//!   `twist [deg]`, `thickness [%]`. Lengths: mm, cm, m, in; angles: deg, rad; thickness:
-//!   `%` (percent of chord, the default) or `fraction`. Without a unit the column is in
-//!   the design's units (a bare CSV: mm and degrees).
+//!   case: `radius` (or `r`), `chord` (or `c`, `chord length`), `twist` (or `twist
+//!   angle`) (required), `section` (or `airfoil`, `aerofoil`, `profile`; required unless a
+//!   default section is given), `thickness` (or `t/c`, `relative thickness`), `sweep`,
+//!   `prebend`, `stacking` (optional). Columns named `note`, `notes`, `comment` or
+//!   `comments` are ignored; any other column is an error.
+//! * A unit may follow the name the usual spreadsheet ways: `radius [mm]`, `chord (in)`,
+//!   `radius_mm`, `r/mm` (ISO 80000-1 quantity/unit), `twist deg`. Lengths: mm, cm, m,
+//!   in; angles: deg, rad; thickness: `%` (percent of chord, the default) or `fraction`.
+//!   Without a unit the column is in the design's units (a bare CSV: mm and degrees).
+//!   [`read`] says how each column was read ([`ColumnRead`]).
 //! * `stacking` cells hold a chord fraction or a rule name (`quarter-chord`, `centroid`,
 //!   `thickest`: see [`super::Stacking`]); the column is a fraction of chord unless its
 //!   header says `stacking [%]`. An empty cell takes the design's `blade.stacking`.
 //! * Separator: comma, semicolon or tab, detected from the header row. With a semicolon
 //!   or tab separator a decimal comma (`12,5`) is read as a decimal point.
-//! * Blank rows (also rows of empty cells), rows starting with `#`, CRLF line ends and a
-//!   UTF-8 byte-order mark are tolerated; fields may be quoted.
+//! * Blank rows (also rows of empty cells), rows starting with `#`, LF, CRLF and CR line
+//!   ends and a UTF-8 byte-order mark are tolerated; fields may be quoted.
 
 use std::path::Path;
+use std::sync::Arc;
 
 use super::error::{Loc, Problem};
+use super::limits::MAX_STATIONS;
 use super::rows::{Num, Row};
 use super::suggest;
 use super::units::{AngleUnit, LengthUnit, RatioUnit};
-use super::Stacking;
+use super::{ColumnRead, Stacking};
 
-/// Units a CSV column is read in when its header names none.
-#[derive(Debug, Clone, Copy, Default)]
+/// Units a CSV column is read in when its header names none, and where they come from.
+#[derive(Debug, Clone, Default)]
 pub(crate) struct Defaults {
     pub length: LengthUnit,
     pub angle: AngleUnit,
+    /// Why the length unit is what it is, when not the millimetre default (for the
+    /// unit-slip hint), e.g. `the design file says units = { length = "m" }`.
+    pub said: Option<Arc<str>>,
+}
+
+/// A station table as read: the rows and how each header cell was read.
+pub(crate) struct CsvTable {
+    pub rows: Vec<Row>,
+    pub columns: Vec<ColumnRead>,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -57,13 +70,14 @@ impl Col {
         "stacking",
     ];
 
+    /// Reads a column name (lower case), with its accepted aliases.
     fn parse(name: &str) -> Option<Self> {
         Some(match name {
-            "radius" => Self::Radius,
-            "chord" => Self::Chord,
-            "twist" => Self::Twist,
-            "section" | "airfoil" | "profile" => Self::Section,
-            "thickness" => Self::Thickness,
+            "radius" | "r" => Self::Radius,
+            "chord" | "c" | "chord length" => Self::Chord,
+            "twist" | "twist angle" => Self::Twist,
+            "section" | "airfoil" | "aerofoil" | "profile" => Self::Section,
+            "thickness" | "t/c" | "relative thickness" => Self::Thickness,
             "sweep" => Self::Sweep,
             "prebend" => Self::Prebend,
             "stacking" => Self::Stacking,
@@ -88,14 +102,18 @@ impl Col {
 }
 
 /// How a column's numbers convert: factor and unit name.
-#[derive(Debug, Clone, Copy)]
+#[derive(Debug, Clone)]
 struct Column {
     col: Col,
     factor: f64,
     unit: &'static str,
+    /// Why the unit is what it is (for the unit-slip hint of lengths).
+    said: Option<Arc<str>>,
 }
 
-/// Splits `radius [mm]` or `Chord (in)` into (`radius`, Some(`mm`)).
+/// Splits a header cell into its column name (lower case) and unit, the usual spreadsheet
+/// ways: `radius [mm]`, `Chord (in)`, `radius_mm`, `r/mm`, `twist deg`. A name that is a
+/// column name (or alias) as a whole is never split (`t/c`, `chord length`).
 fn split_header(cell: &str) -> (String, Option<String>) {
     let cell = cell.trim();
     if let Some(open) = cell.find(['[', '(']) {
@@ -106,16 +124,27 @@ fn split_header(cell: &str) -> (String, Option<String>) {
         };
         let rest = &cell[open + 1..];
         let unit = rest.split(close).next().unwrap_or(rest).trim().to_string();
-        (cell[..open].trim().to_lowercase(), Some(unit))
-    } else {
-        (cell.to_lowercase(), None)
+        return (cell[..open].trim().to_lowercase(), Some(unit));
     }
+    let lower = cell.to_lowercase();
+    if Col::parse(&lower).is_some() {
+        return (lower, None);
+    }
+    for sep in ['/', '_', ' '] {
+        if let Some((name, unit)) = lower.rsplit_once(sep) {
+            let (name, unit) = (name.trim(), unit.trim());
+            if Col::parse(name).is_some() && !unit.is_empty() {
+                return (name.to_string(), Some(unit.to_string()));
+            }
+        }
+    }
+    (lower, None)
 }
 
 /// Picks the separator from the header line: the most frequent of `;`, tab and `,`.
 fn separator(text: &str) -> char {
     let header = text
-        .lines()
+        .split(['\n', '\r'])
         .map(str::trim)
         .find(|l| !l.is_empty() && !l.starts_with('#'))
         .unwrap_or("");
@@ -130,11 +159,14 @@ fn separator(text: &str) -> char {
     }
 }
 
+/// A record: its cells, or why it could not be split.
+type Record = Result<Vec<String>, String>;
+
 /// Splits CSV text into records with the line (from 1) each starts on. Cells are trimmed;
 /// a cell may be quoted (RFC 4180: `""` is a quote inside quotes, separators and line
 /// breaks inside quotes belong to the cell). Rows whose first non-blank character is `#`
-/// are comments and give an empty record. Line ends: LF or CRLF.
-fn split(text: &str, sep: char) -> Vec<(usize, Result<Vec<String>, String>)> {
+/// are comments and give an empty record. Line ends: LF, CRLF or CR.
+fn split(text: &str, sep: char) -> Vec<(usize, Record)> {
     let mut out = Vec::new();
     let mut line = 1;
     let mut start = 1;
@@ -149,7 +181,14 @@ fn split(text: &str, sep: char) -> Vec<(usize, Result<Vec<String>, String>)> {
         cells.push(if *was_quoted { c } else { c.trim().to_string() });
         *was_quoted = false;
     };
-    while let Some(c) = chars.next() {
+    while let Some(mut c) = chars.next() {
+        // One line end, whatever the convention: CRLF and a lone CR read as LF.
+        if c == '\r' {
+            if chars.peek() == Some(&'\n') {
+                chars.next();
+            }
+            c = '\n';
+        }
         if comment {
             if c == '\n' {
                 comment = false;
@@ -181,7 +220,6 @@ fn split(text: &str, sep: char) -> Vec<(usize, Result<Vec<String>, String>)> {
                 quoted = true;
                 was_quoted = true;
             }
-            '\r' if chars.peek() == Some(&'\n') => {}
             '\n' => {
                 finish(&mut cell, &mut was_quoted, &mut cells);
                 out.push((start, Ok(std::mem::take(&mut cells))));
@@ -220,301 +258,415 @@ fn number(cell: &str, decimal_comma: bool) -> Option<f64> {
     }
 }
 
-/// Reads the rows of a CSV station table. Problems go to `problems`; the returned rows
-/// hold what could be read.
-pub(crate) fn read(
-    bytes: &[u8],
-    file: &Path,
-    defaults: Defaults,
-    section_default: bool,
-    problems: &mut Vec<Problem>,
-) -> Vec<Row> {
-    let at = |line: Option<usize>| Loc::new(file, line, None);
+/// The header as read: its width and, per cell, the column read from it (`None` for
+/// unusable cells, already reported).
+struct Header {
+    width: usize,
+    columns: Vec<Option<Column>>,
+}
+
+impl Header {
+    fn has(&self, col: Col) -> bool {
+        self.columns.iter().flatten().any(|c| c.col == col)
+    }
+}
+
+/// Step 1: the bytes as text (without a byte-order mark); not UTF-8 is reported.
+fn text<'a>(bytes: &'a [u8], file: &Path, problems: &mut Vec<Problem>) -> Option<&'a str> {
     let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
-    let text = match std::str::from_utf8(bytes) {
-        Ok(t) => t,
+    match std::str::from_utf8(bytes) {
+        Ok(t) => Some(t),
         Err(e) => {
-            let line = bytes[..e.valid_up_to()]
+            let before = &bytes[..e.valid_up_to()];
+            let line = 1 + before
                 .iter()
-                .filter(|b| **b == b'\n')
-                .count()
-                + 1;
+                .enumerate()
+                .filter(|&(i, b)| *b == b'\n' || (*b == b'\r' && before.get(i + 1) != Some(&b'\n')))
+                .count();
             problems.push(
-                at(Some(line))
+                Loc::new(file, Some(line), None)
                     .problem("the file is not UTF-8 text")
                     .hint("save the table as 'CSV UTF-8'"),
             );
-            return Vec::new();
+            None
         }
+    }
+}
+
+/// Reads the rows of a CSV station table: the text, the header, then row by row. Problems
+/// go to `problems`; the returned table holds what could be read. Reading stops after
+/// [`MAX_STATIONS`] + 1 rows (the validation refuses that many).
+pub(crate) fn read(
+    bytes: &[u8],
+    file: &Path,
+    defaults: &Defaults,
+    section_default: bool,
+    problems: &mut Vec<Problem>,
+) -> CsvTable {
+    let mut table = CsvTable {
+        rows: Vec::new(),
+        columns: Vec::new(),
+    };
+    let Some(text) = text(bytes, file, problems) else {
+        return table;
     };
     let sep = separator(text);
     let decimal_comma = sep != ',';
-    let mut header: Option<(usize, Vec<Option<Column>>)> = None;
-    let mut rows = Vec::new();
+    let mut header: Option<Header> = None;
     for (line, record) in split(text, sep) {
-        let line = Some(line);
-        let record =
-            match record {
-                Ok(r) => r,
-                Err(message) => {
-                    problems.push(at(line).problem(message).hint(
-                        "a quoted cell must end with a quote; write a quote inside one as \"\"",
-                    ));
-                    continue;
-                }
-            };
+        let loc = Loc::new(file, Some(line), None);
+        let record = match record {
+            Ok(r) => r,
+            Err(message) => {
+                problems.push(loc.problem(message).hint(
+                    "a quoted cell must end with a quote; write a quote inside one as \"\"",
+                ));
+                continue;
+            }
+        };
         if record.iter().all(|c| c.is_empty()) {
             continue;
         }
-        let Some((width, columns)) = &header else {
-            header = Some(read_header(
-                &record,
-                line,
-                file,
-                defaults,
-                section_default,
-                problems,
-            ));
+        let Some(h) = &header else {
+            let (h, columns) = read_header(&record, &loc, defaults, section_default, problems);
+            header = Some(h);
+            table.columns = columns;
             continue;
         };
-        let loc = at(line);
-        let last_filled = filled_width(&record);
-        if record.len() < *width || last_filled > *width {
-            let n = if record.len() < *width {
-                record.len()
-            } else {
-                last_filled
-            };
-            problems.push(
-                loc.problem(format!(
-                    "this row has {n} cells but the header has {width}"
-                ))
-                .hint("every row needs one cell per column; check for a missing or extra separator"),
-            );
+        table.rows.push(read_row(
+            &record,
+            loc,
+            h,
+            section_default,
+            decimal_comma,
+            problems,
+        ));
+        if table.rows.len() > MAX_STATIONS {
+            break;
         }
-        let mut row = Row {
-            loc: loc.clone(),
-            radius: None,
-            chord: None,
-            twist: None,
-            section: None,
-            thickness: None,
-            sweep: None,
-            prebend: None,
-            stacking: None,
-            // A missing section column is reported once, at the header.
-            section_reported: !section_default
-                && !columns.iter().flatten().any(|c| c.col == Col::Section),
-        };
-        for (i, column) in columns.iter().enumerate() {
-            let Some(column) = column else { continue };
-            let cell = record.get(i).map_or("", String::as_str);
-            let name = column.col.name();
-            if column.col == Col::Note {
-                continue;
-            }
-            if cell.is_empty() {
-                let required = matches!(column.col, Col::Radius | Col::Chord | Col::Twist)
-                    || (column.col == Col::Section && !section_default);
-                // Cells missing from a short row are covered by the row-length message.
-                if required && column.col == Col::Section {
-                    row.section_reported = true;
-                }
-                if required && i < record.len() {
-                    problems.push(
-                        loc.problem(format!("{name} is empty"))
-                            .hint(format!("every station needs a {name}")),
-                    );
-                }
-                continue;
-            }
-            if column.col == Col::Section {
-                row.section = Some((cell.to_string(), loc.clone()));
-                continue;
-            }
-            if column.col == Col::Stacking {
-                let read = match number(cell, decimal_comma) {
-                    Some(raw) => Stacking::fraction(raw * column.factor),
-                    None => Stacking::parse(cell, column.factor),
-                };
-                match read {
-                    Ok(s) => row.stacking = Some(s),
-                    Err(e) => problems.push(loc.problem(e.message()).hint(e.hint())),
-                }
-                continue;
-            }
-            let Some(raw) = number(cell, decimal_comma) else {
-                problems.push(
-                    loc.problem(format!("{name} '{cell}' is not a number"))
-                        .hint("give a plain number such as 120.5"),
-                );
-                continue;
-            };
-            let n = Num::new(raw, column.factor, column.unit, loc.clone());
-            let slot = match column.col {
-                Col::Radius => &mut row.radius,
-                Col::Chord => &mut row.chord,
-                Col::Twist => &mut row.twist,
-                Col::Thickness => &mut row.thickness,
-                Col::Sweep => &mut row.sweep,
-                Col::Prebend => &mut row.prebend,
-                Col::Section | Col::Stacking | Col::Note => continue,
-            };
-            *slot = Some(n);
-        }
-        rows.push(row);
     }
-    match header {
-        None => problems.push(at(None).problem("the file is empty").hint(format!(
-            "the first row must name the columns, e.g. {}",
-            Col::NAMES[..4].join(",")
-        ))),
-        Some((_, _)) if rows.is_empty() => problems.push(
-            at(None)
-                .problem("the table has a header but no stations")
-                .hint("add one row per station below the header"),
-        ),
-        _ => {}
-    }
-    rows
+    check_end(header.is_some(), table.rows.is_empty(), file, problems);
+    table
 }
 
-/// Reads the header row: column kinds and units. Returns the header width and, per cell,
-/// the column read from it (`None` for unusable cells, already reported).
-fn read_header(
+/// Step 3: one data row into a [`Row`]: its width against the header's, then each cell.
+fn read_row(
     record: &[String],
-    line: Option<usize>,
-    file: &Path,
-    defaults: Defaults,
+    loc: Loc,
+    header: &Header,
+    section_default: bool,
+    decimal_comma: bool,
+    problems: &mut Vec<Problem>,
+) -> Row {
+    let width = header.width;
+    let last_filled = filled_width(record);
+    if record.len() < width || last_filled > width {
+        let n = if record.len() < width {
+            record.len()
+        } else {
+            last_filled
+        };
+        problems.push(
+            loc.problem(format!("this row has {n} cells but the header has {width}"))
+                .hint(
+                    "every row needs one cell per column; check for a missing or extra separator",
+                ),
+        );
+    }
+    let mut row = Row::at(loc);
+    // A missing section column is reported once, at the header.
+    row.section_reported = !section_default && !header.has(Col::Section);
+    for (i, column) in header.columns.iter().enumerate() {
+        let Some(column) = column else { continue };
+        if column.col == Col::Note {
+            continue;
+        }
+        // Quoted cells keep their inner spaces; no value needs them at its ends.
+        let cell = record.get(i).map_or("", |c| c.trim());
+        if cell.is_empty() {
+            empty_cell(&mut row, column.col, i < record.len(), section_default, problems);
+        } else {
+            read_cell(&mut row, column, cell, decimal_comma, problems);
+        }
+    }
+    row
+}
+
+/// An empty cell: fine for optional columns; a required one is reported unless the row
+/// is short (`present` false: covered by the row-length message).
+fn empty_cell(
+    row: &mut Row,
+    col: Col,
+    present: bool,
     section_default: bool,
     problems: &mut Vec<Problem>,
-) -> (usize, Vec<Option<Column>>) {
-    let loc = Loc::new(file, line, None);
+) {
+    let required = matches!(col, Col::Radius | Col::Chord | Col::Twist)
+        || (col == Col::Section && !section_default);
+    if required && col == Col::Section {
+        row.section_reported = true;
+    }
+    if required && present {
+        let name = col.name();
+        problems.push(
+            row.loc
+                .problem(format!("{name} is empty"))
+                .hint(format!("every station needs a {name}")),
+        );
+    }
+}
+
+/// A filled cell into its slot of the row.
+fn read_cell(
+    row: &mut Row,
+    column: &Column,
+    cell: &str,
+    decimal_comma: bool,
+    problems: &mut Vec<Problem>,
+) {
+    let loc = &row.loc;
+    match column.col {
+        Col::Section => {
+            row.section = Some((cell.to_string(), loc.clone()));
+            return;
+        }
+        Col::Stacking => {
+            let read = match number(cell, decimal_comma) {
+                Some(raw) => Stacking::fraction(raw * column.factor),
+                None => Stacking::parse(cell, column.factor),
+            };
+            match read {
+                Ok(s) => row.stacking = Some(s),
+                Err(e) => problems.push(loc.problem(e.message()).hint(e.hint())),
+            }
+            return;
+        }
+        _ => {}
+    }
+    let name = column.col.name();
+    let Some(raw) = number(cell, decimal_comma) else {
+        problems.push(
+            loc.problem(format!("{name} '{cell}' is not a number"))
+                .hint("give a plain number such as 120.5"),
+        );
+        return;
+    };
+    let n = Num::new(raw, column.factor, column.unit, loc.clone()).said(column.said.clone());
+    let slot = match column.col {
+        Col::Radius => &mut row.radius,
+        Col::Chord => &mut row.chord,
+        Col::Twist => &mut row.twist,
+        Col::Thickness => &mut row.thickness,
+        Col::Sweep => &mut row.sweep,
+        Col::Prebend => &mut row.prebend,
+        Col::Section | Col::Stacking | Col::Note => return,
+    };
+    *slot = Some(n);
+}
+
+/// Step 4: a file without a header, or with no rows below it.
+fn check_end(has_header: bool, no_rows: bool, file: &Path, problems: &mut Vec<Problem>) {
+    let whole = Loc::new(file, None, None);
+    if !has_header {
+        problems.push(whole.problem("the file is empty").hint(format!(
+            "the first row must name the columns, e.g. {}",
+            Col::NAMES[..4].join(",")
+        )));
+    } else if no_rows {
+        problems.push(
+            whole
+                .problem("the table has a header but no stations")
+                .hint("add one row per station below the header"),
+        );
+    }
+}
+
+/// Step 2: the header row: column kinds and units, every required column present.
+/// Returns the header and how each cell was read.
+fn read_header(
+    record: &[String],
+    loc: &Loc,
+    defaults: &Defaults,
+    section_default: bool,
+    problems: &mut Vec<Problem>,
+) -> (Header, Vec<ColumnRead>) {
     let mut columns = Vec::with_capacity(record.len());
+    let mut reads = Vec::new();
     let mut seen: Vec<Col> = Vec::new();
-    for cell in record.iter() {
-        let (name, unit) = split_header(cell);
-        if name.is_empty() {
-            columns.push(None);
-            continue;
+    for cell in record {
+        let column = header_cell(cell, loc, defaults, &mut seen, problems);
+        if let Some(c) = &column {
+            reads.push(column_read(cell, c));
         }
-        let Some(col) = Col::parse(&name) else {
-            let hint = if number(&name, true).is_some() {
-                format!(
-                    "the first row must name the columns, e.g. {}",
-                    Col::NAMES[..4].join(",")
-                )
-            } else {
-                format!(
-                    "{}; name a column 'notes' to keep remarks",
-                    suggest::hint(&name, &Col::NAMES)
-                )
-            };
-            problems.push(loc.problem(format!("unknown column '{cell}'")).hint(hint));
-            columns.push(None);
-            continue;
+        columns.push(column);
+    }
+    missing_columns(&seen, loc, section_default, problems);
+    let header = Header {
+        width: filled_width(record),
+        columns,
+    };
+    (header, reads)
+}
+
+/// One header cell: its column (new, and known) and unit; problems are reported and give
+/// `None`, except an unknown unit, whose column is still read so the numbers' other
+/// problems are reported too.
+fn header_cell(
+    cell: &str,
+    loc: &Loc,
+    defaults: &Defaults,
+    seen: &mut Vec<Col>,
+    problems: &mut Vec<Problem>,
+) -> Option<Column> {
+    let (name, unit) = split_header(cell);
+    if name.is_empty() {
+        return None;
+    }
+    let Some(col) = Col::parse(&name) else {
+        let hint = if number(&name, true).is_some() {
+            format!(
+                "the first row must name the columns, e.g. {}",
+                Col::NAMES[..4].join(",")
+            )
+        } else {
+            format!(
+                "{}; name a column 'notes' to keep remarks",
+                suggest::hint(&name, &Col::NAMES)
+            )
         };
-        if col != Col::Note && seen.contains(&col) {
+        problems.push(loc.problem(format!("unknown column '{cell}'")).hint(hint));
+        return None;
+    };
+    if col != Col::Note && seen.contains(&col) {
+        problems.push(
+            loc.problem(format!("column '{}' appears twice", col.name()))
+                .hint("keep one of them"),
+        );
+        return None;
+    }
+    seen.push(col);
+    if col == Col::Section && unit.is_some() {
+        problems.push(
+            loc.problem(format!("column '{cell}': a section name takes no unit"))
+                .hint("name the column just 'section'"),
+        );
+    }
+    let said = match (&unit, col) {
+        (Some(u), Col::Radius | Col::Chord | Col::Sweep | Col::Prebend) => Some(
+            format!("the column header '{}' says {u}", cell.trim()).into(),
+        ),
+        (None, _) => defaults.said.clone(),
+        _ => None,
+    };
+    match column_unit(col, unit.as_deref(), defaults) {
+        Ok((factor, unit)) => Some(Column {
+            col,
+            factor,
+            unit,
+            said,
+        }),
+        Err((kind, names)) => {
             problems.push(
-                loc.problem(format!("column '{}' appears twice", col.name()))
-                    .hint("keep one of them"),
+                loc.problem(format!(
+                    "unknown {kind} unit '{}' in column '{cell}'",
+                    unit.unwrap_or_default()
+                ))
+                .hint(format!("use {names}")),
             );
-            columns.push(None);
-            continue;
-        }
-        seen.push(col);
-        let unit = unit.as_deref();
-        let column = match col {
-            Col::Radius | Col::Chord | Col::Sweep | Col::Prebend => {
-                let u = match unit {
-                    None => Some(defaults.length),
-                    Some(u) => LengthUnit::parse(u),
-                };
-                u.map(|u| (u.to_mm(), u.name()))
-                    .ok_or(("length", LengthUnit::NAMES))
-            }
-            Col::Twist => {
-                let u = match unit {
-                    None => Some(defaults.angle),
-                    Some(u) => AngleUnit::parse(u),
-                };
-                u.map(|u| (u.to_deg(), u.name()))
-                    .ok_or(("angle", AngleUnit::NAMES))
-            }
-            Col::Thickness => {
-                let u = match unit {
-                    None => Some(RatioUnit::Percent),
-                    Some(u) => RatioUnit::parse(u),
-                };
-                u.map(|u| (u.to_percent(), u.name()))
-                    .ok_or(("thickness", RatioUnit::NAMES))
-            }
-            // Chord fractions unless the header says percent; the factor gives a fraction.
-            Col::Stacking => {
-                let u = match unit {
-                    None => Some(RatioUnit::Fraction),
-                    Some(u) => RatioUnit::parse(u),
-                };
-                u.map(|u| (u.to_percent() / 100.0, u.name()))
-                    .ok_or(("stacking", RatioUnit::NAMES))
-            }
-            Col::Section | Col::Note => {
-                if unit.is_some() && col == Col::Section {
-                    problems.push(
-                        loc.problem(format!("column '{cell}': a section name takes no unit"))
-                            .hint("name the column just 'section'"),
-                    );
-                }
-                Ok((1.0, ""))
-            }
-        };
-        match column {
-            Ok((factor, unit)) => columns.push(Some(Column { col, factor, unit })),
-            Err((kind, names)) => {
-                problems.push(
-                    loc.problem(format!(
-                        "unknown {kind} unit '{}' in column '{cell}'",
-                        unit.unwrap_or_default()
-                    ))
-                    .hint(format!("use {names}")),
-                );
-                // Keep reading the column's numbers in the default unit so their other
-                // problems are reported too; the design is refused anyway.
-                let factor = 1.0;
-                columns.push(Some(Column {
-                    col,
-                    factor,
-                    unit: "(unknown unit)",
-                }));
-            }
+            Some(Column {
+                col,
+                factor: 1.0,
+                unit: "(unknown unit)",
+                said: None,
+            })
         }
     }
+}
+
+/// The factor and unit name of a column, from its header's unit or the defaults; or the
+/// kind of unit expected and the accepted names.
+fn column_unit(
+    col: Col,
+    unit: Option<&str>,
+    defaults: &Defaults,
+) -> Result<(f64, &'static str), (&'static str, &'static str)> {
+    match col {
+        Col::Radius | Col::Chord | Col::Sweep | Col::Prebend => {
+            let u = match unit {
+                None => Some(defaults.length),
+                Some(u) => LengthUnit::parse(u),
+            };
+            u.map(|u| (u.to_mm(), u.name()))
+                .ok_or(("length", LengthUnit::NAMES))
+        }
+        Col::Twist => {
+            let u = match unit {
+                None => Some(defaults.angle),
+                Some(u) => AngleUnit::parse(u),
+            };
+            u.map(|u| (u.to_deg(), u.name()))
+                .ok_or(("angle", AngleUnit::NAMES))
+        }
+        Col::Thickness => {
+            let u = match unit {
+                None => Some(RatioUnit::Percent),
+                Some(u) => RatioUnit::parse(u),
+            };
+            u.map(|u| (u.to_percent(), u.name()))
+                .ok_or(("thickness", RatioUnit::NAMES))
+        }
+        // Chord fractions unless the header says percent; the factor gives a fraction.
+        Col::Stacking => {
+            let u = match unit {
+                None => Some(RatioUnit::Fraction),
+                Some(u) => RatioUnit::parse(u),
+            };
+            u.map(|u| (u.to_percent() / 100.0, u.name()))
+                .ok_or(("stacking", RatioUnit::NAMES))
+        }
+        Col::Section | Col::Note => Ok((1.0, "")),
+    }
+}
+
+/// How a header cell was read, for the user.
+fn column_read(cell: &str, c: &Column) -> ColumnRead {
+    let (read_as, unit) = match c.col {
+        Col::Note => ("ignored (notes)", None),
+        Col::Section => ("section", None),
+        other => (other.name(), Some(c.unit)),
+    };
+    ColumnRead {
+        header: cell.trim().to_string(),
+        read_as,
+        unit,
+    }
+}
+
+/// Every required column present (the section unless a default is given).
+fn missing_columns(seen: &[Col], loc: &Loc, section_default: bool, problems: &mut Vec<Problem>) {
     for need in [Col::Radius, Col::Chord, Col::Twist, Col::Section] {
-        if need == Col::Section && section_default {
+        if (need == Col::Section && section_default) || seen.contains(&need) {
             continue;
         }
-        if !seen.contains(&need) {
-            let hint = if need == Col::Section {
-                "add a 'section' column, set [blade] section in a TOML design, or give a \
-                 default section on the command line"
-                    .to_string()
-            } else {
-                format!("add a '{}' column to the header row", need.name())
-            };
-            problems.push(
-                loc.problem(format!("missing column '{}'", need.name()))
-                    .hint(hint),
-            );
-        }
+        let hint = if need == Col::Section {
+            "add a 'section' column, set [blade] section in a TOML design, or give a default \
+             section on the command line"
+                .to_string()
+        } else {
+            format!("add a '{}' column to the header row", need.name())
+        };
+        problems.push(
+            loc.problem(format!("missing column '{}'", need.name()))
+                .hint(hint),
+        );
     }
-    (filled_width(record), columns)
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
 
-    fn cells(r: &(usize, Result<Vec<String>, String>)) -> Vec<&str> {
+    fn cells(r: &(usize, Record)) -> Vec<&str> {
         r.1.as_ref().unwrap().iter().map(String::as_str).collect()
     }
 
@@ -537,17 +689,30 @@ mod tests {
     }
 
     #[test]
+    fn cr_line_ends_split_like_lf() {
+        // Classic Mac OS text files end lines with CR alone (common practice).
+        let cr = split("a,b\r1,2\r# c\r3,4", ',');
+        let lf = split("a,b\n1,2\n# c\n3,4", ',');
+        assert_eq!(cr, lf);
+        assert_eq!((cr[3].0, cells(&cr[3])), (4, vec!["3", "4"]));
+    }
+
+    #[test]
     fn header_units_and_separators() {
-        assert_eq!(
-            split_header(" Radius [mm] "),
-            ("radius".into(), Some("mm".into()))
-        );
-        assert_eq!(
-            split_header("chord (in)"),
-            ("chord".into(), Some("in".into()))
-        );
-        assert_eq!(split_header("twist"), ("twist".into(), None));
+        let s = |c: &str| split_header(c);
+        let some = |n: &str, u: &str| (n.to_string(), Some(u.to_string()));
+        assert_eq!(s(" Radius [mm] "), some("radius", "mm"));
+        assert_eq!(s("chord (in)"), some("chord", "in"));
+        assert_eq!(s("radius_mm"), some("radius", "mm"));
+        assert_eq!(s("r [mm]"), some("r", "mm"));
+        assert_eq!(s("r/mm"), some("r", "mm"));
+        assert_eq!(s("Twist deg"), some("twist", "deg"));
+        assert_eq!(s("t/c"), ("t/c".into(), None));
+        assert_eq!(s("chord length"), ("chord length".into(), None));
+        assert_eq!(s("twist"), ("twist".into(), None));
+        assert_eq!(s("span_mm"), ("span_mm".into(), None));
         assert_eq!(separator("# a, b, c\nradius;chord;twist\n"), ';');
+        assert_eq!(separator("# a, b, c\rradius;chord;twist\r"), ';');
         assert_eq!(separator("radius\tchord\ttwist"), '\t');
         assert_eq!(separator("radius,chord"), ',');
         assert_eq!(number("12,5", true), Some(12.5));

@@ -68,7 +68,8 @@ impl fmt::Display for Problem {
         if let Some(line) = self.line {
             write!(f, ":{line}")?;
         }
-        if let Some(key) = &self.key {
+        // A message that opens with its key (`root.bore.depth = 12: ...`) names it already.
+        if let Some(key) = self.key.as_ref().filter(|k| !self.message.starts_with(k.as_str())) {
             write!(f, ": {key}")?;
         }
         write!(f, ": {}", self.message)?;

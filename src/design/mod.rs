@@ -71,19 +71,23 @@
 //! | `blade.flow` | `"turbine"`, `"propeller"` | `"turbine"` | see [`Flow`] |
 //! | `blade.rotation` | `"ccw"`, `"cw"` | `"ccw"` | seen from upstream, see [`Rotation`] |
 //! | `blade.points-per-side` | integer in 8..=2000 | 120 | section resampling |
-//! | `blade.tolerance` | number, **mm** (whatever `units.length`) | 0.01 | largest mesh deviation, > 0 and <= 10 |
-//! | `blade.min-te-thickness` | number, **mm** (whatever `units.length`) | none | thinnest trailing edge, >= 0 |
-//! | `station` | array of tables (`[[station]]`) | | the stations, root to tip |
-//! | `station[i].radius` | number, length unit | required | distance from the rotor axis, >= 0, strictly increasing |
-//! | `station[i].chord` | number, length unit | required | > 0 |
+//! | `blade.tolerance` | number, length unit | 0.01 mm | largest mesh deviation; at least 0.0001 mm, at most 10 mm (in the file's unit: `0.0004` in an inch file is 0.01016 mm) |
+//! | `blade.min-te-thickness` | number, length unit | 0.4 mm | thinnest trailing edge: thinner edges are opened to it (the build summary lists them); 0 keeps knife edges; at most 10 % of every station's chord |
+//! | `blade.spanwise` | `"smooth"`, `"linear"` | `"smooth"` | how values vary between stations: monotone cubic, or straight lines (see [`Law`]) |
+//! | `station` | array of tables (`[[station]]`) | | the stations, root to tip, 2 to 1000 |
+//! | `station[i].radius` | number, length unit | required | distance from the rotor axis, >= 0, strictly increasing, at most 10 m |
+//! | `station[i].chord` | number, length unit | required | > 0, at most 10 m, at least 20 tolerances |
 //! | `station[i].twist` | number, angle unit | required | within -90..=90 degrees, sign as in [`crate::conventions`] |
 //! | `station[i].section` | string | `blade.section` | section designation or file |
 //! | `station[i].thickness` | number, **percent of chord** | none | relative thickness to scale the section to, 1..=50 |
-//! | `station[i].sweep` | number, length unit | 0 | chordwise offset of the stacking point |
-//! | `station[i].prebend` | number, length unit | 0 | out-of-plane offset, positive downstream |
+//! | `station[i].sweep` | number, length unit | 0 | chordwise offset of the stacking point, at most 10 m either way |
+//! | `station[i].prebend` | number, length unit | 0 | out-of-plane offset, positive downstream, at most 10 m either way |
 //! | `station[i].stacking` | as `blade.stacking` | `blade.stacking` | this station's stacking |
-//! | `stations` | string | | instead of `[[station]]`: a CSV station table, path relative to the TOML file |
-//! | any other table | table | | kept in [`Design::tables`] for a later stage |
+//! | `stations` | string | | instead of `[[station]]`: a CSV station table, path relative to the TOML file (not a TOML file) |
+//! | `root`, `tip`, `rotor`, `printer` | table | | kept in [`Design::tables`] for a later stage ([`TABLES`]) |
+//!
+//! Every length in the file, `blade.tolerance` and `blade.min-te-thickness` included, is in
+//! `units.length`; the design holds millimetres.
 //!
 //! `stacking` values ([`Stacking`]): a number is the chord fraction of a point on the
 //! chord line (0 leading edge, 1 trailing edge); `"quarter-chord"` is the aerodynamic
@@ -97,12 +101,33 @@
 //! blade byte for byte; 0.25 was the historical default.
 //!
 //! Stations are counted from 1 in key paths: `station[1]` is the first `[[station]]`.
-//! Unknown keys in `units`, `blade` and `station` entries are errors (with "did you mean"
-//! when a key is close), as are unknown top-level keys that are not tables and tables
-//! whose name is a near miss of `units`, `blade` or `station`.
+//! Unknown keys and tables anywhere are errors, with "did you mean" when a known name is
+//! close (`[roots]`: did you mean `[root]`?): the keys of `units`, `blade` and `station`
+//! here, top-level tables against this module's and [`TABLES`], and the keys of the
+//! tables of later stages when their stage reads them (`Design::table`).
 //!
 //! Lengths in the other tables (`root`, `rotor`, `printer`, ...) are in the file's length
 //! unit: read them with [`Design::table_mm`] (see [`Lengths`]).
+//!
+//! # Limits
+//!
+//! Plain input sanity, checked while reading (each refusal names the figure, the limit and
+//! a fix; the limits are constants of this module):
+//!
+//! | limit | value | why |
+//! |-------|-------|-----|
+//! | largest radius, chord, sweep, prebend | 10 m ([`MAX_LENGTH_MM`]) | spanwright is for small rotors; a larger number is almost always a unit slip, and the message says so (`radius 280 m: did you mean millimetres? ... units = { length = "m" }`) |
+//! | tolerance | 0.0001 to 10 mm ([`MIN_TOLERANCE_MM`], [`MAX_TOLERANCE_MM`]) | ten times finer than precision machining holds; the mesh grows with 1/tolerance |
+//! | smallest chord | 20 tolerances ([`MIN_CHORD_TOLERANCES`]) | each side of the mesh may lie a tolerance inside the surface: a 10 %-thick section must stay thicker than two tolerances |
+//! | smallest span, first to last station | 20 tolerances ([`MIN_SPAN_TOLERANCES`]) | the same along the span (a 0.001 mm "blade" is a wafer the mesh cannot close) |
+//! | neighbouring stations | at least one tolerance apart ([`MIN_GAP_TOLERANCES`]) | closer, the mesh cannot tell them apart |
+//! | stations | 2 to 1000 ([`MAX_STATIONS`]) | a few dozen describe any blade |
+//! | design file | 4 MiB ([`MAX_FILE_BYTES`]) | a thousand stations take about 50 kB |
+//! | `min-te-thickness` | 10 % of every chord ([`MAX_TE_CHORD_FRACTION`]) | thicker, the edge cuts the section off |
+//!
+//! A tolerance given for one build (`--tolerance`) is checked against the same rules by
+//! [`Design::check_tolerance`]. No limit here has an override: each bounds what the input
+//! can mean, not how long a valid design takes (that is estimated before meshing).
 //!
 //! # CSV station table
 //!
@@ -114,21 +139,24 @@
 //! ```
 //!
 //! * First non-blank, non-comment row: the header, naming the columns in any order and
-//!   case: `radius`, `chord`, `twist` (required), `section` (required unless a default
-//!   section is given by `[blade] section` or by the caller), `thickness`, `sweep`,
-//!   `prebend`, `stacking` (optional). `airfoil` and `profile` are accepted for
-//!   `section`; columns named `note(s)` or `comment(s)` are ignored; any other column is
-//!   an error.
-//! * A unit may follow the name: `radius [mm]`, `chord (in)`, `twist [deg]`,
-//!   `thickness [%]` or `thickness [fraction]`. Without one, the column is in the design's
-//!   units (for a bare CSV: mm, degrees, percent).
+//!   case: `radius` (or `r`), `chord` (or `c`, `chord length`), `twist` (or `twist
+//!   angle`) (required), `section` (required unless a default section is given by
+//!   `[blade] section` or by the caller; `airfoil`, `aerofoil` and `profile` are accepted
+//!   for it), `thickness` (or `t/c`, `relative thickness`), `sweep`, `prebend`,
+//!   `stacking` (optional); columns named `note(s)` or `comment(s)` are ignored; any other
+//!   column is an error.
+//! * A unit may follow the name the usual spreadsheet ways: `radius [mm]`, `chord (in)`,
+//!   `radius_mm`, `r/mm` (ISO 80000-1 quantity/unit), `twist deg`, `thickness [%]` or
+//!   `thickness [fraction]`. Without one, the column is in the design's units (for a bare
+//!   CSV: mm, degrees, percent). [`Design::columns`] says how each column was read
+//!   ([`ColumnRead`], `'r [mm]' read as radius in mm`), for the user.
 //! * `stacking` cells hold a chord fraction or a rule name, as `station[i].stacking`; an
 //!   empty cell takes `blade.stacking`. The column is a fraction of chord unless its header
 //!   says `stacking [%]` (then `30` is 30 % of chord).
 //! * Separator: comma, semicolon or tab, detected from the header. With semicolon or tab,
 //!   a decimal comma (`12,5`) is read as a decimal point.
-//! * Blank rows (also rows of empty cells), `#` comment rows, CRLF and a UTF-8 byte-order
-//!   mark are tolerated; cells may be quoted. Empty optional cells take their default.
+//! * Blank rows (also rows of empty cells), `#` comment rows, LF, CRLF and CR line ends
+//!   and a UTF-8 byte-order mark are tolerated; cells may be quoted. Empty optional cells take their default.
 //!   Trailing empty cells are fine; a row with fewer cells than the header, or with
 //!   filled cells beyond it, is an error.
 //! * [`Station::origin`] is `file:line` for CSV rows and `file:line: station[i]` for
@@ -138,6 +166,7 @@ use std::path::{Path, PathBuf};
 
 mod csv_table;
 mod error;
+mod limits;
 mod rows;
 mod spans;
 mod stacking;
@@ -147,13 +176,26 @@ mod toml_file;
 mod units;
 pub mod variants;
 
+pub use crate::interp::Law;
 pub use error::{DesignError, Problem};
+pub use limits::{
+    DEFAULT_MIN_TE_MM, MAX_FILE_BYTES, MAX_LENGTH_MM, MAX_STATIONS, MAX_TE_CHORD_FRACTION,
+    MAX_TOLERANCE_MM, MIN_CHORD_TOLERANCES, MIN_GAP_TOLERANCES, MIN_SPAN_TOLERANCES,
+    MIN_TOLERANCE_MM,
+};
 pub use stacking::{Stacking, StackingValueError};
 pub use table::Lengths;
 pub use units::{AngleUnit, LengthUnit, RatioUnit};
 
 /// Largest mesh tolerance accepted from a design file or the command line, mm.
-pub const MAX_TOLERANCE: f64 = toml_file::TOLERANCE_MAX_MM;
+pub const MAX_TOLERANCE: f64 = MAX_TOLERANCE_MM;
+
+/// Smallest mesh tolerance accepted from a design file or the command line, mm.
+pub const MIN_TOLERANCE: f64 = MIN_TOLERANCE_MM;
+
+/// The optional top-level tables of later stages, by name. Any other table in a design
+/// file is an error ("did you mean"); a stage that adds a table registers its name here.
+pub const TABLES: [&str; 4] = ["root", "tip", "rotor", "printer"];
 
 /// Which way the rotor exchanges energy with the flow.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
@@ -214,8 +256,12 @@ pub struct BladeOptions {
     pub points_per_side: usize,
     /// Largest allowed distance between mesh and exact surface, mm (default 0.01).
     pub tolerance: f64,
-    /// Minimum trailing-edge thickness, mm, applied by thickening (default: none).
+    /// Minimum trailing-edge thickness, mm, applied by thickening (default
+    /// [`DEFAULT_MIN_TE_MM`], 0.4 mm; 0 or `None` keeps the sections' own edges).
     pub min_te_thickness: Option<f64>,
+    /// How chord, twist, offsets and section shape vary between stations (default
+    /// [`Law::Smooth`], monotone cubic).
+    pub spanwise: Law,
 }
 
 impl Default for BladeOptions {
@@ -226,7 +272,35 @@ impl Default for BladeOptions {
             rotation: Rotation::default(),
             points_per_side: 120,
             tolerance: 0.01,
-            min_te_thickness: None,
+            min_te_thickness: Some(DEFAULT_MIN_TE_MM),
+            spanwise: Law::default(),
+        }
+    }
+}
+
+/// How one column of a CSV station table was read: the header cell as written, the
+/// station value it was read as, and its unit. Displayed as
+/// `'r [mm]' read as radius in mm` or `'notes' ignored (notes)`.
+#[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
+pub struct ColumnRead {
+    /// The header cell as written (trimmed).
+    pub header: String,
+    /// The station value it was read as (`radius`, `chord`, `twist`, `section`,
+    /// `thickness`, `sweep`, `prebend`, `stacking`), or `ignored (notes)`.
+    pub read_as: &'static str,
+    /// The unit its numbers are read in (`mm`, `in`, `deg`, `rad`, `%`, `fraction`, ...),
+    /// for numeric columns.
+    pub unit: Option<&'static str>,
+}
+
+impl std::fmt::Display for ColumnRead {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match (self.read_as, self.unit) {
+            (what, _) if what.starts_with("ignored") => write!(f, "'{}' {what}", self.header),
+            (what, Some(unit)) if !unit.is_empty() => {
+                write!(f, "'{}' read as {what} in {unit}", self.header)
+            }
+            (what, _) => write!(f, "'{}' read as {what}", self.header),
         }
     }
 }
@@ -248,6 +322,9 @@ pub struct Design {
     /// as written: lengths in them are in the file's length unit (multiply by
     /// [`Design::length_to_mm`]). Read one with [`Design::table`].
     pub tables: toml::Table,
+    /// How each column of the CSV station table was read, when the stations come from
+    /// one (empty for `[[station]]` entries): a list to show the user.
+    pub columns: Vec<ColumnRead>,
 }
 
 /// Label used in messages for text given without a file.
@@ -261,12 +338,52 @@ fn stem(file: &Path) -> String {
         .unwrap_or_else(|| "design".into())
 }
 
+/// Why a file could not be read.
+enum ReadFail {
+    /// The operating system's error.
+    Io(std::io::Error),
+    /// Larger than [`MAX_FILE_BYTES`] (its size in bytes).
+    TooLarge(u64),
+}
+
+/// The problem of a file larger than [`MAX_FILE_BYTES`].
+fn too_large(file: &Path, bytes: u64) -> Problem {
+    Problem::new(
+        file,
+        format!(
+            "the file is {:.1} MB, more than the {} MB a design file may be",
+            bytes as f64 / 1_048_576.0,
+            MAX_FILE_BYTES >> 20
+        ),
+    )
+    .hint(format!(
+        "a design of {MAX_STATIONS} stations takes about 50 kB; check that this is the \
+         design table"
+    ))
+}
+
+/// Reads a file of at most [`MAX_FILE_BYTES`] (reading stops past it).
+fn read_limited(path: &Path) -> Result<Vec<u8>, ReadFail> {
+    use std::io::Read;
+    let file = std::fs::File::open(path).map_err(ReadFail::Io)?;
+    let mut bytes = Vec::new();
+    file.take(MAX_FILE_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(ReadFail::Io)?;
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        let size = std::fs::metadata(path).map_or(bytes.len() as u64, |m| m.len());
+        return Err(ReadFail::TooLarge(size));
+    }
+    Ok(bytes)
+}
+
 fn read(path: &Path) -> Result<Vec<u8>, DesignError> {
-    std::fs::read(path).map_err(|e| {
-        DesignError::one(
+    read_limited(path).map_err(|fail| match fail {
+        ReadFail::Io(e) => DesignError::one(
             Problem::new(path, format!("cannot read the file: {e}"))
                 .hint("check the path and the file's permissions"),
-        )
+        ),
+        ReadFail::TooLarge(size) => DesignError::one(too_large(path, size)),
     })
 }
 
@@ -331,21 +448,28 @@ fn csv_design(
 ) -> Result<Design, DesignError> {
     let default_section = default_section.filter(|s| !s.trim().is_empty());
     let mut problems = Vec::new();
-    let rows = csv_table::read(
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        return Err(DesignError::one(too_large(file, bytes.len() as u64)));
+    }
+    let table = csv_table::read(
         bytes,
         file,
-        csv_table::Defaults::default(),
+        &csv_table::Defaults::default(),
         default_section.is_some(),
         &mut problems,
     );
     let whole = error::Loc::new(file, None, None);
-    let stations = rows::validate(
-        &rows,
+    let blade = BladeOptions::default();
+    let rules = rows::Rules {
         default_section,
-        "add a 'section' column or give a default section",
-        &whole,
-        &mut problems,
-    );
+        missing_section_hint: "add a 'section' column or give a default section",
+        whole: &whole,
+        tolerance: Some((
+            blade.tolerance,
+            format!("the default, {} mm", blade.tolerance),
+        )),
+    };
+    let stations = rows::validate(&table.rows, &rules, &mut problems);
     if !problems.is_empty() {
         rows::sort(&mut problems);
         return Err(DesignError { problems });
@@ -354,9 +478,10 @@ fn csv_design(
         name: stem(file),
         source,
         stations,
-        blade: BladeOptions::default(),
+        blade,
         length_to_mm: 1.0,
         tables: toml::Table::new(),
+        columns: table.columns,
     })
 }
 
@@ -372,4 +497,86 @@ pub fn parse_toml_str(text: &str, source: Option<&Path>) -> Result<Design, Desig
         dir,
         source.map(Path::to_path_buf),
     )
+}
+
+impl Design {
+    /// Checks a mesh tolerance (mm) for this design, when it is not the file's own (e.g.
+    /// `--tolerance` on the command line; `from` says where it came from): the range
+    /// [`MIN_TOLERANCE_MM`]..=[`MAX_TOLERANCE_MM`], and the rules the design file's
+    /// tolerance was checked by: every chord at least [`MIN_CHORD_TOLERANCES`]
+    /// tolerances, the span at least [`MIN_SPAN_TOLERANCES`], neighbouring stations at
+    /// least [`MIN_GAP_TOLERANCES`] apart.
+    ///
+    /// # Errors
+    /// A [`DesignError`] naming the figure, the limit and the largest (or smallest)
+    /// tolerance that would do.
+    pub fn check_tolerance(&self, tolerance: f64, from: &str) -> Result<(), DesignError> {
+        let problem = |message: String, hint: String| {
+            Err(DesignError::one(
+                Problem::new(self.file(), message).hint(hint),
+            ))
+        };
+        let (lo, hi) = (MIN_TOLERANCE_MM, MAX_TOLERANCE_MM);
+        let n = limits::show_number;
+        let tolerance_mm = tolerance;
+        let tolerance = n(tolerance_mm);
+        if !(tolerance_mm >= lo && tolerance_mm <= hi) {
+            return problem(
+                format!("tolerance {tolerance} mm ({from}) must be at least {lo} mm and at most {hi} mm"),
+                "give the largest allowed mesh deviation in mm, e.g. 0.01 (a fine print) or 0.001 (a machining file)".into(),
+            );
+        }
+        let Some(thinnest) = self
+            .stations
+            .iter()
+            .min_by(|a, b| a.chord.total_cmp(&b.chord))
+        else {
+            return Ok(());
+        };
+        let most = thinnest.chord / MIN_CHORD_TOLERANCES;
+        if tolerance_mm > most {
+            return problem(
+                format!(
+                    "tolerance {tolerance} mm ({from}) is too coarse for the {} mm chord at {}: \
+                     a chord must be at least {MIN_CHORD_TOLERANCES} tolerances",
+                    n(thinnest.chord),
+                    thinnest.origin
+                ),
+                format!("give a tolerance of at most {} mm", n(most)),
+            );
+        }
+        let radii: Vec<f64> = self.stations.iter().map(|s| s.radius).collect();
+        let span = radii[radii.len() - 1] - radii[0];
+        if tolerance_mm > span / MIN_SPAN_TOLERANCES {
+            return problem(
+                format!(
+                    "tolerance {tolerance} mm ({from}) is too coarse for a blade spanning {} \
+                     mm: the span must be at least {MIN_SPAN_TOLERANCES} tolerances",
+                    n(span)
+                ),
+                format!(
+                    "give a tolerance of at most {} mm",
+                    n(span / MIN_SPAN_TOLERANCES)
+                ),
+            );
+        }
+        let closest = radii
+            .windows(2)
+            .map(|w| w[1] - w[0])
+            .fold(f64::INFINITY, f64::min);
+        if tolerance_mm > closest / MIN_GAP_TOLERANCES {
+            return problem(
+                format!(
+                    "tolerance {tolerance} mm ({from}) is coarser than the {} mm between \
+                     the two closest stations: the mesh cannot tell them apart",
+                    n(closest)
+                ),
+                format!(
+                    "give a tolerance of at most {} mm",
+                    n(closest / MIN_GAP_TOLERANCES)
+                ),
+            );
+        }
+        Ok(())
+    }
 }

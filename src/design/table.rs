@@ -5,25 +5,49 @@ use std::path::Path;
 
 use super::error::{DesignError, Problem};
 use super::spans::{Seg, Spans};
+use super::suggest;
 use super::{Design, NO_FILE};
 
-/// Rewords serde's type errors for people writing design files:
-/// `invalid type: string "x", expected f64` becomes `expected a number, found string "x"`.
-fn reword(message: &str) -> String {
-    let Some(rest) = message.strip_prefix("invalid type: ") else {
-        return message.to_string();
-    };
-    let Some((found, expected)) = rest.split_once(", expected ") else {
-        return message.to_string();
-    };
-    let expected = match expected {
-        "f64" | "f32" | "a float" => "a number",
-        "i8" | "i16" | "i32" | "i64" | "u8" | "u16" | "u32" | "u64" | "usize" | "isize"
-        | "an integer" => "a whole number",
-        "a boolean" | "bool" => "true or false",
-        other => other,
-    };
-    format!("expected {expected}, found {found}")
+/// Rewords serde's messages for people writing design files, with a hint where one
+/// helps: `invalid type: string "x", expected f64` becomes `expected a number, found
+/// string "x"`; `unknown field `shank-diametr`, expected one of ...` becomes `unknown key
+/// 'shank-diametr'` with "did you mean 'shank-diameter'?"; `unknown variant` and `missing
+/// field` likewise.
+fn reword(message: &str) -> (String, Option<String>) {
+    if let Some(rest) = message.strip_prefix("invalid type: ") {
+        if let Some((found, expected)) = rest.split_once(", expected ") {
+            let expected = match expected {
+                "f64" | "f32" | "a float" => "a number",
+                "i8" | "i16" | "i32" | "i64" | "u8" | "u16" | "u32" | "u64" | "usize" | "isize"
+                | "an integer" => "a whole number",
+                "a boolean" | "bool" => "true or false",
+                other => other,
+            };
+            let found = match found {
+                "sequence" => "an array",
+                "map" => "a table",
+                other => other,
+            };
+            return (format!("expected {expected}, found {found}"), None);
+        }
+    }
+    for (prefix, what) in [("unknown field `", "key"), ("unknown variant `", "value")] {
+        if let Some(rest) = message.strip_prefix(prefix) {
+            if let Some((word, expected)) = rest.split_once('`') {
+                let known: Vec<&str> = expected.split('`').skip(1).step_by(2).collect();
+                let hint = (!known.is_empty()).then(|| suggest::hint(word, &known));
+                return (format!("unknown {what} '{word}'"), hint);
+            }
+        }
+    }
+    if let Some(rest) = message.strip_prefix("missing field `") {
+        let key = rest.split('`').next().unwrap_or(rest);
+        return (
+            format!("missing key '{key}'"),
+            Some(format!("add {key} = <value>")),
+        );
+    }
+    (message.to_string(), None)
 }
 
 /// A table of a later stage whose lengths are written in the design file's length unit.
@@ -110,7 +134,8 @@ impl Design {
                 path.push('.');
                 path.push_str(field);
             }
-            DesignError::one(self.problem(&path, reword(e.message())))
+            let (message, hint) = reword(e.message());
+            DesignError::one(self.problem(&path, message).maybe_hint(hint))
         })
     }
 }
@@ -122,9 +147,21 @@ mod tests {
     #[test]
     fn rewording() {
         assert_eq!(
-            reword("invalid type: string \"x\", expected f64"),
+            reword("invalid type: string \"x\", expected f64").0,
             "expected a number, found string \"x\""
         );
-        assert_eq!(reword("missing field `a`"), "missing field `a`");
+        assert_eq!(
+            reword("invalid type: sequence, expected f64").0,
+            "expected a number, found an array"
+        );
+        let (m, h) = reword(
+            "unknown field `shank-diametr`, expected one of `shank-diameter`, `shank-length`",
+        );
+        assert_eq!(m, "unknown key 'shank-diametr'");
+        assert_eq!(h.as_deref(), Some("did you mean 'shank-diameter'?"));
+        let (m, h) = reword("unknown variant `rund`, expected `flat` or `round`");
+        assert_eq!(m, "unknown value 'rund'");
+        assert_eq!(h.as_deref(), Some("did you mean 'round'?"));
+        assert_eq!(reword("missing field `a`").0, "missing key 'a'");
     }
 }

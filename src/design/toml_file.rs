@@ -1,23 +1,31 @@
 //! Reading a TOML design file (see the key table in [`super`]).
+//!
+//! [`parse`] is the method, step by step: the TOML syntax; the top level (own keys, the
+//! tables of later stages, unknown names with "did you mean"); the name; the units; the
+//! `[blade]` options; the station rows (inline `[[station]]` entries or a CSV table);
+//! their validation; the checks that need both the options and the stations.
 
 use std::path::{Path, PathBuf};
+use std::sync::Arc;
 
 use toml::{Table, Value};
 
 use super::csv_table::{self, Defaults};
 use super::error::{DesignError, Loc, Problem};
-use super::rows::{validate, Num, Row};
+use super::limits::{show_number, MAX_FILE_BYTES, MAX_TE_CHORD_FRACTION, MAX_TOLERANCE_MM, MIN_TOLERANCE_MM};
+use super::rows::{validate, Num, Row, Rules};
 use super::spans::{line_of, render, Seg, Spans};
 use super::suggest;
 use super::units::{AngleUnit, LengthUnit};
-use super::{BladeOptions, Design, Flow, Rotation, Stacking};
+use super::{BladeOptions, ColumnRead, Design, Flow, Rotation, Stacking, Station, TABLES};
+use crate::interp::Law;
 
-/// Top-level keys read here; any other top-level table is kept for later stages.
+/// Top-level keys read here; the tables of later stages are [`TABLES`].
 const TOP: [&str; 5] = ["name", "units", "blade", "station", "stations"];
-/// Tables read here (a kept table with a name close to one of these is a typo).
+/// Tables read here.
 const OWN_TABLES: [&str; 3] = ["units", "blade", "station"];
 const UNIT_KEYS: [&str; 2] = ["length", "angle"];
-const BLADE_KEYS: [&str; 7] = [
+const BLADE_KEYS: [&str; 8] = [
     "section",
     "stacking",
     "flow",
@@ -25,6 +33,7 @@ const BLADE_KEYS: [&str; 7] = [
     "points-per-side",
     "tolerance",
     "min-te-thickness",
+    "spanwise",
 ];
 const STATION_KEYS: [&str; 8] = [
     "radius",
@@ -40,8 +49,6 @@ const STATION_KEYS: [&str; 8] = [
 /// Accepted `points-per-side` range: fewer cannot resolve a leading edge, more only slows
 /// every later stage down.
 pub(crate) const POINTS_PER_SIDE: (i64, i64) = (8, 2000);
-/// Largest accepted `tolerance`, mm (it must also be more than 0).
-pub(crate) const TOLERANCE_MAX_MM: f64 = 10.0;
 
 /// How a value looks in a message: strings quoted, others as TOML writes them.
 pub(crate) fn show(v: &Value) -> String {
@@ -50,6 +57,48 @@ pub(crate) fn show(v: &Value) -> String {
         Value::Table(_) => "a table".into(),
         Value::Array(_) => "an array".into(),
         other => other.to_string(),
+    }
+}
+
+/// What was found, for "expected ..., found ..." messages: `string "x"`, `integer 5`,
+/// `an array`, `a table`.
+fn found(v: &Value) -> String {
+    match v {
+        Value::Table(_) | Value::Array(_) => show(v),
+        other => format!("{} {}", other.type_str(), show(other)),
+    }
+}
+
+/// The `[blade]` options as read, before the checks that need the stations.
+struct BladeRead {
+    options: BladeOptions,
+    /// Default section for stations without one.
+    section: Option<String>,
+    /// The tolerance and how it was set, when valid.
+    tolerance: Option<(f64, String)>,
+    /// `min-te-thickness` as written (mm, and as written), when given and valid.
+    min_te: Option<(f64, String)>,
+}
+
+/// The station rows and what their validation needs to know of where they came from.
+struct StationRows {
+    rows: Vec<Row>,
+    /// Locates problems of the table as a whole.
+    whole: Option<Loc>,
+    /// Where a default section could come from.
+    section_hint: &'static str,
+    /// How the columns of a CSV table were read (empty for inline stations).
+    columns: Vec<ColumnRead>,
+}
+
+impl StationRows {
+    fn none() -> Self {
+        Self {
+            rows: Vec::new(),
+            whole: None,
+            section_hint: "",
+            columns: Vec::new(),
+        }
     }
 }
 
@@ -88,7 +137,7 @@ impl Reader<'_> {
     fn wrong_type(&mut self, path: &[Seg], expected: &str, v: &Value) {
         self.report(
             path,
-            format!("expected {expected}, found {} {}", v.type_str(), show(v)),
+            format!("expected {expected}, found {}", found(v)),
             None,
         );
     }
@@ -158,13 +207,66 @@ impl Reader<'_> {
         path: &[Seg],
         key: &str,
         factor: f64,
-        unit: &str,
+        unit: &'static str,
     ) -> Option<Num> {
         let raw = self.number(table, path, key)?;
         let p = [path, &[Seg::Key(key)]].concat();
         Some(Num::new(raw, factor, unit, self.loc(&p)))
     }
 
+    /// Step 2: the top level. Own keys are read later; the tables of later stages are
+    /// kept; anything else is an error, with the closest known name.
+    fn top_level(&mut self, top: &Table) -> Table {
+        let mut tables = Table::new();
+        let known_tables: Vec<&str> = OWN_TABLES.iter().chain(&TABLES).copied().collect();
+        for (key, v) in top {
+            if TOP.contains(&key.as_str()) {
+                continue;
+            }
+            let tableish = match v {
+                Value::Table(_) => true,
+                Value::Array(a) => !a.is_empty() && a.iter().all(Value::is_table),
+                _ => false,
+            };
+            if !tableish {
+                let keys: Vec<&str> = TOP.iter().chain(&TABLES).copied().collect();
+                self.report(
+                    &[Seg::Key(key)],
+                    format!("unknown key '{key}'"),
+                    Some(suggest::hint(key, &keys)),
+                );
+            } else if TABLES.contains(&key.as_str()) {
+                tables.insert(key.clone(), v.clone());
+            } else {
+                let hint = match suggest::closest(key, &known_tables) {
+                    Some(t) => format!("did you mean [{t}]?"),
+                    None => format!("the tables are: [{}]", known_tables.join("], [")),
+                };
+                self.report(
+                    &[Seg::Key(key)],
+                    format!("unknown table [{key}]"),
+                    Some(hint),
+                );
+            }
+        }
+        tables
+    }
+
+    /// Step 3: the design name, when given and usable for file names.
+    fn name(&mut self, top: &Table) -> Option<String> {
+        let n = self.string(top, &[], "name")?;
+        if n.trim().is_empty() || n.contains(['/', '\\']) || n.contains(char::is_control) {
+            self.report(
+                &[Seg::Key("name")],
+                format!("name \"{n}\" cannot name output files"),
+                Some("use letters, digits, '-' and '_'".into()),
+            );
+            return None;
+        }
+        Some(n)
+    }
+
+    /// Step 4: the units table.
     fn units(&mut self, top: &Table) -> (LengthUnit, AngleUnit) {
         let mut units = (LengthUnit::default(), AngleUnit::default());
         let path = [Seg::Key("units")];
@@ -203,32 +305,59 @@ impl Reader<'_> {
         units
     }
 
-    /// Reads `[blade]`; returns the options and the default section.
-    fn blade(&mut self, top: &Table) -> (BladeOptions, Option<String>) {
-        let mut o = BladeOptions::default();
+    /// Step 5: `[blade]`. Lengths (`tolerance`, `min-te-thickness`) are in the file's
+    /// length unit.
+    fn blade(&mut self, top: &Table, length: LengthUnit) -> BladeRead {
+        let default_tolerance = BladeOptions::default().tolerance;
+        let mut read = BladeRead {
+            options: BladeOptions::default(),
+            section: None,
+            tolerance: Some((
+                default_tolerance,
+                format!("the default, {default_tolerance} mm"),
+            )),
+            min_te: None,
+        };
         let path = [Seg::Key("blade")];
         let Some(v) = top.get("blade") else {
-            return (o, None);
+            return read;
         };
         let Value::Table(t) = v else {
             self.wrong_type(&path, "a table ([blade])", v);
-            return (o, None);
+            return read;
         };
         self.keys(t, &path, &BLADE_KEYS);
-        let key = |k: &'static str| [Seg::Key("blade"), Seg::Key(k)];
+        read.section = self.blade_section(t);
+        if let Some(stacking) = self.stacking(t, &path) {
+            read.options.stacking = stacking;
+        }
+        self.blade_choices(t, &mut read.options);
+        self.points_per_side(t, &mut read.options);
+        read.tolerance = self.tolerance(t, length, &mut read.options);
+        read.min_te = self.min_te(t, length, &mut read.options);
+        read
+    }
+
+    /// `blade.section`, trimmed; an empty one is reported.
+    fn blade_section(&mut self, t: &Table) -> Option<String> {
         let section = self
-            .string(t, &path, "section")
-            .map(|s| s.trim().to_string());
-        if section.as_deref().is_some_and(|s| s.trim().is_empty()) {
+            .string(t, &[Seg::Key("blade")], "section")
+            .map(|s| s.trim().to_string())?;
+        if section.is_empty() {
             self.report(
-                &key("section"),
+                &[Seg::Key("blade"), Seg::Key("section")],
                 "the section name is empty".into(),
                 Some("give a designation such as \"naca4412\" or a section file".into()),
             );
+            return None;
         }
-        if let Some(stacking) = self.stacking(t, &path) {
-            o.stacking = stacking;
-        }
+        Some(section)
+    }
+
+    /// `blade.flow`, `blade.rotation` and `blade.spanwise`: one of a few names each.
+    fn blade_choices(&mut self, t: &Table, o: &mut BladeOptions) {
+        let path = [Seg::Key("blade")];
+        let key = |k: &'static str| [Seg::Key("blade"), Seg::Key(k)];
         if let Some(s) = self.string(t, &path, "flow") {
             match s.as_str() {
                 "turbine" => o.flow = Flow::Turbine,
@@ -251,47 +380,223 @@ impl Reader<'_> {
                 ),
             }
         }
-        if let Some(v) = t.get("points-per-side") {
-            let (lo, hi) = POINTS_PER_SIDE;
-            match v {
-                Value::Integer(n) if (lo..=hi).contains(n) => {
-                    o.points_per_side = usize::try_from(*n).unwrap_or(o.points_per_side);
-                }
-                Value::Integer(n) => self.report(
-                    &key("points-per-side"),
-                    format!("points-per-side {n} is outside {lo}..{hi}"),
-                    Some("120 is the default and enough for most blades".into()),
+        if let Some(s) = self.string(t, &path, "spanwise") {
+            match Law::parse(&s) {
+                Some(law) => o.spanwise = law,
+                None => self.report(
+                    &key("spanwise"),
+                    format!("unknown spanwise law \"{s}\""),
+                    Some(format!(
+                        "{}: \"smooth\" (monotone cubic, the default) or \"linear\" (straight \
+                         lines between stations)",
+                        suggest::hint(&s, &Law::NAMES)
+                    )),
                 ),
-                other => self.wrong_type(&key("points-per-side"), "a whole number", other),
             }
         }
-        if let Some(f) = self.number(t, &path, "tolerance") {
-            let hi = TOLERANCE_MAX_MM;
-            if !(f > 0.0 && f <= hi) {
-                self.report(
-                    &key("tolerance"),
-                    format!("tolerance {f} mm must be more than 0 and at most {hi} mm"),
-                    Some("give the largest allowed mesh deviation in mm, e.g. 0.01".into()),
-                );
-            } else {
-                o.tolerance = f;
-            }
-        }
-        if let Some(f) = self.number(t, &path, "min-te-thickness") {
-            if f.is_finite() && f >= 0.0 {
-                o.min_te_thickness = Some(f);
-            } else {
-                self.report(
-                    &key("min-te-thickness"),
-                    format!("min-te-thickness {f} mm must be 0 or more"),
-                    Some("give the thinnest printable trailing edge in mm, e.g. 0.4".into()),
-                );
-            }
-        }
-        (o, section.filter(|s| !s.trim().is_empty()))
     }
 
-    /// Reads the inline `[[station]]` entries.
+    /// `blade.points-per-side`, a whole number in [`POINTS_PER_SIDE`].
+    fn points_per_side(&mut self, t: &Table, o: &mut BladeOptions) {
+        let Some(v) = t.get("points-per-side") else {
+            return;
+        };
+        let key = [Seg::Key("blade"), Seg::Key("points-per-side")];
+        let (lo, hi) = POINTS_PER_SIDE;
+        match v {
+            Value::Integer(n) if (lo..=hi).contains(n) => {
+                o.points_per_side = usize::try_from(*n).unwrap_or(o.points_per_side);
+            }
+            Value::Integer(n) => self.report(
+                &key,
+                format!("points-per-side {n} is outside {lo}..{hi}"),
+                Some("120 is the default and enough for most blades".into()),
+            ),
+            other => self.wrong_type(&key, "a whole number", other),
+        }
+    }
+
+    /// `blade.tolerance` in the file's length unit, within
+    /// [`MIN_TOLERANCE_MM`]..=[`MAX_TOLERANCE_MM`]. Returns the tolerance and how it was
+    /// set, or `None` when the value was refused.
+    fn tolerance(
+        &mut self,
+        t: &Table,
+        length: LengthUnit,
+        o: &mut BladeOptions,
+    ) -> Option<(f64, String)> {
+        let default = Some((o.tolerance, format!("the default, {} mm", o.tolerance)));
+        let Some(raw) = self.number(t, &[Seg::Key("blade")], "tolerance") else {
+            return if t.contains_key("tolerance") {
+                None
+            } else {
+                default
+            };
+        };
+        let f = raw * length.to_mm();
+        let written = written_length(raw, length, f);
+        let (lo, hi) = (MIN_TOLERANCE_MM, MAX_TOLERANCE_MM);
+        let refused = if !(f > 0.0) {
+            Some(format!("tolerance {written} must be more than 0"))
+        } else if f < lo {
+            Some(format!(
+                "tolerance {written} is finer than {lo} mm, the smallest spanwright accepts"
+            ))
+        } else if !(f <= hi) {
+            Some(format!(
+                "tolerance {written} is more than {hi} mm, the largest spanwright accepts"
+            ))
+        } else {
+            None
+        };
+        if let Some(message) = refused {
+            self.report(
+                &[Seg::Key("blade"), Seg::Key("tolerance")],
+                message,
+                Some(format!(
+                    "give the largest allowed mesh deviation from {lo} mm (finer than any \
+                     machine tool holds) to {hi} mm; 0.01 mm is a fine print, 0.001 mm a \
+                     machining file"
+                )),
+            );
+            return None;
+        }
+        o.tolerance = f;
+        Some((f, format!("blade.tolerance = {written}")))
+    }
+
+    /// `blade.min-te-thickness` in the file's length unit: 0 or more (0 keeps knife
+    /// edges); the default is [`DEFAULT_MIN_TE_MM`]. The largest value is checked against
+    /// the chords later. Returns the value (mm) and how it was written.
+    fn min_te(
+        &mut self,
+        t: &Table,
+        length: LengthUnit,
+        o: &mut BladeOptions,
+    ) -> Option<(f64, String)> {
+        let raw = self.number(t, &[Seg::Key("blade")], "min-te-thickness")?;
+        let f = raw * length.to_mm();
+        let written = written_length(raw, length, f);
+        if !(f.is_finite() && f >= 0.0) {
+            self.report(
+                &[Seg::Key("blade"), Seg::Key("min-te-thickness")],
+                format!("min-te-thickness {written} must be 0 or more"),
+                Some(
+                    "give the thinnest printable trailing edge, e.g. 0.4 mm, or 0 to keep \
+                     knife edges"
+                        .into(),
+                ),
+            );
+            return None;
+        }
+        o.min_te_thickness = Some(f);
+        Some((f, written))
+    }
+
+    /// Step 6: the station rows, inline or from a CSV table.
+    fn station_rows(
+        &mut self,
+        top: &Table,
+        units: (LengthUnit, AngleUnit),
+        has_default_section: bool,
+        dir: &Path,
+    ) -> StationRows {
+        match (top.get("station"), top.get("stations")) {
+            (Some(_), Some(_)) => {
+                self.report(
+                    &[Seg::Key("stations")],
+                    "both [[station]] entries and a stations file are given".into(),
+                    Some("keep one of them".into()),
+                );
+                StationRows::none()
+            }
+            (Some(v), None) => StationRows {
+                rows: self.stations(v, units.0, units.1),
+                whole: Some(self.loc(&[Seg::Key("station")])),
+                section_hint: "add section = \"...\" to this station or set section in [blade]",
+                columns: Vec::new(),
+            },
+            (None, Some(v)) => self.csv_stations(v, units, has_default_section, dir),
+            (None, None) => {
+                self.problems.push(
+                    Problem::new(&self.file, "no stations").hint(
+                        "add [[station]] entries, or stations = \"table.csv\" naming a CSV table",
+                    ),
+                );
+                StationRows::none()
+            }
+        }
+    }
+
+    /// `stations = "table.csv"`: the CSV table beside the design file.
+    fn csv_stations(
+        &mut self,
+        v: &Value,
+        units: (LengthUnit, AngleUnit),
+        has_default_section: bool,
+        dir: &Path,
+    ) -> StationRows {
+        let path = [Seg::Key("stations")];
+        let Value::String(s) = v else {
+            self.wrong_type(&path, "the name of a CSV station table", v);
+            return StationRows::none();
+        };
+        let csv_path = dir.join(s);
+        if let Some(why) = not_a_station_table(&csv_path, &self.file) {
+            self.report(
+                &path,
+                format!("stations = \"{s}\" {why}; it must name a CSV station table"),
+                Some(
+                    "write the stations as [[station]] entries in this file, or name the CSV \
+                     file a spreadsheet exported"
+                        .into(),
+                ),
+            );
+            return StationRows::none();
+        }
+        let bytes = match super::read_limited(&csv_path) {
+            Ok(bytes) => bytes,
+            Err(super::ReadFail::Io(e)) => {
+                self.report(
+                    &path,
+                    format!("cannot read station table '{}': {e}", csv_path.display()),
+                    Some("the path is relative to the design file's folder".into()),
+                );
+                return StationRows::none();
+            }
+            Err(super::ReadFail::TooLarge(size)) => {
+                self.problems.push(super::too_large(&csv_path, size));
+                return StationRows::none();
+            }
+        };
+        let said: Option<Arc<str>> = (units.0 != LengthUnit::Mm).then(|| {
+            format!(
+                "the design file says units = {{ length = \"{}\" }}",
+                units.0.name()
+            )
+            .into()
+        });
+        let defaults = Defaults {
+            length: units.0,
+            angle: units.1,
+            said,
+        };
+        let table = csv_table::read(
+            &bytes,
+            &csv_path,
+            &defaults,
+            has_default_section,
+            &mut self.problems,
+        );
+        StationRows {
+            rows: table.rows,
+            whole: Some(Loc::new(&csv_path, None, None)),
+            section_hint: "add a 'section' column or set section in [blade]",
+            columns: table.columns,
+        }
+    }
+
+    /// The inline `[[station]]` entries.
     fn stations(&mut self, v: &Value, length: LengthUnit, angle: AngleUnit) -> Vec<Row> {
         let path = [Seg::Key("station")];
         let entries = match v {
@@ -309,51 +614,146 @@ impl Reader<'_> {
                 return Vec::new();
             }
         };
-        let (lf, lu, af, au) = (length.to_mm(), length.name(), angle.to_deg(), angle.name());
-        let mut rows = Vec::with_capacity(entries.len());
-        for (i, entry) in entries.iter().enumerate() {
-            let p = [Seg::Key("station"), Seg::Index(i)];
-            let Value::Table(t) = entry else {
-                self.wrong_type(&p, "a table of station values", entry);
-                continue;
-            };
-            self.keys(t, &p, &STATION_KEYS);
-            for need in ["radius", "chord", "twist"] {
-                if !t.contains_key(need) {
-                    self.report(
-                        &p,
-                        format!("missing '{need}'"),
-                        Some(format!("every station needs {need} = <number>")),
-                    );
-                }
+        let said: Option<Arc<str>> = (length != LengthUnit::Mm).then(|| {
+            format!("the file says units = {{ length = \"{}\" }}", length.name()).into()
+        });
+        let mut rows = Vec::with_capacity(entries.len().min(super::MAX_STATIONS + 1));
+        for (i, entry) in entries.iter().enumerate().take(super::MAX_STATIONS + 1) {
+            if let Some(row) = self.station(i, entry, length, angle, &said) {
+                rows.push(row);
             }
-            let section = self.string(t, &p, "section").map(|s| {
-                let sp = [Seg::Key("station"), Seg::Index(i), Seg::Key("section")];
-                (s.trim().to_string(), self.loc(&sp))
-            });
-            if let Some((s, loc)) = &section {
-                if s.trim().is_empty() {
-                    self.problems.push(
-                        loc.problem("the section name is empty")
-                            .hint("give a designation such as \"naca4412\" or a section file"),
-                    );
-                }
-            }
-            rows.push(Row {
-                loc: self.loc(&p),
-                radius: self.num(t, &p, "radius", lf, lu),
-                chord: self.num(t, &p, "chord", lf, lu),
-                twist: self.num(t, &p, "twist", af, au),
-                section,
-                thickness: self.num(t, &p, "thickness", 1.0, "%"),
-                sweep: self.num(t, &p, "sweep", lf, lu),
-                prebend: self.num(t, &p, "prebend", lf, lu),
-                stacking: self.stacking(t, &p),
-                section_reported: false,
-            });
         }
         rows
     }
+
+    /// One `[[station]]` entry (`i` counted from 0).
+    fn station(
+        &mut self,
+        i: usize,
+        entry: &Value,
+        length: LengthUnit,
+        angle: AngleUnit,
+        said: &Option<Arc<str>>,
+    ) -> Option<Row> {
+        let p = [Seg::Key("station"), Seg::Index(i)];
+        let Value::Table(t) = entry else {
+            self.wrong_type(&p, "a table of station values", entry);
+            return None;
+        };
+        self.keys(t, &p, &STATION_KEYS);
+        for need in ["radius", "chord", "twist"] {
+            if !t.contains_key(need) {
+                self.report(
+                    &p,
+                    format!("missing '{need}'"),
+                    Some(format!("every station needs {need} = <number>")),
+                );
+            }
+        }
+        let section = self.string(t, &p, "section").map(|s| {
+            let sp = [Seg::Key("station"), Seg::Index(i), Seg::Key("section")];
+            (s.trim().to_string(), self.loc(&sp))
+        });
+        if let Some((s, loc)) = &section {
+            if s.is_empty() {
+                self.problems.push(
+                    loc.problem("the section name is empty")
+                        .hint("give a designation such as \"naca4412\" or a section file"),
+                );
+            }
+        }
+        let (lf, lu, af, au) = (length.to_mm(), length.name(), angle.to_deg(), angle.name());
+        let length_num =
+            |r: &mut Self, key| r.num(t, &p, key, lf, lu).map(|n| n.said(said.clone()));
+        Some(Row {
+            loc: self.loc(&p),
+            radius: length_num(self, "radius"),
+            chord: length_num(self, "chord"),
+            twist: self.num(t, &p, "twist", af, au),
+            section,
+            thickness: self.num(t, &p, "thickness", 1.0, "%"),
+            sweep: length_num(self, "sweep"),
+            prebend: length_num(self, "prebend"),
+            stacking: self.stacking(t, &p),
+            section_reported: false,
+        })
+    }
+
+    /// Step 8: `min-te-thickness` against the stations' chords: at most
+    /// [`MAX_TE_CHORD_FRACTION`] of every chord.
+    fn min_te_fits_chords(&mut self, min_te: &(f64, String), stations: &[Station]) {
+        let (f, written) = min_te;
+        let Some(thinnest) = stations.iter().min_by(|a, b| a.chord.total_cmp(&b.chord)) else {
+            return;
+        };
+        let most = MAX_TE_CHORD_FRACTION * thinnest.chord;
+        if *f > most {
+            self.report(
+                &[Seg::Key("blade"), Seg::Key("min-te-thickness")],
+                format!(
+                    "min-te-thickness {written} is more than {:.0} % of the {} mm chord at {}, \
+                     {} mm: a trailing edge that thick cuts the section off",
+                    MAX_TE_CHORD_FRACTION * 100.0,
+                    show_number(thinnest.chord),
+                    thinnest.origin,
+                    show_number(most)
+                ),
+                Some(format!(
+                    "give at most {} mm (the nozzle width, commonly 0.4 mm), or 0 to keep \
+                     knife edges",
+                    show_number(most)
+                )),
+            );
+        }
+    }
+}
+
+/// A length as written, with its millimetres when the unit is not mm: `0.02 in (0.508 mm)`.
+fn written_length(raw: f64, unit: LengthUnit, mm: f64) -> String {
+    if unit == LengthUnit::Mm {
+        format!("{} mm", show_number(raw))
+    } else {
+        format!(
+            "{} {} ({} mm)",
+            show_number(raw),
+            unit.name(),
+            show_number(mm)
+        )
+    }
+}
+
+/// Why `path` cannot be the station table of the design `design`, if it cannot: it is a
+/// TOML file, or the design file itself.
+fn not_a_station_table(path: &Path, design: &Path) -> Option<&'static str> {
+    let is_toml = path
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("toml"));
+    let same = match (path.canonicalize(), design.canonicalize()) {
+        (Ok(a), Ok(b)) => a == b,
+        _ => false,
+    };
+    if same {
+        Some("names the design file itself")
+    } else if is_toml {
+        Some("names a TOML file")
+    } else {
+        None
+    }
+}
+
+/// Step 1: the TOML syntax.
+fn document(text: &str, file: &Path) -> Result<Table, DesignError> {
+    if text.len() as u64 > MAX_FILE_BYTES {
+        return Err(DesignError::one(super::too_large(file, text.len() as u64)));
+    }
+    toml::from_str(text).map_err(|e| {
+        let line = e.span().map(|s| line_of(text, s.start));
+        DesignError::one(
+            Problem::new(file, format!("not valid TOML: {}", e.message()))
+                .line(line)
+                .hint("see https://toml.io for the syntax"),
+        )
+    })
 }
 
 /// Reads a TOML design from `text`. `file` labels messages; relative paths in the file
@@ -364,149 +764,45 @@ pub(crate) fn parse(
     dir: &Path,
     source: Option<PathBuf>,
 ) -> Result<Design, DesignError> {
-    let top: Table = toml::from_str(text).map_err(|e| {
-        let line = e.span().map(|s| line_of(text, s.start));
-        DesignError::one(
-            Problem::new(file, format!("not valid TOML: {}", e.message()))
-                .line(line)
-                .hint("see https://toml.io for the syntax"),
-        )
-    })?;
+    let top = document(text, file)?;
     let mut r = Reader {
         file: file.to_path_buf(),
         spans: Spans::new(text),
         problems: Vec::new(),
     };
-
-    let mut tables = Table::new();
-    for (key, v) in &top {
-        if TOP.contains(&key.as_str()) {
-            continue;
-        }
-        let tableish = match v {
-            Value::Table(_) => true,
-            Value::Array(a) => !a.is_empty() && a.iter().all(Value::is_table),
-            _ => false,
-        };
-        if !tableish {
-            r.report(
-                &[Seg::Key(key)],
-                format!("unknown key '{key}'"),
-                Some(suggest::hint(key, &TOP)),
-            );
-        } else if let Some(own) = suggest::closest(key, &OWN_TABLES) {
-            r.report(
-                &[Seg::Key(key)],
-                format!("unknown table [{key}]"),
-                Some(format!("did you mean [{own}]?")),
-            );
-        } else {
-            tables.insert(key.clone(), v.clone());
-        }
-    }
-
-    let name = match r.string(&top, &[], "name") {
-        Some(n)
-            if n.trim().is_empty() || n.contains(['/', '\\']) || n.contains(char::is_control) =>
-        {
-            r.report(
-                &[Seg::Key("name")],
-                format!("name \"{n}\" cannot name output files"),
-                Some("use letters, digits, '-' and '_'".into()),
-            );
-            None
-        }
-        other => other,
-    };
+    let tables = r.top_level(&top);
+    let name = r.name(&top);
     let (length, angle) = r.units(&top);
-    let (blade, default_section) = r.blade(&top);
-
-    let (rows, whole, section_hint) = match (top.get("station"), top.get("stations")) {
-        (Some(_), Some(_)) => {
-            r.report(
-                &[Seg::Key("stations")],
-                "both [[station]] entries and a stations file are given".into(),
-                Some("keep one of them".into()),
-            );
-            (Vec::new(), None, "")
+    let blade = r.blade(&top, length);
+    let read = r.station_rows(&top, (length, angle), blade.section.is_some(), dir);
+    let stations = match &read.whole {
+        Some(whole) => {
+            let rules = Rules {
+                default_section: blade.section.as_deref(),
+                missing_section_hint: read.section_hint,
+                whole,
+                tolerance: blade.tolerance.clone(),
+            };
+            validate(&read.rows, &rules, &mut r.problems)
         }
-        (Some(v), None) => {
-            let rows = r.stations(v, length, angle);
-            (
-                rows,
-                Some(r.loc(&[Seg::Key("station")])),
-                "add section = \"...\" to this station or set section in [blade]",
-            )
-        }
-        (None, Some(v)) => {
-            let path = [Seg::Key("stations")];
-            match v {
-                Value::String(s) => {
-                    let csv_path = dir.join(s);
-                    match std::fs::read(&csv_path) {
-                        Ok(bytes) => {
-                            let defaults = Defaults { length, angle };
-                            let rows = csv_table::read(
-                                &bytes,
-                                &csv_path,
-                                defaults,
-                                default_section.is_some(),
-                                &mut r.problems,
-                            );
-                            (
-                                rows,
-                                Some(Loc::new(&csv_path, None, None)),
-                                "add a 'section' column or set section in [blade]",
-                            )
-                        }
-                        Err(e) => {
-                            r.report(
-                                &path,
-                                format!("cannot read station table '{}': {e}", csv_path.display()),
-                                Some("the path is relative to the design file's folder".into()),
-                            );
-                            (Vec::new(), None, "")
-                        }
-                    }
-                }
-                other => {
-                    r.wrong_type(&path, "the name of a CSV station table", other);
-                    (Vec::new(), None, "")
-                }
-            }
-        }
-        (None, None) => {
-            r.problems.push(
-                Problem::new(file, "no stations").hint(
-                    "add [[station]] entries, or stations = \"table.csv\" naming a CSV table",
-                ),
-            );
-            (Vec::new(), None, "")
-        }
-    };
-    let stations = match &whole {
-        Some(whole) => validate(
-            &rows,
-            default_section.as_deref(),
-            section_hint,
-            whole,
-            &mut r.problems,
-        ),
         None => Vec::new(),
     };
+    if let Some(min_te) = &blade.min_te {
+        r.min_te_fits_chords(min_te, &stations);
+    }
     if !r.problems.is_empty() {
         super::rows::sort(&mut r.problems);
         return Err(DesignError {
             problems: r.problems,
         });
     }
-    let name = name.unwrap_or_else(|| super::stem(file));
     Ok(Design {
-        name,
+        name: name.unwrap_or_else(|| super::stem(file)),
         source,
         stations,
-        blade,
+        blade: blade.options,
         length_to_mm: length.to_mm(),
         tables,
+        columns: read.columns,
     })
 }

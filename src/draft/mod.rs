@@ -1,7 +1,7 @@
 //! Drafting a station table from optimum-rotor theory. This happens *before* the
 //! pipeline: its output is a design table (CSV) that `design` reads like any other.
 //!
-//! [`draft`] turns a [`DraftSpec`] (tip and hub radius, blades, tip speed ratio, the
+//! [`draft`] turns a [`DraftSpec`] (tip and inner radius, blades, tip speed ratio, the
 //! section's design lift coefficient and angle of attack) into a [`DraftTable`] of
 //! stations, with the ideal power coefficient and graded [`Remark`]s. The formulas live
 //! in [`optimum`]; [`bem`] estimates the power of the blade as written; [`Line`] is the

@@ -41,7 +41,7 @@ pub enum Spacing {
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize, serde::Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct LinearRange {
-    /// Inner end, fraction of the tip radius; at least hub radius / tip radius.
+    /// Inner end, fraction of the tip radius; at least inner radius / tip radius.
     pub from: f64,
     /// Outer end, fraction of the tip radius; above `from`, at most 1.
     pub to: f64,
@@ -81,8 +81,11 @@ pub struct DraftSpec {
     pub name: String,
     /// Tip radius R, mm.
     pub tip_radius: f64,
-    /// Hub (root) radius where the blade starts, mm; above 0 and below `tip_radius`.
-    pub hub_radius: f64,
+    /// Radius of the first (innermost) station, where the drafted blade starts, mm; above 0
+    /// and below `tip_radius`. The momentum theory integrates from here to the tip. Files
+    /// may still spell it `hub_radius` (its old name).
+    #[serde(alias = "hub_radius")]
+    pub inner_radius: f64,
     /// Blade count B.
     pub blades: u32,
     /// Design tip speed ratio lambda = (tip speed) / (wind speed).
@@ -134,7 +137,7 @@ impl DraftSpec {
     /// A spec with the required values and every option at its default.
     pub fn new(
         tip_radius: f64,
-        hub_radius: f64,
+        inner_radius: f64,
         blades: u32,
         tip_speed_ratio: f64,
         design_cl: f64,
@@ -143,7 +146,7 @@ impl DraftSpec {
         Self {
             name: default_name(),
             tip_radius,
-            hub_radius,
+            inner_radius,
             blades,
             tip_speed_ratio,
             design_cl,
@@ -213,13 +216,13 @@ impl DraftSpec {
                 "must be a plain, non-empty file name (it names the output file)",
             );
         }
-        let (r, h) = (self.tip_radius, self.hub_radius);
+        let (r, h) = (self.tip_radius, self.inner_radius);
         out.positive("tip_radius", r, "must be a positive length in mm, e.g. 600");
         if !(h.is_finite() && h > 0.0) {
-            out.bad("hub_radius", h.to_string(), "must be a positive length in mm (the blade root sits on a hub), e.g. 10 to 20 % of the tip radius");
+            out.bad("inner_radius", h.to_string(), "must be a positive length in mm (the radius of the first station, where the blade leaves the hub), e.g. 10 to 20 % of the tip radius");
         } else if r.is_finite() && h >= r {
             out.bad(
-                "hub_radius",
+                "inner_radius",
                 h.to_string(),
                 format!("must be below the tip radius ({r} mm)"),
             );
@@ -267,7 +270,7 @@ impl DraftSpec {
         let Some(range) = self.linear else {
             return;
         };
-        let (r, h) = (self.tip_radius, self.hub_radius);
+        let (r, h) = (self.tip_radius, self.inner_radius);
         let ok = range.from.is_finite()
             && range.to.is_finite()
             && range.from < range.to
@@ -283,7 +286,8 @@ impl DraftSpec {
                 "linear",
                 format!("{}..{}", range.from, range.to),
                 format!(
-                    "starts inside the hub: from must be at least hub / tip = {:.3}",
+                    "starts inside the hub, below the first station: from must be at least \
+                     inner radius / tip radius = {:.3}",
                     h / r
                 ),
             );

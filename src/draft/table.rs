@@ -216,7 +216,7 @@ pub fn draft(spec: &DraftSpec) -> Result<DraftTable, DraftError> {
         return Err(DraftError::Propeller);
     }
     let radii = station_radii(
-        spec.hub_radius,
+        spec.inner_radius,
         spec.tip_radius,
         spec.stations,
         spec.spacing,
@@ -365,7 +365,7 @@ fn ideal_power(spec: &DraftSpec, remarks: &mut Vec<Remark>) -> f64 {
         spec.tip_speed_ratio,
         &PowerOptions {
             blades: spec.blades,
-            hub_ratio: spec.hub_radius / spec.tip_radius,
+            hub_ratio: spec.inner_radius / spec.tip_radius,
             tip_loss: spec.tip_loss,
             drag_ratio: spec.lift_drag.map_or(0.0, |ld| 1.0 / ld),
             panels: DEFAULT_PANELS,
@@ -393,7 +393,7 @@ fn blade_power(spec: &DraftSpec, lines: &Lines, floor: f64, remarks: &mut Vec<Re
     let bem_input = bem::BemInput {
         blades: spec.blades,
         tip_radius: spec.tip_radius,
-        hub_radius: spec.hub_radius,
+        hub_radius: spec.inner_radius,
         tsr: spec.tip_speed_ratio,
         cl_design: spec.design_cl,
         alpha_design: alpha_d,
@@ -523,7 +523,7 @@ fn station_remarks(spec: &DraftSpec, stations: &[DraftStation]) -> Vec<Remark> {
             Severity::Warning,
             format!(
                 "local solidity B c / (2 pi r) above 1 (up to {worst:.2}): the blades would \
-                 overlap in the plane of rotation; raise the hub radius, the tip speed ratio or \
+                 overlap in the plane of rotation; raise the inner radius, the tip speed ratio or \
                  the design Cl, or use fewer blades"
             ),
             dense,
@@ -539,7 +539,7 @@ fn station_remarks(spec: &DraftSpec, stations: &[DraftStation]) -> Vec<Remark> {
             Severity::Warning,
             format!(
                 "twist above {TWIST_LIMIT}° (up to {worst:.1}°): hard to make and far from \
-                 design off the design point; raise the hub radius or linearise the twist"
+                 design off the design point; raise the inner radius or linearise the twist"
             ),
             twisted,
         ));

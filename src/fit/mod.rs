@@ -72,7 +72,7 @@ pub use printer::{
     DEFAULT_MIN_FEATURE, DEFAULT_NOZZLE, PRESETS,
 };
 pub use search::{fit_part, Fit, FitOptions, Placement};
-pub use stl_in::read_stl_part;
+pub use stl_in::{parse_stl, read_stl_part};
 pub use svg::plate_svg;
 pub use underside::{underside, Underside, UndersideOptions};
 

@@ -4,7 +4,7 @@
 use super::sections::{resolve_sections, TeChange};
 use super::{Options, PipelineError, Timings};
 use crate::airfoil::Section;
-use crate::blade::Blade;
+use crate::blade::{Blade, BladeError};
 use crate::design::Design;
 use crate::loft::Skin;
 use crate::mesh::{Part, TriMesh};
@@ -72,6 +72,9 @@ pub fn build_blade_timed(
     opts: &Options,
     timings: &mut Timings,
 ) -> Result<BuiltBlade, PipelineError> {
+    if let Some(t) = opts.tolerance {
+        design.check_tolerance(t, "the tolerance given for this build")?;
+    }
     let (sections, te_changes) = timings.time("sections", || resolve_sections(design))?;
     let blade = timings.time("blade", || blade_model(design, &sections))?;
     let (ring_radii, skin) = timings.time("skin", || {
@@ -112,12 +115,23 @@ pub fn build_blade_timed(
 fn blade_model(design: &Design, sections: &[Section]) -> Result<Blade, PipelineError> {
     let mut blade = Blade::new(&design.stations, sections, &design.blade)?;
     if let Some(root) = design.table_mm::<RootSpec>("root")? {
-        blade = blade.with_root(root)?;
+        blade = blade.with_root(root).map_err(|e| in_table(design, e))?;
     }
     if let Some(tip) = design.table_mm::<TipSpec>("tip")? {
-        blade = blade.with_tip(tip)?;
+        blade = blade.with_tip(tip).map_err(|e| in_table(design, e))?;
     }
     Ok(blade)
+}
+
+/// A `[root]` or `[tip]` error as a design problem naming the file, line and key.
+fn in_table(design: &Design, e: BladeError) -> PipelineError {
+    match e.key() {
+        Some(key) => PipelineError::Table {
+            problem: design.problem(&key, e.to_string()),
+            cause: e,
+        },
+        None => e.into(),
+    }
 }
 
 /// Cuts the root's flange, bore and cross holes into the mesh, then drops the skin

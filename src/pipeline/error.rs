@@ -6,7 +6,7 @@ use super::warnings::SteepStep;
 use crate::assembly::HandReport;
 use crate::blade::BladeError;
 use crate::check::{Interference, Rejected};
-use crate::design::DesignError;
+use crate::design::{DesignError, Problem};
 use crate::loft::LoftError;
 use crate::mount::MountError;
 use crate::tessellate::TessellateError;
@@ -26,6 +26,15 @@ pub enum PipelineError {
     /// The blade could not be built from the stations and the root and tip tables.
     #[error(transparent)]
     Blade(#[from] BladeError),
+    /// A `[root]` or `[tip]` value the blade cannot be built with: the cause, and the
+    /// problem naming the design file, line and key (what is shown).
+    #[error("{problem}")]
+    Table {
+        /// The file, line and key, with the cause's message and fix.
+        problem: Problem,
+        /// Why the blade cannot be built.
+        cause: BladeError,
+    },
     /// A mounting feature could not be cut into the blade's mesh.
     #[error(transparent)]
     Mount(#[from] MountError),
