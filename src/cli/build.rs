@@ -7,6 +7,7 @@ use spanwright::atomic::Batch;
 use spanwright::design::Design;
 use spanwright::export::{stage_outcome, Format, StepNote};
 use spanwright::pipeline::{self, Options, Outcome, SteepStep, TeChange, Timings};
+use spanwright::segment::{Plan, Split};
 use std::path::{Path, PathBuf};
 use std::time::Instant;
 
@@ -44,6 +45,10 @@ pub struct Args {
     /// also writes the hub, the assembled rotor and the one-piece rotor it asks for).
     #[arg(long)]
     pub blade_only: bool,
+    /// Split the blade into segments: auto (the fewest that fit the design's [printer]),
+    /// radii in mm (260,430), or none; overrides the design's [segments] split.
+    #[arg(long, value_name = "auto|none|R,R,...")]
+    pub split: Option<String>,
 }
 
 /// Runs the subcommand.
@@ -60,9 +65,18 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         load::design(&args.design, args.section.as_deref())
     })?;
     stages.set("lofting, meshing and checking");
+    let split = match &args.split {
+        Some(text) => Some(
+            text.parse::<Split>()
+                .map_err(|e| anyhow::anyhow!("--split {e}"))?,
+        ),
+        None => None,
+    };
     let opts = Options {
         tolerance: args.tolerance,
         blade_only: args.blade_only,
+        split,
+        printer: None,
     };
     let outcome = pipeline::run(&design, &opts);
     stages.finish();
@@ -137,6 +151,7 @@ struct Summary {
     bounding_box_mm: [[f64; 3]; 2],
     parts: Vec<PartLine>,
     rotor: Option<String>,
+    segments: Option<Plan>,
     warnings: Vec<SteepStep>,
     step_notes: Vec<StepNote>,
     files: Vec<String>,
@@ -196,6 +211,7 @@ impl Summary {
                 .rotor
                 .as_ref()
                 .map(|r| hand_description(&r.spec, design.blade.rotation, design.blade.flow)),
+            segments: outcome.segments.clone(),
             warnings: outcome.warnings.clone(),
             step_notes: notes.to_vec(),
             files: files.iter().map(|p| p.display().to_string()).collect(),
@@ -259,6 +275,9 @@ impl Summary {
         }
         if let Some(r) = &self.rotor {
             let _ = writeln!(s, "  rotor: {r}");
+        }
+        if let Some(plan) = &self.segments {
+            s.push_str(&super::segments::lines(plan, &self.name));
         }
         for n in &self.step_notes {
             let _ = writeln!(s, "  note: {n}");

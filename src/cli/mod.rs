@@ -29,6 +29,7 @@ mod load;
 mod progress;
 mod report;
 mod section;
+mod segments;
 
 /// Exit code for a failed check.
 pub const EXIT_CHECK_FAILED: u8 = 1;

@@ -115,6 +115,9 @@ fn step_solids(
     outcome: &Outcome,
     part: &BuiltPart,
 ) -> Result<Result<Vec<(String, Solid)>, StepNote>, ExportError> {
+    if let Some(reason) = joint_features(outcome, part) {
+        return Ok(Err(not_written(part, &reason)));
+    }
     match part.kind {
         PartKind::Blade => Ok(Ok(vec![(
             part.name.clone(),
@@ -152,7 +155,35 @@ fn step_solids(
             part,
             "the one-piece rotor's exact solid is not built yet; use the mesh files",
         ))),
+        PartKind::Segment { index, count } => segment_solids(outcome, part, index, count),
     }
+}
+
+/// The exact solid of a blade segment: the skin between its split planes, the planar
+/// split faces (with the pin holes and the channel as inner loops), the holes' cylinders
+/// and drill-point cones. This is the hook for the B-rep builders of issue 13; until
+/// they exist no STEP file is written for a segment, never one that differs from its
+/// mesh.
+fn segment_solids(
+    _outcome: &Outcome,
+    part: &BuiltPart,
+    index: usize,
+    count: usize,
+) -> Result<Result<Vec<(String, Solid)>, StepNote>, ExportError> {
+    Ok(Err(not_written(
+        part,
+        &format!("the exact solid of segment {index} of {count} (split faces, spar channel, pin holes) is not built yet; use the mesh files"),
+    )))
+}
+
+/// Why a blade or rotor part whose mesh carries the spar channel gets no STEP file (the
+/// skin solid would lack the channel), or `None`.
+fn joint_features(outcome: &Outcome, part: &BuiltPart) -> Option<String> {
+    let plan = outcome.segments.as_ref()?;
+    let carries = plan.count == 1 && plan.channel.is_some();
+    (carries && matches!(part.kind, PartKind::Blade | PartKind::Rotor)).then(|| {
+        "the blade's mesh carries the spar channel, which its exact solid does not have yet; use the mesh files".to_string()
+    })
 }
 
 fn not_written(part: &BuiltPart, reason: &str) -> StepNote {

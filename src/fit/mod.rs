@@ -68,7 +68,7 @@ pub use printer::{
     preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,
     DEFAULT_MIN_FEATURE, DEFAULT_NOZZLE, PRESETS,
 };
-pub use search::{fit_part, Fit, FitOptions, Placement};
+pub use search::{fit_extents, fit_part, Fit, FitOptions, Placement};
 pub use stl_in::read_stl_part;
 pub use svg::plate_svg;
 pub use underside::{underside, Underside, UndersideOptions};
