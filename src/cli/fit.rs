@@ -11,6 +11,7 @@ use spanwright::fit::{
 };
 use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{self, Outcome, PartKind};
+use spanwright::segment::{Plan, Split};
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
@@ -61,6 +62,10 @@ pub struct Args {
     /// 360/N degrees each about the rotor axis (y, blade frame).
     #[arg(long)]
     assembled: bool,
+    /// Split a design's blade into segments that fit this printer: auto (the fewest),
+    /// radii in mm (260,430), or none; overrides the design's [segments] split.
+    #[arg(long, value_name = "auto|none|R,R,...")]
+    split: Option<String>,
     /// Print the report as JSON on standard output.
     #[arg(long)]
     json: bool,
@@ -76,6 +81,7 @@ struct FitSummary {
     assembled: Option<Assembled>,
     files: Vec<String>,
     notes: Vec<String>,
+    segments: Option<Plan>,
     caution: &'static str,
 }
 
@@ -93,16 +99,32 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     let cli_spec = spec_from_args(&args)?;
     check_args(&args)?;
     let stl = load::has_extension(&args.input, "stl");
-    let (parts, outcome, file_spec) = if stl {
-        (vec![load::stl_part(&args.input)?], None, None)
+    let split = match &args.split {
+        Some(_) if stl => {
+            anyhow::bail!("--split needs a design file (.toml or .csv), not an STL part")
+        }
+        Some(text) => Some(
+            text.parse::<Split>()
+                .map_err(|e| anyhow::anyhow!("--split {e}"))?,
+        ),
+        None => None,
+    };
+    let (parts, outcome, printer) = if stl {
+        let printer = resolve_printer(&args, cli_spec, None)?;
+        (vec![load::stl_part(&args.input)?], None, printer)
     } else {
         let design = load::design(&args.input, args.section.as_deref())?;
         let spec = design.table_mm::<PrinterSpec>("printer")?;
-        let outcome = pipeline::run(&design, &pipeline::Options::default())
+        let printer = resolve_printer(&args, cli_spec, spec)?;
+        let opts = pipeline::Options {
+            split,
+            printer: Some(printer),
+            ..pipeline::Options::default()
+        };
+        let outcome = pipeline::run(&design, &opts)
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
-        (Vec::new(), Some(outcome), spec)
+        (Vec::new(), Some(outcome), printer)
     };
-    let printer = resolve_printer(&args, cli_spec, file_spec)?;
     let job = job_items(&parts, outcome.as_ref(), args.copies);
     let fit_opts = FitOptions {
         resolution_deg: args.resolution,
@@ -128,6 +150,7 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         job: plan.report,
         assembled,
         files: files.iter().map(|p| p.display().to_string()).collect(),
+        segments: outcome.as_ref().and_then(|o| o.segments.clone()),
         caution: CAUTION,
     };
     if args.json {
@@ -223,22 +246,29 @@ fn resolve_printer(
 }
 
 /// What goes to the printer: the outcome's print set (the one-piece rotor, or the blade
-/// once per blade and the hub), or the STL part; `--copies` sets the blade's count.
+/// or each of its segments once per blade, and the hub), or the STL part; `--copies`
+/// sets the blade's (or each segment's) count.
 fn job_items<'a>(
     stl: &'a [CheckedPart],
     outcome: Option<&'a Outcome>,
     copies: Option<usize>,
 ) -> Vec<JobItem<'a>> {
     match outcome {
-        Some(o) => o
-            .print_set()
-            .into_iter()
-            .enumerate()
-            .map(|(k, (part, n))| JobItem {
-                part,
-                copies: if k == 0 { copies.unwrap_or(n) } else { n },
-            })
-            .collect(),
+        Some(o) => {
+            let blade_items = o.segment_parts().len().max(1);
+            o.print_set()
+                .into_iter()
+                .enumerate()
+                .map(|(k, (part, n))| JobItem {
+                    part,
+                    copies: if k < blade_items {
+                        copies.unwrap_or(n)
+                    } else {
+                        n
+                    },
+                })
+                .collect()
+        }
         None => stl
             .iter()
             .map(|part| JobItem {
@@ -366,6 +396,12 @@ fn notes(report: &JobReport, outcome: Option<&Outcome>, stl: bool) -> Vec<String
 
 fn text(s: &FitSummary) -> String {
     let mut t = String::new();
+    if let Some(plan) = &s.segments {
+        let name = s.job.parts.first().map_or("blade", |p| p.name.as_str());
+        let name = name.split("-segment-").next().unwrap_or(name);
+        t.push_str("segments of the blade:\n");
+        t.push_str(&super::segments::lines(plan, name));
+    }
     let printer = &s.job.printer;
     let (a, b, h) = printer.available();
     let _ = match printer.volume {

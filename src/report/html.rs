@@ -102,6 +102,9 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
             num(b.mass_spread)
         );
     }
+    if let Some(seg) = &report.segments {
+        segments_html(&mut h, seg);
+    }
     h.push_str("<h2>Pictures</h2>\n");
     for svg in [
         pictures.planform.as_deref(),
@@ -165,4 +168,50 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
     }
     h.push_str("</body>\n</html>\n");
     h
+}
+
+/// The segments of a split blade: masses, joints and their cautions.
+fn segments_html(h: &mut String, seg: &super::joints::SegmentsSummary) {
+    h.push_str("<h2>Segments and joints</h2>\n<div class=\"caution\"><ul>\n");
+    for c in &seg.cautions {
+        let _ = writeln!(h, "<li>{}</li>", escape(c));
+    }
+    h.push_str("</ul></div>\n<table><tr><th>segment</th><th>volume mm3</th><th>mass g</th></tr>\n");
+    for p in &seg.segments {
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td>{}</td><td>{}</td></tr>",
+            escape(&p.name),
+            num(p.volume),
+            num(p.mass)
+        );
+    }
+    h.push_str("</table>\n");
+    if let Some([d, l]) = seg.rod {
+        let _ = writeln!(h, "<p>Rod: {} mm diameter, cut to {} mm.</p>", num(d), num(l));
+    }
+    h.push_str("<table><tr><th>joint</th><th>r mm</th><th>gross area mm2</th><th>net area mm2</th><th>holes</th><th>net Ixx mm4</th><th>force N</th><th>moment N mm</th><th>tension MPa</th><th>compression MPa</th><th>safety factor</th></tr>\n");
+    for j in &seg.joints {
+        let (f, m, t, c, sf) = match &j.stress {
+            Some(s) => (
+                num(s.centrifugal_force),
+                num(s.bending_moment),
+                num(s.max_tension),
+                num(s.max_compression),
+                num(s.safety_factor),
+            ),
+            None => ("-".into(), "-".into(), "-".into(), "-".into(), "-".into()),
+        };
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{f}</td><td>{m}</td><td>{t}</td><td>{c}</td><td>{sf}</td></tr>",
+            j.joint,
+            num(j.radius),
+            num(j.gross.area),
+            num(j.net.area),
+            j.holes,
+            num(j.net.ixx)
+        );
+    }
+    h.push_str("</table>\n");
 }
