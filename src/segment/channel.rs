@@ -22,8 +22,9 @@
 //! falls short.
 //!
 //! # Where it ends
-//! The straight part ends where its drill point just fits inside the reach (or at
-//! `spar-channel.end`, which must not lie beyond that). The rod to cut is the straight
+//! The straight part ends where its drill point just fits inside the reach and keeps
+//! `min-wall` to the tip's end face (or at `spar-channel.end`, which must not lie beyond
+//! that). The rod to cut is the straight
 //! part's length. A channel must run at least [`MIN_ENGAGEMENT`] rod diameters, or it is
 //! refused with the widest rod that would.
 
@@ -277,7 +278,8 @@ pub fn plan_channel(input: &ChannelInput<'_>, spec: &ChannelSpec) -> Result<Chan
         }
     };
     let reach = rows[k_reach].z;
-    let mut end = reach - cone;
+    // The drill point also keeps the wall to the tip's end face.
+    let mut end = reach.min(last - spec.min_wall) - cone;
     if let Some(e) = spec.end {
         if e > end + 1e-9 {
             let k = rows.partition_point(|o| o.z < e + cone).min(rows.len() - 1);
@@ -291,6 +293,16 @@ pub fn plan_channel(input: &ChannelInput<'_>, spec: &ChannelSpec) -> Result<Chan
             });
         }
         end = e;
+    }
+    if end < start + length_min {
+        return Err(SegmentError::ChannelTooThin {
+            what: format!(
+                "the channel would end at {end:.1} mm, less than {length_min:.1} mm beyond its start"
+            ),
+            start,
+            widest_rod: None,
+            min_wall: spec.min_wall,
+        });
     }
     Ok(finish(
         Channel {

@@ -340,6 +340,7 @@ fn attempt_plan(
         joint_range,
         transition,
         min_length: 2.0 * pin_reach + wall,
+        first_joint_max: planned.as_ref().map(|c| c.end - c.engagement()),
     };
     let (automatic, mut splits, searches) = match &spec.split {
         Split::None => (false, Vec::new(), 0),

@@ -18,7 +18,9 @@
 //! From the root, each segment is made as long as it fits, ending at the farthest radius
 //! where a joint can be (greedy, which gives the fewest segments for a monotone test);
 //! the same from the tip gives, for each split, the innermost radius that still leaves the
-//! rest coverable. A **joint can be** at a radius when its pins fit there
+//! rest coverable. With a spar channel the first joint must lie a rod's engagement
+//! before the channel's end, so that the rod joins the first two segments. A **joint can
+//! be** at a radius when its pins fit there
 //! ([`super::dowels`]) and it lies a pin's depth and drill point plus the wall beyond
 //! the root's features and before the tip end.
 //!
@@ -152,6 +154,9 @@ pub struct Frame<'a> {
     pub transition: Option<(f64, f64)>,
     /// Shortest segment between two joints, mm.
     pub min_length: f64,
+    /// Farthest radius for the first joint: the spar channel's end less a rod's
+    /// engagement, so that the rod joins the root segment to the next.
+    pub first_joint_max: Option<f64>,
 }
 
 /// The test "does the segment from `a` to `b` fit": the printer-fit search on the
@@ -432,6 +437,10 @@ impl<'a, 'f> Planner<'a, 'f> {
                     ),
                 });
             }
+            let b = match self.frame.first_joint_max {
+                Some(m) if far.is_empty() && m < b => m,
+                _ => b,
+            };
             let r = self.last_joint(a, b).ok_or_else(|| self.no_joint(a, b))?;
             far.push(r);
             if far.len() + 1 > max {
@@ -567,9 +576,17 @@ impl<'a, 'f> Planner<'a, 'f> {
 
     fn no_joint(&self, a: f64, b: f64) -> SegmentError {
         let (jlo, jhi) = self.frame.joint_range;
+        if let Some(m) = self.frame.first_joint_max.filter(|&m| (m - b).abs() < 1e-9) {
+            return SegmentError::NoPlan {
+                reason: format!(
+                    "the spar channel's rod reaches a joint only up to {m:.1} mm, and no joint can be placed between {:.1} and {m:.1} mm (pins that keep their wall fit nowhere there; joints may lie from {jlo:.1} to {jhi:.1} mm, clear of the root's features and the tip); use a thinner rod (spar-channel.diameter) that reaches farther, smaller pins, or no channel",
+                    a + self.frame.min_length
+                ),
+            };
+        }
         SegmentError::NoPlan {
             reason: format!(
-                "a segment from {a:.1} mm fits the printer only up to {b:.1} mm, and no joint can be placed between {:.1} and {b:.1} mm (joints can be from {jlo:.1} to {jhi:.1} mm where the pins keep their wall); use smaller or fewer pins (segments.dowels), a smaller segments.min-wall, or a larger printer",
+                "a segment from {a:.1} mm fits the printer only up to {b:.1} mm, and no joint can be placed between {:.1} and {b:.1} mm (pins that keep their wall fit nowhere there; joints may lie from {jlo:.1} to {jhi:.1} mm, clear of the root's features and the tip); use smaller or fewer pins (segments.dowels), a smaller segments.min-wall, or a larger printer",
                 a + self.frame.min_length
             ),
         }
