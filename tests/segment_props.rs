@@ -2,7 +2,8 @@
 //! segments that pass every check (closed and oriented with the genus Euler's formula
 //! gives, fitting the printer on all their points, volumes adding up with the holes'
 //! cylinders and cones) or refuses with a reason that is a failed check (exit 1), never
-//! bad input, never a panic.
+//! bad input, never a panic; for either rotation sense (a clockwise blade is the mirror
+//! image, its meshes re-oriented).
 
 #[macro_use]
 mod support;
@@ -14,9 +15,20 @@ use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{run, Options};
 use std::collections::HashMap;
 
-fn design_text(r0: f64, len: f64, chord: f64, taper: f64, section: &str, rod: Option<f64>, pin: f64) -> String {
+struct Blade<'a> {
+    r0: f64,
+    len: f64,
+    chord: f64,
+    taper: f64,
+    section: &'a str,
+    cw: bool,
+}
+
+fn design_text(b: &Blade<'_>, rod: Option<f64>, pin: f64) -> String {
+    let Blade { r0, len, chord, taper, section, cw } = *b;
+    let rotation = if cw { "cw" } else { "ccw" };
     let mut s = format!(
-        "name = \"p\"\n[blade]\nsection = \"{section}\"\npoints-per-side = 50\ntolerance = 0.05\n"
+        "name = \"p\"\n[blade]\nsection = \"{section}\"\nrotation = \"{rotation}\"\npoints-per-side = 50\ntolerance = 0.05\n"
     );
     for k in 0..3 {
         let f = k as f64 / 2.0;
@@ -62,8 +74,10 @@ proptest! {
         rod in prop::option::of(2.0..9.0f64),
         pin in 1.5..4.0f64,
         side in 110.0..300.0f64,
+        cw in any::<bool>(),
     ) {
-        let text = design_text(r0, len, chord, taper, section, rod, pin);
+        let blade = Blade { r0, len, chord, taper, section, cw };
+        let text = design_text(&blade, rod, pin);
         let design = parse_toml_str(&text, None).expect("generated designs are valid");
         let printer = PrinterSpec { volume: Some([side, side, side]), ..Default::default() }
             .resolve("test")
