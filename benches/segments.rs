@@ -45,15 +45,23 @@ fn bench(c: &mut Criterion) {
                         name: format!("segment-{}", m.index),
                         mesh: m.mesh,
                     };
-                    certify(part, &CheckOptions::DEFAULT.with_expected_genus(Some(m.genus)))
-                        .expect("checked")
+                    certify(
+                        part,
+                        &CheckOptions::DEFAULT.with_expected_genus(Some(m.genus)),
+                    )
+                    .expect("checked")
                 })
                 .collect();
             checked.len()
         })
     });
     g.bench_function("plan_and_build_barn_turbine", |b| {
-        b.iter(|| segment(black_box(&input), &request).expect("segments").segments.len())
+        b.iter(|| {
+            segment(black_box(&input), &request)
+                .expect("segments")
+                .segments
+                .len()
+        })
     });
     g.bench_function("whole_run_barn_turbine", |b| {
         b.iter(|| run(black_box(&design), &opts).expect("run").parts.len())

@@ -62,13 +62,24 @@ fn demo_writes_every_segment_in_every_format() {
         assert!(files.contains(&f.to_string()), "{f} missing from {files:?}");
     }
     assert!(
-        !files.iter().any(|f| f.contains("segment") && f.ends_with(".step")),
+        !files
+            .iter()
+            .any(|f| f.contains("segment") && f.ends_with(".step")),
         "no STEP for a segment until its exact solid exists: {files:?}"
     );
-    assert!(run.stdout.contains("no STEP file for barn-turbine-segment-1-of-2"), "{}", run.stdout);
+    assert!(
+        run.stdout
+            .contains("no STEP file for barn-turbine-segment-1-of-2"),
+        "{}",
+        run.stdout
+    );
     assert!(run.stdout.contains("split 1 at"), "{}", run.stdout);
     assert!(run.stdout.contains("cut the rod to"), "{}", run.stdout);
-    assert!(run.stdout.contains("Caution: a split blade"), "{}", run.stdout);
+    assert!(
+        run.stdout.contains("Caution: a split blade"),
+        "{}",
+        run.stdout
+    );
     // Binary STL: 80-byte header, u32 count, 50 bytes a facet (the STL format of 3D
     // Systems' StereoLithography Interface Specification, 1988).
     let bytes = std::fs::read(run.path("out/barn-turbine-segment-2-of-2.stl")).unwrap();
@@ -87,22 +98,46 @@ fn demo_writes_every_segment_in_every_format() {
 fn split_switch_and_channel_without_segments() {
     let design = blade("[spar-channel]\ndiameter = 4\n");
     // The channel alone: the blade carries it, opening at the root face; no STEP.
-    let run = run_in_temp(&[("d.toml", &design)], &["build", "d.toml", "--format", "stl,step"]);
+    let run = run_in_temp(
+        &[("d.toml", &design)],
+        &["build", "d.toml", "--format", "stl,step"],
+    );
     assert_eq!(run.code, 0, "{}", run.stderr);
-    assert!(run.stdout.contains("open at the root face"), "{}", run.stdout);
-    assert!(run.stdout.contains("no STEP file for long"), "{}", run.stdout);
+    assert!(
+        run.stdout.contains("open at the root face"),
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout.contains("no STEP file for long"),
+        "{}",
+        run.stdout
+    );
     assert!(!run.files("out").contains(&"long.step".to_string()));
     // Split at given radii from the command line: two joints, three segments.
-    let run = run_in_temp(&[("d.toml", &design)], &["build", "d.toml", "--split", "150,260"]);
+    let run = run_in_temp(
+        &[("d.toml", &design)],
+        &["build", "d.toml", "--split", "150,260"],
+    );
     assert_eq!(run.code, 0, "{}", run.stderr);
     for k in 1..=3 {
-        assert!(run.files("out").contains(&format!("long-segment-{k}-of-3.stl")));
+        assert!(run
+            .files("out")
+            .contains(&format!("long-segment-{k}-of-3.stl")));
     }
     assert!(run.stdout.contains("150.0 mm (given)"), "{}", run.stdout);
     // fit --split auto on a small printer lays every segment out.
     let run = run_in_temp(
         &[("d.toml", &design)],
-        &["fit", "d.toml", "--split", "auto", "--volume", "150,150,150", "--no-files"],
+        &[
+            "fit",
+            "d.toml",
+            "--split",
+            "auto",
+            "--volume",
+            "150,150,150",
+            "--no-files",
+        ],
     );
     assert_eq!(run.code, 0, "{}\n{}", run.stdout, run.stderr);
     assert!(run.stdout.contains("the fewest that fit"), "{}", run.stdout);
@@ -118,7 +153,11 @@ fn refusals_name_what_would_fit() {
         &["build", "d.toml"],
     );
     assert_eq!(run.code, 1, "{}", run.stderr);
-    assert!(run.stderr.contains("widest rod that fits is"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("widest rod that fits is"),
+        "{}",
+        run.stderr
+    );
     // Pins too large for the section: exit 1, naming the largest pin.
     let run = run_in_temp(
         &[(
@@ -128,28 +167,46 @@ fn refusals_name_what_would_fit() {
         &["build", "d.toml"],
     );
     assert_eq!(run.code, 1, "{}", run.stderr);
-    assert!(run.stderr.contains("largest pin that fits there is"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("largest pin that fits there is"),
+        "{}",
+        run.stderr
+    );
     // A given split leaving a segment too long for the printer: exit 1.
     let run = run_in_temp(
-        &[("d.toml", &blade("[segments]\nsplit = [100]\n[printer]\nvolume = [150, 150, 150]\n"))],
+        &[(
+            "d.toml",
+            &blade("[segments]\nsplit = [100]\n[printer]\nvolume = [150, 150, 150]\n"),
+        )],
         &["build", "d.toml"],
     );
     assert_eq!(run.code, 1, "{}", run.stderr);
-    assert!(run.stderr.contains("segment 2 of 2") && run.stderr.contains("does not fit"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("segment 2 of 2") && run.stderr.contains("does not fit"),
+        "{}",
+        run.stderr
+    );
     // Bad values: exit 2 with the key and the line.
     let run = run_in_temp(
         &[("d.toml", &blade("[segments]\nsplit = \"half\"\n"))],
         &["build", "d.toml"],
     );
     assert_eq!(run.code, 2, "{}", run.stderr);
-    assert!(run.stderr.contains("segments.split") && run.stderr.contains("d.toml:"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("segments.split") && run.stderr.contains("d.toml:"),
+        "{}",
+        run.stderr
+    );
     let run = run_in_temp(
         &[("d.toml", &blade("[segments]\nsplit = \"auto\"\n"))],
         &["build", "d.toml"],
     );
     assert_eq!(run.code, 2, "{}", run.stderr);
     assert!(run.stderr.contains("needs a printer"), "{}", run.stderr);
-    let run = run_in_temp(&[("d.toml", &blade(""))], &["build", "d.toml", "--split", "1o0"]);
+    let run = run_in_temp(
+        &[("d.toml", &blade(""))],
+        &["build", "d.toml", "--split", "1o0"],
+    );
     assert_eq!(run.code, 2, "{}", run.stderr);
     assert!(run.stderr.contains("--split"), "{}", run.stderr);
 }

@@ -104,12 +104,20 @@ fn brute_force(pts: &[Vector3<f64>], space: [f64; 3]) -> f64 {
         // A finer grid: tilts of up to 3 degrees about two axes, yaw +-3 degrees.
         let (b1, b2) = {
             let f = frame(&up, 0.0);
-            (Vector3::from(f.row(0).transpose()), Vector3::from(f.row(1).transpose()))
+            (
+                Vector3::from(f.row(0).transpose()),
+                Vector3::from(f.row(1).transpose()),
+            )
         };
         for a in -6..=6 {
             for b in -6..=6 {
-                let tilt = Rotation3::from_axis_angle(&Unit::new_normalize(b1), (a as f64 * 0.5).to_radians())
-                    * Rotation3::from_axis_angle(&Unit::new_normalize(b2), (b as f64 * 0.5).to_radians());
+                let tilt = Rotation3::from_axis_angle(
+                    &Unit::new_normalize(b1),
+                    (a as f64 * 0.5).to_radians(),
+                ) * Rotation3::from_axis_angle(
+                    &Unit::new_normalize(b2),
+                    (b as f64 * 0.5).to_radians(),
+                );
                 let u = tilt * up;
                 for c in -12..=12 {
                     let q = ratio(pts, &frame(&u, yaw + (c as f64 * 0.25).to_radians()), space);
@@ -129,7 +137,11 @@ fn every_segment_fits_by_brute_force() {
         for part in o.segment_parts() {
             let pts = hull_points(part.bodies[0].mesh());
             let q = brute_force(&pts, [a, b, h]);
-            assert!(q <= 1.0, "{}: best ratio {q:.4} > 1 on {a} x {b} x {h}", part.name);
+            assert!(
+                q <= 1.0,
+                "{}: best ratio {q:.4} > 1 on {a} x {b} x {h}",
+                part.name
+            );
         }
     }
 }
@@ -152,5 +164,8 @@ fn one_segment_fewer_does_not_fit() {
     assert!(!f.fits, "segments 1 and 2 fit together: {:?}", f.size);
     let (a, b, h) = p.available();
     let q = brute_force(&hull_points(&merged), [a, b, h]);
-    assert!(q > 1.0, "brute force fits segments 1 and 2 together ({q:.4})");
+    assert!(
+        q > 1.0,
+        "brute force fits segments 1 and 2 together ({q:.4})"
+    );
 }

@@ -25,7 +25,14 @@ struct Blade<'a> {
 }
 
 fn design_text(b: &Blade<'_>, rod: Option<f64>, pin: f64) -> String {
-    let Blade { r0, len, chord, taper, section, cw } = *b;
+    let Blade {
+        r0,
+        len,
+        chord,
+        taper,
+        section,
+        cw,
+    } = *b;
     let rotation = if cw { "cw" } else { "ccw" };
     let mut s = format!(
         "name = \"p\"\n[blade]\nsection = \"{section}\"\nrotation = \"{rotation}\"\npoints-per-side = 50\ntolerance = 0.05\n"

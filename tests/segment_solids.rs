@@ -49,7 +49,10 @@ fn cases() -> &'static [Outcome] {
 }
 
 fn segments(o: &Outcome) -> Vec<&TriMesh> {
-    o.segment_parts().iter().map(|p| p.bodies[0].mesh()).collect()
+    o.segment_parts()
+        .iter()
+        .map(|p| p.bodies[0].mesh())
+        .collect()
 }
 
 /// Every edge used exactly once in each direction (closed, consistently oriented); the
@@ -90,7 +93,11 @@ fn segments_are_closed_oriented_with_their_genus_of(o: &Outcome) {
     let c = plan.channel.as_ref().expect("the demo has a spar channel");
     for (k, m) in segs.iter().enumerate() {
         let (from, to) = (
-            if k == 0 { c.start - 1.0 } else { plan.joints[k - 1].radius },
+            if k == 0 {
+                c.start - 1.0
+            } else {
+                plan.joints[k - 1].radius
+            },
             plan.joints.get(k).map_or(f64::INFINITY, |j| j.radius),
         );
         // A channel entering the segment's lower face and leaving by its upper one is a
@@ -306,7 +313,12 @@ fn joints_share_pin_axes_and_are_keyed_of(o: &Outcome) {
         for ((a, b), p) in lo.iter().zip(&hi).zip(&j.pins) {
             // Both halves use the very same loop vertices: the axes agree to rounding.
             assert_near!((a - b).norm(), 0.0, 1e-9, "pin axes of both halves");
-            assert_near!((a - Point2::new(p[0], p[1])).norm(), 0.0, 1e-9, "the planned pin");
+            assert_near!(
+                (a - Point2::new(p[0], p[1])).norm(),
+                0.0,
+                1e-9,
+                "the planned pin"
+            );
         }
         let mut layout: Vec<(Point2<f64>, f64)> =
             lo.iter().map(|p| (*p, j.hole_diameter)).collect();
@@ -318,7 +330,11 @@ fn joints_share_pin_axes_and_are_keyed_of(o: &Outcome) {
         // One way round: no rigid motion but the identity carries the layout onto
         // itself within half a pin hole's radius.
         let tol = 0.25 * j.hole_diameter;
-        assert!(!aligns(&layout, &layout, tol, true), "joint {} fits two ways", j.index);
+        assert!(
+            !aligns(&layout, &layout, tol, true),
+            "joint {} fits two ways",
+            j.index
+        );
         layouts.push((layout, tol));
     }
     for a in 0..layouts.len() {

@@ -351,7 +351,11 @@ fn summary(rep: &Report, written: &[PathBuf]) -> String {
     }
     if let Some(seg) = &rep.segments {
         for p in &seg.segments {
-            let _ = writeln!(out, "  {}: mass {:.1} g, volume {:.0} mm3", p.name, p.mass, p.volume);
+            let _ = writeln!(
+                out,
+                "  {}: mass {:.1} g, volume {:.0} mm3",
+                p.name, p.mass, p.volume
+            );
         }
         if let Some([d, l]) = seg.rod {
             let _ = writeln!(out, "  rod: {d} mm diameter, cut to {l:.1} mm");

@@ -20,14 +20,14 @@ pub fn lines(plan: &Plan, name: &str) -> String {
         });
         let _ = writeln!(
             s,
-            "  segments: {} per blade{}{}",
+            "  segments: {} per blade{}",
             plan.count,
             match (&printer, plan.automatic) {
-                (Some(p), true) => format!(", the fewest that fit {p} ({} fit searches)", plan.searches),
+                (Some(p), true) =>
+                    format!(", the fewest that fit {p} ({} fit searches)", plan.searches),
                 (Some(p), false) => format!(" at the radii given, each checked against {p}"),
                 (None, _) => " at the radii given (no printer to check them against)".into(),
-            },
-            ""
+            }
         );
         for (k, split) in plan.splits.iter().enumerate() {
             let _ = writeln!(s, "  split {} at {split}", k + 1);

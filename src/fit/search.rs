@@ -826,10 +826,11 @@ pub fn fit_extents(
     let bb = crate::mesh::Aabb::of_points(&verts)?;
     let av = Avail::of(printer);
     let centre = nalgebra::center(&bb.min, &bb.max);
-    let lip = 2.0 * verts
-        .iter()
-        .map(|v| (v - centre).norm())
-        .fold(0.0, f64::max);
+    let lip = 2.0
+        * verts
+            .iter()
+            .map(|v| (v - centre).norm())
+            .fold(0.0, f64::max);
     let fit_limit = 1.0 + opts.tolerance / av.min();
     let mut subset = hull::support_subset(&verts, opts.support_directions);
     for round in 0..4 {
@@ -851,7 +852,13 @@ pub fn fit_extents(
         if best.ratio > fit_limit {
             return None;
         }
-        let m = measure(&verts, rotation(&best.up, best.yaw), printer, &av, opts.tolerance);
+        let m = measure(
+            &verts,
+            rotation(&best.up, best.yaw),
+            printer,
+            &av,
+            opts.tolerance,
+        );
         if m.fits {
             return Some(m.size);
         }

@@ -177,8 +177,7 @@ pub fn run(design: &Design, opts: &Options) -> Result<Outcome, PipelineError> {
             (vec![built], Some(s.plan))
         }
         Some(s) => {
-            let mut list =
-                vec![timings.time("checks", || parts::blade_part(&blade, &warnings))?];
+            let mut list = vec![timings.time("checks", || parts::blade_part(&blade, &warnings))?];
             let segs = timings.time("segment checks", || {
                 parts::segment_parts(&blade.name, s.segments, &warnings)
             })?;

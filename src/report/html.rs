@@ -188,7 +188,12 @@ fn segments_html(h: &mut String, seg: &super::joints::SegmentsSummary) {
     }
     h.push_str("</table>\n");
     if let Some([d, l]) = seg.rod {
-        let _ = writeln!(h, "<p>Rod: {} mm diameter, cut to {} mm.</p>", num(d), num(l));
+        let _ = writeln!(
+            h,
+            "<p>Rod: {} mm diameter, cut to {} mm.</p>",
+            num(d),
+            num(l)
+        );
     }
     h.push_str("<table><tr><th>joint</th><th>r mm</th><th>gross area mm2</th><th>net area mm2</th><th>holes</th><th>net Ixx mm4</th><th>force N</th><th>moment N mm</th><th>tension MPa</th><th>compression MPa</th><th>safety factor</th></tr>\n");
     for j in &seg.joints {

@@ -103,8 +103,10 @@ pub fn segments_summary(
             .ok_or_else(|| ReportError::NoVolume(format!("segment {}", k + 1)))?;
         let face = Slice::cut(below.mesh(), j.radius).map_err(slice_err(below.name()))?;
         let whole = Slice::cut(blade.mesh(), j.radius).map_err(slice_err(blade.name()))?;
-        let (Some(net), Some(gross)) = (SectionProps::of_slice(&face), SectionProps::of_slice(&whole))
-        else {
+        let (Some(net), Some(gross)) = (
+            SectionProps::of_slice(&face),
+            SectionProps::of_slice(&whole),
+        ) else {
             return Err(ReportError::NoVolume(below.name().to_string()));
         };
         let stress = match load {
@@ -154,7 +156,10 @@ pub fn segments_summary(
     Ok(SegmentsSummary {
         segments: parts,
         joints,
-        rod: plan.channel.as_ref().map(|c| [c.rod_diameter, c.rod_length]),
+        rod: plan
+            .channel
+            .as_ref()
+            .map(|c| [c.rod_diameter, c.rod_length]),
         cautions: JOINT_CAUTIONS.iter().map(|s| s.to_string()).collect(),
     })
 }

@@ -371,7 +371,10 @@ pub fn finish(mut c: Channel, rows: &[Outline]) -> Channel {
 fn deepest(rows: &[&Outline], axis: Option<[f64; 2]>) -> (Point2<f64>, f64) {
     if let Some([x, y]) = axis {
         let p = Point2::new(x, y);
-        return (p, smallest_clearance(rows.iter().copied(), &p, f64::NEG_INFINITY));
+        return (
+            p,
+            smallest_clearance(rows.iter().copied(), &p, f64::NEG_INFINITY),
+        );
     }
     let last = rows[rows.len() - 1];
     // Start from the deepest point of the outermost (tightest) row, then the compass

@@ -112,21 +112,37 @@ pub enum NoLayout {
     NotKeyed,
 }
 
-/// The pins of joint `index` at radius `r` with `count` pins of the spec's size (or a
-/// pin of `pin_diameter` when given), keyed against the `earlier` joints.
+/// Which joint is asked for and how.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct JointAsk {
+    /// Radius of the split plane, mm.
+    pub radius: f64,
+    /// Joint number from the root, from 1.
+    pub index: usize,
+    /// Pins wanted.
+    pub count: usize,
+    /// True when the spar channel crosses the joint.
+    pub channel: bool,
+}
+
+/// The pins of the joint `ask` of the spec's size (or a pin of `pin_diameter` when
+/// given), keyed against the `earlier` joints.
 ///
 /// # Errors
 /// [`NoLayout`] when no layout fits and is keyed.
 pub fn place(
     input: &PinInput<'_>,
     spec: &SegmentsSpec,
-    r: f64,
-    index: usize,
-    count: usize,
-    channel: bool,
+    ask: JointAsk,
     earlier: &[Joint],
     pin_diameter: Option<f64>,
 ) -> Result<Joint, NoLayout> {
+    let JointAsk {
+        radius: r,
+        index,
+        count,
+        channel,
+    } = ask;
     let d = &spec.dowels;
     let pin = pin_diameter.unwrap_or(d.diameter);
     let hole = pin + d.clearance;
@@ -145,9 +161,7 @@ pub fn place(
         .iter()
         .map(|q| {
             smallest_clearance(rows.iter(), q, need) >= need
-                && chan.is_none_or(|c| {
-                    (q - c.axis_point()).norm() >= c.hole_radius() + rp + wall
-                })
+                && chan.is_none_or(|c| (q - c.axis_point()).norm() >= c.hole_radius() + rp + wall)
         })
         .collect();
     let places: Vec<usize> = (0..path.len()).filter(|&i| ok[i]).collect();
@@ -196,13 +210,10 @@ pub fn place(
 pub fn largest_pin(
     input: &PinInput<'_>,
     spec: &SegmentsSpec,
-    r: f64,
-    index: usize,
-    count: usize,
-    channel: bool,
+    ask: JointAsk,
     earlier: &[Joint],
 ) -> Option<f64> {
-    let fits = |d: f64| place(input, spec, r, index, count, channel, earlier, Some(d)).is_ok();
+    let fits = |d: f64| place(input, spec, ask, earlier, Some(d)).is_ok();
     let (mut lo, mut hi) = (0.2, spec.dowels.diameter);
     if !fits(lo) {
         return None;
@@ -301,10 +312,7 @@ fn pick(
     let mut idx: Vec<(usize, Point2<f64>)> = chosen
         .into_iter()
         .map(|q| {
-            let i = path
-                .iter()
-                .position(|p| *p == q)
-                .unwrap_or(0);
+            let i = path.iter().position(|p| *p == q).unwrap_or(0);
             (i, q)
         })
         .collect();
@@ -328,7 +336,8 @@ pub fn one_way(holes: &[(Point2<f64>, f64)], tol: f64) -> bool {
         let (s, co) = a.sin_cos();
         !holes.iter().all(|(p, d)| {
             let v = p.coords - c;
-            let q = Point2::from(c + nalgebra::Vector2::new(co * v.x - s * v.y, s * v.x + co * v.y));
+            let q =
+                Point2::from(c + nalgebra::Vector2::new(co * v.x - s * v.y, s * v.x + co * v.y));
             holes
                 .iter()
                 .any(|(p2, d2)| (d - d2).abs() < 1e-9 && (q - p2).norm() < tol)

@@ -107,9 +107,8 @@ pub fn build(
     channel: Option<&Channel>,
     joints: &[Joint],
 ) -> Result<Vec<SegmentMesh>, SegmentError> {
-    let (vs, rows) = with_rows(input.skin, input.vs, splits).ok_or_else(|| {
-        SegmentError::mesh("a split radius lies outside the skin".to_string())
-    })?;
+    let (vs, rows) = with_rows(input.skin, input.vs, splits)
+        .ok_or_else(|| SegmentError::mesh("a split radius lies outside the skin".to_string()))?;
     let (mut mesh, root_ring, root_cap) = mesh_from_grid(input.skin, input.us, &vs)?;
     let (nu, nv) = (input.us.len(), vs.len());
     for (&j, &r) in rows.iter().zip(splits) {
@@ -272,7 +271,13 @@ pub fn build(
         }
         for (list, loops) in [(&lower, &loops_lo), (&upper, &loops_hi)] {
             for ((hole, bore), (_, ids)) in list.iter().zip(loops.iter()) {
-                if let Bore::Blind { z, dir, depth, point } = *bore {
+                if let Bore::Blind {
+                    z,
+                    dir,
+                    depth,
+                    point,
+                } = *bore
+                {
                     b.blind(ids, hole, z, dir, depth, point);
                 }
             }
@@ -375,7 +380,8 @@ impl<'a> Local<'a> {
             })
             .collect();
         let mut ids: Vec<u32> = ring.to_vec();
-        let mut loops = vec![0..ring.len()];
+        let mut loops = Vec::with_capacity(1 + holes.len());
+        loops.push(0..ring.len());
         let mut out = Vec::new();
         for (h, _) in holes {
             let n = sides(h.radius, tol);
@@ -383,7 +389,10 @@ impl<'a> Local<'a> {
             let mut lp = Vec::with_capacity(n);
             for k in 0..n {
                 let a = std::f64::consts::TAU * k as f64 / n as f64;
-                let q = Point2::new(h.centre.x + h.radius * a.cos(), h.centre.y + h.radius * a.sin());
+                let q = Point2::new(
+                    h.centre.x + h.radius * a.cos(),
+                    h.centre.y + h.radius * a.sin(),
+                );
                 let id = self.out.push_vertex(Point3::new(q.x, q.y, z));
                 pts.push(q);
                 ids.push(id);
@@ -415,17 +424,18 @@ impl<'a> Local<'a> {
         if n.norm_squared() == 0.0 {
             return;
         }
-        self.out
-            .triangles
-            .push(if n.dot(&toward) >= 0.0 { t } else { [t[0], t[2], t[1]] });
+        self.out.triangles.push(if n.dot(&toward) >= 0.0 {
+            t
+        } else {
+            [t[0], t[2], t[1]]
+        });
     }
 
     /// Direction from a triangle's centroid to the point `q`.
     fn toward(&self, t: [u32; 3], q: Point3<f64>) -> Vector3<f64> {
-        let c = t
-            .iter()
-            .fold(Vector3::zeros(), |s, &i| s + self.out.vertices[i as usize].coords)
-            / 3.0;
+        let c = t.iter().fold(Vector3::zeros(), |s, &i| {
+            s + self.out.vertices[i as usize].coords
+        }) / 3.0;
         q.coords - c
     }
 
@@ -444,16 +454,17 @@ impl<'a> Local<'a> {
         let q = Point3::new(hole.centre.x, hole.centre.y, z + 0.5 * dir * depth);
         for k in 0..n {
             let k1 = (k + 1) % n;
-            for t in [[top[k], top[k1], bottom[k1]], [top[k], bottom[k1], bottom[k]]] {
+            for t in [
+                [top[k], top[k1], bottom[k1]],
+                [top[k], bottom[k1], bottom[k]],
+            ] {
                 let d = self.toward(t, q);
                 self.push(t, d);
             }
         }
-        let apex = self.out.push_vertex(Point3::new(
-            hole.centre.x,
-            hole.centre.y,
-            zb + dir * point,
-        ));
+        let apex =
+            self.out
+                .push_vertex(Point3::new(hole.centre.x, hole.centre.y, zb + dir * point));
         for k in 0..n {
             let t = [bottom[k], bottom[(k + 1) % n], apex];
             let d = self.toward(t, q);
@@ -467,10 +478,9 @@ impl<'a> Local<'a> {
         for k in 0..n {
             let k1 = (k + 1) % n;
             for t in [[a[k], a[k1], b[k1]], [a[k], b[k1], b[k]]] {
-                let c = t
-                    .iter()
-                    .fold(Vector3::zeros(), |s, &i| s + self.out.vertices[i as usize].coords)
-                    / 3.0;
+                let c = t.iter().fold(Vector3::zeros(), |s, &i| {
+                    s + self.out.vertices[i as usize].coords
+                }) / 3.0;
                 let d = Vector3::new(hole.centre.x - c.x, hole.centre.y - c.y, 0.0);
                 self.push(t, d);
             }
@@ -489,7 +499,10 @@ mod tests {
         for (r, tol) in [(3.1, 0.01), (1.6, 0.01), (10.0, 0.001), (0.5, 0.2)] {
             let n = sides(r, tol);
             let sag = r * (1.0 - (std::f64::consts::PI / n as f64).cos());
-            assert!(sag <= tol + 1e-12 || n == 256, "r {r} tol {tol}: n {n}, sagitta {sag}");
+            assert!(
+                sag <= tol + 1e-12 || n == 256,
+                "r {r} tol {tol}: n {n}, sagitta {sag}"
+            );
             assert!(n % 4 == 0 && n >= 12);
         }
     }

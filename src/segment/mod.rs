@@ -48,7 +48,7 @@ use crate::fit::{fit_extents, fit_part, FitOptions, Printer};
 use crate::loft::Skin;
 use crate::mesh::TriMesh;
 use crate::tessellate::TessellateError;
-use dowels::{largest_pin, place, NoLayout, PinInput};
+use dowels::{largest_pin, place, JointAsk, NoLayout, PinInput};
 use nalgebra::Point3;
 use spec::point_depth;
 
@@ -128,8 +128,14 @@ pub enum SegmentError {
 
 fn widest(w: &Option<f64>) -> String {
     match w {
-        Some(d) => format!("the widest rod that fits is {:.1} mm (spar-channel.diameter)", (d * 10.0).floor() / 10.0),
-        None => "no rod fits there with that wall; move the start (spar-channel.start) or thin the wall".into(),
+        Some(d) => format!(
+            "the widest rod that fits is {:.1} mm (spar-channel.diameter)",
+            (d * 10.0).floor() / 10.0
+        ),
+        None => {
+            "no rod fits there with that wall; move the start (spar-channel.start) or thin the wall"
+                .into()
+        }
     }
 }
 
@@ -150,17 +156,16 @@ impl SegmentError {
     }
 
     fn mesh(message: String) -> Self {
-        SegmentError::Mesh(format!("{message} (please report this with the design file)"))
+        SegmentError::Mesh(format!(
+            "{message} (please report this with the design file)"
+        ))
     }
 
     /// True when the input was understood but what it asks cannot be made (exit code
     /// 1): no plan, a segment that does not fit, a channel or pins that do not fit.
     /// Bad values are not (exit code 2).
     pub fn is_failed_check(&self) -> bool {
-        !matches!(
-            self,
-            SegmentError::Key { .. } | SegmentError::NeedsPrinter
-        )
+        !matches!(self, SegmentError::Key { .. } | SegmentError::NeedsPrinter)
     }
 }
 
@@ -322,12 +327,27 @@ fn attempt_plan(
     };
     let count_at = |r: f64| {
         let through = planned.as_ref().is_some_and(|c| crosses(c, r));
-        (spec.dowels.count.unwrap_or(if through { 2 } else { 3 }), through)
+        (
+            spec.dowels.count.unwrap_or(if through { 2 } else { 3 }),
+            through,
+        )
     };
     let can_join = |r: f64| {
         let (n, through) = count_at(r);
         (n + usize::from(through) >= 3)
-            && place(&pin_input, spec, r, 1, n, through, &[], None).is_ok()
+            && place(
+                &pin_input,
+                spec,
+                JointAsk {
+                    radius: r,
+                    index: 1,
+                    count: n,
+                    channel: through,
+                },
+                &[],
+                None,
+            )
+            .is_ok()
     };
     let frame = Frame {
         skin: input.skin,
@@ -393,7 +413,13 @@ fn attempt_plan(
                 format!("{n} pins at joint {} ({r:.1} mm), which the spar channel does not cross: two pins alone fit either way round; use 3 or more", k + 1),
             ));
         }
-        match place(&pin_input, spec, r, k + 1, n, through, &joints, None) {
+        let ask = JointAsk {
+            radius: r,
+            index: k + 1,
+            count: n,
+            channel: through,
+        };
+        match place(&pin_input, spec, ask, &joints, None) {
             Ok(j) => joints.push(j),
             Err(why) => {
                 return Err(SegmentError::PinsDoNotFit {
@@ -402,7 +428,7 @@ fn attempt_plan(
                     count: n,
                     pin: spec.dowels.diameter,
                     keyed: why == NoLayout::NotKeyed,
-                    largest_pin: largest_pin(&pin_input, spec, r, k + 1, n, through, &joints),
+                    largest_pin: largest_pin(&pin_input, spec, ask, &joints),
                 })
             }
         }

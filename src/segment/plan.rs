@@ -484,7 +484,10 @@ impl<'a, 'f> Planner<'a, 'f> {
         let (far, near) = std::thread::scope(|scope| {
             let back = scope.spawn(|| self.backward(max));
             let far = self.forward(max);
-            (far, back.join().unwrap_or_else(|p| std::panic::resume_unwind(p)))
+            (
+                far,
+                back.join().unwrap_or_else(|p| std::panic::resume_unwind(p)),
+            )
         });
         let far = far?;
         let n = far.len() + 1;
@@ -492,7 +495,9 @@ impl<'a, 'f> Planner<'a, 'f> {
             return Ok(Vec::new());
         }
         // The innermost radius of each split; the farthest when the passes disagree.
-        let near = near.filter(|v| v.len() == far.len()).unwrap_or_else(|| far.clone());
+        let near = near
+            .filter(|v| v.len() == far.len())
+            .unwrap_or_else(|| far.clone());
         let (start, end) = (self.frame.part_start, self.frame.part_end);
         let mut out: Vec<Split> = Vec::new();
         let mut prev = start;
@@ -550,12 +555,20 @@ impl<'a, 'f> Planner<'a, 'f> {
             };
             match passed.last_mut() {
                 Some(p) if p.why == why && r - p.to < CANDIDATE_STEP + 1e-9 => p.to = r,
-                _ => passed.push(PassedOver { from: r, to: r, why }),
+                _ => passed.push(PassedOver {
+                    from: r,
+                    to: r,
+                    why,
+                }),
             }
         }
         if target < lo - 1e-9 || target > hi + 1e-9 {
             // The target itself is outside the window.
-            let (a, b) = if target < lo { (target, lo) } else { (hi, target) };
+            let (a, b) = if target < lo {
+                (target, lo)
+            } else {
+                (hi, target)
+            };
             passed.insert(
                 0,
                 PassedOver {

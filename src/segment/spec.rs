@@ -120,7 +120,9 @@ impl std::str::FromStr for Split {
                 .collect::<Result<Vec<f64>, _>>()
                 .map(Split::At)
                 .map_err(|_| {
-                    format!("\"{s}\": give auto, none, or radii in mm separated by commas (260,430)")
+                    format!(
+                        "\"{s}\": give auto, none, or radii in mm separated by commas (260,430)"
+                    )
                 }),
         }
     }
