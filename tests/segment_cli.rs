@@ -73,7 +73,10 @@ fn demo_writes_every_segment_in_every_format() {
         "{}",
         run.stdout
     );
+    // Why the split is where it is, as the plan says it.
     assert!(run.stdout.contains("split 1 at"), "{}", run.stdout);
+    assert!(run.stdout.contains("even lengths aim at"), "{}", run.stdout);
+    assert!(run.stdout.contains("the printer allows"), "{}", run.stdout);
     assert!(run.stdout.contains("cut the rod to"), "{}", run.stdout);
     assert!(
         run.stdout.contains("Caution: a split blade"),

@@ -82,6 +82,8 @@ struct FitSummary {
     files: Vec<String>,
     notes: Vec<String>,
     segments: Option<Plan>,
+    #[serde(skip)]
+    blade: String,
     caution: &'static str,
 }
 
@@ -151,6 +153,9 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         assembled,
         files: files.iter().map(|p| p.display().to_string()).collect(),
         segments: outcome.as_ref().and_then(|o| o.segments.clone()),
+        blade: outcome
+            .as_ref()
+            .map_or_else(String::new, |o| o.blade.name.clone()),
         caution: CAUTION,
     };
     if args.json {
@@ -397,10 +402,8 @@ fn notes(report: &JobReport, outcome: Option<&Outcome>, stl: bool) -> Vec<String
 fn text(s: &FitSummary) -> String {
     let mut t = String::new();
     if let Some(plan) = &s.segments {
-        let name = s.job.parts.first().map_or("blade", |p| p.name.as_str());
-        let name = name.split("-segment-").next().unwrap_or(name);
         t.push_str("segments of the blade:\n");
-        t.push_str(&super::segments::lines(plan, name));
+        t.push_str(&super::segments::lines(plan, &s.blade));
     }
     let printer = &s.job.printer;
     let (a, b, h) = printer.available();

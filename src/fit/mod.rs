@@ -9,6 +9,8 @@
 //!   is a branch and bound over "down" directions with the yaw solved exactly by rotating
 //!   calipers; its angular-resolution guarantee and the exact check on every vertex are
 //!   described in [`search`].
+//! * [`fit_extents`]: only whether points fit (the same search, no pose chosen), and
+//!   their extents in the orientation found; the segment planner asks it many times.
 //! * [`layout`]: several parts on as few plates as the heuristic finds, clearance kept;
 //!   [`plate_svg`] draws a plate seen from above.
 //! * [`plan_job`]: a whole print job (every checked part a design produces, with its

@@ -1,15 +1,18 @@
 //! Where to split: the fewest segments that fit the printer, or the radii given.
 //!
 //! # Does a segment fit?
-//! A segment from radius `a` to `b` fits when [`crate::fit::fit_part`] (the printer-fit
-//! stage's own orientation search) finds an orientation for it. Fitting depends only on
-//! the part's convex hull, so the search is given points whose hull is the segment's:
-//! the convex hull of each grid row's outline between `a` and `b`, the outlines at `a`
-//! and `b`, and (for the root segment) the root's flange. While planning, rows at least
-//! [`PLAN_ROW_SPACING`] apart stand for the rest and each hull is thinned to within a
-//! quarter of the planning slack; the printer's margin is grown by the slack
-//! ([`PLAN_SLACK`]) to cover both. Every segment built is then checked again on all of
-//! its vertices with the printer as given (see [`super::segment`]).
+//! A segment from radius `a` to `b` fits when the printer-fit stage's own orientation
+//! search finds an orientation for it ([`crate::fit::fit_extents`]: the branch and bound
+//! of [`crate::fit::fit_part`] without the choice of a pose). Fitting depends only on the
+//! part's convex hull, so the search is given points whose hull is the segment's: the
+//! convex hull of each grid row's outline between `a` and `b`, the outlines at `a` and
+//! `b`, and (for the root segment) the root's flange. While planning, rows at least
+//! [`PLAN_ROW_SPACING`] apart stand for the rest, each hull is thinned to within a
+//! quarter of the planning slack, the printer's margin is grown by the slack
+//! ([`PLAN_SLACK`]) and the search runs with [`PLAN_FIT`]; every segment built is then
+//! checked again on all of its hull points with the printer as given and the search's
+//! default options (see [`super::segment`]), and the plan is made again with three
+//! times the slack should one not fit.
 //!
 //! Fitting is monotone: a segment inside one that fits also fits (its points lie inside
 //! the larger one's hull).
