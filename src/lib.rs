@@ -38,5 +38,6 @@ pub mod planar;
 pub mod props;
 pub mod report;
 pub mod root;
+pub mod segment;
 pub mod svg;
 pub mod tessellate;

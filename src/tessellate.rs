@@ -497,6 +497,69 @@ fn cap_triangles(mesh: &TriMesh, ring: &[u32], up: bool) -> Option<Vec<[u32; 3]>
     )
 }
 
+/// Radius (z) of the skin's iso-curve at `v`. Every iso-curve of the skin is planar:
+/// the rings it interpolates lie in planes `z = const` and interpolation is linear in
+/// the data, so every control point of a `v` column has the same `z` (see
+/// [`crate::loft`]), and `z` depends on `v` alone.
+pub fn row_radius(skin: &Skin, v: f64) -> f64 {
+    let b = Basis::at(&skin.knots_v, skin.degree_v, v.clamp(0.0, 1.0));
+    b.values
+        .iter()
+        .enumerate()
+        .map(|(k, n)| n * skin.control[0][b.first + k].z)
+        .sum()
+}
+
+/// The `v` of the skin's iso-curve at radius `z` (bisection on [`row_radius`], which
+/// grows along the span), or `None` when `z` is not strictly between the root and tip
+/// rows.
+pub fn row_at_radius(skin: &Skin, z: f64) -> Option<f64> {
+    let (mut lo, mut hi) = (0.0f64, 1.0f64);
+    let (z0, z1) = (row_radius(skin, lo), row_radius(skin, hi));
+    if !(z > z0 && z < z1) {
+        return None;
+    }
+    for _ in 0..64 {
+        let mid = 0.5 * (lo + hi);
+        if row_radius(skin, mid) < z {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    Some(0.5 * (lo + hi))
+}
+
+/// Grid rows `vs` (sorted, 0 to 1) with a row forced at each radius of `radii` (inside
+/// the skin): the row's `v` is found by [`row_at_radius`]; an existing row within
+/// `0.01` mm of the radius is moved onto it (no sliver cells). Returns the new rows and
+/// the index of each forced row, in the order of `radii`; `None` for a radius outside
+/// the skin. Rows are only added or nudged, so the grid stays at least as fine as
+/// before. Build the mesh with [`mesh_from_grid`] and then put the forced rows' vertices
+/// exactly on their planes (row `j` of column `i` is vertex `i * vs.len() + j`).
+pub fn with_rows(skin: &Skin, vs: &[f64], radii: &[f64]) -> Option<(Vec<f64>, Vec<usize>)> {
+    let mut out = vs.to_vec();
+    let mut forced = Vec::with_capacity(radii.len());
+    for &z in radii {
+        let v = row_at_radius(skin, z)?;
+        let near = out
+            .iter()
+            .position(|&w| w > 0.0 && w < 1.0 && (row_radius(skin, w) - z).abs() < 0.01);
+        match near {
+            Some(k) => out[k] = v,
+            None => out.push(v),
+        }
+        forced.push(v);
+    }
+    out.sort_by(f64::total_cmp);
+    out.dedup();
+    let rows = forced
+        .iter()
+        .map(|v| out.iter().position(|w| w == v))
+        .collect::<Option<Vec<usize>>>()?;
+    Some((out, rows))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

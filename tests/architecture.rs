@@ -30,16 +30,18 @@ const STAGES: &[(&str, u32)] = &[
     ("mount", 7),
     // Assembly of built blades (placements, hub, one-piece).
     ("assembly", 8),
-    // Checks.
+    // Checks; the printer-fit search (it reads meshes and printer sizes only, and takes
+    // checked parts for a job); segments, whose plan asks the printer-fit search.
     ("check", 9),
     ("brep", 9),
+    ("fit", 9),
+    ("segment", 9),
     // Parts: the orchestrator.
     ("pipeline", 10),
     // Consumers.
     ("props", 11),
     ("coupon", 11),
     ("export", 12),
-    ("fit", 12),
     ("report", 13),
 ];
 

@@ -12,6 +12,7 @@ use spanwright::export::{file_name, stage_outcome, write_mesh_to, Format, StepNo
 use spanwright::pipeline::{self, Options, Outcome, SteepStep, TeChange, Timings};
 use spanwright::props::{Fill, Material};
 use spanwright::report::SummaryRow;
+use spanwright::segment::{Plan, Split};
 use std::path::{Path, PathBuf};
 use std::time::Instant;
 
@@ -54,6 +55,10 @@ pub struct Args {
     /// the design has a [root] and hub sockets; none; only writes just the coupons.
     #[arg(long, value_enum, default_value_t = Coupons::Auto)]
     pub coupons: Coupons,
+    /// Split the blade into segments: auto (the fewest that fit the design's [printer]),
+    /// radii in mm (260,430), or none; overrides the design's [segments] split.
+    #[arg(long, value_name = "auto|none|R,R,...")]
+    pub split: Option<String>,
 }
 
 /// When `build` writes fit coupons.
@@ -80,9 +85,18 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     let design = timings.time("parse", || {
         load::design(&args.design, args.section.as_deref())
     })?;
+    let split = match &args.split {
+        Some(text) => Some(
+            text.parse::<Split>()
+                .map_err(|e| anyhow::anyhow!("--split {e}"))?,
+        ),
+        None => None,
+    };
     let opts = Options {
         tolerance: args.tolerance,
         blade_only: args.blade_only,
+        split,
+        printer: None,
     };
     let variants = variants(&design)?;
     if !variants.is_empty() {
@@ -307,6 +321,7 @@ struct Summary {
     bounding_box_mm: [[f64; 3]; 2],
     parts: Vec<PartLine>,
     rotor: Option<String>,
+    segments: Option<Plan>,
     warnings: Vec<SteepStep>,
     coupons: Vec<CouponLine>,
     step_notes: Vec<StepNote>,
@@ -387,6 +402,7 @@ impl Summary {
                 .rotor
                 .as_ref()
                 .map(|r| hand_description(&r.spec, design.blade.rotation, design.blade.flow)),
+            segments: outcome.segments.clone(),
             warnings: outcome.warnings.clone(),
             coupons: Vec::new(),
             step_notes: notes.to_vec(),
@@ -464,6 +480,9 @@ impl Summary {
                 list.join(", "),
                 first.clearance_mm
             );
+        }
+        if let Some(plan) = &self.segments {
+            s.push_str(&super::segments::lines(plan, &self.name));
         }
         for n in &self.step_notes {
             let _ = writeln!(s, "  note: {n}");

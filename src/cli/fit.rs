@@ -13,6 +13,7 @@ use spanwright::fit::{
 };
 use spanwright::mesh::TriMesh;
 use spanwright::pipeline::{self, Outcome, PartKind};
+use spanwright::segment::{Plan, Split};
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
@@ -68,6 +69,10 @@ pub struct Args {
     /// 360/N degrees each about the rotor axis (y, blade frame).
     #[arg(long)]
     assembled: bool,
+    /// Split a design's blade into segments that fit this printer: auto (the fewest),
+    /// radii in mm (260,430), or none; overrides the design's [segments] split.
+    #[arg(long, value_name = "auto|none|R,R,...")]
+    split: Option<String>,
     /// Print the report as JSON on standard output.
     #[arg(long)]
     json: bool,
@@ -83,6 +88,9 @@ struct FitSummary {
     assembled: Option<Assembled>,
     files: Vec<String>,
     notes: Vec<String>,
+    segments: Option<Plan>,
+    #[serde(skip)]
+    blade: String,
     caution: &'static str,
 }
 
@@ -100,16 +108,32 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
     let cli_spec = spec_from_args(&args)?;
     check_args(&args)?;
     let stl = load::has_extension(&args.input, "stl");
-    let (parts, outcome, file_spec) = if stl {
-        (vec![load::stl_part(&args.input)?], None, None)
+    let split = match &args.split {
+        Some(_) if stl => {
+            anyhow::bail!("--split needs a design file (.toml or .csv), not an STL part")
+        }
+        Some(text) => Some(
+            text.parse::<Split>()
+                .map_err(|e| anyhow::anyhow!("--split {e}"))?,
+        ),
+        None => None,
+    };
+    let (parts, outcome, printer) = if stl {
+        let printer = resolve_printer(&args, cli_spec, None)?;
+        (vec![load::stl_part(&args.input)?], None, printer)
     } else {
         let design = load::design(&args.input, args.section.as_deref())?;
         let spec = design.table_mm::<PrinterSpec>("printer")?;
-        let outcome = pipeline::run(&design, &pipeline::Options::default())
+        let printer = resolve_printer(&args, cli_spec, spec)?;
+        let opts = pipeline::Options {
+            split,
+            printer: Some(printer),
+            ..pipeline::Options::default()
+        };
+        let outcome = pipeline::run(&design, &opts)
             .with_context(|| format!("building the parts of {}", args.input.display()))?;
-        (Vec::new(), Some((outcome, design)), spec)
+        (Vec::new(), Some((outcome, design)), printer)
     };
-    let printer = resolve_printer(&args, cli_spec, file_spec)?;
     let pose = match &args.pose {
         Some(name) => Some(name.parse::<PoseClass>().context("--pose")?),
         None => None,
@@ -145,6 +169,10 @@ pub fn run(args: Args, ctx: &Context) -> anyhow::Result<Verdict> {
         job: plan.report,
         assembled,
         files: files.iter().map(|p| p.display().to_string()).collect(),
+        segments: outcome.as_ref().and_then(|(o, _)| o.segments.clone()),
+        blade: outcome
+            .as_ref()
+            .map_or_else(String::new, |(o, _)| o.blade.name.clone()),
         caution: CAUTION,
     };
     if args.json {
@@ -239,8 +267,9 @@ fn resolve_printer(
     Ok(spec.resolve(&origin)?)
 }
 
-/// What goes to the printer: a design's job (see [`fit::design_job`]), or the STL part
-/// (`--copies` copies of it).
+/// What goes to the printer: a design's job (see [`pipeline::design_job`]: the one-piece
+/// rotor, or the blade or each of its segments once per blade, and the hub), or the STL
+/// part (`--copies` copies of it).
 fn job_items<'a>(
     stl: &'a [CheckedPart],
     outcome: Option<&'a (Outcome, Design)>,
@@ -248,7 +277,7 @@ fn job_items<'a>(
     pose: Option<PoseClass>,
 ) -> Vec<JobItem<'a>> {
     match outcome {
-        Some((o, design)) => fit::design_job(o, design, copies, pose),
+        Some((o, design)) => pipeline::design_job(o, design, copies, pose),
         None => stl
             .iter()
             .map(|part| JobItem {
@@ -378,6 +407,10 @@ fn notes(report: &JobReport, outcome: Option<&Outcome>, stl: bool) -> Vec<String
 
 fn text(s: &FitSummary) -> String {
     let mut t = String::new();
+    if let Some(plan) = &s.segments {
+        t.push_str("segments of the blade:\n");
+        t.push_str(&super::segments::lines(plan, &s.blade));
+    }
     let printer = &s.job.printer;
     let (a, b, h) = printer.available();
     let _ = match printer.volume {

@@ -29,6 +29,7 @@ mod load;
 mod progress;
 mod report;
 mod section;
+mod segments;
 mod variants;
 
 /// Exit code for a failed check.

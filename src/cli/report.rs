@@ -215,6 +215,25 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
         bar.set_message(msg.to_string());
     })
     .with_context(|| format!("reporting on {}", first.display()))?;
+    let mut rep = rep;
+    if let Some(o) = outcome.as_ref() {
+        let segments = o.segment_parts();
+        if let (Some(plan), false) = (&o.segments, segments.is_empty()) {
+            let bodies: Vec<&spanwright::check::CheckedPart> =
+                segments.iter().map(|p| &p.bodies[0]).collect();
+            rep.segments = Some(
+                report::segments_summary(
+                    o.blade_part(),
+                    &bodies,
+                    plan,
+                    &input.material,
+                    input.fill,
+                    input.load.as_ref(),
+                )
+                .with_context(|| format!("reporting on the segments of {}", first.display()))?,
+            );
+        }
+    }
     bar.finish_and_clear();
     let json = serde_json::to_string_pretty(&rep).context("encoding the JSON report")?;
     let mut written = Vec::new();
@@ -229,6 +248,11 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
     // Cautions go out even with --quiet: they bear on safety.
     if rep.stress.is_some() || rep.balance.is_some() {
         for c in CAUTIONS {
+            eprintln!("caution: {c}");
+        }
+    }
+    if rep.segments.is_some() {
+        for c in report::JOINT_CAUTIONS {
             eprintln!("caution: {c}");
         }
     }
@@ -485,6 +509,37 @@ fn summary(rep: &Report, written: &[PathBuf]) -> String {
             number(t.load.safety_factor, D::Ratio),
             number(t.tip_deflection, D::Mm)
         );
+    }
+    if let Some(seg) = &rep.segments {
+        for p in &seg.segments {
+            let _ = writeln!(
+                out,
+                "  {}: mass {:.1} g, volume {:.0} mm3",
+                p.name, p.mass, p.volume
+            );
+        }
+        if let Some([d, l]) = seg.rod {
+            let _ = writeln!(out, "  rod: {d} mm diameter, cut to {l:.1} mm");
+        }
+        for j in &seg.joints {
+            let _ = write!(
+                out,
+                "  joint {} at {:.1} mm: net section {:.1} mm2 of {:.1} mm2 ({} holes), Ixx {:.4e} mm4",
+                j.joint, j.radius, j.net.area, j.gross.area, j.holes, j.net.ixx
+            );
+            match &j.stress {
+                Some(s) => {
+                    let _ = writeln!(
+                        out,
+                        "; on it {:.1} MPa tension, {:.1} MPa compression (force {:.1} N, moment {:.0} N mm): safety factor {:.2} in the plastic alone",
+                        s.max_tension, s.max_compression, s.centrifugal_force, s.bending_moment, s.safety_factor
+                    );
+                }
+                None => {
+                    let _ = writeln!(out);
+                }
+            }
+        }
     }
     for w in written {
         let _ = writeln!(out, "  wrote {}", w.display());

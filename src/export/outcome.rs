@@ -127,11 +127,15 @@ enum Exact {
 /// The exact solid of a part, built from the same skin and feature dimensions as its
 /// mesh; a feature that cannot be exact becomes a note and no file.
 fn exact(outcome: &Outcome, part: &BuiltPart) -> Result<Result<Exact, StepNote>, ExportError> {
+    if let Some(reason) = joint_features(outcome, part) {
+        return Ok(Err(not_written(part, &reason)));
+    }
     let built = match part.kind {
         PartKind::Blade => blade(outcome).map(Exact::Solid),
         PartKind::Hub => hub(outcome).map(Exact::Solid),
         PartKind::Rotor => rotor(outcome),
         PartKind::OnePiece => one_piece(outcome).map(Exact::Solid),
+        PartKind::Segment { index, count } => return Ok(Err(segment_note(part, index, count))),
     };
     match built {
         Ok(e) => Ok(Ok(e)),
@@ -205,6 +209,26 @@ fn missing(feature: &str, problem: &str) -> BrepError {
         problem: problem.to_string(),
         fix: "this is a bug: please report it with the design file".to_string(),
     }
+}
+
+/// A segment gets no STEP file yet: its exact solid (split faces with the pin holes
+/// and the channel as inner loops) is not built, and a STEP file must never differ from
+/// the mesh.
+fn segment_note(part: &BuiltPart, index: usize, count: usize) -> StepNote {
+    not_written(
+        part,
+        &format!("the exact solid of segment {index} of {count} (split faces, spar channel, pin holes) is not built yet; use the mesh files"),
+    )
+}
+
+/// Why a blade or rotor part whose mesh carries the spar channel gets no STEP file (the
+/// exact solid would lack the channel), or `None`.
+fn joint_features(outcome: &Outcome, part: &BuiltPart) -> Option<String> {
+    let plan = outcome.segments.as_ref()?;
+    let carries = plan.count == 1 && plan.channel.is_some();
+    (carries && matches!(part.kind, PartKind::Blade | PartKind::Rotor)).then(|| {
+        "the blade's mesh carries the spar channel, which its exact solid does not have yet; use the mesh files".to_string()
+    })
 }
 
 fn not_written(part: &BuiltPart, reason: &str) -> StepNote {

@@ -31,37 +31,6 @@ pub struct JobItem<'a> {
     pub span: Option<SpanLayout>,
 }
 
-/// What goes to the printer for a built design: the outcome's print set (the one-piece
-/// rotor; or the blade once per blade and the hub), the blade's pose chosen with its
-/// axes and span regions and `pose` when given; `copies` overrides the blade's count.
-pub fn design_job<'a>(
-    outcome: &'a crate::pipeline::Outcome,
-    design: &crate::design::Design,
-    copies: Option<usize>,
-    pose: Option<super::PoseClass>,
-) -> Vec<JobItem<'a>> {
-    use crate::pipeline::PartKind;
-    let axes = super::BladeAxes::of_design(design);
-    let span = SpanLayout::of_blade(&outcome.blade.blade, design.blade.min_te_thickness);
-    outcome
-        .print_set()
-        .into_iter()
-        .map(|(kind, part, n)| {
-            let blade = kind == PartKind::Blade;
-            JobItem {
-                part,
-                copies: if blade { copies.unwrap_or(n) } else { n },
-                print: PrintOptions {
-                    axes: blade.then_some(axes),
-                    pose: if blade { pose } else { None },
-                    ..PrintOptions::DEFAULT
-                },
-                span: blade.then_some(span),
-            }
-        })
-        .collect()
-}
-
 /// Where a part sits and how: the answer of the orientation search, for people and
 /// scripts.
 #[derive(Debug, Clone, PartialEq, Serialize)]

@@ -9,6 +9,8 @@
 //!   is a branch and bound over "down" directions with the yaw solved exactly by rotating
 //!   calipers; its angular-resolution guarantee and the exact check on every vertex are
 //!   described in [`search`].
+//! * [`fit_extents`]: only whether points fit (the same search, no pose chosen), and
+//!   their extents in the orientation found; the segment planner asks it many times.
 //! * [`layout`]: several parts on as few plates as the heuristic finds, clearance kept;
 //!   [`plate_svg`] draws a plate seen from above.
 //! * [`plan_job`]: a whole print job (every checked part a design produces, with its
@@ -57,7 +59,7 @@ pub mod yaw;
 
 pub use advice::{advise, AdviceOptions, PrintAdvice, TrailingEdgeAdvice};
 pub use job::{
-    design_job, isometry, plan_job, FitFigures, JobItem, JobPlan, JobReport, PartFit, PlateItem,
+    isometry, plan_job, FitFigures, JobItem, JobPlan, JobReport, PartFit, PlateItem,
     MAX_COPIES,
 };
 pub use layout::{layout, layout_fitted, polygon_distance, Layout, LayoutOptions, Placed, Plate};
@@ -71,7 +73,7 @@ pub use printer::{
     preset, preset_names, Printer, PrinterSpec, Volume, DEFAULT_CLEARANCE, DEFAULT_MARGIN,
     DEFAULT_MIN_FEATURE, DEFAULT_NOZZLE, PRESETS,
 };
-pub use search::{fit_part, Fit, FitOptions, Placement};
+pub use search::{fit_extents, fit_part, Fit, FitOptions, Placement};
 pub use stl_in::{parse_stl, read_stl_part};
 pub use svg::plate_svg;
 pub use underside::{underside, Underside, UndersideOptions};

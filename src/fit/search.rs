@@ -924,6 +924,68 @@ impl<'a> PoseSearch<'a> {
     }
 }
 
+/// The extents on the printer's axes of the points in an orientation where they fit, or
+/// `None`; no pose is chosen:
+/// the branch and bound of [`fit_part`] (same method and guarantee) with the part's own
+/// axes tried too, the direction found checked exactly on every point, the subset grown
+/// when a point breaks it. Much cheaper than [`fit_part`] when only the answer is needed
+/// (planning segments); `false` when the search stops early without a fit.
+pub fn fit_extents(
+    points: &[Point3<f64>],
+    printer: &Printer,
+    opts: &FitOptions,
+) -> Option<[f64; 3]> {
+    let verts: Vec<Point3<f64>> = points
+        .iter()
+        .copied()
+        .filter(|v| v.coords.iter().all(|c| c.is_finite()))
+        .collect();
+    let bb = crate::mesh::Aabb::of_points(&verts)?;
+    let av = Avail::of(printer);
+    let centre = nalgebra::center(&bb.min, &bb.max);
+    let lip = 2.0
+        * verts
+            .iter()
+            .map(|v| (v - centre).norm())
+            .fold(0.0, f64::max);
+    let fit_limit = 1.0 + opts.tolerance / av.min();
+    let mut subset = hull::support_subset(&verts, opts.support_directions);
+    for round in 0..4 {
+        if round == 3 {
+            subset = (0..verts.len()).collect();
+        }
+        let pts: Vec<Vector3<f64>> = subset.iter().map(|&i| verts[i] - centre).collect();
+        let mut best = [Vector3::x(), Vector3::y(), Vector3::z()]
+            .into_iter()
+            .map(|up| evaluate(&pts, up, &av))
+            .min_by(|a, b| a.ratio.total_cmp(&b.ratio))
+            .expect("three axes");
+        if best.ratio > fit_limit {
+            let search = branch_and_bound(&pts, lip, &av, opts);
+            if search.best.ratio < best.ratio {
+                best = search.best;
+            }
+        }
+        if best.ratio > fit_limit {
+            return None;
+        }
+        let m = measure(
+            &verts,
+            rotation(&best.up, best.yaw),
+            printer,
+            &av,
+            opts.tolerance,
+        );
+        if m.fits {
+            return Some(m.size);
+        }
+        subset.extend(m.extremes);
+        subset.sort_unstable();
+        subset.dedup();
+    }
+    None
+}
+
 /// Down directions of the even lattice tried for the pose.
 const CANDIDATES: usize = 400;
 /// Most candidates checked on every vertex in one round.

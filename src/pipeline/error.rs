@@ -61,6 +61,9 @@ pub enum PipelineError {
         /// Every pair of bodies that meets.
         found: Vec<Interference>,
     },
+    /// The blade could not be split, or its channel or pins not placed.
+    #[error(transparent)]
+    Segment(crate::segment::SegmentError),
     /// A placed blade turns the wrong way or faces the wrong side.
     #[error("the rotation-sense check failed; nothing was written:\n{0}")]
     Hand(Box<HandReport>),
@@ -71,12 +74,15 @@ impl PipelineError {
     /// understood, but what it describes is not a valid solid or assembly. Everything
     /// else is bad input (exit code 2).
     pub fn is_failed_check(&self) -> bool {
-        matches!(
-            self,
-            PipelineError::Rejected { .. }
-                | PipelineError::Interference { .. }
-                | PipelineError::Hand(_)
-        )
+        match self {
+            PipelineError::Segment(e) => e.is_failed_check(),
+            other => matches!(
+                other,
+                PipelineError::Rejected { .. }
+                    | PipelineError::Interference { .. }
+                    | PipelineError::Hand(_)
+            ),
+        }
     }
 }
 

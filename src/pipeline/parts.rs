@@ -9,6 +9,7 @@ use crate::assembly::{
 use crate::check::{certify, interferences, CheckOptions, CheckedPart};
 use crate::design::{Design, DesignError};
 use crate::mesh::Part;
+use crate::segment::{SegmentError, SegmentMesh};
 use serde::Serialize;
 
 /// What a built part is.
@@ -24,16 +25,26 @@ pub enum PartKind {
     Rotor,
     /// Blades and hub as one solid (`<name>-rotor-one-piece.*`).
     OnePiece,
+    /// One spanwise segment of a blade split for the printer
+    /// (`<name>-segment-<index>-of-<count>.*`). The segments of one blade serve every
+    /// blade of the rotor (they are the same), so each is printed once per blade.
+    Segment {
+        /// Position from the root, from 1.
+        index: usize,
+        /// Segments per blade.
+        count: usize,
+    },
 }
 
 impl PartKind {
     /// The suffix this kind adds to the design name in file names.
-    pub fn suffix(self) -> &'static str {
+    pub fn suffix(self) -> String {
         match self {
-            PartKind::Blade => "",
-            PartKind::Hub => "-hub",
-            PartKind::Rotor => "-rotor",
-            PartKind::OnePiece => "-rotor-one-piece",
+            PartKind::Blade => String::new(),
+            PartKind::Hub => "-hub".into(),
+            PartKind::Rotor => "-rotor".into(),
+            PartKind::OnePiece => "-rotor-one-piece".into(),
+            PartKind::Segment { index, count } => format!("-segment-{index}-of-{count}"),
         }
     }
 
@@ -44,6 +55,7 @@ impl PartKind {
             PartKind::Hub => "hub",
             PartKind::Rotor => "assembled rotor",
             PartKind::OnePiece => "one-piece rotor",
+            PartKind::Segment { .. } => "blade segment",
         }
     }
 }
@@ -168,6 +180,62 @@ pub(super) fn one_piece_part(
         name,
         bodies: vec![body],
     })
+}
+
+/// The segments of a split blade, each checked with the genus its holes give it
+/// (checked two at a time: the checks of one segment do not depend on another's).
+pub(super) fn segment_parts(
+    name: &str,
+    segments: Vec<SegmentMesh>,
+    likely_causes: &[SteepStep],
+) -> Result<Vec<BuiltPart>, PipelineError> {
+    let jobs: Vec<(PartKind, Part, u32)> = segments
+        .into_iter()
+        .map(|s| {
+            let kind = PartKind::Segment {
+                index: s.index,
+                count: s.count,
+            };
+            let part = Part {
+                name: format!("{name}{}", kind.suffix()),
+                mesh: s.mesh,
+            };
+            (kind, part, s.genus)
+        })
+        .collect();
+    let half = jobs.len().div_ceil(2);
+    let mut jobs = jobs;
+    let second = jobs.split_off(half);
+    let run = |list: Vec<(PartKind, Part, u32)>| -> Result<Vec<BuiltPart>, PipelineError> {
+        list.into_iter()
+            .map(|(kind, part, genus)| {
+                let name = part.name.clone();
+                Ok(BuiltPart {
+                    kind,
+                    name,
+                    bodies: vec![checked(part, genus, likely_causes)?],
+                })
+            })
+            .collect()
+    };
+    let (a, b) = std::thread::scope(|scope| {
+        let other = scope.spawn(|| run(second));
+        let mine = run(jobs);
+        (mine, other.join())
+    });
+    let mut out = a?;
+    out.extend(b.unwrap_or_else(|p| std::panic::resume_unwind(p))?);
+    Ok(out)
+}
+
+/// A segment error: bad keys as problems of the design file, with their lines.
+pub(super) fn segment_error(design: &Design, e: SegmentError) -> PipelineError {
+    match e {
+        SegmentError::Key { key, message } => {
+            DesignError::one(design.problem(&key, message)).into()
+        }
+        other => PipelineError::Segment(other),
+    }
 }
 
 /// An assembly error as a problem of the design file, with its line.

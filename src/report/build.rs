@@ -235,6 +235,7 @@ pub fn build(
         sections,
         stress,
         stacking: input.blade.map(Blade::stacking),
+        segments: None,
         cautions: Report::cautions(),
     };
     Ok((report, pictures))

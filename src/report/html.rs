@@ -59,6 +59,7 @@ pub fn html(report: &Report, pictures: &Pictures) -> String {
     material(&mut h, report);
     mass_table(&mut h, report);
     balance(&mut h, report);
+    segments_html(&mut h, report);
     figures(&mut h, pictures);
     section_table(&mut h, report);
     stress(&mut h, report);
@@ -265,6 +266,70 @@ fn stress(h: &mut String, report: &Report) {
             number(r.max_compression, D::Mpa),
             number(r.safety_factor, D::Ratio),
             number(r.deflection, D::Mm)
+        );
+    }
+    h.push_str("</table></div>\n");
+}
+
+/// The segments of a split blade: masses, joints and their cautions.
+/// A split blade: segment masses, the rod, and the net section and stress at each joint.
+fn segments_html(h: &mut String, report: &Report) {
+    let Some(seg) = &report.segments else {
+        return;
+    };
+    h.push_str("<h2>Segments and joints</h2>\n<div class=\"caution\"><ul>\n");
+    for c in &seg.cautions {
+        let _ = writeln!(h, "<li>{}</li>", escape(c));
+    }
+    h.push_str(
+        "</ul></div>\n<div class=\"scroll\"><table><tr><th>segment</th><th>volume mm³</th>\
+         <th>mass g</th></tr>\n",
+    );
+    for p in &seg.segments {
+        let _ = writeln!(
+            h,
+            "<tr><td class=\"name\">{}</td><td>{}</td><td>{}</td></tr>",
+            escape(&p.name),
+            number(p.volume, D::Mm3),
+            number(p.mass, D::G)
+        );
+    }
+    h.push_str("</table></div>\n");
+    if let Some([d, l]) = seg.rod {
+        let _ = writeln!(
+            h,
+            "<p>Rod: {} mm diameter, cut to {} mm.</p>",
+            number(d, D::Mm),
+            number(l, D::Mm)
+        );
+    }
+    h.push_str(
+        "<div class=\"scroll\"><table><tr><th>joint</th><th>r mm</th><th>gross area mm²</th>\
+         <th>net area mm²</th><th>holes</th><th>net Ixx mm⁴</th><th>force N</th>\
+         <th>moment N mm</th><th>tension MPa</th><th>compression MPa</th>\
+         <th>safety factor</th></tr>\n",
+    );
+    for j in &seg.joints {
+        let (f, m, t, c, sf) = match &j.stress {
+            Some(s) => (
+                number(s.centrifugal_force, D::N),
+                number(s.bending_moment, D::NMm),
+                number(s.max_tension, D::Mpa),
+                number(s.max_compression, D::Mpa),
+                number(s.safety_factor, D::Ratio),
+            ),
+            None => ("-".into(), "-".into(), "-".into(), "-".into(), "-".into()),
+        };
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td>\
+             <td>{f}</td><td>{m}</td><td>{t}</td><td>{c}</td><td>{sf}</td></tr>",
+            j.joint,
+            number(j.radius, D::Mm),
+            number(j.gross.area, D::Mm2),
+            number(j.net.area, D::Mm2),
+            j.holes,
+            number(j.net.ixx, D::Mm4)
         );
     }
     h.push_str("</table></div>\n");

@@ -4,6 +4,8 @@
 //!   into a [`Report`] and draws the [`Pictures`].
 //! * [`html`] renders a self-contained HTML page with the pictures inline (the preview
 //!   PNG as a `data:` URI); its numbers follow [`numbers`].
+//! * [`segments_summary`]: a split blade's segment masses, the net section at each joint
+//!   (holes removed) and the stress there, with [`JOINT_CAUTIONS`].
 //! * The JSON report is `serde_json` of [`Report`]; its schema is [`SCHEMA`]
 //!   (`src/report/schema.json`).
 //! * [`SummaryRow`], [`summary_csv`], [`summary_json`]: one row per variant of a design
@@ -16,6 +18,7 @@
 mod build;
 mod datauri;
 mod html;
+mod joints;
 mod model;
 pub mod numbers;
 mod planform;
@@ -30,6 +33,7 @@ mod views;
 pub use build::{build, Pictures, PreviewPng, ReportError, ReportInput, STEPS};
 pub use datauri::{base64, data_uri};
 pub use html::html;
+pub use joints::{segments_summary, JointSection, JointStress, SegmentsSummary, JOINT_CAUTIONS};
 pub use model::{BalanceSummary, PartSummary, Report, Units, SCHEMA, SCHEMA_ID};
 pub use planform::{planform_svg, station_thickness};
 pub use preview::{preview_png, render, Image, Item, Marks, PreviewOptions, View};

@@ -175,6 +175,10 @@ pub struct Report {
     /// Stacking rule of the first part and how far its section centroids sit off the
     /// stacking axis (only when the report is made from a design).
     pub stacking: Option<StackingSummary>,
+    /// The segments of a split blade: masses, net sections at the joints and the stress
+    /// there (only when the report is made from a design whose blade is split).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub segments: Option<super::joints::SegmentsSummary>,
     /// Cautions.
     pub cautions: Vec<String>,
 }

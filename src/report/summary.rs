@@ -24,7 +24,7 @@ use serde::Serialize;
 
 use crate::design::{Design, Rotation};
 use crate::fit::{
-    design_job, plan_job, FitError, JobItem, LayoutOptions, PrintabilityOptions, PrinterSpec,
+    plan_job, FitError, JobItem, LayoutOptions, PrintabilityOptions, PrinterSpec,
 };
 use crate::pipeline::Outcome;
 use crate::props::{Fill, FilledMass, MassProps, Material, ShellOptions, StressTable};
@@ -119,7 +119,7 @@ fn fits(design: &Design, outcome: &Outcome) -> Result<Option<bool>, SummaryError
     };
     let origin = format!("{} [printer]", design.file().display());
     let printer = spec.resolve(&origin)?;
-    let job: Vec<JobItem<'_>> = design_job(outcome, design, None, None);
+    let job: Vec<JobItem<'_>> = crate::pipeline::design_job(outcome, design, None, None);
     let plan = plan_job(
         &job,
         &printer,
