@@ -30,6 +30,7 @@ pub mod interp;
 pub mod loft;
 pub mod mesh;
 pub mod mount;
+pub mod parallel;
 pub mod pipeline;
 pub mod planar;
 pub mod props;
