@@ -2,6 +2,7 @@
 
 use super::components::Dsu;
 use super::finding::{EdgeUse, Listed, VertexFans};
+use rayon::slice::ParallelSliceMut;
 
 /// What the edge and fan analysis found.
 #[derive(Debug, Clone, Default)]
@@ -47,7 +48,8 @@ pub(crate) fn analyse(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize, cap: u
             rec.push((key, t, k));
         }
     }
-    rec.sort_unstable();
+    // Parallel sort: the records are distinct, so the order is the same on any thread count.
+    rec.par_sort_unstable();
 
     let mut topo = Topology {
         faces: use_tri.len(),
@@ -120,7 +122,7 @@ pub(crate) fn analyse(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize, cap: u
             vc.push((triangles[t as usize][k as usize], corners.find(c)));
         }
     }
-    vc.sort_unstable();
+    vc.par_sort_unstable();
     vc.dedup();
     let mut i = 0;
     while i < vc.len() {
