@@ -35,6 +35,7 @@ pub mod pipeline;
 pub mod planar;
 pub mod props;
 pub mod report;
+pub mod rings;
 pub mod root;
 pub mod svg;
 pub mod tessellate;

@@ -57,24 +57,8 @@ impl Skin {
                 "sections have different point counts".into(),
             ));
         }
-        // Averaged chord-length parameters around the sections (9.2.5).
-        let mut ubar = vec![0.0; n];
-        for ring in rings {
-            let params = chord_params(ring)
-                .ok_or_else(|| LoftError::Coincident("around a section".into()))?;
-            for (a, p) in ubar.iter_mut().zip(params) {
-                *a += p / m as f64;
-            }
-        }
-        let mut vbar = vec![0.0; m];
-        for k in 0..n {
-            let column: Vec<Point3<f64>> = rings.iter().map(|r| r[k]).collect();
-            let params = chord_params(&column)
-                .ok_or_else(|| LoftError::Coincident("along the span".into()))?;
-            for (a, p) in vbar.iter_mut().zip(params) {
-                *a += p / n as f64;
-            }
-        }
+        let ubar = section_parameters(rings)?;
+        let vbar = span_parameters(rings)?;
         let p = 3.min(n - 1);
         let q = 3.min(m - 1);
         let knots_u = averaged_knots(&ubar, p);
@@ -355,6 +339,47 @@ impl Skin {
             table,
         }
     }
+}
+
+/// The skin parameters `u` of the section points: chord-length parameters of every
+/// ring, averaged over the rings (NURBS Book section 9.2.5). [`Skin::interpolate`]
+/// passes through point `k` of ring `l` at `(u_k, v_l)`, with `v_l` from
+/// [`span_parameters`].
+///
+/// # Errors
+/// [`LoftError::Coincident`] when two neighbouring points of a ring coincide.
+pub fn section_parameters(rings: &[Vec<Point3<f64>>]) -> Result<Vec<f64>, LoftError> {
+    let m = rings.len();
+    let n = rings.first().map_or(0, Vec::len);
+    let mut ubar = vec![0.0; n];
+    for ring in rings {
+        let params =
+            chord_params(ring).ok_or_else(|| LoftError::Coincident("around a section".into()))?;
+        for (a, p) in ubar.iter_mut().zip(params) {
+            *a += p / m as f64;
+        }
+    }
+    Ok(ubar)
+}
+
+/// The skin parameters `v` of the rings: chord-length parameters of every column of
+/// section points, averaged over the columns (NURBS Book section 9.2.5).
+///
+/// # Errors
+/// [`LoftError::Coincident`] when two neighbouring rings have a point in common.
+pub fn span_parameters(rings: &[Vec<Point3<f64>>]) -> Result<Vec<f64>, LoftError> {
+    let m = rings.len();
+    let n = rings.first().map_or(0, Vec::len);
+    let mut vbar = vec![0.0; m];
+    for k in 0..n {
+        let column: Vec<Point3<f64>> = rings.iter().map(|r| r[k]).collect();
+        let params =
+            chord_params(&column).ok_or_else(|| LoftError::Coincident("along the span".into()))?;
+        for (a, p) in vbar.iter_mut().zip(params) {
+            *a += p / n as f64;
+        }
+    }
+    Ok(vbar)
 }
 
 /// Chord-length parameters on [0, 1] of a polyline (NURBS Book eq. 9.5).

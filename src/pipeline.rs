@@ -332,14 +332,15 @@ pub fn build(design: &Design, opts: &BuildOptions) -> Result<Model, PipelineErro
         tip.length = tip.length.map(|l| l * design.length_to_mm);
         blade = blade.with_tip(tip)?;
     }
-    let span = blade.tip_radius() - blade.root_radius();
-    let ring_radii = blade.ring_radii(span / 48.0);
-    let rings: Vec<_> = ring_radii.iter().map(|&r| blade.ring(r).points).collect();
-    let skin = Skin::interpolate(&rings, blade.le_index())?;
+    // Rings placed so the skin follows the blade model within a share of the tolerance;
+    // the mesh gets the rest (crate::rings).
+    let tolerance = opts.tolerance.unwrap_or(design.blade.tolerance);
+    let placed = crate::rings::place_rings(&blade, tolerance)?;
     let tess_opts = TessellationOptions {
-        tolerance: opts.tolerance.unwrap_or(design.blade.tolerance),
+        tolerance: placed.mesh_tolerance(tolerance),
         ..TessellationOptions::DEFAULT
     };
+    let (ring_radii, skin) = (placed.radii, placed.skin);
     let mut tessellation = tessellate(&skin, &tess_opts)?;
     if let Some(root) = blade.root() {
         let (ring, cap) = (
