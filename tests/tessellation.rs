@@ -304,3 +304,42 @@ fn printed_deviation_bounds_a_dense_independent_sampling() {
     // The bound is tight: within a few percent of what dense sampling finds.
     assert!(printed <= 1.1 * own, "printed {printed}, dense {own}");
 }
+
+#[test]
+fn work_estimate_is_within_a_factor_1_5_of_the_real_tessellation() {
+    // The estimate comes before meshing (from the skin alone); the real count is the
+    // tessellation's. Test blade, demo turbine and desk fan, 0.03 to 0.001 mm.
+    let load = |p: &str| spanwright::design::load(std::path::Path::new(p)).unwrap();
+    let designs = [
+        parse_toml_str(BLADE, None).unwrap(),
+        load("examples/garden-turbine.toml"),
+        load("examples/desk-fan.toml"),
+    ];
+    for design in &designs {
+        for tol in [0.03, 0.01, 0.003, 0.001] {
+            let m = build(
+                design,
+                &BuildOptions {
+                    tolerance: Some(tol),
+                },
+            )
+            .unwrap();
+            let t = &m.tessellation;
+            // The grid's tolerance: what the ring placement left for the mesh.
+            let mesh_tol = tol
+                - spanwright::rings::skin_to_design(&m.blade, &m.skin, &m.ring_radii)
+                    .unwrap()
+                    .max;
+            let e = spanwright::tessellate::estimate(&m.skin, mesh_tol);
+            let grid = 2.0 * ((t.us.len() - 1) * (t.vs.len() - 1)) as f64;
+            let ratio = grid / e.triangles;
+            assert!(
+                (1.0 / 1.5..=1.5).contains(&ratio),
+                "{} at {tol}: {grid} grid triangles, estimated {:.0}",
+                design.name,
+                e.triangles
+            );
+            assert!(e.peak_bytes > e.triangles);
+        }
+    }
+}
