@@ -690,9 +690,10 @@ impl Blade {
         polygon_area(&self.outline(r).0)
     }
 
-    /// Radii at which to sample rings for the loft, root face to tip end: every station,
+    /// Radii at which to start placing the loft's rings ([`crate::rings::place_rings`] adds
+    /// more where the skin strays from the blade), root face to tip end: every station,
     /// evenly spaced radii between stations no farther apart than `max_spacing` (mm), at
-    /// least 4 rings along the shank, 16 along the transition, and rings clustered toward
+    /// least 2 rings along the shank, 4 along the transition, and rings clustered toward
     /// the end of a round tip (even steps of the elliptic angle).
     pub fn ring_radii(&self, max_spacing: f64) -> Vec<f64> {
         let mut out = Vec::new();
@@ -709,9 +710,9 @@ impl Blade {
         if let Some(root) = &self.root {
             let shank_end = self.radii[0] - root.transition_length;
             if shank_end > self.skin_start() {
-                push_range(&mut out, self.skin_start(), shank_end, 4);
+                push_range(&mut out, self.skin_start(), shank_end, 2);
             }
-            push_range(&mut out, shank_end, self.radii[0], 16);
+            push_range(&mut out, shank_end, self.radii[0], 4);
         }
         for w in self.radii.windows(2) {
             push_range(&mut out, w[0], w[1], 1);
@@ -719,7 +720,7 @@ impl Blade {
         if self.tip.shape == TipShape::Round {
             let (last, l) = (self.tip_radius(), self.tip_length());
             let phi_end = TIP_END_SIN.asin();
-            let k = 24;
+            let k = 8;
             for i in 1..=k {
                 let phi = phi_end * i as f64 / k as f64;
                 out.push(last + l * phi.sin() / TIP_END_SIN);

@@ -57,24 +57,8 @@ impl Skin {
                 "sections have different point counts".into(),
             ));
         }
-        // Averaged chord-length parameters around the sections (9.2.5).
-        let mut ubar = vec![0.0; n];
-        for ring in rings {
-            let params = chord_params(ring)
-                .ok_or_else(|| LoftError::Coincident("around a section".into()))?;
-            for (a, p) in ubar.iter_mut().zip(params) {
-                *a += p / m as f64;
-            }
-        }
-        let mut vbar = vec![0.0; m];
-        for k in 0..n {
-            let column: Vec<Point3<f64>> = rings.iter().map(|r| r[k]).collect();
-            let params = chord_params(&column)
-                .ok_or_else(|| LoftError::Coincident("along the span".into()))?;
-            for (a, p) in vbar.iter_mut().zip(params) {
-                *a += p / n as f64;
-            }
-        }
+        let ubar = section_parameters(rings)?;
+        let vbar = span_parameters(rings)?;
         let p = 3.min(n - 1);
         let q = 3.min(m - 1);
         let knots_u = averaged_knots(&ubar, p);
@@ -110,15 +94,47 @@ impl Skin {
     /// Surface point from precomputed basis values (fast grid evaluation).
     pub fn eval_basis(&self, bu: &Basis, bv: &Basis) -> Point3<f64> {
         let mut s = nalgebra::Vector3::zeros();
-        for (a, nu) in bu.values.iter().enumerate() {
+        for (a, nu) in bu.values().iter().enumerate() {
             let row = &self.control[bu.first + a];
             let mut t = nalgebra::Vector3::zeros();
-            for (b, nv) in bv.values.iter().enumerate() {
+            for (b, nv) in bv.values().iter().enumerate() {
                 t += row[bv.first + b].coords * *nv;
             }
             s += t * *nu;
         }
         Point3::from(s)
+    }
+
+    /// Control points of the iso-curve `v = const` whose basis values are `bv`: a
+    /// B-spline curve in `u` on [`Skin::knots_u`] of degree [`Skin::degree_u`] (evaluate
+    /// it with [`eval_curve`]). Evaluating a grid through iso-curves costs `degree + 1`
+    /// terms per point instead of `(degree + 1)²`.
+    pub fn iso_v_control(&self, bv: &Basis) -> Vec<Point3<f64>> {
+        self.control
+            .iter()
+            .map(|row| {
+                let mut t = nalgebra::Vector3::zeros();
+                for (b, nv) in bv.values().iter().enumerate() {
+                    t += row[bv.first + b].coords * *nv;
+                }
+                Point3::from(t)
+            })
+            .collect()
+    }
+
+    /// Control points of the iso-curve `u = const` whose basis values are `bu`: a
+    /// B-spline curve in `v` on [`Skin::knots_v`] of degree [`Skin::degree_v`].
+    pub fn iso_u_control(&self, bu: &Basis) -> Vec<Point3<f64>> {
+        let m = self.control[0].len();
+        (0..m)
+            .map(|j| {
+                let mut t = nalgebra::Vector3::zeros();
+                for (a, nu) in bu.values().iter().enumerate() {
+                    t += self.control[bu.first + a][j].coords * *nu;
+                }
+                Point3::from(t)
+            })
+            .collect()
     }
 
     /// The iso-curve at `v` sampled at the given `u` values.
@@ -157,6 +173,215 @@ impl Skin {
     }
 }
 
+/// Upper bounds of the second partial derivatives of a [`Skin`] over each pair of knot
+/// spans, from the control points of the derivative surfaces.
+///
+/// The derivative `S_uu` of a B-spline surface is itself a B-spline surface, of degree
+/// `(p - 2, q)`, whose control points are second differences of the surface's
+/// (Piegl & Tiller, *The NURBS Book*, 2nd ed., 1997, section 3.4, equations 3.17 and
+/// algorithm A3.5); likewise `S_uv` (degree `(p - 1, q - 1)`) and `S_vv`. B-spline basis
+/// functions are non-negative and sum to one, so on a pair of knot spans each derivative
+/// is a convex combination of the `(degree + 1)²` control points that act there, and
+/// its length is at most the largest of their lengths (the convex hull property, NURBS
+/// Book section 3.4, property P3.4 applied to the derivative surface).
+#[derive(Debug, Clone)]
+pub struct DerivativeBounds {
+    knots_u: Vec<f64>,
+    knots_v: Vec<f64>,
+    p: usize,
+    q: usize,
+    /// Span counts (`n - p + 1` in u, `m - q + 1` in v).
+    su: usize,
+    sv: usize,
+    /// `[max |S_uu|, max |S_uv|, max |S_vv|]` per span pair, `u` major.
+    table: Vec<[f64; 3]>,
+}
+
+impl DerivativeBounds {
+    /// `[max |S_uu|, max |S_uv|, max |S_vv|]` over the parameter rectangle
+    /// `[u0, u1] x [v0, v1]` (every knot span pair it touches).
+    pub fn over(&self, u0: f64, u1: f64, v0: f64, v1: f64) -> [f64; 3] {
+        let (s0, s1) = (
+            find_span(&self.knots_u, self.p, u0) - self.p,
+            find_span(&self.knots_u, self.p, u1) - self.p,
+        );
+        let (t0, t1) = (
+            find_span(&self.knots_v, self.q, v0) - self.q,
+            find_span(&self.knots_v, self.q, v1) - self.q,
+        );
+        self.over_spans(s0..=s1, t0..=t1)
+    }
+
+    /// The bounds over ranges of span indices (0 = the first span of each direction),
+    /// see [`DerivativeBounds::span_range`].
+    pub fn over_spans(
+        &self,
+        su: std::ops::RangeInclusive<usize>,
+        sv: std::ops::RangeInclusive<usize>,
+    ) -> [f64; 3] {
+        let mut m = [0.0f64; 3];
+        for s in su {
+            let row = &self.table[s.min(self.su - 1) * self.sv..][..self.sv];
+            for t in sv.clone() {
+                let e = row[t.min(self.sv - 1)];
+                for k in 0..3 {
+                    m[k] = m[k].max(e[k]);
+                }
+            }
+        }
+        m
+    }
+
+    /// The span indices (0-based) an interval `[a, b]` of `u` (`dir = 0`) or `v` (`dir =
+    /// 1`) touches.
+    pub fn span_range(&self, dir: usize, a: f64, b: f64) -> std::ops::RangeInclusive<usize> {
+        let (k, p) = if dir == 0 {
+            (&self.knots_u, self.p)
+        } else {
+            (&self.knots_v, self.q)
+        };
+        find_span(k, p, a) - p..=find_span(k, p, b) - p
+    }
+}
+
+/// First-derivative control points along one direction of a control net
+/// (`net[i][j]`, differences taken in `i`): `d (P[i+1] - P[i]) / (k[i+d+1] - k[i+1])`,
+/// NURBS Book equation 3.17 (a zero knot difference gives a zero point).
+fn difference_net(
+    net: &[Vec<nalgebra::Vector3<f64>>],
+    knots: &[f64],
+    d: usize,
+) -> Vec<Vec<nalgebra::Vector3<f64>>> {
+    (0..net.len().saturating_sub(1))
+        .map(|i| {
+            let den = knots[i + d + 1] - knots[i + 1];
+            let f = if den > 0.0 { d as f64 / den } else { 0.0 };
+            net[i + 1]
+                .iter()
+                .zip(&net[i])
+                .map(|(a, b)| (a - b) * f)
+                .collect()
+        })
+        .collect()
+}
+
+fn transpose<T: Copy>(net: &[Vec<T>]) -> Vec<Vec<T>> {
+    let cols = net.first().map_or(0, Vec::len);
+    (0..cols)
+        .map(|j| net.iter().map(|r| r[j]).collect())
+        .collect()
+}
+
+impl Skin {
+    /// Bounds of the second partial derivatives per knot span pair (see
+    /// [`DerivativeBounds`]). A direction of degree below two has zero second
+    /// derivative along it.
+    pub fn derivative_bounds(&self) -> DerivativeBounds {
+        let (p, q) = (self.degree_u, self.degree_v);
+        let net: Vec<Vec<nalgebra::Vector3<f64>>> = self
+            .control
+            .iter()
+            .map(|r| r.iter().map(|c| c.coords).collect())
+            .collect();
+        let n = net.len() - 1;
+        let m = net[0].len() - 1;
+        let (su, sv) = (n - p + 1, m - q + 1);
+        // Norms of the derivative nets, indexed like the NURBS Book's P^(k,l)_{i,j}.
+        let norms = |d: Vec<Vec<nalgebra::Vector3<f64>>>| -> Vec<Vec<f64>> {
+            d.iter()
+                .map(|r| r.iter().map(|x| x.norm()).collect())
+                .collect()
+        };
+        let du = difference_net(&net, &self.knots_u, p);
+        let duu = (p >= 2).then(|| norms(difference_net(&du, &self.knots_u[1..], p - 1)));
+        let duv = (p >= 1 && q >= 1).then(|| {
+            norms(transpose(&difference_net(
+                &transpose(&du),
+                &self.knots_v,
+                q,
+            )))
+        });
+        let dvv = (q >= 2).then(|| {
+            let dv = difference_net(&transpose(&net), &self.knots_v, q);
+            norms(transpose(&difference_net(&dv, &self.knots_v[1..], q - 1)))
+        });
+        let window = |d: &Option<Vec<Vec<f64>>>,
+                      is: std::ops::RangeInclusive<usize>,
+                      js: std::ops::RangeInclusive<usize>| {
+            let Some(d) = d else { return 0.0 };
+            let mut mx = 0.0f64;
+            for i in is {
+                for j in js.clone() {
+                    mx = mx.max(d[i][j]);
+                }
+            }
+            mx
+        };
+        let mut table = Vec::with_capacity(su * sv);
+        for s in p..=n {
+            for t in q..=m {
+                // Active derivative control points on span (s, t): degree (p-a, q-b)
+                // functions on the knot vector without its first and last a knots.
+                table.push([
+                    window(&duu, s - p..=s - 2.min(s), t - q..=t),
+                    window(&duv, s - p..=s - 1.min(s), t - q..=t - 1.min(t)),
+                    window(&dvv, s - p..=s, t - q..=t - 2.min(t)),
+                ]);
+            }
+        }
+        DerivativeBounds {
+            knots_u: self.knots_u.clone(),
+            knots_v: self.knots_v.clone(),
+            p,
+            q,
+            su,
+            sv,
+            table,
+        }
+    }
+}
+
+/// The skin parameters `u` of the section points: chord-length parameters of every
+/// ring, averaged over the rings (NURBS Book section 9.2.5). [`Skin::interpolate`]
+/// passes through point `k` of ring `l` at `(u_k, v_l)`, with `v_l` from
+/// [`span_parameters`].
+///
+/// # Errors
+/// [`LoftError::Coincident`] when two neighbouring points of a ring coincide.
+pub fn section_parameters(rings: &[Vec<Point3<f64>>]) -> Result<Vec<f64>, LoftError> {
+    let m = rings.len();
+    let n = rings.first().map_or(0, Vec::len);
+    let mut ubar = vec![0.0; n];
+    for ring in rings {
+        let params =
+            chord_params(ring).ok_or_else(|| LoftError::Coincident("around a section".into()))?;
+        for (a, p) in ubar.iter_mut().zip(params) {
+            *a += p / m as f64;
+        }
+    }
+    Ok(ubar)
+}
+
+/// The skin parameters `v` of the rings: chord-length parameters of every column of
+/// section points, averaged over the columns (NURBS Book section 9.2.5).
+///
+/// # Errors
+/// [`LoftError::Coincident`] when two neighbouring rings have a point in common.
+pub fn span_parameters(rings: &[Vec<Point3<f64>>]) -> Result<Vec<f64>, LoftError> {
+    let m = rings.len();
+    let n = rings.first().map_or(0, Vec::len);
+    let mut vbar = vec![0.0; m];
+    for k in 0..n {
+        let column: Vec<Point3<f64>> = rings.iter().map(|r| r[k]).collect();
+        let params =
+            chord_params(&column).ok_or_else(|| LoftError::Coincident("along the span".into()))?;
+        for (a, p) in vbar.iter_mut().zip(params) {
+            *a += p / n as f64;
+        }
+    }
+    Ok(vbar)
+}
+
 /// Chord-length parameters on [0, 1] of a polyline (NURBS Book eq. 9.5).
 fn chord_params(points: &[Point3<f64>]) -> Option<Vec<f64>> {
     let mut acc = vec![0.0; points.len()];
@@ -185,31 +410,34 @@ fn averaged_knots(params: &[f64], p: usize) -> Vec<f64> {
     knots
 }
 
-/// Nonzero B-spline basis values at one parameter: `values[a]` belongs to control index
-/// `first + a` (NURBS Book algorithms A2.1 FindSpan and A2.2 BasisFuns).
-#[derive(Debug, Clone)]
+/// Highest degree of a [`Skin`] in either direction (bicubic).
+pub const MAX_DEGREE: usize = 3;
+
+/// Nonzero B-spline basis values at one parameter: `values()[a]` belongs to control index
+/// `first + a` (NURBS Book algorithms A2.1 FindSpan and A2.2 BasisFuns). Held inline (no
+/// allocation), for degrees up to [`MAX_DEGREE`].
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Basis {
     /// Index of the first control point with a nonzero basis function.
     pub first: usize,
-    /// The `degree + 1` nonzero basis values (they sum to 1).
-    pub values: Vec<f64>,
+    values: [f64; MAX_DEGREE + 1],
+    len: usize,
 }
 
 impl Basis {
     /// Basis values of the clamped knot vector `knots` of degree `p` at `t` (clamped to
     /// the parameter range).
+    ///
+    /// # Panics
+    /// When `p` exceeds [`MAX_DEGREE`] (a programming error: skins are at most bicubic).
     pub fn at(knots: &[f64], p: usize, t: f64) -> Basis {
+        assert!(p <= MAX_DEGREE, "B-spline degree {p} above {MAX_DEGREE}");
         let n = knots.len() - p - 2; // last control index
+        let span = find_span(knots, p, t);
         let t = t.clamp(knots[p], knots[n + 1]);
-        let span = if t >= knots[n + 1] {
-            n
-        } else {
-            // Largest i with knots[i] <= t, within [p, n].
-            (knots.partition_point(|&k| k <= t) - 1).clamp(p, n)
-        };
-        let mut values = vec![0.0; p + 1];
-        let mut left = vec![0.0; p + 1];
-        let mut right = vec![0.0; p + 1];
+        let mut values = [0.0; MAX_DEGREE + 1];
+        let mut left = [0.0; MAX_DEGREE + 1];
+        let mut right = [0.0; MAX_DEGREE + 1];
         values[0] = 1.0;
         for j in 1..=p {
             left[j] = t - knots[span + 1 - j];
@@ -226,8 +454,37 @@ impl Basis {
         Basis {
             first: span - p,
             values,
+            len: p + 1,
         }
     }
+
+    /// The `degree + 1` nonzero basis values (they sum to 1).
+    pub fn values(&self) -> &[f64] {
+        &self.values[..self.len]
+    }
+}
+
+/// The knot span index `s` (`knots[s] <= t < knots[s + 1]`, within `[p, n]`) of a
+/// clamped knot vector of degree `p`; `t` is clamped to the parameter range first (NURBS
+/// Book algorithm A2.1).
+pub fn find_span(knots: &[f64], p: usize, t: f64) -> usize {
+    let n = knots.len() - p - 2; // last control index
+    let t = t.clamp(knots[p], knots[n + 1]);
+    if t >= knots[n + 1] {
+        n
+    } else {
+        (knots.partition_point(|&k| k <= t) - 1).clamp(p, n)
+    }
+}
+
+/// Point of the B-spline curve with control points `control` at the parameter whose
+/// basis values are `b` (from [`Basis::at`] on the curve's knot vector).
+pub fn eval_curve(control: &[Point3<f64>], b: &Basis) -> Point3<f64> {
+    let mut s = nalgebra::Vector3::zeros();
+    for (a, w) in b.values().iter().enumerate() {
+        s += control[b.first + a].coords * *w;
+    }
+    Point3::from(s)
 }
 
 /// The banded collocation matrix of a curve interpolation, factored once (LU without
@@ -249,7 +506,7 @@ impl Banded {
         let mut a = vec![0.0; n * width];
         for (i, &t) in params.iter().enumerate() {
             let b = Basis::at(knots, p, t);
-            for (k, v) in b.values.iter().enumerate() {
+            for (k, v) in b.values().iter().enumerate() {
                 let j = b.first + k;
                 if j + w >= i && j <= i + w {
                     a[i * width + (j + w - i)] = *v;

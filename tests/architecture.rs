@@ -14,6 +14,7 @@ const STAGES: &[(&str, u32)] = &[
     ("svg", 0),
     ("interp", 0),
     ("planar", 0),
+    ("parallel", 0),
     // Input.
     ("design", 1),
     // Sections; drafting a table (before the pipeline, from design values only).
@@ -24,6 +25,7 @@ const STAGES: &[(&str, u32)] = &[
     ("blade", 4),
     // Surface.
     ("loft", 5),
+    ("rings", 5),
     // Mesh.
     ("mesh", 6),
     ("tessellate", 7),

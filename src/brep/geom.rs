@@ -172,7 +172,7 @@ pub(crate) fn interpolate(points: &[Point3], params: &[f64]) -> Option<BSplineCu
     let mut a = nalgebra::DMatrix::<f64>::zeros(n, n);
     for (i, &t) in params.iter().enumerate() {
         let b = crate::loft::Basis::at(&knots, p, t);
-        for (k, v) in b.values.iter().enumerate() {
+        for (k, v) in b.values().iter().enumerate() {
             a[(i, b.first + k)] = *v;
         }
     }

@@ -200,7 +200,7 @@ impl<'a> SpanMap<'a> {
     /// `z(v)`.
     pub(crate) fn z(&self, v: f64) -> f64 {
         let b = Basis::at(&self.skin.knots_v, self.skin.degree_v, v);
-        b.values
+        b.values()
             .iter()
             .enumerate()
             .map(|(k, w)| w * self.z[b.first + k])

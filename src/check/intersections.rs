@@ -1,23 +1,37 @@
-//! Self-intersection search: a uniform grid over triangle bounding boxes, then the exact
-//! pair tests of [`super::tritri`].
+//! Self-intersection search: a bounding volume hierarchy over the triangles, traversed
+//! against itself, then the exact pair tests of [`super::tritri`].
 //!
-//! Each triangle is entered in every grid cell its bounding box overlaps; the entries are
-//! sorted by cell, and the triangles of each cell are paired. A pair overlapping in
-//! several cells is tested only in the cell holding the lowest corner of the intersection
-//! of their boxes, so every pair is tested once without a hash set. Triangles whose box
-//! spans very many cells (long cap triangles, say) are kept out of the grid and tested
-//! against all others by box overlap.
+//! **Hierarchy.** The triangles are ordered along a Morton (Z-order) curve through the
+//! centres of their bounding boxes (G. M. Morton, IBM technical report, 1966; the
+//! ordering used by linear BVH builders, Lauterbach et al., "Fast BVH Construction on
+//! GPUs", Eurographics 2009), cut into leaves of [`LEAF`] consecutive triangles, and a
+//! balanced binary tree of boxes is built over the leaves. Spatially close triangles end
+//! up in nearby leaves whatever their shape, so the long thin triangles of a blade and
+//! long cap triangles need no tuning.
+//!
+//! **Traversal.** Every unordered pair of triangles is met exactly once: a node's pairs
+//! are its two children's own pairs plus the pairs across them, and a pair of nodes is
+//! only descended when their boxes overlap. At the leaves, a pair whose triangle boxes
+//! overlap gets the exact test.
+//!
+//! **Work**: `O(n log n)` to build for `n` triangles (a sort), and for the traversal one
+//! box test per pair of overlapping nodes plus one exact test per pair of overlapping
+//! triangle boxes: `O(n log n)` at most for a surface mesh whose triangles are small
+//! against the part (each triangle's box meets a bounded number of others), close to
+//! `O(n)` in practice (see `benches/check.rs`). A triangle reaching across the part (a
+//! cap triangle) costs the nodes its box meets. The search is generic (blades with mount
+//! features, rotors and hubs all come here), so it relies on no tessellation grid. The
+//! work is split over threads at the top of the tree; the result is the same on any
+//! number of threads.
 
 use super::tritri::{corner_pair_meets, disjoint_pair_meets, edge_pair_meets};
 use crate::mesh::TriMesh;
 use nalgebra::Vector3;
 
-/// At most this many cells along each axis.
-const MAX_CELLS_PER_AXIS: f64 = 1024.0;
-/// Triangles whose box spans more cells than this are tested outside the grid.
-const MAX_CELLS_PER_TRIANGLE: u64 = 512;
-/// Grid entries from which the pair tests are spread over threads.
-const PARALLEL_ENTRIES: usize = 1 << 17;
+/// Triangles per leaf.
+const LEAF: usize = 4;
+/// Tree levels below the root whose subtrees are handed to separate tasks.
+const PARALLEL_LEVELS: u32 = 10;
 
 #[derive(Clone, Copy)]
 struct Boxed {
@@ -26,8 +40,20 @@ struct Boxed {
 }
 
 impl Boxed {
+    const EMPTY: Boxed = Boxed {
+        min: [f64::INFINITY; 3],
+        max: [f64::NEG_INFINITY; 3],
+    };
+
     fn overlaps(&self, o: &Boxed) -> bool {
         (0..3).all(|k| self.min[k] <= o.max[k] && o.min[k] <= self.max[k])
+    }
+
+    fn union(&self, o: &Boxed) -> Boxed {
+        Boxed {
+            min: std::array::from_fn(|k| self.min[k].min(o.min[k])),
+            max: std::array::from_fn(|k| self.max[k].max(o.max[k])),
+        }
     }
 }
 
@@ -36,12 +62,195 @@ impl Boxed {
 /// count only when folded flat onto each other; pairs sharing one vertex count when they
 /// meet anywhere else.
 pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
-    search(mesh, active, PARALLEL_ENTRIES)
+    search(mesh, active)
 }
 
-/// [`self_intersections`], spreading the pair tests over threads from `parallel_from`
-/// grid entries on.
-fn search(mesh: &TriMesh, active: &[bool], parallel_from: usize) -> Vec<[usize; 2]> {
+/// Spreads the 10 low bits of `x` to every third bit.
+fn spread(x: u64) -> u64 {
+    let mut x = x & 0x1f_ffff;
+    x = (x | (x << 32)) & 0x1f_0000_0000_ffff;
+    x = (x | (x << 16)) & 0x1f_0000_ff00_00ff;
+    x = (x | (x << 8)) & 0x100f_00f0_0f00_f00f;
+    x = (x | (x << 4)) & 0x10c3_0c30_c30c_30c3;
+    x = (x | (x << 2)) & 0x1249_2492_4924_9249;
+    x
+}
+
+/// The hierarchy: triangles in Morton order and a complete binary tree of boxes over
+/// their leaves (node 1 is the root, node `i` has children `2i` and `2i + 1`, leaf `l`
+/// is node `first_leaf + l`).
+struct Bvh {
+    order: Vec<u32>,
+    boxes: Vec<Boxed>,
+    first_leaf: usize,
+}
+
+impl Bvh {
+    fn build(tri_boxes: &[Boxed], ids: &[u32]) -> Bvh {
+        use rayon::prelude::*;
+        let (lo, hi) = ids
+            .par_iter()
+            .map(|&t| (tri_boxes[t as usize].min, tri_boxes[t as usize].max))
+            .reduce(
+                || ([f64::INFINITY; 3], [f64::NEG_INFINITY; 3]),
+                |a, b| {
+                    (
+                        std::array::from_fn(|k| a.0[k].min(b.0[k])),
+                        std::array::from_fn(|k| a.1[k].max(b.1[k])),
+                    )
+                },
+            );
+        let scale: [f64; 3] = std::array::from_fn(|k| {
+            let e = hi[k] - lo[k];
+            if e > 0.0 {
+                ((1u64 << 21) - 1) as f64 / e
+            } else {
+                0.0
+            }
+        });
+        let mut keyed: Vec<(u64, u32)> = ids
+            .par_iter()
+            .map(|&t| {
+                let b = &tri_boxes[t as usize];
+                let q = |k: usize| ((0.5 * (b.min[k] + b.max[k]) - lo[k]) * scale[k]) as u64;
+                (spread(q(0)) | (spread(q(1)) << 1) | (spread(q(2)) << 2), t)
+            })
+            .collect();
+        keyed.par_sort_unstable();
+        let order: Vec<u32> = keyed.into_iter().map(|(_, t)| t).collect();
+        let leaves = order.len().div_ceil(LEAF);
+        let first_leaf = leaves.next_power_of_two();
+        let mut boxes = vec![Boxed::EMPTY; 2 * first_leaf];
+        boxes[first_leaf..first_leaf + leaves]
+            .par_iter_mut()
+            .zip(order.par_chunks(LEAF))
+            .for_each(|(b, chunk)| {
+                *b = chunk
+                    .iter()
+                    .fold(Boxed::EMPTY, |acc, &t| acc.union(&tri_boxes[t as usize]));
+            });
+        for i in (1..first_leaf).rev() {
+            boxes[i] = boxes[2 * i].union(&boxes[2 * i + 1]);
+        }
+        Bvh {
+            order,
+            boxes,
+            first_leaf,
+        }
+    }
+
+    /// The triangles of leaf node `i`.
+    fn leaf(&self, i: usize) -> &[u32] {
+        let l = i - self.first_leaf;
+        let start = (l * LEAF).min(self.order.len());
+        &self.order[start..(start + LEAF).min(self.order.len())]
+    }
+}
+
+/// The traversal, with the exact test and the triangle boxes.
+struct Pairs<'a> {
+    bvh: &'a Bvh,
+    tri_boxes: &'a [Boxed],
+    mesh: &'a TriMesh,
+}
+
+impl Pairs<'_> {
+    fn test(&self, a: u32, b: u32, found: &mut Vec<[usize; 2]>) {
+        if self.tri_boxes[a as usize].overlaps(&self.tri_boxes[b as usize])
+            && pair_meets(
+                self.mesh,
+                self.mesh.triangles[a as usize],
+                self.mesh.triangles[b as usize],
+            )
+        {
+            found.push([a.min(b) as usize, a.max(b) as usize]);
+        }
+    }
+
+    /// Pairs within node `i`.
+    fn within(&self, i: usize, level: u32, found: &mut Vec<[usize; 2]>) {
+        if self.bvh.boxes[i].min[0] > self.bvh.boxes[i].max[0] {
+            return; // empty
+        }
+        if i >= self.bvh.first_leaf {
+            let l = self.bvh.leaf(i);
+            for (x, &a) in l.iter().enumerate() {
+                for &b in &l[x + 1..] {
+                    self.test(a, b, found);
+                }
+            }
+            return;
+        }
+        if level < PARALLEL_LEVELS {
+            let (mut f1, mut f2, mut f3) = (Vec::new(), Vec::new(), Vec::new());
+            rayon::join(
+                || {
+                    rayon::join(
+                        || self.within(2 * i, level + 1, &mut f1),
+                        || self.within(2 * i + 1, level + 1, &mut f2),
+                    )
+                },
+                || self.across(2 * i, 2 * i + 1, level + 1, &mut f3),
+            );
+            found.extend(f1);
+            found.extend(f2);
+            found.extend(f3);
+        } else {
+            self.within(2 * i, level + 1, found);
+            self.within(2 * i + 1, level + 1, found);
+            self.across(2 * i, 2 * i + 1, level + 1, found);
+        }
+    }
+
+    /// Pairs with one triangle under node `a` and the other under node `b` (same level).
+    fn across(&self, a: usize, b: usize, level: u32, found: &mut Vec<[usize; 2]>) {
+        if !self.bvh.boxes[a].overlaps(&self.bvh.boxes[b]) {
+            return;
+        }
+        if a >= self.bvh.first_leaf {
+            for &x in self.bvh.leaf(a) {
+                for &y in self.bvh.leaf(b) {
+                    self.test(x, y, found);
+                }
+            }
+            return;
+        }
+        let kids = [
+            (2 * a, 2 * b),
+            (2 * a, 2 * b + 1),
+            (2 * a + 1, 2 * b),
+            (2 * a + 1, 2 * b + 1),
+        ];
+        if level < PARALLEL_LEVELS {
+            let mut parts: [Vec<[usize; 2]>; 4] = Default::default();
+            let [p0, p1, p2, p3] = &mut parts;
+            rayon::join(
+                || {
+                    rayon::join(
+                        || self.across(kids[0].0, kids[0].1, level + 1, p0),
+                        || self.across(kids[1].0, kids[1].1, level + 1, p1),
+                    )
+                },
+                || {
+                    rayon::join(
+                        || self.across(kids[2].0, kids[2].1, level + 1, p2),
+                        || self.across(kids[3].0, kids[3].1, level + 1, p3),
+                    )
+                },
+            );
+            for p in parts {
+                found.extend(p);
+            }
+        } else {
+            for (x, y) in kids {
+                self.across(x, y, level + 1, found);
+            }
+        }
+    }
+}
+
+fn search(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
+    use rayon::prelude::*;
     let tris = &mesh.triangles;
     let ids: Vec<u32> = (0..tris.len() as u32)
         .filter(|&t| active[t as usize])
@@ -49,13 +258,10 @@ fn search(mesh: &TriMesh, active: &[bool], parallel_from: usize) -> Vec<[usize; 
     if ids.len() < 2 {
         return Vec::new();
     }
-    let boxes: Vec<Boxed> = tris
-        .iter()
+    let tri_boxes: Vec<Boxed> = tris
+        .par_iter()
         .map(|t| {
-            let mut b = Boxed {
-                min: [f64::INFINITY; 3],
-                max: [f64::NEG_INFINITY; 3],
-            };
+            let mut b = Boxed::EMPTY;
             for &i in t {
                 if let Some(p) = mesh.vertices.get(i as usize) {
                     for k in 0..3 {
@@ -67,147 +273,14 @@ fn search(mesh: &TriMesh, active: &[bool], parallel_from: usize) -> Vec<[usize; 
             b
         })
         .collect();
-
-    // Grid: cells about the mean largest box side, capped per axis.
-    let mut lo = [f64::INFINITY; 3];
-    let mut hi = [f64::NEG_INFINITY; 3];
-    let mut mean = 0.0;
-    for &t in &ids {
-        let b = &boxes[t as usize];
-        for k in 0..3 {
-            lo[k] = lo[k].min(b.min[k]);
-            hi[k] = hi[k].max(b.max[k]);
-        }
-        mean += (0..3).map(|k| b.max[k] - b.min[k]).fold(0.0, f64::max);
-    }
-    mean /= ids.len() as f64;
-    let extent = (0..3).map(|k| hi[k] - lo[k]).fold(0.0, f64::max);
-    let h = mean.max(extent / MAX_CELLS_PER_AXIS).max(f64::MIN_POSITIVE);
-    let dims: [u64; 3] = std::array::from_fn(|k| {
-        (((hi[k] - lo[k]) / h) as u64 + 1).min(MAX_CELLS_PER_AXIS as u64 + 1)
-    });
-    let cell_of = |x: f64, k: usize| (((x - lo[k]) / h) as u64).min(dims[k] - 1);
-    let cell_id = |c: [u64; 3]| c[0] + dims[0] * (c[1] + dims[1] * c[2]);
-
-    // Entries (cell << 32 | triangle), and the triangles too large for the grid.
-    let mut entries: Vec<u64> = Vec::with_capacity(ids.len() * 4);
-    let mut big: Vec<u32> = Vec::new();
-    for &t in &ids {
-        let b = &boxes[t as usize];
-        let c0: [u64; 3] = std::array::from_fn(|k| cell_of(b.min[k], k));
-        let c1: [u64; 3] = std::array::from_fn(|k| cell_of(b.max[k], k));
-        let n = (0..3).map(|k| c1[k] - c0[k] + 1).product::<u64>();
-        if n > MAX_CELLS_PER_TRIANGLE {
-            big.push(t);
-            continue;
-        }
-        for z in c0[2]..=c1[2] {
-            for y in c0[1]..=c1[1] {
-                for x in c0[0]..=c1[0] {
-                    entries.push((cell_id([x, y, z]) << 32) | t as u64);
-                }
-            }
-        }
-    }
-    entries.sort_unstable();
-
-    // Cell coordinates of each box's lowest corner: a pair is tested only in the cell of
-    // the lowest corner of the overlap of the two boxes, which is the per-axis maximum.
-    let low: Vec<[u16; 3]> = boxes
-        .iter()
-        .map(|b| {
-            if b.min[0].is_finite() {
-                std::array::from_fn(|k| cell_of(b.min[k], k) as u16)
-            } else {
-                [0; 3]
-            }
-        })
-        .collect();
-    // Split the sorted entries at cell boundaries and test the parts on separate threads.
-    // Small meshes stay on this thread: spawning costs more than it saves.
-    let parts = if entries.len() < parallel_from {
-        1
-    } else {
-        std::thread::available_parallelism()
-            .map_or(1, |n| n.get())
-            .clamp(1, 8)
+    let bvh = Bvh::build(&tri_boxes, &ids);
+    let pairs = Pairs {
+        bvh: &bvh,
+        tri_boxes: &tri_boxes,
+        mesh,
     };
-    let mut cuts = vec![0];
-    for p in 1..parts {
-        let mut c = (entries.len() * p / parts).max(*cuts.last().unwrap_or(&0));
-        while c > 0 && c < entries.len() && entries[c] >> 32 == entries[c - 1] >> 32 {
-            c += 1;
-        }
-        cuts.push(c);
-    }
-    cuts.push(entries.len());
-    let pairs_in = |run: &[u64]| -> Vec<[usize; 2]> {
-        let mut found = Vec::new();
-        let mut i = 0;
-        while i < run.len() {
-            let cell = run[i] >> 32;
-            let mut j = i + 1;
-            while j < run.len() && run[j] >> 32 == cell {
-                j += 1;
-            }
-            let cc = [
-                (cell % dims[0]) as u16,
-                ((cell / dims[0]) % dims[1]) as u16,
-                (cell / (dims[0] * dims[1])) as u16,
-            ];
-            for x in i..j {
-                let a = run[x] as u32;
-                let (ba, la) = (&boxes[a as usize], low[a as usize]);
-                for &e in &run[x + 1..j] {
-                    let b = e as u32;
-                    let lb = low[b as usize];
-                    if (0..3).any(|k| la[k].max(lb[k]) != cc[k]) || !ba.overlaps(&boxes[b as usize])
-                    {
-                        continue;
-                    }
-                    if pair_meets(mesh, tris[a as usize], tris[b as usize]) {
-                        found.push([a.min(b) as usize, a.max(b) as usize]);
-                    }
-                }
-            }
-            i = j;
-        }
-        found
-    };
-    let mut found: Vec<[usize; 2]> = if parts == 1 {
-        pairs_in(&entries)
-    } else {
-        std::thread::scope(|s| {
-            let handles: Vec<_> = cuts
-                .windows(2)
-                .map(|w| {
-                    let run = &entries[w[0]..w[1]];
-                    s.spawn(move || pairs_in(run))
-                })
-                .collect();
-            handles
-                .into_iter()
-                .flat_map(|h| h.join().unwrap_or_default())
-                .collect()
-        })
-    };
-    let test = |a: u32, b: u32, found: &mut Vec<[usize; 2]>| {
-        if pair_meets(mesh, tris[a as usize], tris[b as usize]) {
-            found.push([a.min(b) as usize, a.max(b) as usize]);
-        }
-    };
-    // Large triangles against everything else (each unordered pair once).
-    for (n, &a) in big.iter().enumerate() {
-        let ba = &boxes[a as usize];
-        for &b in &ids {
-            if b == a || (big[..n].contains(&b)) {
-                continue;
-            }
-            if ba.overlaps(&boxes[b as usize]) {
-                test(a, b, &mut found);
-            }
-        }
-    }
+    let mut found = Vec::new();
+    pairs.within(1, 0, &mut found);
     found.sort_unstable();
     found.dedup();
     found
@@ -301,7 +374,7 @@ mod tests {
     }
 
     #[test]
-    fn grid_finds_exactly_the_pairs_of_an_exhaustive_search() {
+    fn hierarchy_finds_exactly_the_pairs_of_an_exhaustive_search() {
         // Reference: testing every pair of triangles (no broad phase at all).
         let m = crumpled(40, 20, 0.08);
         let active = vec![true; m.len()];
@@ -316,11 +389,11 @@ mod tests {
         assert!(all.len() > 20, "the crumpled mesh should cross itself");
         // The large triangle cuts the sphere.
         assert!(all.iter().any(|p| p[1] == m.len() - 1));
-        assert_eq!(search(&m, &active, usize::MAX), all);
-        assert_eq!(search(&m, &active, 0), all);
+        assert_eq!(search(&m, &active), all);
+        assert_eq!(search(&m, &active), all);
         // And a smooth sphere has none.
         let smooth = crumpled(40, 20, 0.0);
         let inner: Vec<bool> = (0..smooth.len()).map(|t| t + 1 < smooth.len()).collect();
-        assert!(search(&smooth, &inner, 0).is_empty());
+        assert!(search(&smooth, &inner).is_empty());
     }
 }

@@ -2,6 +2,7 @@
 
 use super::components::Dsu;
 use super::finding::{EdgeUse, Listed, VertexFans};
+use rayon::slice::ParallelSliceMut;
 
 /// What the edge and fan analysis found.
 #[derive(Debug, Clone, Default)]
@@ -59,7 +60,8 @@ fn directed_edges(triangles: &[[u32; 3]], use_tri: &[u32]) -> Vec<(u64, u32, u8)
             rec.push((key, t, k));
         }
     }
-    rec.sort_unstable();
+    // Parallel sort: the records are distinct, so the order is the same on any thread count.
+    rec.par_sort_unstable();
     rec
 }
 
@@ -151,7 +153,7 @@ impl Topology {
                 vc.push((triangles[t as usize][k as usize], corners.find(c)));
             }
         }
-        vc.sort_unstable();
+        vc.par_sort_unstable();
         vc.dedup();
         for run in runs(&vc, |x| x.0) {
             self.vertices += 1;

@@ -20,6 +20,10 @@ type V = Vector3<f64>;
 
 /// Relative tolerance below which a signed distance to a plane counts as zero.
 const PLANE_EPS: f64 = 1e-12;
+/// Planes closer to parallel than this (sine of the angle between them) are tested as
+/// one plane: the line where they meet is then too ill-conditioned to place intervals
+/// on (two thin cells of a straight shank, flat to 1e-10, gave a false crossing).
+const PARALLEL_SIN: f64 = 1e-6;
 
 /// True when the closed triangles `p` and `q` (no shared vertex) have a common point.
 /// Both must be non-degenerate.
@@ -44,10 +48,10 @@ pub(crate) fn disjoint_pair_meets(p: &[V; 3], q: &[V; 3]) -> bool {
     if same_strict_side(&dq) {
         return false;
     }
-    if dp == [0.0; 3] || dq == [0.0; 3] {
+    let dir = n1.cross(&n2);
+    if dp == [0.0; 3] || dq == [0.0; 3] || dir.norm() <= PARALLEL_SIN * n1.norm() * n2.norm() {
         return coplanar_meets(&n1, &p, &q);
     }
-    let dir = n1.cross(&n2);
     let (a0, a1) = interval(&dir, &p, &dp);
     let (b0, b1) = interval(&dir, &q, &dq);
     a0.max(b0) <= a1.min(b1)
@@ -63,7 +67,7 @@ pub(crate) fn corner_pair_meets(p: &[V; 3], q: &[V; 3]) -> bool {
     let n1 = e1.cross(&e2);
     let n2 = f1.cross(&f2);
     let dir = n1.cross(&n2);
-    if dir.norm() <= PLANE_EPS * n1.norm() * n2.norm() {
+    if dir.norm() <= PARALLEL_SIN * n1.norm() * n2.norm() {
         // Coplanar: two convex corners with a common apex overlap exactly when one holds an
         // edge direction of the other.
         in_cone(&e1, &e2, &n1, &f1)
@@ -237,6 +241,28 @@ mod tests {
         assert!(disjoint_pair_meets(&inner, &t));
         let apart = [v(3.0, 3.0, 0.0), v(4.0, 3.0, 0.0), v(3.0, 4.0, 0.0)];
         assert!(!disjoint_pair_meets(&t, &apart));
+    }
+
+    #[test]
+    fn nearly_coplanar_cells_of_a_straight_shank_are_apart() {
+        // Regression (property test): triangles of two neighbouring grid cells on a
+        // straight shank, flat to 1e-11 mm, meeting only the row line between the cells
+        // at different points; the line where their planes meet is ill-conditioned.
+        let a = [
+            v(8.246825035104656, 0.13810586004787245, 32.96202369074034),
+            v(8.24682503510485, 0.1381058600473365, 35.1169484087158),
+            v(8.247624668562054, 0.07683961722083055, 32.962023690740345),
+        ];
+        let b = [
+            v(8.247624668562334, 0.07683961722005397, 35.1169484087158),
+            v(8.246825035108145, 0.1381058600382856, 36.1944107678961),
+            v(8.24762466856711, 0.07683961720693981, 36.1944107678961),
+        ];
+        assert!(!disjoint_pair_meets(&a, &b));
+        assert!(!disjoint_pair_meets(&b, &a));
+        // A copy of `a` slid 1 mm along the strip overlaps it.
+        let up = a.map(|x| x + v(0.0, 0.0, 1.0));
+        assert!(disjoint_pair_meets(&a, &up));
     }
 
     #[test]

@@ -2,6 +2,7 @@
 //! 1989): every triangle of every part in one solid, unit normals by the right-hand rule.
 
 use crate::check::CheckedPart;
+use crate::mesh::TriMesh;
 use nalgebra::{Point3, Vector3};
 use std::io::{self, Write};
 
@@ -36,66 +37,88 @@ fn to_f32(v: [f64; 3]) -> [f32; 3] {
     [v[0] as f32, v[1] as f32, v[2] as f32]
 }
 
-/// The facets of all parts as STL triangles (coordinates and normals rounded to `f32`).
-fn facets(parts: &[CheckedPart]) -> Vec<stl_io::Triangle> {
-    let total = parts.iter().map(|p| p.mesh().len()).sum();
-    let mut out = Vec::with_capacity(total);
-    for part in parts {
-        let m = part.mesh();
-        for t in 0..m.len() {
-            let [a, b, c] = m.corners(t);
-            let n = unit_normal(&a, &b, &c);
-            out.push(stl_io::Triangle {
-                normal: stl_io::Normal::new(to_f32([n.x, n.y, n.z])),
-                vertices: [a, b, c].map(|p| stl_io::Vertex::new(to_f32([p.x, p.y, p.z]))),
-            });
+/// One facet as STL stores it: unit normal and three vertices, rounded to `f32`.
+fn facet(m: &TriMesh, t: usize) -> [[f32; 3]; 4] {
+    let [a, b, c] = m.corners(t);
+    let n = unit_normal(&a, &b, &c);
+    [
+        to_f32([n.x, n.y, n.z]),
+        to_f32([a.x, a.y, a.z]),
+        to_f32([b.x, b.y, b.z]),
+        to_f32([c.x, c.y, c.z]),
+    ]
+}
+
+/// Every facet of every part, in order, computed as it is read (no copy of the mesh).
+fn facets<'a>(meshes: &'a [&'a TriMesh]) -> impl Iterator<Item = [[f32; 3]; 4]> + 'a {
+    meshes
+        .iter()
+        .flat_map(|m| (0..m.len()).map(move |t| facet(m, t)))
+}
+
+/// Facets encoded per parallel task, and tasks per batch per thread: a batch is
+/// encoded in parallel, then written in order, so at most one batch (a few megabytes) is
+/// held besides the mesh.
+const FACETS_PER_TASK: usize = 1 << 14;
+const TASKS_PER_THREAD: usize = 4;
+
+/// The 50 bytes of each facet of `m` in `range`: normal and three vertices as
+/// little-endian `f32`, then a zero attribute count.
+fn encode(m: &TriMesh, range: std::ops::Range<usize>) -> Vec<u8> {
+    let mut out = Vec::with_capacity(range.len() * 50);
+    for t in range {
+        for v in facet(m, t) {
+            for x in v {
+                out.extend_from_slice(&x.to_le_bytes());
+            }
         }
+        out.extend_from_slice(&[0, 0]);
     }
     out
 }
 
-/// Passes bytes through but replaces the first 80 (the header stl_io writes as zeros)
-/// with [`STL_HEADER`].
-struct HeaderPatch<'a> {
-    inner: &'a mut dyn Write,
-    pos: usize,
-}
-
-impl Write for HeaderPatch<'_> {
-    fn write(&mut self, buf: &[u8]) -> io::Result<usize> {
-        if self.pos < STL_HEADER.len() {
-            let n = buf.len().min(STL_HEADER.len() - self.pos);
-            self.inner.write_all(&STL_HEADER[self.pos..self.pos + n])?;
-            self.pos += n;
-            return Ok(n);
-        }
-        self.inner.write(buf)
-    }
-
-    fn flush(&mut self) -> io::Result<()> {
-        self.inner.flush()
-    }
-}
-
 /// Writes all parts as one binary STL: [`STL_HEADER`], the facet count (u32,
 /// little-endian), then 50 bytes per facet (normal, three vertices as little-endian f32,
-/// a zero attribute count). Written through stl_io.
+/// a zero attribute count), the layout stl_io reads and writes. Streamed: facets are
+/// encoded in parallel batches and written in order, so memory stays at a few megabytes
+/// whatever the mesh size, and the bytes do not depend on the thread count.
 ///
 /// More than `u32::MAX` facets is an `InvalidInput` error.
 pub fn write_stl(w: &mut dyn Write, parts: &[CheckedPart]) -> io::Result<()> {
-    let tris = facets(parts);
-    if u32::try_from(tris.len()).is_err() {
+    let meshes: Vec<&TriMesh> = parts.iter().map(CheckedPart::mesh).collect();
+    write_meshes(w, &meshes)
+}
+
+/// [`write_stl`] on meshes.
+fn write_meshes(w: &mut dyn Write, meshes: &[&TriMesh]) -> io::Result<()> {
+    use rayon::prelude::*;
+    let total: usize = meshes.iter().map(|m| m.len()).sum();
+    let Ok(count) = u32::try_from(total) else {
         return Err(io::Error::new(
             io::ErrorKind::InvalidInput,
             format!(
-                "{} triangles do not fit a binary STL (at most {}); split the parts or use 3MF",
-                tris.len(),
+                "{total} triangles do not fit a binary STL (at most {}); split the parts or use 3MF",
                 u32::MAX
             ),
         ));
+    };
+    w.write_all(&STL_HEADER)?;
+    w.write_all(&count.to_le_bytes())?;
+    let batch = FACETS_PER_TASK * TASKS_PER_THREAD * rayon::current_num_threads();
+    for &m in meshes {
+        for start in (0..m.len()).step_by(batch) {
+            let end = (start + batch).min(m.len());
+            let tasks: Vec<std::ops::Range<usize>> = (start..end)
+                .step_by(FACETS_PER_TASK)
+                .map(|a| a..(a + FACETS_PER_TASK).min(end))
+                .collect();
+            let bytes: Vec<Vec<u8>> = tasks.into_par_iter().map(|r| encode(m, r)).collect();
+            for b in bytes {
+                w.write_all(&b)?;
+            }
+        }
     }
-    let mut patched = HeaderPatch { inner: w, pos: 0 };
-    stl_io::write_stl(&mut patched, tris.iter())
+    Ok(())
 }
 
 /// A name usable after `solid`: printable ASCII without spaces; anything else becomes
@@ -146,19 +169,20 @@ pub fn write_stl_ascii(w: &mut dyn Write, name: &str, parts: &[CheckedPart]) -> 
     let name = solid_name(name);
     writeln!(w, "solid {name}")?;
     let mut line = String::with_capacity(256);
-    for t in facets(parts) {
+    let meshes: Vec<&TriMesh> = parts.iter().map(CheckedPart::mesh).collect();
+    for [normal, a, b, c] in facets(&meshes) {
         line.clear();
         line.push_str("  facet normal ");
-        for (k, c) in t.normal.0.iter().enumerate() {
+        for (k, c) in normal.iter().enumerate() {
             if k > 0 {
                 line.push(' ');
             }
             push_f32(&mut line, *c);
         }
         line.push_str("\n    outer loop\n");
-        for v in &t.vertices {
+        for v in [a, b, c] {
             line.push_str("      vertex ");
-            for (k, c) in v.0.iter().enumerate() {
+            for (k, c) in v.iter().enumerate() {
                 if k > 0 {
                     line.push(' ');
                 }
@@ -192,6 +216,40 @@ mod tests {
         s.clear();
         push_f32(&mut s, -12.5);
         assert_eq!(s, "-1.25e+01");
+    }
+
+    #[test]
+    fn streamed_bytes_equal_stl_io_over_many_batches() {
+        // Reference writer: stl_io (general-purpose STL library) on the same facets, with
+        // our header in place of its zero header. 300 000 triangles span several batches.
+        use crate::mesh::TriMesh;
+        use nalgebra::Point3;
+        let mut m = TriMesh::new();
+        let n = 150_000u32;
+        for i in 0..=n {
+            let a = i as f64 * 1e-3;
+            m.push_vertex(Point3::new(a.cos() * (10.0 + a), a.sin(), 0.3 * a));
+            m.push_vertex(Point3::new(a.cos() * (10.0 + a), a.sin(), 0.3 * a + 1.0));
+        }
+        for i in 0..n {
+            let (a, b, c, d) = (2 * i, 2 * i + 1, 2 * i + 2, 2 * i + 3);
+            m.triangles.push([a, c, b]);
+            m.triangles.push([b, c, d]);
+        }
+        let meshes = [&m, &m];
+        let mut ours = Vec::new();
+        write_meshes(&mut ours, &meshes).unwrap();
+        let tris: Vec<stl_io::Triangle> = facets(&meshes)
+            .map(|[n, a, b, c]| stl_io::Triangle {
+                normal: stl_io::Normal::new(n),
+                vertices: [a, b, c].map(stl_io::Vertex::new),
+            })
+            .collect();
+        let mut theirs = Vec::new();
+        stl_io::write_stl(&mut theirs, tris.iter()).unwrap();
+        theirs[..80].copy_from_slice(&STL_HEADER);
+        assert_eq!(ours.len(), 84 + 50 * 600_000);
+        assert!(ours == theirs);
     }
 
     #[test]

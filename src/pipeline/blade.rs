@@ -8,6 +8,7 @@ use crate::blade::{Blade, BladeError};
 use crate::design::Design;
 use crate::loft::Skin;
 use crate::mesh::{Part, TriMesh};
+use crate::rings::place_rings;
 use crate::root::{RootSpec, TipSpec};
 use crate::tessellate::{max_deviation, tessellate, Tessellation, TessellationOptions};
 
@@ -30,8 +31,20 @@ pub struct BuiltBlade {
     pub tessellation: Tessellation,
     /// The mesh tolerance used, mm.
     pub tolerance: f64,
-    /// Measured largest distance between the skin and its mesh, mm.
+    /// Proven upper bound of the distance from the skin to its mesh, mm
+    /// ([`crate::tessellate::max_deviation`]).
     pub deviation: f64,
+    /// Largest distance from the skin to the blade the design describes, measured between
+    /// the rings, mm ([`crate::rings::skin_to_design`]).
+    pub skin_to_design: f64,
+}
+
+impl BuiltBlade {
+    /// How far the mesh may be from the design's blade, mm: the mesh-to-skin bound plus
+    /// the skin-to-design distance (triangle inequality). At most the tolerance.
+    pub fn mesh_to_design(&self) -> f64 {
+        self.deviation + self.skin_to_design
+    }
 }
 
 impl BuiltBlade {
@@ -77,17 +90,16 @@ pub fn build_blade_timed(
     }
     let (sections, te_changes) = timings.time("sections", || resolve_sections(design))?;
     let blade = timings.time("blade", || blade_model(design, &sections))?;
-    let (ring_radii, skin) = timings.time("skin", || {
-        let span = blade.tip_radius() - blade.root_radius();
-        let ring_radii = blade.ring_radii(span / 48.0);
-        let rings: Vec<_> = ring_radii.iter().map(|&r| blade.ring(r).points).collect();
-        Skin::interpolate(&rings, blade.le_index()).map(|skin| (ring_radii, skin))
-    })?;
+    // Rings placed so the skin follows the blade model within a share of the tolerance;
+    // the mesh gets the rest (see `crate::rings`).
     let tolerance = opts.tolerance.unwrap_or(design.blade.tolerance);
+    let placed = timings.time("skin", || place_rings(&blade, tolerance))?;
     let tess_opts = TessellationOptions {
-        tolerance,
+        tolerance: placed.mesh_tolerance(tolerance),
         ..TessellationOptions::DEFAULT
     };
+    let skin_to_design = placed.skin_to_design.max;
+    let (ring_radii, skin) = (placed.radii, placed.skin);
     let mut tessellation = timings.time("tessellation", || tessellate(&skin, &tess_opts))?;
     let deviation = timings.time("deviation", || {
         max_deviation(&skin, &tessellation.us, &tessellation.vs, 2)
@@ -107,6 +119,7 @@ pub fn build_blade_timed(
         tessellation,
         tolerance,
         deviation,
+        skin_to_design,
     })
 }
 

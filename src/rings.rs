@@ -1,0 +1,261 @@
+//! Where the skin's rings go along the span, so that the skin follows the blade the design
+//! describes within a set share of the tolerance, and how far it is from it.
+//!
+//! The skin ([`crate::loft::Skin`]) interpolates placed sections ("rings",
+//! [`Blade::ring`]); between rings it is a cubic spline along the span, while the blade
+//! model is the design's own law (monotone cubic between stations, the root transition,
+//! the elliptic round tip). Where sections change fast (a chord stepping between close
+//! stations, a tip closing), a spline through widely spaced rings strays from that law.
+//!
+//! **Placement.** Rings start at every station and every region boundary, with even
+//! steps of at most a sixteenth of the span between them ([`Blade::ring_radii`]); then,
+//! round after round, the skin is built and compared with the blade model at the
+//! midpoint of every ring interval, and every interval where the two differ by more
+//! than [`SHARE`] of the tolerance is halved, until none does.
+//!
+//! **Skin-to-design distance** ([`skin_to_design`]): at a radius `r`, every section point
+//! `k` of the blade model, `Blade::ring(r).points[k]`, against the skin point with the
+//! same section parameter on the skin's cut at `z = r` (the skin's cross-sections are
+//! planar: every ring lies in its plane `z = r`, so the skin's `z` depends on `v` alone).
+//! The largest such distance over the midpoints and quarter points of every ring
+//! interval is reported; at the rings themselves the skin passes through the model's
+//! points exactly. The mesh then only needs to stay within the rest of the tolerance of
+//! the skin ([`RingPlacement::mesh_tolerance`]), so that the distance from the mesh to
+//! the design, at most mesh-to-skin plus skin-to-design, stays within the tolerance.
+
+use crate::blade::Blade;
+use crate::loft::{eval_curve, section_parameters, span_parameters, Basis, LoftError, Skin};
+use nalgebra::Point3;
+use rayon::prelude::*;
+use std::collections::HashMap;
+
+/// Share of the tolerance the skin may stray from the blade model.
+pub const SHARE: f64 = 0.1;
+/// Most rings placed (placement stops there; the measured distance says how close it
+/// came).
+pub const MAX_RINGS: usize = 4096;
+/// Rounds of interval halving.
+const MAX_ROUNDS: usize = 24;
+/// Where each ring interval is compared with the model when measuring, as fractions of
+/// the interval.
+const PROBES: [f64; 3] = [0.25, 0.5, 0.75];
+/// Where each ring interval is compared with the model while placing rings.
+const PLACING: [f64; 1] = [0.5];
+
+/// Rings placed for a tolerance, with the skin through them.
+#[derive(Debug, Clone)]
+pub struct RingPlacement {
+    /// Ring radii, root to tip, mm.
+    pub radii: Vec<f64>,
+    /// The skin interpolating the rings.
+    pub skin: Skin,
+    /// The measured skin-to-design distance.
+    pub skin_to_design: SkinToDesign,
+}
+
+impl RingPlacement {
+    /// The tolerance left for the mesh against the skin: `tolerance` minus the measured
+    /// skin-to-design distance (at least half the tolerance).
+    pub fn mesh_tolerance(&self, tolerance: f64) -> f64 {
+        (tolerance - self.skin_to_design.max).max(0.5 * tolerance)
+    }
+}
+
+/// How far the skin is from the blade model (see the module docs), mm.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct SkinToDesign {
+    /// Largest distance found.
+    pub max: f64,
+    /// Radius where it was found, mm.
+    pub at_radius: f64,
+    /// Radii compared.
+    pub radii_compared: usize,
+}
+
+/// The skin's cut at `z = r`: its `v` parameter, found by bisection between the two rings
+/// around `r` (the skin's `z` passes through each ring's radius at the ring's `v`).
+fn v_at(skin: &Skin, vbar: &[f64], radii: &[f64], r: f64) -> f64 {
+    let z: Vec<Point3<f64>> = skin.control[0].clone();
+    let zat = |v: f64| eval_curve(&z, &Basis::at(&skin.knots_v, skin.degree_v, v)).z;
+    let i = radii.partition_point(|&x| x <= r).clamp(1, radii.len() - 1) - 1;
+    let (mut lo, mut hi) = (vbar[i], vbar[i + 1]);
+    let rising = radii[i + 1] >= radii[i];
+    for _ in 0..64 {
+        let mid = 0.5 * (lo + hi);
+        if (zat(mid) < r) == rising {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
+/// Largest distance between the model's section points at `r` (`design`) and the skin
+/// points with the same section parameters (`ubases`) on the skin's cut at `v`.
+fn distance_at(skin: &Skin, ubases: &[Basis], v: f64, design: &[Point3<f64>]) -> f64 {
+    let c = skin.iso_v_control(&Basis::at(&skin.knots_v, skin.degree_v, v));
+    ubases
+        .iter()
+        .zip(design)
+        .map(|(b, p)| (eval_curve(&c, b) - p).norm())
+        .fold(0.0, f64::max)
+}
+
+/// Measures the skin-to-design distance of `skin`, built on the rings of `blade` at
+/// `radii`, at the midpoint and quarter points of every ring interval (see the module
+/// docs).
+///
+/// # Errors
+/// [`LoftError`] when the rings cannot be parametrised (coincident points).
+pub fn skin_to_design(
+    blade: &Blade,
+    skin: &Skin,
+    radii: &[f64],
+) -> Result<SkinToDesign, LoftError> {
+    let rings: Vec<Vec<Point3<f64>>> = radii.par_iter().map(|&r| blade.ring(r).points).collect();
+    let mut cache = HashMap::new();
+    let worst = Comparison::new(skin, &rings, radii)?.intervals(blade, &PROBES, &mut cache);
+    Ok(summary(radii, &worst, PROBES.len()))
+}
+
+fn summary(radii: &[f64], worst: &[(f64, f64)], probes: usize) -> SkinToDesign {
+    let (max, at_radius) = worst.iter().fold(
+        (0.0, radii[0]),
+        |m, &(d, r)| if d > m.0 { (d, r) } else { m },
+    );
+    SkinToDesign {
+        max,
+        at_radius,
+        radii_compared: worst.len() * probes,
+    }
+}
+
+/// A skin with the parameters of its rings, ready to be compared with the model.
+struct Comparison<'a> {
+    skin: &'a Skin,
+    radii: &'a [f64],
+    vbar: Vec<f64>,
+    ubases: Vec<Basis>,
+}
+
+impl<'a> Comparison<'a> {
+    fn new(
+        skin: &'a Skin,
+        rings: &[Vec<Point3<f64>>],
+        radii: &'a [f64],
+    ) -> Result<Self, LoftError> {
+        let ubar = section_parameters(rings)?;
+        let ubases = ubar
+            .iter()
+            .map(|&u| Basis::at(&skin.knots_u, skin.degree_u, u))
+            .collect();
+        Ok(Comparison {
+            skin,
+            radii,
+            vbar: span_parameters(rings)?,
+            ubases,
+        })
+    }
+
+    /// The largest distance in each ring interval and the radius where it was found;
+    /// the model's rings at the probe radii are kept in `cache` (keyed by the radius'
+    /// bits) for the next round.
+    fn intervals(
+        &self,
+        blade: &Blade,
+        at: &[f64],
+        cache: &mut HashMap<u64, Vec<Point3<f64>>>,
+    ) -> Vec<(f64, f64)> {
+        let probes: Vec<f64> = self
+            .radii
+            .windows(2)
+            .flat_map(|w| at.iter().map(move |f| w[0] + f * (w[1] - w[0])))
+            .collect();
+        let missing: Vec<f64> = probes
+            .iter()
+            .copied()
+            .filter(|r| !cache.contains_key(&r.to_bits()))
+            .collect();
+        let fresh: Vec<Vec<Point3<f64>>> =
+            missing.par_iter().map(|&r| blade.ring(r).points).collect();
+        for (r, ring) in missing.iter().zip(fresh) {
+            cache.insert(r.to_bits(), ring);
+        }
+        let cache = &*cache;
+        probes
+            .par_chunks(at.len())
+            .map(|chunk| {
+                chunk
+                    .iter()
+                    .map(|&r| {
+                        let v = v_at(self.skin, &self.vbar, self.radii, r);
+                        (
+                            distance_at(self.skin, &self.ubases, v, &cache[&r.to_bits()]),
+                            r,
+                        )
+                    })
+                    .fold((0.0, chunk[0]), |m, x| if x.0 > m.0 { x } else { m })
+            })
+            .collect()
+    }
+}
+
+/// Places rings for `tolerance` (mm; see the module docs) and builds the skin through
+/// them.
+///
+/// # Errors
+/// [`LoftError`] when the skin cannot be built through the rings.
+pub fn place_rings(blade: &Blade, tolerance: f64) -> Result<RingPlacement, LoftError> {
+    let span = blade.tip_end() - blade.skin_start();
+    let mut radii = blade.ring_radii(span / 16.0);
+    let target = SHARE * tolerance;
+    let mut rings: HashMap<u64, Vec<Point3<f64>>> = radii
+        .par_iter()
+        .map(|&r| (r.to_bits(), blade.ring(r).points))
+        .collect();
+    let mut probes = HashMap::new();
+    let mut round = 0;
+    loop {
+        let placed: Vec<Vec<Point3<f64>>> =
+            radii.iter().map(|r| rings[&r.to_bits()].clone()).collect();
+        let skin = Skin::interpolate(&placed, blade.le_index())?;
+        let cmp = Comparison::new(&skin, &placed, &radii)?;
+        let worst = cmp.intervals(blade, &PLACING, &mut probes);
+        let split: Vec<bool> = worst.iter().map(|&(d, _)| d > target).collect();
+        let room = MAX_RINGS.saturating_sub(radii.len());
+        // A tolerance that is not a positive number is refused by the tessellation.
+        let valid = target > 0.0 && target.is_finite();
+        if !valid || !split.contains(&true) || round >= MAX_ROUNDS || room == 0 {
+            // The reported distance: the quarter points too.
+            let measured = cmp.intervals(blade, &PROBES, &mut probes);
+            return Ok(RingPlacement {
+                skin_to_design: summary(&radii, &measured, PROBES.len()),
+                radii,
+                skin,
+            });
+        }
+        round += 1;
+        // Halve the worst intervals first when the ring budget runs short.
+        let mut order: Vec<usize> = (0..split.len()).filter(|&i| split[i]).collect();
+        order.sort_by(|&a, &b| worst[b].0.total_cmp(&worst[a].0).then(a.cmp(&b)));
+        let mut halve = vec![false; split.len()];
+        for &i in order.iter().take(room) {
+            halve[i] = true;
+        }
+        let mut next = Vec::with_capacity(radii.len() * 2);
+        for (i, &r) in radii.iter().enumerate() {
+            next.push(r);
+            if i + 1 < radii.len() && halve[i] {
+                next.push(0.5 * (r + radii[i + 1]));
+            }
+        }
+        let fresh: Vec<(u64, Vec<Point3<f64>>)> = next
+            .par_iter()
+            .filter(|r| !rings.contains_key(&r.to_bits()))
+            .map(|&r| (r.to_bits(), blade.ring(r).points))
+            .collect();
+        rings.extend(fresh);
+        radii = next;
+    }
+}

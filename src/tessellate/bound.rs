@@ -1,0 +1,404 @@
+//! A proven upper bound of the distance from the exact surface to the mesh, per grid
+//! cell, from surface samples plus a margin from second derivatives.
+//!
+//! **The bound.** Take one grid cell `[u0, u1] x [v0, v1]` (sides `du`, `dv`) with its
+//! two mesh triangles. Sample the surface `S` on a `k x k` sub-grid of the cell and split
+//! each sub-square into two sub-triangles (along either diagonal). On a sub-triangle with corners `y_1, y_2, y_3`
+//! (legs `du/k`, `dv/k`), write `S = L + E` with `L` the linear interpolant of `S` at the
+//! corners, and let `T` be either of the cell's two mesh triangles. Then:
+//!
+//! * the distance to the convex set `T` is a convex function, so
+//!   `dist(L(x), T) <= max_i dist(S(y_i), T)`;
+//! * by Taylor's theorem with integral remainder at `x`, with `M_..` bounds of `|S_uu|`,
+//!   `|S_uv|`, `|S_vv|` on the cell and any `α > 0`,
+//!   `|D²S[w, w]| <= Q(w) = A w_u² + B w_v²` where `A = M_uu + α M_uv` and
+//!   `B = M_vv + M_uv / α` (from `2|w_u w_v| <= α w_u² + w_v² / α`), so
+//!   `|E(x)| <= ½ Σ λ_i Q(y_i - x) = ½ (Σ λ_i Q(y_i) - Q(x))`, the linear interpolation
+//!   error of `Q`, which on a right triangle with legs `δu`, `δv` is at most
+//!   `(A δu² + B δv²) / 4`. With `α = dv / du` this is
+//!   `|E| <= (M_uu du² + 2 M_uv du dv + M_vv dv²) / (8 k²)`.
+//!
+//! Every point `S(x)` of the cell's surface is `L(x) + E(x)` for the sub-triangle holding
+//! `x`, and `T` is part of the mesh, so it lies within
+//! `max over sub-triangles of (min over T of max over corners of dist(S(y_i), T))`
+//! `+ (M_uu du² + 2 M_uv du dv + M_vv dv²) / (8 k²)` of the mesh. The `M` bounds
+//! come from the control points of the derivative surfaces
+//! ([`crate::loft::DerivativeBounds`]), so the bound holds for every point of the cell,
+//! not just the sampled ones; `k = 1` (no samples) gives the pure curvature bound. The
+//! trailing-edge face (the ruled surface between the curves `u = 1` and `u = 0`, a
+//! degree-1 by degree-`q` B-spline) and its strip of triangles are bounded the same way.
+//! The planar caps lie in their planes; they differ from the exact end faces only by the
+//! slivers between boundary chords and boundary curves, which the cells along the ends
+//! already bound.
+//!
+//! A cell is certified by the cheapest bound that meets the target: the curvature bound
+//! first, then samples with `k = 2, 4, 8`.
+
+use super::{cell_split, closest_on_triangle};
+use crate::loft::{Basis, DerivativeBounds, Skin};
+use nalgebra::{Point3, Vector3};
+use rayon::prelude::*;
+
+/// Finest sub-grid the tessellation certifies with (samples per cell side).
+pub(crate) const K_MAX: usize = 8;
+/// Finest sub-grid [`max_deviation`] uses to tighten the bound.
+const K_REPORT: usize = 16;
+
+/// Bounds the cells of a skin and of its trailing-edge face.
+pub(crate) struct Certifier<'a> {
+    skin: &'a Skin,
+    bounds: DerivativeBounds,
+    te: Option<(Skin, DerivativeBounds)>,
+}
+
+/// The trailing-edge face as a surface: ruled (degree 1) from the curve `u = 1` (at
+/// `s = 0`) to the curve `u = 0` (at `s = 1`), the order of the mesh strip's corners.
+/// `None` when the trailing edge is sharp.
+pub(crate) fn trailing_edge_face(skin: &Skin) -> Option<Skin> {
+    if skin.sharp_trailing_edge() {
+        return None;
+    }
+    Some(Skin {
+        degree_u: 1,
+        degree_v: skin.degree_v,
+        knots_u: vec![0.0, 0.0, 1.0, 1.0],
+        knots_v: skin.knots_v.clone(),
+        control: vec![
+            skin.control[skin.control.len() - 1].clone(),
+            skin.control[0].clone(),
+        ],
+        u_le: 0.5,
+    })
+}
+
+impl<'a> Certifier<'a> {
+    pub(crate) fn new(skin: &'a Skin) -> Self {
+        let te = trailing_edge_face(skin).map(|f| {
+            let b = f.derivative_bounds();
+            (f, b)
+        });
+        Certifier {
+            skin,
+            bounds: skin.derivative_bounds(),
+            te,
+        }
+    }
+
+    /// Certified bound of grid cell `(i, j)` (`points` as in [`super::grid::Grid`]), and
+    /// which of its directions (`u`, `v`) to halve when the bound is above `target`:
+    /// those whose curvature terms carry at least a third of the bound's curvature term.
+    pub(crate) fn cell(
+        &self,
+        us: &[f64],
+        vs: &[f64],
+        points: &[Point3<f64>],
+        i: usize,
+        j: usize,
+        target: f64,
+    ) -> (f64, [bool; 2]) {
+        let nv = vs.len();
+        let corners = [
+            points[i * nv + j],
+            points[(i + 1) * nv + j],
+            points[(i + 1) * nv + j + 1],
+            points[i * nv + j + 1],
+        ];
+        let cell = Cell {
+            skin: self.skin,
+            bounds: &self.bounds,
+            u: [us[i], us[i + 1]],
+            v: [vs[j], vs[j + 1]],
+            corners,
+        };
+        let r = cell.certify(target, 2, K_MAX);
+        (r.0, cell.directions())
+    }
+
+    /// Certified bound of row `j` of the trailing-edge strip (0 when the trailing edge
+    /// is sharp).
+    pub(crate) fn strip_row(
+        &self,
+        us: &[f64],
+        vs: &[f64],
+        points: &[Point3<f64>],
+        j: usize,
+        target: f64,
+    ) -> f64 {
+        self.strip_cell(us, vs, points, j)
+            .map_or(0.0, |c| c.certify(target, 2, K_MAX).0)
+    }
+
+    fn strip_cell<'b>(
+        &'b self,
+        us: &[f64],
+        vs: &[f64],
+        points: &[Point3<f64>],
+        j: usize,
+    ) -> Option<Cell<'b>> {
+        let (face, bounds) = self.te.as_ref()?;
+        let (nu, nv) = (us.len(), vs.len());
+        Some(Cell {
+            skin: face,
+            bounds,
+            u: [0.0, 1.0],
+            v: [vs[j], vs[j + 1]],
+            corners: [
+                points[(nu - 1) * nv + j],
+                points[j],
+                points[j + 1],
+                points[(nu - 1) * nv + j + 1],
+            ],
+        })
+    }
+}
+
+/// One cell of a surface with the mesh corners over it.
+struct Cell<'a> {
+    skin: &'a Skin,
+    bounds: &'a DerivativeBounds,
+    u: [f64; 2],
+    v: [f64; 2],
+    /// Mesh vertices at `(u0, v0)`, `(u1, v0)`, `(u1, v1)`, `(u0, v1)`.
+    corners: [Point3<f64>; 4],
+}
+
+impl Cell<'_> {
+    /// The curvature term `(M_uu du² + 2 M_uv du dv + M_vv dv²) / 8` of the bound
+    /// (`k = 1`).
+    fn curvature_term(&self) -> f64 {
+        let [muu, muv, mvv] = self.bounds.over(self.u[0], self.u[1], self.v[0], self.v[1]);
+        let (du, dv) = (self.u[1] - self.u[0], self.v[1] - self.v[0]);
+        (muu * du * du + 2.0 * muv * du * dv + mvv * dv * dv) / 8.0
+    }
+
+    /// Which directions dominate the curvature term: `[u, v]`.
+    fn directions(&self) -> [bool; 2] {
+        let [muu, muv, mvv] = self.bounds.over(self.u[0], self.u[1], self.v[0], self.v[1]);
+        let (du, dv) = (self.u[1] - self.u[0], self.v[1] - self.v[0]);
+        let (tu, tv) = (muu * du * du + muv * du * dv, mvv * dv * dv + muv * du * dv);
+        [tu >= 0.5 * tv, tv >= 0.5 * tu]
+    }
+
+    /// The smallest bound found, trying the curvature bound and then sub-grids of `k`
+    /// from `k_from` doubling to `k_to` until one meets `target`; also the largest
+    /// distance from a sample to the mesh (a lower bound of the cell's deviation; 0 when
+    /// no samples were taken).
+    fn certify(&self, target: f64, k_from: usize, k_to: usize) -> (f64, f64) {
+        let raw = self.curvature_term();
+        let mut best = raw;
+        let mut lower: f64 = 0.0;
+        let mut k = k_from;
+        while best > target && k <= k_to {
+            let (s, l) = self.sampled(k);
+            lower = lower.max(l);
+            best = best.min(s + raw / (k * k) as f64);
+            k *= 2;
+        }
+        (best, lower)
+    }
+
+    /// The sampled part of the bound on a `k x k` sub-grid: the largest, over the
+    /// sub-triangles, of the best of the three corner measures of the module docs.
+    fn sampled(&self, k: usize) -> (f64, f64) {
+        let c = &self.corners;
+        let split = cell_split(&c[0], &c[1], &c[2], &c[3]);
+        let hinge = Hinge::of(c, split);
+        let s = self.skin;
+        let at = |knots: &[f64], p: usize, r: [f64; 2], a: usize| {
+            let t = if a == k {
+                r[1]
+            } else {
+                r[0] + (r[1] - r[0]) * a as f64 / k as f64
+            };
+            Basis::at(knots, p, t)
+        };
+        let vb: Vec<Basis> = (0..=k)
+            .map(|b| at(&s.knots_v, s.degree_v, self.v, b))
+            .collect();
+        let mut samples = Vec::with_capacity((k + 1) * (k + 1));
+        for a in 0..=k {
+            let bu = at(&s.knots_u, s.degree_u, self.u, a);
+            for (b, bv) in vb.iter().enumerate() {
+                let q = match (a == 0, a == k, b == 0, b == k) {
+                    (true, _, true, _) => c[0],
+                    (_, true, true, _) => c[1],
+                    (_, true, _, true) => c[2],
+                    (true, _, _, true) => c[3],
+                    _ => s.eval_basis(&bu, bv),
+                };
+                samples.push(Sample::new(&q, c, split, &hinge));
+            }
+        }
+        let lower = samples.iter().fold(0.0, |m: f64, s| m.max(s.d[s.side]));
+        let at_s = |(a, b): (usize, usize)| &samples[a * (k + 1) + b];
+        let mut worst: f64 = 0.0;
+        for a in 0..k {
+            for b in 0..k {
+                // Either diagonal covers the sub-square; take the better one.
+                let (p00, p10, p11, p01) = ((a, b), (a + 1, b), (a + 1, b + 1), (a, b + 1));
+                let part = |t: [(usize, usize); 3]| hinge.measure(t.map(at_s));
+                let ac = part([p00, p10, p11]).max(part([p00, p11, p01]));
+                let bd = part([p00, p10, p01]).max(part([p10, p11, p01]));
+                worst = worst.max(ac.min(bd));
+            }
+        }
+        (worst, lower)
+    }
+}
+
+/// The edge two cell triangles share, with what is needed to bound the distance from a
+/// triangle spanning it to the mesh (see the module docs).
+struct Hinge {
+    origin: Point3<f64>,
+    /// Unit direction of the shared edge.
+    dir: Vector3<f64>,
+    /// `|n1 - n2| = 2 sin(θ / 2)` for the unit normals and the fold angle `θ`.
+    fold: f64,
+    /// True when the two triangles unfolded into one plane form a convex quadrilateral.
+    convex: bool,
+}
+
+impl Hinge {
+    fn of(c: &[Point3<f64>; 4], split: [[usize; 3]; 2]) -> Hinge {
+        let [t1, t2] = split;
+        // Shared corners, and the corner of each triangle off the shared edge.
+        let (e0, e1, w1, w2) = if t1 == [0, 1, 2] {
+            (c[0], c[2], c[1], c[3])
+        } else {
+            (c[1], c[3], c[0], c[2])
+        };
+        let normal = |t: [usize; 3]| {
+            (c[t[1]] - c[t[0]])
+                .cross(&(c[t[2]] - c[t[0]]))
+                .try_normalize(0.0)
+        };
+        let edge = e1 - e0;
+        let len = edge.norm();
+        let (Some(n1), Some(n2), Some(dir)) = (normal(t1), normal(t2), edge.try_normalize(0.0))
+        else {
+            return Hinge {
+                origin: e0,
+                dir: Vector3::zeros(),
+                fold: 0.0,
+                convex: false,
+            };
+        };
+        // Unfolded: the shared edge on the x axis, each wing at its distance from the
+        // edge on its own side; convex when the segment between the wings crosses the
+        // edge between its ends.
+        let (x1, x2) = ((w1 - e0).dot(&dir), (w2 - e0).dot(&dir));
+        let (r1, r2) = ((w1 - e0).cross(&dir).norm(), (w2 - e0).cross(&dir).norm());
+        let convex = r1 + r2 > 0.0 && {
+            let x = x1 + (x2 - x1) * r1 / (r1 + r2);
+            (0.0..=len).contains(&x)
+        };
+        Hinge {
+            origin: e0,
+            dir,
+            fold: (n1 - n2).norm(),
+            convex,
+        }
+    }
+
+    /// Distance from `p` to the line of the shared edge.
+    fn reach(&self, p: &Point3<f64>) -> f64 {
+        (p - self.origin).cross(&self.dir).norm()
+    }
+
+    /// The bound for one sub-triangle from its corner samples: the best of "all on the
+    /// first triangle", "all on the second", and "each on its nearer triangle, plus the
+    /// hinge gap".
+    fn measure(&self, corners: [&Sample; 3]) -> f64 {
+        let mut m = [0.0f64; 3];
+        let mut reach = [0.0f64; 2]; // largest reach of the samples nearer each triangle
+        let mut sides = [false; 2];
+        for s in corners {
+            m[0] = m[0].max(s.d[0]);
+            m[1] = m[1].max(s.d[1]);
+            m[2] = m[2].max(s.d[s.side]);
+            reach[s.side] = reach[s.side].max(s.reach);
+            sides[s.side] = true;
+        }
+        let mixed = if !(sides[0] && sides[1]) {
+            m[2]
+        } else if self.convex {
+            m[2] + 2.0 * self.fold * reach[0].min(reach[1])
+        } else {
+            f64::INFINITY
+        };
+        m[0].min(m[1]).min(mixed)
+    }
+}
+
+/// One surface sample against the two cell triangles.
+struct Sample {
+    /// Distances to the two triangles.
+    d: [f64; 2],
+    /// The nearer triangle (0 or 1).
+    side: usize,
+    /// Distance of its nearest point on that triangle from the shared edge's line.
+    reach: f64,
+}
+
+impl Sample {
+    fn new(q: &Point3<f64>, c: &[Point3<f64>; 4], split: [[usize; 3]; 2], hinge: &Hinge) -> Sample {
+        let near = split.map(|t| closest_on_triangle(q, &c[t[0]], &c[t[1]], &c[t[2]]));
+        let d = near.map(|p| (q - p).norm());
+        let side = usize::from(d[1] < d[0]);
+        Sample {
+            d,
+            side,
+            reach: hinge.reach(&near[side]),
+        }
+    }
+}
+
+/// A proven upper bound of the distance from the skin (and the trailing-edge face, when
+/// blunt) to the grid mesh on `us x vs`, mm (see the module docs for the method).
+///
+/// Every cell is first bounded with a `k x k` sub-grid (`k` at least 2); the cells whose
+/// bound is still above the largest sampled distance anywhere are refined with finer
+/// sub-grids (up to 16 x 16), so the result is close to the true largest distance: the
+/// margin over the samples shrinks as `1 / k²`. An independent sampling of the surface
+/// can never find a larger distance.
+pub fn max_deviation(skin: &Skin, us: &[f64], vs: &[f64], k: usize) -> f64 {
+    let k = k.max(2);
+    let points = super::grid::eval_grid(skin, us, vs);
+    let cert = Certifier::new(skin);
+    let (nu, nv) = (us.len(), vs.len());
+    let mut cells: Vec<Cell> = Vec::with_capacity((nu - 1) * (nv - 1) + nv);
+    for i in 0..nu - 1 {
+        for j in 0..nv - 1 {
+            cells.push(Cell {
+                skin,
+                bounds: &cert.bounds,
+                u: [us[i], us[i + 1]],
+                v: [vs[j], vs[j + 1]],
+                corners: [
+                    points[i * nv + j],
+                    points[(i + 1) * nv + j],
+                    points[(i + 1) * nv + j + 1],
+                    points[i * nv + j + 1],
+                ],
+            });
+        }
+    }
+    cells.extend((0..nv - 1).filter_map(|j| cert.strip_cell(us, vs, &points, j)));
+    let first: Vec<(f64, f64)> = cells
+        .par_iter()
+        .map(|c| c.certify(f64::NEG_INFINITY, k, k))
+        .collect();
+    // The largest distance any sample has to the mesh: no bound can be below it.
+    let floor = first.iter().fold(0.0, |m: f64, b| m.max(b.1));
+    cells
+        .par_iter()
+        .zip(&first)
+        .map(|(c, &(b, _))| {
+            if b > floor && 2 * k <= K_REPORT {
+                b.min(c.certify(floor, 2 * k, K_REPORT).0)
+            } else {
+                b
+            }
+        })
+        .reduce(|| 0.0, f64::max)
+}
