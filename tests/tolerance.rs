@@ -151,3 +151,38 @@ fn rings_follow_the_design_where_even_rings_do_not() {
     // everywhere.
     assert!(after.max > 0.0);
 }
+
+#[test]
+fn work_too_large_for_the_memory_is_refused_with_the_estimate() {
+    // The demo blade at 0.01 mm: the estimate the refusal quotes is within a factor 1.5
+    // of the real triangle count (the accuracy the estimate's module docs state), and a
+    // budget below its peak memory refuses with the figures and a coarser tolerance.
+    use spanwright::pipeline::{check_work, PipelineError};
+    let design =
+        spanwright::design::load(std::path::Path::new("examples/garden-turbine.toml")).unwrap();
+    let m = build_blade(
+        &design,
+        &Options {
+            tolerance: Some(0.01),
+            ..Options::default()
+        },
+    )
+    .unwrap();
+    let real = m.tessellation.mesh.len() as f64;
+    assert!(check_work(&m.skin, 0.01, 0.01, 1e12).is_ok());
+    let err = check_work(&m.skin, 0.01, 0.01, 1e6).unwrap_err();
+    let PipelineError::TooLarge {
+        triangles, suggest, ..
+    } = &err
+    else {
+        panic!("{err}");
+    };
+    assert!(
+        *triangles > real / 1.5 && *triangles < real * 1.5,
+        "estimate {triangles}, real {real}"
+    );
+    assert!(*suggest > 0.01, "{suggest}");
+    let text = err.to_string();
+    assert!(text.contains("coarser tolerance"), "{text}");
+    assert!(text.contains("triangles"), "{text}");
+}

@@ -315,7 +315,12 @@ struct Summary {
     vertices: usize,
     volume_mm3: f64,
     tolerance_mm: f64,
+    /// Proven bound of the mesh's distance from the skin (the B-spline surface), mm.
     measured_deviation_mm: f64,
+    /// Largest distance of the skin from the blade the design describes, measured, mm.
+    skin_to_design_mm: f64,
+    /// Their sum: how far the mesh may be from the design's blade, mm.
+    mesh_to_design_mm: f64,
     trailing_edges_opened: Vec<TeChange>,
     area_mm2: f64,
     bounding_box_mm: [[f64; 3]; 2],
@@ -384,6 +389,8 @@ impl Summary {
             volume_mm3: report.volume,
             tolerance_mm: outcome.blade.tolerance,
             measured_deviation_mm: outcome.blade.deviation,
+            skin_to_design_mm: outcome.blade.skin_to_design,
+            mesh_to_design_mm: outcome.blade.mesh_to_design(),
             trailing_edges_opened: outcome.blade.te_changes.clone(),
             area_mm2: report.area,
             bounding_box_mm: bb,
@@ -431,8 +438,8 @@ impl Summary {
         );
         let _ = writeln!(
             s,
-            "  deviation from the exact surface: {:.4} mm measured (tolerance {} mm)",
-            self.measured_deviation_mm, self.tolerance_mm
+            "  deviation from the design: at most {:.4} mm (tolerance {} mm): mesh to surface {:.4} mm (proven bound), surface to design {:.4} mm (measured)",
+            self.mesh_to_design_mm, self.tolerance_mm, self.measured_deviation_mm, self.skin_to_design_mm
         );
         let _ = writeln!(
             s,

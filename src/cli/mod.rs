@@ -47,6 +47,10 @@ struct Cli {
     /// No progress bars or summaries; errors and safety cautions are still printed.
     #[arg(long, short, global = true)]
     quiet: bool,
+    /// Worker threads for the parallel stages (default: every core). Output is the same
+    /// on any number of threads.
+    #[arg(long, global = true, value_name = "N", value_parser = clap::value_parser!(u16).range(1..=1024))]
+    threads: Option<u16>,
     #[command(subcommand)]
     command: Command,
 }
@@ -85,6 +89,9 @@ pub enum Verdict {
 pub fn main() -> ExitCode {
     let cli = Cli::parse();
     let ctx = Context { quiet: cli.quiet };
+    if let Err(e) = spanwright::parallel::init_threads(cli.threads.map(usize::from)) {
+        return ExitCode::from(exit_code(&Err(anyhow::Error::new(e).context("--threads"))));
+    }
     let result = match cli.command {
         Command::Build(a) => build::run(a, &ctx),
         Command::Section(a) => section::run(a, &ctx),

@@ -10,7 +10,7 @@ use crate::loft::Skin;
 use crate::mesh::{Part, TriMesh};
 use crate::rings::place_rings;
 use crate::root::{RootSpec, TipSpec};
-use crate::tessellate::{max_deviation, tessellate, Tessellation, TessellationOptions};
+use crate::tessellate::{estimate, max_deviation, tessellate, Tessellation, TessellationOptions};
 
 /// The built blade: every stage's result, for the consumers (parts, reports, STEP).
 #[derive(Debug, Clone)]
@@ -100,6 +100,7 @@ pub fn build_blade_timed(
     };
     let skin_to_design = placed.skin_to_design.max;
     let (ring_radii, skin) = (placed.radii, placed.skin);
+    check_work(&skin, tess_opts.tolerance, tolerance, available_memory())?;
     let mut tessellation = timings.time("tessellation", || tessellate(&skin, &tess_opts))?;
     let deviation = timings.time("deviation", || {
         max_deviation(&skin, &tessellation.us, &tessellation.vs, 2)
@@ -121,6 +122,50 @@ pub fn build_blade_timed(
         deviation,
         skin_to_design,
     })
+}
+
+/// Share of the free memory a build may plan to use.
+const MEMORY_SHARE: f64 = 0.8;
+
+/// Refuses a mesh whose estimated peak memory ([`crate::tessellate::estimate`]) exceeds
+/// [`MEMORY_SHARE`] of `available` bytes, before any meshing. `mesh_tolerance` is the
+/// tessellation's tolerance, `tolerance` the one asked for (named in the message).
+///
+/// # Errors
+/// [`PipelineError::TooLarge`] with the figures and a tolerance that would fit.
+pub fn check_work(
+    skin: &Skin,
+    mesh_tolerance: f64,
+    tolerance: f64,
+    available: f64,
+) -> Result<(), PipelineError> {
+    let work = estimate(skin, mesh_tolerance);
+    let budget = MEMORY_SHARE * available;
+    if work.peak_bytes <= budget {
+        return Ok(());
+    }
+    // Triangles grow as 1 / tolerance (the grid spacing as its square root both ways).
+    let suggest = tolerance * work.peak_bytes / budget;
+    Err(PipelineError::TooLarge {
+        tolerance,
+        triangles: work.triangles,
+        bytes: work.peak_bytes,
+        available,
+        suggest,
+    })
+}
+
+/// Free memory, bytes: `MemAvailable` of `/proc/meminfo` where there is one (Linux),
+/// else 4 GB.
+fn available_memory() -> f64 {
+    const FALLBACK: f64 = 4e9;
+    let Ok(text) = std::fs::read_to_string("/proc/meminfo") else {
+        return FALLBACK;
+    };
+    text.lines()
+        .find_map(|l| l.strip_prefix("MemAvailable:"))
+        .and_then(|rest| rest.trim().trim_end_matches("kB").trim().parse::<f64>().ok())
+        .map_or(FALLBACK, |kb| kb * 1024.0)
 }
 
 /// The blade model: stations interpolated along the span, with the design's `[root]`

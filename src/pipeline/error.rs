@@ -44,6 +44,21 @@ pub enum PipelineError {
     /// The skin could not be tessellated.
     #[error(transparent)]
     Tessellate(#[from] TessellateError),
+    /// The mesh the tolerance asks for would not fit this machine's memory: refused
+    /// before any meshing, with the estimate.
+    #[error("at a tolerance of {tolerance} mm the blade's mesh would have about {} triangles and need about {} of memory, more than the {} this machine has free; give a coarser tolerance (about {suggest:.2e} mm fits, `--tolerance` or [blade] tolerance): the mesh grows with 1 / tolerance", millions(.triangles), in_bytes(.bytes), in_bytes(.available))]
+    TooLarge {
+        /// The tolerance asked for, mm.
+        tolerance: f64,
+        /// Estimated triangles.
+        triangles: f64,
+        /// Estimated peak memory, bytes.
+        bytes: f64,
+        /// Memory available, bytes.
+        available: f64,
+        /// A tolerance whose estimate fits, mm.
+        suggest: f64,
+    },
     /// A built part failed its solid checks; `likely_causes` are the design's steep
     /// station steps, when it has any.
     #[error("{rejected}{}", Causes(.likely_causes))]
@@ -122,5 +137,23 @@ impl fmt::Display for Lines<'_> {
             write!(f, "{i}")?;
         }
         Ok(())
+    }
+}
+
+/// A count in words: "3.2 million".
+fn millions(n: &f64) -> String {
+    if *n >= 1e6 {
+        format!("{:.1} million", n / 1e6)
+    } else {
+        format!("{n:.0}")
+    }
+}
+
+/// A byte count in GB or MB.
+fn in_bytes(b: &f64) -> String {
+    if *b >= 1e9 {
+        format!("{:.1} GB", b / 1e9)
+    } else {
+        format!("{:.0} MB", b / 1e6)
     }
 }

@@ -30,7 +30,7 @@ mod sections;
 mod timings;
 mod warnings;
 
-pub use blade::{build_blade, build_blade_timed, BuiltBlade};
+pub use blade::{build_blade, build_blade_timed, check_work, BuiltBlade};
 pub use error::PipelineError;
 pub use job::design_job;
 pub use parts::{BuiltPart, PartKind};
