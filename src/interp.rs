@@ -262,7 +262,11 @@ mod tests {
             assert!((l.eval(mid) - 0.5 * (y[w] + y[w + 1])).abs() < 1e-12);
             assert!((l.eval(x[w]) - y[w]).abs() < 1e-12);
         }
-        assert!((l.eval(2.5) - 1.0).abs() < 1e-12, "halfway along [1, 4]: {}", l.eval(2.5));
+        assert!(
+            (l.eval(2.5) - 1.0).abs() < 1e-12,
+            "halfway along [1, 4]: {}",
+            l.eval(2.5)
+        );
         assert_eq!(l.eval(-1.0), 2.0);
         assert_eq!(l.eval(9.0), 7.0);
         assert!(Linear::new(&[0.0, 0.0], &[1.0, 2.0]).is_none());

@@ -38,7 +38,9 @@ fn one_piece_volume_is_blades_plus_prism_minus_bore() {
     // sit on the prism's faces from outside, so the volumes add.
     for (bore, genus) in [(None, 0u32), (Some(3.0), 1)] {
         let rotor = match bore {
-            Some(d) => format!("[rotor]\nblades = 5\n[rotor.one-piece]\nthickness = 16\nbore = {d}\n"),
+            Some(d) => {
+                format!("[rotor]\nblades = 5\n[rotor.one-piece]\nthickness = 16\nbore = {d}\n")
+            }
             None => "[rotor]\nblades = 5\n[rotor.one-piece]\nthickness = 16\n".into(),
         };
         let d = parse_toml_str(&design(&rotor), None).unwrap();
@@ -69,10 +71,7 @@ fn one_piece_volume_is_blades_plus_prism_minus_bore() {
 #[test]
 fn one_piece_refuses_what_it_cannot_join() {
     let cases = [
-        (
-            "[rotor]\nblades = 2\n[rotor.one-piece]\n",
-            "rotor.blades",
-        ),
+        ("[rotor]\nblades = 2\n[rotor.one-piece]\n", "rotor.blades"),
         (
             "[rotor]\nblades = 3\ncone = 3\n[rotor.one-piece]\n",
             "rotor.cone",

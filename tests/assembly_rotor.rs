@@ -68,10 +68,9 @@ impl Built {
 fn build_rotor(d: &Design) -> Result<Built, PipelineError> {
     let outcome = run(d, &Options::default())?;
     let rotor = outcome.rotor.clone().ok_or_else(|| {
-        PipelineError::from(spanwright::design::DesignError::one(d.problem(
-            "rotor",
-            "no [rotor] table: add one with `blades`",
-        )))
+        PipelineError::from(spanwright::design::DesignError::one(
+            d.problem("rotor", "no [rotor] table: add one with `blades`"),
+        ))
     })?;
     let bodies = &outcome.part(PartKind::Rotor).expect("rotor part").bodies;
     let plain = |b: &spanwright::check::CheckedPart| b.as_part().clone();
@@ -427,13 +426,7 @@ fn mirrored_blade_fails_loudly() {
 #[test]
 fn symmetric_sections_leave_the_side_undetermined() {
     // A symmetric section has no camber (NACA 00xx, Report 460): no flow side to tell.
-    let d = design(
-        "ccw",
-        "turbine",
-        "naca0012",
-        (20.0, 5.0),
-        "blades = 2",
-    );
+    let d = design("ccw", "turbine", "naca0012", (20.0, 5.0), "blades = 2");
     let blade = build_blade(&d, &Options::default()).expect("blade");
     let radii = hand_radii(&[40.0, 80.0, 120.0]);
     let r = check_hand(
@@ -515,13 +508,7 @@ fn bad_rotor_tables_name_their_key() {
         assert!(e.contains(key), "{table}: {e}");
     }
     // No [rotor] table at all.
-    let mut d = design(
-        "ccw",
-        "turbine",
-        "naca4412",
-        (20.0, 5.0),
-        "blades = 3",
-    );
+    let mut d = design("ccw", "turbine", "naca4412", (20.0, 5.0), "blades = 3");
     d.tables.remove("rotor");
     let e = build_rotor(&d).expect_err("fails").to_string();
     assert!(e.contains("rotor") && e.contains("blades"), "{e}");

@@ -68,10 +68,24 @@ fn metres_with_millimetre_numbers_are_caught_with_a_hint() {
 
 #[test]
 fn absurd_sizes_are_refused_with_the_limit() {
-    let e = toml_err(&format!("{BLADE}{}", stations(&[(40.0, 30.0), (1e12, 20.0)])));
-    has_key(&e, "station[2].radius", &["1e12 mm", "10000 mm", "check the value"]);
-    let e = toml_err(&format!("{BLADE}{}", stations(&[(40.0, 1e6), (120.0, 20.0)])));
-    has_key(&e, "station[1].chord", &["1000000 mm", "more than the largest length"]);
+    let e = toml_err(&format!(
+        "{BLADE}{}",
+        stations(&[(40.0, 30.0), (1e12, 20.0)])
+    ));
+    has_key(
+        &e,
+        "station[2].radius",
+        &["1e12 mm", "10000 mm", "check the value"],
+    );
+    let e = toml_err(&format!(
+        "{BLADE}{}",
+        stations(&[(40.0, 1e6), (120.0, 20.0)])
+    ));
+    has_key(
+        &e,
+        "station[1].chord",
+        &["1000000 mm", "more than the largest length"],
+    );
     // A column in metres says where the unit came from.
     let e = design::parse_csv_str(
         "radius [m],chord,twist,section\n40,30,5,a\n120,20,2,a\n",
@@ -115,11 +129,18 @@ fn tolerance_has_a_floor_and_converts_with_the_file_unit() {
 #[test]
 fn chord_span_and_gaps_are_checked_against_the_tolerance() {
     // The wafer: two stations 0.001 mm apart at the default tolerance 0.01 mm.
-    let e = toml_err(&format!("{BLADE}{}", stations(&[(40.0, 30.0), (40.001, 20.0)])));
+    let e = toml_err(&format!(
+        "{BLADE}{}",
+        stations(&[(40.0, 30.0), (40.001, 20.0)])
+    ));
     has_key(
         &e,
         "station[2].radius",
-        &["spans only 0.001 mm", "20 times the mesh tolerance", "0.2 mm"],
+        &[
+            "spans only 0.001 mm",
+            "20 times the mesh tolerance",
+            "0.2 mm",
+        ],
     );
     // A chord under 20 tolerances.
     let e = toml_err(&format!(
@@ -136,7 +157,11 @@ fn chord_span_and_gaps_are_checked_against_the_tolerance() {
         "{BLADE}{}",
         stations(&[(40.0, 30.0), (40.005, 29.0), (120.0, 20.0)])
     ));
-    has_key(&e, "station[2].radius", &["only 0.005 mm outboard", "merge"]);
+    has_key(
+        &e,
+        "station[2].radius",
+        &["only 0.005 mm outboard", "merge"],
+    );
     // The rule as stated holds at its edge: 20 tolerances of span and chord pass.
     let d = design::parse_toml_str(
         &format!("{BLADE}{}", stations(&[(40.0, 0.2), (40.2, 0.2)])),
@@ -153,10 +178,16 @@ fn a_tolerance_given_for_a_build_is_checked_like_the_files() {
     )
     .unwrap();
     assert!(d.check_tolerance(0.05, "--tolerance").is_ok());
-    let e = d.check_tolerance(5.0, "--tolerance").unwrap_err().to_string();
+    let e = d
+        .check_tolerance(5.0, "--tolerance")
+        .unwrap_err()
+        .to_string();
     assert!(e.contains("too coarse for the 20 mm chord"), "{e}");
     assert!(e.contains("at most 1 mm"), "{e}");
-    let e = d.check_tolerance(1e-9, "--tolerance").unwrap_err().to_string();
+    let e = d
+        .check_tolerance(1e-9, "--tolerance")
+        .unwrap_err()
+        .to_string();
     assert!(e.contains("at least 0.0001 mm"), "{e}");
 }
 
@@ -168,7 +199,8 @@ fn station_count_and_file_size_are_bounded() {
     }
     let e = design::parse_csv_str(&text, None, None).unwrap_err();
     assert!(
-        e.to_string().contains("more than the 1000 stations spanwright accepts"),
+        e.to_string()
+            .contains("more than the 1000 stations spanwright accepts"),
         "{e}"
     );
     assert_eq!(e.problems.len(), 1, "one problem, not one per row: {e}");
@@ -185,12 +217,11 @@ fn min_te_thickness_defaults_keeps_zero_and_has_a_maximum() {
     // Default: a 0.4 mm nozzle's width (common practice), also for bare CSV tables.
     let d = design::parse_toml_str(&format!("{BLADE}{two}"), None).unwrap();
     assert_eq!(d.blade.min_te_thickness, Some(design::DEFAULT_MIN_TE_MM));
-    let c = design::parse_csv_str("radius,chord,twist\n40,30,5\n120,20,2\n", None, Some("a"))
-        .unwrap();
+    let c =
+        design::parse_csv_str("radius,chord,twist\n40,30,5\n120,20,2\n", None, Some("a")).unwrap();
     assert_eq!(c.blade.min_te_thickness, Some(0.4));
     // 0 keeps knife edges on purpose.
-    let d = design::parse_toml_str(&format!("{BLADE}min-te-thickness = 0\n{two}"), None)
-        .unwrap();
+    let d = design::parse_toml_str(&format!("{BLADE}min-te-thickness = 0\n{two}"), None).unwrap();
     assert_eq!(d.blade.min_te_thickness, Some(0.0));
     // 100 mm is refused, naming the thinnest chord and the largest value.
     let e = toml_err(&format!("{BLADE}min-te-thickness = 100\n{two}"));
@@ -206,8 +237,7 @@ fn spanwise_law_is_chosen_by_name() {
     let two = stations(&[(40.0, 30.0), (120.0, 20.0)]);
     let d = design::parse_toml_str(&format!("{BLADE}{two}"), None).unwrap();
     assert_eq!(d.blade.spanwise, Law::Smooth);
-    let d = design::parse_toml_str(&format!("{BLADE}spanwise = \"linear\"\n{two}"), None)
-        .unwrap();
+    let d = design::parse_toml_str(&format!("{BLADE}spanwise = \"linear\"\n{two}"), None).unwrap();
     assert_eq!(d.blade.spanwise, Law::Linear);
     let e = toml_err(&format!("{BLADE}spanwise = \"lineal\"\n{two}"));
     has_key(&e, "blade.spanwise", &["did you mean 'linear'?"]);
@@ -217,9 +247,17 @@ fn spanwise_law_is_chosen_by_name() {
 fn unknown_tables_are_errors_with_a_suggestion() {
     let two = stations(&[(40.0, 30.0), (120.0, 20.0)]);
     let e = toml_err(&format!("{BLADE}{two}[roots]\nshank-diameter = 10\n"));
-    has_key(&e, "roots", &["unknown table [roots]", "did you mean [root]?"]);
+    has_key(
+        &e,
+        "roots",
+        &["unknown table [roots]", "did you mean [root]?"],
+    );
     let e = toml_err(&format!("{BLADE}{two}[paint]\ncolour = 1\n"));
-    has_key(&e, "paint", &["unknown table [paint]", "[rotor]", "[printer]"]);
+    has_key(
+        &e,
+        "paint",
+        &["unknown table [paint]", "[rotor]", "[printer]"],
+    );
     // A later stage's table is kept for it, with its errors named by key.
     let d = design::parse_toml_str(
         &format!("{BLADE}{two}[tip]\nshape = \"rund\"\n[root]\nshank-diametr = 3\n"),
@@ -234,8 +272,9 @@ fn unknown_tables_are_errors_with_a_suggestion() {
     );
     let e = d.table::<spanwright::root::RootSpec>("root").unwrap_err();
     assert!(
-        e.to_string()
-            .contains("root.shank-diametr: unknown key 'shank-diametr' (did you mean 'shank-diameter'?)"),
+        e.to_string().contains(
+            "root.shank-diametr: unknown key 'shank-diametr' (did you mean 'shank-diameter'?)"
+        ),
         "{e}"
     );
 }
@@ -279,8 +318,8 @@ fn csv_headers_with_units_the_usual_ways() {
     assert_eq!(d.columns[2].to_string(), "'Twist' read as twist in deg");
     assert!((d.stations[1].chord - 20.0).abs() < 1e-12);
     // An unknown unit after an underscore is an unknown unit, not an unknown column.
-    let e = design::parse_csv_str("radius_ft,chord,twist,section\n1,2,3,a\n", None, None)
-        .unwrap_err();
+    let e =
+        design::parse_csv_str("radius_ft,chord,twist,section\n1,2,3,a\n", None, None).unwrap_err();
     assert!(e.to_string().contains("unknown length unit 'ft'"), "{e}");
 }
 
@@ -317,5 +356,8 @@ fn stations_must_name_a_csv_table() {
         "stations = \"other.toml\"\n[blade]\nsection = \"naca4412\"\n",
     );
     let e = design::load(&p).unwrap_err().to_string();
-    assert!(e.contains("a.toml:1: stations") && e.contains("names a TOML file"), "{e}");
+    assert!(
+        e.contains("a.toml:1: stations") && e.contains("names a TOML file"),
+        "{e}"
+    );
 }

@@ -22,7 +22,9 @@ fn text(law: &str) -> String {
         "[blade]\nsection = \"naca0012\"\nmin-te-thickness = 0\ntolerance = 0.01\nspanwise = \"{law}\"\n"
     );
     for (r, c) in PLANFORM {
-        s.push_str(&format!("[[station]]\nradius = {r}\nchord = {c}\ntwist = 0\n"));
+        s.push_str(&format!(
+            "[[station]]\nradius = {r}\nchord = {c}\ntwist = 0\n"
+        ));
     }
     s
 }
@@ -59,7 +61,10 @@ fn straight_taper_built_linear_has_the_straight_line_volume() {
     assert_eq!(smooth.blade.spanwise(), Law::Smooth);
     let vs = smooth.mesh().signed_volume();
     eprintln!("smooth: mesh {vs:.1} mm³");
-    assert!((vs - exact).abs() > bound, "{vs} vs {exact} (bound {bound})");
+    assert!(
+        (vs - exact).abs() > bound,
+        "{vs} vs {exact} (bound {bound})"
+    );
 }
 
 #[test]

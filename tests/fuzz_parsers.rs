@@ -92,9 +92,20 @@ fn mutate(rng: &mut Rng, corpus: &[Vec<u8>], dict: &[&[u8]]) -> Vec<u8> {
             7 => b.truncate(at),
             _ => {
                 // A number replaced by an extreme one.
-                let t: &[u8] = [&b"1e308"[..], b"-1e308", b"nan", b"inf", b"1e-320", b"0", b"-0"]
-                    [rng.below(7)];
-                let i = b.iter().skip(at).position(u8::is_ascii_digit).map(|i| i + at);
+                let t: &[u8] = [
+                    &b"1e308"[..],
+                    b"-1e308",
+                    b"nan",
+                    b"inf",
+                    b"1e-320",
+                    b"0",
+                    b"-0",
+                ][rng.below(7)];
+                let i = b
+                    .iter()
+                    .skip(at)
+                    .position(u8::is_ascii_digit)
+                    .map(|i| i + at);
                 if let Some(i) = i {
                     let end = b[i..]
                         .iter()
@@ -230,7 +241,10 @@ fn obeys_limits(d: &Design) -> Result<(), String> {
     }
     for w in d.stations.windows(2) {
         if !(w[1].radius - w[0].radius >= design::MIN_GAP_TOLERANCES * tol) {
-            return Err(format!("radii {} then {} accepted", w[0].radius, w[1].radius));
+            return Err(format!(
+                "radii {} then {} accepted",
+                w[0].radius, w[1].radius
+            ));
         }
     }
     for s in &d.stations {
@@ -255,7 +269,9 @@ fn obeys_limits(d: &Design) -> Result<(), String> {
         let thinnest = d.stations.iter().map(|s| s.chord).fold(f64::MAX, f64::min);
         let explicit = te != design::DEFAULT_MIN_TE_MM;
         if !(te >= 0.0) || (explicit && te > design::MAX_TE_CHORD_FRACTION * thinnest + 1e-12) {
-            return Err(format!("min-te-thickness {te} accepted (thinnest chord {thinnest})"));
+            return Err(format!(
+                "min-te-thickness {te} accepted (thinnest chord {thinnest})"
+            ));
         }
     }
     Ok(())
@@ -462,13 +478,19 @@ fn fuzz_design_toml() {
     let csv = dir.path().join("t.csv");
     std::fs::write(&file, "").expect("file");
     let files = [file.as_path(), csv.as_path()];
-    fuzz("design-toml", &design_corpus(), DESIGN_DICT, 3000, |input| {
-        let text = String::from_utf8_lossy(input);
-        match design::parse_toml_str(&text, Some(&file)) {
-            Ok(d) => obeys_limits(&d).map(|()| true),
-            Err(e) => placed(&e, &files).map(|()| false),
-        }
-    });
+    fuzz(
+        "design-toml",
+        &design_corpus(),
+        DESIGN_DICT,
+        3000,
+        |input| {
+            let text = String::from_utf8_lossy(input);
+            match design::parse_toml_str(&text, Some(&file)) {
+                Ok(d) => obeys_limits(&d).map(|()| true),
+                Err(e) => placed(&e, &files).map(|()| false),
+            }
+        },
+    );
 }
 
 #[test]
@@ -486,40 +508,52 @@ fn fuzz_station_csv() {
 
 #[test]
 fn fuzz_section_file() {
-    fuzz("section-file", &section_corpus(), SECTION_DICT, 3000, |input| {
-        let text = String::from_utf8_lossy(input);
-        match spanwright::airfoil::parse(&text, "f.dat") {
-            Ok(s) => {
-                let pts = s.points();
-                if pts.len() < spanwright::airfoil::MIN_POINTS
-                    || pts.iter().any(|p| !(p.x.is_finite() && p.y.is_finite()))
-                {
-                    return Err(format!("accepted a section of {} points", pts.len()));
+    fuzz(
+        "section-file",
+        &section_corpus(),
+        SECTION_DICT,
+        3000,
+        |input| {
+            let text = String::from_utf8_lossy(input);
+            match spanwright::airfoil::parse(&text, "f.dat") {
+                Ok(s) => {
+                    let pts = s.points();
+                    if pts.len() < spanwright::airfoil::MIN_POINTS
+                        || pts.iter().any(|p| !(p.x.is_finite() && p.y.is_finite()))
+                    {
+                        return Err(format!("accepted a section of {} points", pts.len()));
+                    }
+                    Ok(true)
                 }
-                Ok(true)
-            }
-            Err(e) => {
-                let m = e.to_string();
-                if m.starts_with("f.dat") {
-                    Ok(false)
-                } else {
-                    Err(format!("error does not name the file: {m}"))
+                Err(e) => {
+                    let m = e.to_string();
+                    if m.starts_with("f.dat") {
+                        Ok(false)
+                    } else {
+                        Err(format!("error does not name the file: {m}"))
+                    }
                 }
             }
-        }
-    });
+        },
+    );
 }
 
 #[test]
 fn fuzz_stl() {
-    fuzz("stl", &stl_corpus(), STL_DICT, 3000, |input| {
-        match spanwright::fit::parse_stl(input, "p", "p.stl") {
+    fuzz(
+        "stl",
+        &stl_corpus(),
+        STL_DICT,
+        3000,
+        |input| match spanwright::fit::parse_stl(input, "p", "p.stl") {
             Ok(part) => {
                 let m = &part.mesh;
                 let n = m.vertices.len() as u32;
                 if m.triangles.is_empty()
                     || m.triangles.iter().flatten().any(|&i| i >= n)
-                    || m.vertices.iter().any(|p| !p.coords.iter().all(|c| c.is_finite()))
+                    || m.vertices
+                        .iter()
+                        .any(|p| !p.coords.iter().all(|c| c.is_finite()))
                 {
                     return Err("accepted a mesh with bad indices or coordinates".into());
                 }
@@ -533,6 +567,6 @@ fn fuzz_stl() {
                     Err(format!("error does not name the file: {m}"))
                 }
             }
-        }
-    });
+        },
+    );
 }

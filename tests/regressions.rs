@@ -16,7 +16,11 @@ fn expect(code: i32, r: &Run, what: &str, words: &[&str]) {
         r.code, r.stdout, r.stderr
     );
     for w in words {
-        assert!(r.stderr.contains(w), "{what}: '{w}' missing from:\n{}", r.stderr);
+        assert!(
+            r.stderr.contains(w),
+            "{what}: '{w}' missing from:\n{}",
+            r.stderr
+        );
     }
 }
 
@@ -45,7 +49,12 @@ fn repro_01_wafer_blade_is_refused() {
         "{HEAD}{}",
         stations(&[(40.0, 30.0, 20.0), (40.001, 20.0, 5.0)])
     ));
-    expect(2, &r, "two stations 0.001 mm apart", &["t.toml:9: station[2].radius", "spans only 0.001 mm"]);
+    expect(
+        2,
+        &r,
+        "two stations 0.001 mm apart",
+        &["t.toml:9: station[2].radius", "spans only 0.001 mm"],
+    );
     assert!(r.files("out").is_empty());
     // Radius 0 and 1e-9 mm, the other wafer.
     let r = build(&format!(
@@ -58,9 +67,17 @@ fn repro_01_wafer_blade_is_refused() {
 #[test]
 fn repro_02_tolerance_1e9_is_refused() {
     let text = blade().replace("[blade]\n", "[blade]\ntolerance = 1e-9\n");
-    expect(2, &build(&text), "tolerance 1e-9", &["t.toml:3: blade.tolerance", "finer than 0.0001 mm"]);
+    expect(
+        2,
+        &build(&text),
+        "tolerance 1e-9",
+        &["t.toml:3: blade.tolerance", "finer than 0.0001 mm"],
+    );
     // On the command line too.
-    let r = run_in_temp(&[("t.toml", &blade())], &["build", "t.toml", "--tolerance", "1e-9"]);
+    let r = run_in_temp(
+        &[("t.toml", &blade())],
+        &["build", "t.toml", "--tolerance", "1e-9"],
+    );
     assert_eq!(r.code, 2, "{}", r.stderr);
 }
 
@@ -70,13 +87,21 @@ fn repro_03_huge_radius_and_metre_slip_are_refused() {
         "{HEAD}{}",
         stations(&[(40.0, 30.0, 20.0), (1e12, 20.0, 5.0)])
     ));
-    expect(2, &r, "radius 1e12", &["station[2].radius", "1e12 mm", "10000 mm"]);
+    expect(
+        2,
+        &r,
+        "radius 1e12",
+        &["station[2].radius", "1e12 mm", "10000 mm"],
+    );
     let r = build(&format!("units = {{ length = \"m\" }}\n{}", blade()));
     expect(
         2,
         &r,
         "metres with millimetre numbers",
-        &["station[3].radius: radius 120 m (120000 mm)", "did you mean millimetres?"],
+        &[
+            "station[3].radius: radius 120 m (120000 mm)",
+            "did you mean millimetres?",
+        ],
     );
     // A million stations 1e-4 mm apart, as a CSV table.
     let mut csv = String::from("radius,chord,twist,section\n");
@@ -97,7 +122,11 @@ fn repro_04_long_round_tip_is_refused() {
         2,
         &build(&text),
         "a round tip 1e6 long",
-        &["t.toml:14: tip.length = 1000000 mm", "2 times the 20 mm tip chord", "at most 40 mm"],
+        &[
+            "t.toml:14: tip.length = 1000000 mm",
+            "2 times the 20 mm tip chord",
+            "at most 40 mm",
+        ],
     );
 }
 
@@ -112,7 +141,11 @@ fn repro_06_hub_swallowing_the_blades_is_refused_with_the_fix() {
         2,
         &build(&text),
         "hub-radius past the root face",
-        &["rotor.hub-radius: 100 mm", "root face, 40.000 mm", "remove it"],
+        &[
+            "rotor.hub-radius: 100 mm",
+            "root face, 40.000 mm",
+            "remove it",
+        ],
     );
     // The disc's own size reaching into the blades.
     let text = format!(
@@ -126,25 +159,38 @@ fn repro_06_hub_swallowing_the_blades_is_refused_with_the_fix() {
         &["rotor.hub.diameter: 200.00 mm", "under 80.00 mm"],
     );
     // Without the key the default disc stops short of the root face and the rotor builds.
-    let text = format!("{}[rotor]\nblades = 3\n[rotor.hub]\nthickness = 10\n", blade());
+    let text = format!(
+        "{}[rotor]\nblades = 3\n[rotor.hub]\nthickness = 10\n",
+        blade()
+    );
     let r = build(&text);
     assert_eq!(r.code, 0, "{}", r.stderr);
-    assert_eq!(r.files("out"), ["t-hub.stl", "t-rotor.stl", "t.stl"]);
+    assert_eq!(
+        r.files("out"),
+        [
+            "t-hub.stl",
+            "t-preview.png",
+            "t-rotor-preview.png",
+            "t-rotor.stl",
+            "t.stl"
+        ]
+    );
 }
 
 #[test]
 fn one_blade_rotor_builds_with_its_caution() {
     // A one-blade rotor is legitimate with a counterweight (common practice for some
     // small turbines); spanwright builds it and says the counterweight is the user's.
-    let d = spanwright::design::parse_toml_str(
-        &format!("{}[rotor]\nblades = 1\n", blade()),
-        None,
-    )
-    .unwrap();
+    let d = spanwright::design::parse_toml_str(&format!("{}[rotor]\nblades = 1\n", blade()), None)
+        .unwrap();
     let outcome = spanwright::pipeline::run(&d, &Default::default()).unwrap();
     let rotor = outcome.rotor.expect("rotor");
     assert_eq!(rotor.transforms.len(), 1);
-    assert!(rotor.notes.iter().any(|n| n.contains("counterweight")), "{:?}", rotor.notes);
+    assert!(
+        rotor.notes.iter().any(|n| n.contains("counterweight")),
+        "{:?}",
+        rotor.notes
+    );
 }
 
 #[test]
@@ -153,7 +199,15 @@ fn misspelt_table_is_refused() {
         "{}[roots]\nshank-diameter = 10\nshank-length = 5\ntransition-length = 20\n",
         blade()
     );
-    expect(2, &build(&text), "[roots]", &["t.toml:16: roots: unknown table [roots]", "did you mean [root]?"]);
+    expect(
+        2,
+        &build(&text),
+        "[roots]",
+        &[
+            "t.toml:16: roots: unknown table [roots]",
+            "did you mean [root]?",
+        ],
+    );
 }
 
 #[test]
@@ -184,7 +238,12 @@ fn root_and_tip_errors_name_file_line_and_key() {
 #[test]
 fn min_te_thickness_beyond_its_maximum_is_refused() {
     let text = blade().replace("[blade]\n", "[blade]\nmin-te-thickness = 100\n");
-    expect(2, &build(&text), "min-te-thickness 100", &["blade.min-te-thickness", "at most 2 mm"]);
+    expect(
+        2,
+        &build(&text),
+        "min-te-thickness 100",
+        &["blade.min-te-thickness", "at most 2 mm"],
+    );
 }
 
 #[test]
@@ -204,13 +263,16 @@ fn truncated_stl_says_what_is_wrong() {
     let path = dir.path().join("cut.stl");
     std::fs::write(&path, &stl).unwrap();
     let out = std::process::Command::new(env!("CARGO_BIN_EXE_spanwright"))
-        .args(["fit", "cut.stl"])
+        .args(["fit", "cut.stl", "--printer", "medium-220"])
         .current_dir(dir.path())
         .output()
         .unwrap();
     let err = String::from_utf8_lossy(&out.stderr);
     assert_eq!(out.status.code(), Some(2), "{err}");
-    assert!(err.contains("cut.stl: is cut short: its header announces 10 triangles"), "{err}");
+    assert!(
+        err.contains("cut.stl: is cut short: its header announces 10 triangles"),
+        "{err}"
+    );
     assert!(!err.contains("fill whole buffer"), "{err}");
 }
 
@@ -223,7 +285,15 @@ fn report_refuses_impossible_thrust() {
     ] {
         let r = run_in_temp(
             &[("t.toml", &blade())],
-            &["report", "t.toml", "--no-files", "--rpm", "300", arg[0], arg[1]],
+            &[
+                "report",
+                "t.toml",
+                "--no-files",
+                "--rpm",
+                "300",
+                arg[0],
+                arg[1],
+            ],
         );
         expect(2, &r, want, &[want]);
     }
@@ -262,5 +332,9 @@ fn draft_names_the_first_station_radius_once() {
     old[3] = "--hub-radius";
     let r = run_in_temp(&[], &old);
     assert_eq!(r.code, 0, "{}", r.stderr);
-    assert!(r.stderr.contains("now called the inner radius"), "{}", r.stderr);
+    assert!(
+        r.stderr.contains("now called the inner radius"),
+        "{}",
+        r.stderr
+    );
 }

@@ -57,7 +57,10 @@ fn root_error(text: &str) -> (RootError, String) {
             cause: BladeError::Root(e),
             problem,
         }) => {
-            assert!(problem.key.as_deref().is_some_and(|k| k.starts_with("root")));
+            assert!(problem
+                .key
+                .as_deref()
+                .is_some_and(|k| k.starts_with("root")));
             let msg = e.to_string();
             (e, msg)
         }

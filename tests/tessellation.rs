@@ -205,7 +205,10 @@ fn same_mesh_and_stl_bytes_on_one_and_four_threads() {
         pool.install(|| {
             let m = build_blade(
                 &design,
-                &Options { tolerance: Some(0.002), ..Options::default() },
+                &Options {
+                    tolerance: Some(0.002),
+                    ..Options::default()
+                },
             )
             .unwrap();
             let report = spanwright::check::check_solid(m.mesh(), &Default::default());
@@ -238,7 +241,10 @@ fn printed_deviation_bounds_a_dense_independent_sampling() {
         spanwright::design::load(std::path::Path::new("examples/garden-turbine.toml")).unwrap();
     let m = build_blade(
         &design,
-        &Options { tolerance: Some(0.01), ..Options::default() },
+        &Options {
+            tolerance: Some(0.01),
+            ..Options::default()
+        },
     )
     .unwrap();
     let t = &m.tessellation;
@@ -317,7 +323,10 @@ fn work_estimate_is_within_a_factor_1_5_of_the_real_tessellation() {
         for tol in [0.03, 0.01, 0.003, 0.001] {
             let m = build_blade(
                 design,
-                &Options { tolerance: Some(tol), ..Options::default() },
+                &Options {
+                    tolerance: Some(tol),
+                    ..Options::default()
+                },
             )
             .unwrap();
             let t = &m.tessellation;

@@ -27,7 +27,10 @@ fn model(text: &str, tol: f64) -> BuiltBlade {
     let design = parse_toml_str(text, None).expect("valid design");
     build_blade(
         &design,
-        &Options { tolerance: Some(tol), ..Options::default() },
+        &Options {
+            tolerance: Some(tol),
+            ..Options::default()
+        },
     )
     .expect("builds")
 }

@@ -240,12 +240,7 @@ struct Profile {
     mean_n: usize,
 }
 
-fn profile(
-    segs: &[[Point2<f64>; 2]],
-    origin: Point2<f64>,
-    e: Vector2<f64>,
-    chord: f64,
-) -> Profile {
+fn profile(segs: &[[Point2<f64>; 2]], origin: Point2<f64>, e: Vector2<f64>, chord: f64) -> Profile {
     let nrm = Vector2::new(-e.y, e.x);
     let (mut thickest, mut s_thick, mut mean_sum, mut mean_n) = (0.0, 0.5, 0.0, 0);
     for k in 1..20 {

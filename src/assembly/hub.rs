@@ -266,7 +266,6 @@ impl HubSpec {
         ))
     }
 
-
     /// The bolt holes (count, hole radius, circle radius), checked against the bore, the
     /// rim and each other; `None` without bolts.
     fn bolts(&self, disc: &Disc) -> Result<Option<(u32, f64, f64)>, AssemblyError> {

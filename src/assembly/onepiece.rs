@@ -80,12 +80,7 @@ pub fn one_piece(
 ) -> Result<Part, AssemblyError> {
     check_rotor(blade, rotor)?;
     let frames = Frames::new(blade, rotor);
-    let prism = Prism::size(
-        blade.facts,
-        rotor.blades as usize,
-        &frames.ring_face,
-        spec,
-    )?;
+    let prism = Prism::size(blade.facts, rotor.blades as usize, &frames.ring_face, spec)?;
     let mut mesh = TriMesh::new();
     let rings = add_blades(&mut mesh, blade, &frames.placed);
     let mut corners = Corners::new(prism.z0);

@@ -315,15 +315,16 @@ pub(crate) fn read(
     let mut header: Option<Header> = None;
     for (line, record) in split(text, sep) {
         let loc = Loc::new(file, Some(line), None);
-        let record = match record {
-            Ok(r) => r,
-            Err(message) => {
-                problems.push(loc.problem(message).hint(
-                    "a quoted cell must end with a quote; write a quote inside one as \"\"",
-                ));
-                continue;
-            }
-        };
+        let record =
+            match record {
+                Ok(r) => r,
+                Err(message) => {
+                    problems.push(loc.problem(message).hint(
+                        "a quoted cell must end with a quote; write a quote inside one as \"\"",
+                    ));
+                    continue;
+                }
+            };
         if record.iter().all(|c| c.is_empty()) {
             continue;
         }
@@ -384,7 +385,13 @@ fn read_row(
         // Quoted cells keep their inner spaces; no value needs them at its ends.
         let cell = record.get(i).map_or("", |c| c.trim());
         if cell.is_empty() {
-            empty_cell(&mut row, column.col, i < record.len(), section_default, problems);
+            empty_cell(
+                &mut row,
+                column.col,
+                i < record.len(),
+                section_default,
+                problems,
+            );
         } else {
             read_cell(&mut row, column, cell, decimal_comma, problems);
         }
@@ -552,9 +559,9 @@ fn header_cell(
         );
     }
     let said = match (&unit, col) {
-        (Some(u), Col::Radius | Col::Chord | Col::Sweep | Col::Prebend) => Some(
-            format!("the column header '{}' says {u}", cell.trim()).into(),
-        ),
+        (Some(u), Col::Radius | Col::Chord | Col::Sweep | Col::Prebend) => {
+            Some(format!("the column header '{}' says {u}", cell.trim()).into())
+        }
         (None, _) => defaults.said.clone(),
         _ => None,
     };

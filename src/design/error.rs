@@ -69,7 +69,11 @@ impl fmt::Display for Problem {
             write!(f, ":{line}")?;
         }
         // A message that opens with its key (`root.bore.depth = 12: ...`) names it already.
-        if let Some(key) = self.key.as_ref().filter(|k| !self.message.starts_with(k.as_str())) {
+        if let Some(key) = self
+            .key
+            .as_ref()
+            .filter(|k| !self.message.starts_with(k.as_str()))
+        {
             write!(f, ": {key}")?;
         }
         write!(f, ": {}", self.message)?;

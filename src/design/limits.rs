@@ -76,9 +76,8 @@ pub(crate) fn show_number(v: f64) -> String {
 /// when the same number would be a valid length in millimetres: the likely unit slip.
 /// `said` tells where the unit came from (e.g. `units = { length = "m" }`).
 pub(crate) fn unit_slip_hint(raw: f64, unit: &str, said: &str) -> Option<String> {
-    (unit != "mm" && raw.abs() <= MAX_LENGTH_MM).then(|| {
-        format!("did you mean millimetres? the value is read in {unit} because {said}")
-    })
+    (unit != "mm" && raw.abs() <= MAX_LENGTH_MM)
+        .then(|| format!("did you mean millimetres? the value is read in {unit} because {said}"))
 }
 
 #[cfg(test)]

@@ -12,8 +12,8 @@ use std::sync::Arc;
 
 use super::error::{Loc, Problem};
 use super::limits::{
-    show_number, unit_slip_hint, MAX_LENGTH_MM, MAX_STATIONS, MIN_CHORD_TOLERANCES, MIN_GAP_TOLERANCES,
-    MIN_SPAN_TOLERANCES,
+    show_number, unit_slip_hint, MAX_LENGTH_MM, MAX_STATIONS, MIN_CHORD_TOLERANCES,
+    MIN_GAP_TOLERANCES, MIN_SPAN_TOLERANCES,
 };
 use super::{Stacking, Station};
 

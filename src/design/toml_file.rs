@@ -12,7 +12,9 @@ use toml::{Table, Value};
 
 use super::csv_table::{self, Defaults};
 use super::error::{DesignError, Loc, Problem};
-use super::limits::{show_number, MAX_FILE_BYTES, MAX_TE_CHORD_FRACTION, MAX_TOLERANCE_MM, MIN_TOLERANCE_MM};
+use super::limits::{
+    show_number, MAX_FILE_BYTES, MAX_TE_CHORD_FRACTION, MAX_TOLERANCE_MM, MIN_TOLERANCE_MM,
+};
 use super::rows::{validate, Num, Row, Rules};
 use super::spans::{line_of, render, Seg, Spans};
 use super::suggest;
@@ -518,11 +520,10 @@ impl Reader<'_> {
             },
             (None, Some(v)) => self.csv_stations(v, units, has_default_section, dir),
             (None, None) => {
-                self.problems.push(
-                    Problem::new(&self.file, "no stations").hint(
+                self.problems
+                    .push(Problem::new(&self.file, "no stations").hint(
                         "add [[station]] entries, or stations = \"table.csv\" naming a CSV table",
-                    ),
-                );
+                    ));
                 StationRows::none()
             }
         }
@@ -614,9 +615,8 @@ impl Reader<'_> {
                 return Vec::new();
             }
         };
-        let said: Option<Arc<str>> = (length != LengthUnit::Mm).then(|| {
-            format!("the file says units = {{ length = \"{}\" }}", length.name()).into()
-        });
+        let said: Option<Arc<str>> = (length != LengthUnit::Mm)
+            .then(|| format!("the file says units = {{ length = \"{}\" }}", length.name()).into());
         let mut rows = Vec::with_capacity(entries.len().min(super::MAX_STATIONS + 1));
         for (i, entry) in entries.iter().enumerate().take(super::MAX_STATIONS + 1) {
             if let Some(row) = self.station(i, entry, length, angle, &said) {

@@ -59,8 +59,7 @@ pub mod yaw;
 
 pub use advice::{advise, AdviceOptions, PrintAdvice, TrailingEdgeAdvice};
 pub use job::{
-    isometry, plan_job, FitFigures, JobItem, JobPlan, JobReport, PartFit, PlateItem,
-    MAX_COPIES,
+    isometry, plan_job, FitFigures, JobItem, JobPlan, JobReport, PartFit, PlateItem, MAX_COPIES,
 };
 pub use layout::{layout, layout_fitted, polygon_distance, Layout, LayoutOptions, Placed, Plate};
 pub use orient::{Choice, Orientation, Pose, PrintOptions, ScoreTerms};

@@ -39,13 +39,18 @@ pub fn read_stl_part(path: &Path) -> Result<Part, FitError> {
 /// The STL layout of `bytes`, with the bytes to give the reader (a binary header that
 /// starts like an ASCII file is changed so the reader takes it as binary; an ASCII
 /// `solid` line without a name gets the space the reader expects).
-fn layout<'a>(bytes: &'a [u8], why: impl Fn(String) -> FitError) -> Result<Cow<'a, [u8]>, FitError> {
+fn layout<'a>(
+    bytes: &'a [u8],
+    why: impl Fn(String) -> FitError,
+) -> Result<Cow<'a, [u8]>, FitError> {
     if bytes.is_empty() {
         return Err(why("is empty; export the part again as STL".into()));
     }
     let starts_ascii = bytes.len() >= 5 && bytes[..5].eq_ignore_ascii_case(b"solid");
     let count = (bytes.len() as u64 >= BINARY_HEAD).then(|| {
-        u64::from(u32::from_le_bytes([bytes[80], bytes[81], bytes[82], bytes[83]]))
+        u64::from(u32::from_le_bytes([
+            bytes[80], bytes[81], bytes[82], bytes[83],
+        ]))
     });
     let binary_size = count.map(|n| BINARY_HEAD + BINARY_TRIANGLE * n);
     if starts_ascii && binary_size != Some(bytes.len() as u64) {
@@ -160,12 +165,22 @@ mod tests {
 
     #[test]
     fn truncated_binary_names_the_figures() {
-        let e = parse_stl(&binary(b"x", 3, 2), "p", "p.stl").unwrap_err().to_string();
+        let e = parse_stl(&binary(b"x", 3, 2), "p", "p.stl")
+            .unwrap_err()
+            .to_string();
         assert!(e.starts_with("p.stl: is cut short"), "{e}");
-        assert!(e.contains("3 triangles, 234 bytes") && e.contains("184 bytes (2 whole"), "{e}");
-        let e = parse_stl(b"\x00\x01", "p", "p.stl").unwrap_err().to_string();
+        assert!(
+            e.contains("3 triangles, 234 bytes") && e.contains("184 bytes (2 whole"),
+            "{e}"
+        );
+        let e = parse_stl(b"\x00\x01", "p", "p.stl")
+            .unwrap_err()
+            .to_string();
         assert!(e.contains("too short"), "{e}");
-        assert!(parse_stl(b"", "p", "p.stl").unwrap_err().to_string().contains("empty"));
+        assert!(parse_stl(b"", "p", "p.stl")
+            .unwrap_err()
+            .to_string()
+            .contains("empty"));
     }
 
     #[test]

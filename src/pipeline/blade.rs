@@ -164,7 +164,13 @@ fn available_memory() -> f64 {
     };
     text.lines()
         .find_map(|l| l.strip_prefix("MemAvailable:"))
-        .and_then(|rest| rest.trim().trim_end_matches("kB").trim().parse::<f64>().ok())
+        .and_then(|rest| {
+            rest.trim()
+                .trim_end_matches("kB")
+                .trim()
+                .parse::<f64>()
+                .ok()
+        })
         .map_or(FALLBACK, |kb| kb * 1024.0)
 }
 

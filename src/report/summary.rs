@@ -23,9 +23,7 @@
 use serde::Serialize;
 
 use crate::design::{Design, Rotation};
-use crate::fit::{
-    plan_job, FitError, JobItem, LayoutOptions, PrintabilityOptions, PrinterSpec,
-};
+use crate::fit::{plan_job, FitError, JobItem, LayoutOptions, PrintabilityOptions, PrinterSpec};
 use crate::pipeline::Outcome;
 use crate::props::{Fill, FilledMass, MassProps, Material, ShellOptions, StressTable};
 

@@ -131,6 +131,7 @@ pub fn build(
     }
     let count = splits.len() + 1;
     let grid = nu * nv;
+    let tip_z = mesh.vertices[nv - 1].z;
     // Band of each triangle: the number of split rows below its highest grid row.
     let mut bands: Vec<Vec<[u32; 3]>> = vec![Vec::new(); count];
     for (t, tri) in mesh.triangles.iter().enumerate() {
@@ -146,17 +147,24 @@ pub fn build(
             Some(row) if tri.iter().all(|&v| (v as usize) < grid) => {
                 rows.iter().filter(|&&j| j < row).count()
             }
-            // Mounting features: the root segment (planning keeps splits beyond them).
-            Some(row) => {
-                if rows.first().is_some_and(|&j| row > j) {
+            // Vertices off the grid: mounting features at the root (the root segment:
+            // planning keeps splits beyond them), or interior points of the tip cap
+            // (in the tip's plane, so in the last segment).
+            _ => {
+                let zmax = tri
+                    .iter()
+                    .map(|&v| mesh.vertices[v as usize].z)
+                    .fold(f64::NEG_INFINITY, f64::max);
+                let band = splits.iter().filter(|&&r| zmax > r).count();
+                let at_tip = (zmax - tip_z).abs() <= 1e-9 * tip_z.abs().max(1.0);
+                if band > 0 && !at_tip {
                     return Err(SegmentError::mesh(format!(
                         "a root feature reaches beyond the first split at {:.2} mm",
                         splits[0]
                     )));
                 }
-                0
+                band
             }
-            None => 0,
         };
         bands[band].push(*tri);
     }
@@ -321,7 +329,14 @@ pub fn build(
             );
         }
         if s == 0 {
-            hull.extend(mesh.vertices[grid..].iter().copied());
+            // The root's features (a flange reaches beyond the skin); the tip cap's
+            // interior points lie inside the tip row's outline and another segment.
+            hull.extend(
+                mesh.vertices[grid..]
+                    .iter()
+                    .filter(|p| p.z <= z_hi)
+                    .copied(),
+            );
         }
         out.push(SegmentMesh {
             index: s + 1,

@@ -131,7 +131,11 @@ pub fn estimate(skin: &Skin, tolerance: f64) -> WorkEstimate {
             let k = us.partition_point(|&x| x < m).min(nu - 1);
             limit = limit.min(0.25 * (grid[i * nv + j] - grid[k * nv + j]).norm());
         }
-        let limit = limit.max(f64::MIN_POSITIVE);
+        // At a knife trailing edge the thickness, and so this limit, goes to zero in a
+        // band far narrower than a sample interval: the grid refines only that band (to
+        // its depth limit), so the estimate floors the limit at a tenth of the chord
+        // tolerance rather than spread an unbounded density over the whole interval.
+        let limit = limit.max(0.1 * tau);
         (
             limit,
             normal_part(&su, &suu),
