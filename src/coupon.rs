@@ -11,8 +11,13 @@
 //!   around the socket (half the hub's thickness less the socket radius), never under
 //!   `rotor.hub.min-wall`.
 //!
-//! Both are made when the design has a `[root]` and a hub with sockets (see
-//! [`coupons`]). They print standing on an end face; the clearance found with them
+//! * **Joint coupon** (`<name>-coupon-joint`), for a blade split into segments: a short
+//!   slice of the blade at its first joint, the outline of the split face, with the pin
+//!   holes and the spar channel (when it crosses the joint) running through it at their
+//!   diameters and places; a pin and the rod are tried in it before the segments print.
+//!
+//! The shank and socket coupons are made when the design has a `[root]` and a hub with
+//! sockets, the joint coupon when the blade is split (see [`coupons`]). They print standing on an end face; the clearance found with them
 //! carries over to the rotor when the blade's shank is printed the same way (the outline
 //! in the layer plane).
 //!
@@ -36,18 +41,16 @@
 //! design's mesh tolerance; the shank and the socket use the same sides at the same
 //! angles, so the gap between the two outlines is the same at every vertex.
 //!
-//! # Adding a coupon kind (the hook for joint coupons)
-//! A segmented blade's joint coupon (a short slice of the blade at the joint, with the
-//! channel as a hole and the pins) fits the same frame: add a [`CouponKind`] variant,
-//! write a function that returns its loops (the section outline from
-//! [`crate::blade::Blade::ring`] at the joint radius, the channel and the pin holes as
-//! holes; a pin itself is a [`prism`] of a circle) and the genus, and add it to the list
-//! in [`coupons`]; naming ([`CouponKind::suffix`]), certification and writing come with
-//! the frame.
+//! # Adding a coupon kind
+//! Add a [`CouponKind`] variant, write a function that returns its loops (outer
+//! counter-clockwise, holes clockwise) and add it to [`coupons`]; naming
+//! ([`CouponKind::suffix`]), certification and writing come with the frame. The joint
+//! coupon's outline is the whole blade's mesh cut at the joint ([`crate::mesh::Slice`]),
+//! within the mesh tolerance of the split face.
 
 use crate::assembly::circle_sides;
 use crate::check::{certify, CheckOptions, CheckedPart, Rejected};
-use crate::mesh::{Part, TriMesh};
+use crate::mesh::{Part, Slice, TriMesh};
 use crate::pipeline::Outcome;
 use crate::planar::triangulate;
 use crate::root::RootSpec;
@@ -62,6 +65,8 @@ pub enum CouponKind {
     Shank,
     /// A ring of the hub's blade socket.
     Socket,
+    /// A slice of a split blade at its first joint, with the pin holes and the channel.
+    Joint,
 }
 
 impl CouponKind {
@@ -70,6 +75,7 @@ impl CouponKind {
         match self {
             CouponKind::Shank => "-coupon-shank",
             CouponKind::Socket => "-coupon-socket",
+            CouponKind::Joint => "-coupon-joint",
         }
     }
 }
@@ -100,8 +106,9 @@ pub struct Coupon {
     pub kind: CouponKind,
     /// The part (closed, oriented, checked), axis along z from z = 0.
     pub part: CheckedPart,
-    /// Socket diameter minus the shank's larger extent, mm (the design's
-    /// `rotor.hub.socket-clearance`).
+    /// The fit it tests, mm: socket diameter minus the shank's larger extent (the
+    /// design's `rotor.hub.socket-clearance`) for the shank and socket coupons; pin hole
+    /// minus pin diameter (`segments.dowels.clearance`) for the joint coupon.
     pub clearance: f64,
 }
 
@@ -128,35 +135,55 @@ pub enum CouponError {
 }
 
 /// The coupons of a built design: the shank and socket coupons when the design has a
-/// `[root]` and a hub with sockets (`[rotor.hub]`, `sockets` on).
+/// `[root]` and a hub with sockets (`[rotor.hub]`, `sockets` on), and the joint coupon
+/// when the blade is split into segments.
 ///
 /// # Errors
-/// [`CouponError::NothingToTest`] when the design has no shank or no socket (a build
-/// with `blade_only` has no hub); [`CouponError::BadLength`]; the others are bugs.
+/// [`CouponError::NothingToTest`] when the design has none of these (a build with
+/// `blade_only` has no hub); [`CouponError::BadLength`]; the others are bugs.
 pub fn coupons(outcome: &Outcome, opts: &CouponOptions) -> Result<Vec<Coupon>, CouponError> {
     if !(opts.length > 0.0 && opts.length.is_finite()) {
         return Err(CouponError::BadLength(opts.length));
     }
-    let name = &outcome.blade.name;
-    let nothing = |reason| CouponError::NothingToTest {
-        name: name.clone(),
-        reason,
+    let mut out = Vec::new();
+    let missing = match shank_and_socket(outcome, opts)? {
+        Ok(pair) => {
+            out.extend(pair);
+            None
+        }
+        Err(reason) => Some(reason),
     };
-    let root = outcome
-        .blade
-        .blade
-        .root()
-        .ok_or_else(|| nothing("the design has no [root] shank; add a [root] table"))?;
-    let rotor = outcome.rotor.as_ref().ok_or_else(|| {
-        nothing("the build has no rotor; add a [rotor] table with [rotor.hub] (and build without --blade-only)")
-    })?;
+    out.extend(joint(outcome, opts)?);
+    match missing {
+        Some(reason) if out.is_empty() => Err(CouponError::NothingToTest {
+            name: outcome.blade.name.clone(),
+            reason,
+        }),
+        _ => Ok(out),
+    }
+}
+
+/// The shank and socket coupons, or what the design lacks for them.
+fn shank_and_socket(
+    outcome: &Outcome,
+    opts: &CouponOptions,
+) -> Result<Result<Vec<Coupon>, &'static str>, CouponError> {
+    let name = &outcome.blade.name;
+    let Some(root) = outcome.blade.blade.root() else {
+        return Ok(Err("the design has no [root] shank; add a [root] table"));
+    };
+    let Some(rotor) = outcome.rotor.as_ref() else {
+        return Ok(Err("the build has no rotor; add a [rotor] table with [rotor.hub] (and build without --blade-only)"));
+    };
     let (hub, spec) = match (&rotor.hub, &rotor.spec.hub) {
         (Some(h), Some(s)) => (h, s),
-        _ => return Err(nothing("the rotor has no hub; add a [rotor.hub] table")),
+        _ => return Ok(Err("the rotor has no hub; add a [rotor.hub] table")),
     };
-    let sockets = hub.sockets.as_ref().ok_or_else(|| {
-        nothing("the hub has no blade sockets; set rotor.hub.sockets = true (the default)")
-    })?;
+    let Some(sockets) = hub.sockets.as_ref() else {
+        return Ok(Err(
+            "the hub has no blade sockets; set rotor.hub.sockets = true (the default)",
+        ));
+    };
     let tol = outcome.blade.tolerance;
     let wall = (0.5 * hub.thickness - sockets.radius).max(spec.min_wall);
     let sides = ring_sides(root, sockets.radius + wall, tol);
@@ -166,7 +193,7 @@ pub fn coupons(outcome: &Outcome, opts: &CouponOptions) -> Result<Vec<Coupon>, C
         circle(sockets.radius + wall, sides, false),
         circle(sockets.radius, sides, true),
     ];
-    Ok(vec![
+    Ok(Ok(vec![
         coupon(
             name,
             CouponKind::Shank,
@@ -181,7 +208,40 @@ pub fn coupons(outcome: &Outcome, opts: &CouponOptions) -> Result<Vec<Coupon>, C
             opts.length,
             spec.socket_clearance,
         )?,
-    ])
+    ]))
+}
+
+/// The joint coupon of a split blade (its first joint), or `None` when it is not split.
+fn joint(outcome: &Outcome, opts: &CouponOptions) -> Result<Option<Coupon>, CouponError> {
+    let Some(plan) = outcome.segments.as_ref() else {
+        return Ok(None);
+    };
+    let Some(j) = plan.joints.first() else {
+        return Ok(None);
+    };
+    let name = format!("{}{}", outcome.blade.name, CouponKind::Joint.suffix());
+    let cut = Slice::cut(outcome.blade.mesh(), j.radius)
+        .map_err(|_| CouponError::Outline(name.clone()))?;
+    let [outer] = &cut.loops[..] else {
+        return Err(CouponError::Outline(name));
+    };
+    let tol = outcome.blade.tolerance.max(1e-6);
+    let mut loops = vec![outer.clone()];
+    for (centre, diameter) in j.holes(plan.channel.as_ref()) {
+        let r = 0.5 * diameter;
+        let sides = circle_sides(r, tol).div_ceil(4) * 4;
+        let ring = circle(r, sides, true);
+        loops.push(ring.iter().map(|p| centre + p.coords).collect());
+    }
+    let clearance = j.hole_diameter - j.pin_diameter;
+    coupon(
+        &outcome.blade.name,
+        CouponKind::Joint,
+        &loops,
+        opts.length,
+        clearance,
+    )
+    .map(Some)
 }
 
 /// Sides of every circle of the coupons: enough for the largest curvature radius of the

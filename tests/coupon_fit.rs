@@ -206,3 +206,78 @@ fn coupons_are_the_same_bytes_every_time() {
         assert!(x.part.mesh() == y.part.mesh());
     }
 }
+
+#[test]
+fn joint_coupon_of_a_split_blade() {
+    // The barn-turbine demo splits its blade; the joint coupon is a 10 mm slice at the
+    // first joint with the pin holes and the rod's channel through it.
+    let d = design::load(std::path::Path::new("examples/barn-turbine.toml")).unwrap();
+    let outcome = pipeline::run(&d, &pipeline::Options::default()).unwrap();
+    let plan = outcome.segments.as_ref().expect("the demo is split");
+    let joint = &plan.joints[0];
+    let holes = joint.holes(plan.channel.as_ref());
+    let all = coupons(&outcome, &CouponOptions::DEFAULT).unwrap();
+    let c = all
+        .iter()
+        .find(|c| c.kind == CouponKind::Joint)
+        .expect("a joint coupon");
+    let m = c.part.mesh();
+    // The clearance is the design's dowel clearance (segments.dowels.clearance = 0.2).
+    assert_near!(c.clearance, 0.2, 1e-12);
+    // A prism 10 mm long (CouponOptions::DEFAULT).
+    assert_near!(length(m), 10.0, 1e-9);
+    // Genus = holes, by Euler's formula V - E + F = 2 - 2g for a closed orientable
+    // surface (every edge is shared by two triangles, so E = 3F/2).
+    let (v, f) = (m.vertices.len() as i64, m.triangles.len() as i64);
+    let genus = (2 - (v - 3 * f / 2 + f)) / 2;
+    assert_eq!(genus as usize, holes.len());
+    // Each hole's wall: vertices at the hole's radius from its centre (inscribed
+    // polygon), the pin holes at pin + clearance.
+    for (centre, diameter) in &holes {
+        let near: Vec<f64> = m
+            .vertices
+            .iter()
+            .map(|p| (p.x - centre.x).hypot(p.y - centre.y))
+            .filter(|r| (r - 0.5 * diameter).abs() < 0.05)
+            .collect();
+        assert!(
+            near.len() >= 2 * 8,
+            "hole at {centre}: {} wall vertices",
+            near.len()
+        );
+        for r in near {
+            assert_near!(r, 0.5 * diameter, 1e-9);
+        }
+    }
+    assert!(holes
+        .iter()
+        .any(|(_, d)| (d - (joint.pin_diameter + 0.2)).abs() < 1e-12));
+    // Volume = length x (outline area - hole areas): the shoelace formula (Gauss's
+    // area formula) for the outline, n/2 r² sin(2 pi / n) for each inscribed n-gon;
+    // the mesh volume by the divergence theorem (signed tetrahedra).
+    let cut = spanwright::mesh::Slice::cut(outcome.blade.mesh(), joint.radius).unwrap();
+    let outline = &cut.loops[0];
+    let area: f64 = 0.5
+        * (0..outline.len())
+            .map(|i| {
+                let (a, b) = (outline[i], outline[(i + 1) % outline.len()]);
+                a.x * b.y - b.x * a.y
+            })
+            .sum::<f64>();
+    let ring = |z: f64, centre: &nalgebra::Point2<f64>, r: f64| {
+        m.vertices
+            .iter()
+            .filter(|p| {
+                (p.z - z).abs() < 1e-9 && ((p.x - centre.x).hypot(p.y - centre.y) - r).abs() < 1e-9
+            })
+            .count()
+    };
+    let holes_area: f64 = holes
+        .iter()
+        .map(|(c, d)| {
+            let n = ring(0.0, c, 0.5 * d) as f64;
+            0.5 * n * (0.5 * d).powi(2) * (2.0 * PI / n).sin()
+        })
+        .sum();
+    assert_rel!(m.signed_volume(), 10.0 * (area - holes_area), 1e-9);
+}

@@ -5,7 +5,7 @@ use super::{load, progress::Stages, Context, Verdict};
 use anyhow::Context as _;
 use spanwright::assembly::hand_description;
 use spanwright::atomic::Batch;
-use spanwright::coupon::{self, Coupon, CouponError, CouponOptions};
+use spanwright::coupon::{self, Coupon, CouponError, CouponKind, CouponOptions};
 use spanwright::design::variants::{variants, Variant};
 use spanwright::design::Design;
 use spanwright::export::{file_name, stage_outcome, write_mesh_to, Format, StepNote};
@@ -50,9 +50,10 @@ pub struct Args {
     /// also writes the hub, the assembled rotor and the one-piece rotor it asks for).
     #[arg(long)]
     pub blade_only: bool,
-    /// Fit coupons, a few grams to print before the rotor to try the shank in its socket
-    /// (<name>-coupon-shank, <name>-coupon-socket): auto writes them with the parts when
-    /// the design has a [root] and hub sockets; none; only writes just the coupons.
+    /// Fit coupons, a few grams to print before the rotor: the shank in its socket
+    /// (<name>-coupon-shank, <name>-coupon-socket) and a split blade's pins and rod in a
+    /// slice at its first joint (<name>-coupon-joint). auto writes them with the parts
+    /// when the design has them; none; only writes just the coupons.
     #[arg(long, value_enum, default_value_t = Coupons::Auto)]
     pub coupons: Coupons,
     /// Split the blade into segments: auto (the fewest that fit the design's [printer]),
@@ -64,7 +65,7 @@ pub struct Args {
 /// When `build` writes fit coupons.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub enum Coupons {
-    /// With the parts, when the design has a root shank and hub sockets.
+    /// With the parts, when the design has a root shank and hub sockets, or segments.
     Auto,
     /// Never.
     None,
@@ -475,17 +476,30 @@ impl Summary {
         if let Some(r) = &self.rotor {
             let _ = writeln!(s, "  rotor: {r}");
         }
-        if let Some(first) = self.coupons.first() {
+        if !self.coupons.is_empty() {
             let list: Vec<String> = self
                 .coupons
                 .iter()
                 .map(|c| format!("{} {:.2} cm³", c.name, c.volume_mm3 / 1000.0))
                 .collect();
+            let mut fits = Vec::new();
+            if let Some(c) = self.coupons.iter().find(|c| c.kind == CouponKind::Socket) {
+                fits.push(format!(
+                    "the socket is {:.2} mm wider than the shank (rotor.hub.socket-clearance)",
+                    c.clearance_mm
+                ));
+            }
+            if let Some(c) = self.coupons.iter().find(|c| c.kind == CouponKind::Joint) {
+                fits.push(format!(
+                    "the joint's pin holes are {:.2} mm wider than the pins (segments.dowels.clearance)",
+                    c.clearance_mm
+                ));
+            }
             let _ = writeln!(
                 s,
-                "  fit coupons: {}; the socket is {:.2} mm wider than the shank (rotor.hub.socket-clearance): print them before the rotor",
+                "  fit coupons: {}; {}: print them before the rotor",
                 list.join(", "),
-                first.clearance_mm
+                fits.join("; ")
             );
         }
         if let Some(plan) = &self.segments {

@@ -98,7 +98,7 @@ pub fn parse_stl(bytes: &[u8], name: &str, label: &str) -> Result<Part, FitError
         path: label.to_string(),
         why,
     };
-    let bytes = layout(bytes, &bad)?;
+    let bytes = layout(bytes, bad)?;
     let mut cursor = std::io::Cursor::new(bytes.as_ref());
     let raw = stl_io::read_stl(&mut cursor).map_err(|e| {
         bad(format!(

@@ -191,7 +191,7 @@ fn blade_model(design: &Design, sections: &[Section]) -> Result<Blade, PipelineE
 fn in_table(design: &Design, e: BladeError) -> PipelineError {
     match e.key() {
         Some(key) => PipelineError::Table {
-            problem: design.problem(&key, e.to_string()),
+            problem: Box::new(design.problem(&key, e.to_string())),
             cause: e,
         },
         None => e.into(),

@@ -31,7 +31,7 @@ pub enum PipelineError {
     #[error("{problem}")]
     Table {
         /// The file, line and key, with the cause's message and fix.
-        problem: Problem,
+        problem: Box<Problem>,
         /// Why the blade cannot be built.
         cause: BladeError,
     },

@@ -16,6 +16,14 @@ use crate::mesh::TriMesh;
 use crate::planar::{point_in_polygon, triangulate};
 use nalgebra::{Point2, Point3};
 
+/// One trial triangulation: points, spokes, triangles and the slivers among them.
+type Trial = (
+    Vec<Point2<f64>>,
+    Vec<[usize; 2]>,
+    Vec<[usize; 3]>,
+    Vec<[usize; 3]>,
+);
+
 /// A cap triangle counts as too small when its area is below this fraction of the part's
 /// squared size: four times the solid check's degenerate limit
 /// ([`crate::check::CheckOptions::DEFAULT`]), a margin for the part growing by its mount
@@ -312,13 +320,8 @@ pub(super) fn cap(vertices: &[Point3<f64>], ring: &[u32], up: bool, scale: f64) 
             }
         }
         let mut improved = false;
-        let better = |r: &(
-            Vec<Point2<f64>>,
-            Vec<[usize; 2]>,
-            Vec<[usize; 3]>,
-            Vec<[usize; 3]>,
-        ),
-                      bad: &[[usize; 3]]| r.3.len() < bad.len();
+        // A trial (points, spokes, triangles, slivers) is better with fewer slivers.
+        let better = |r: &Trial, bad: &[[usize; 3]]| r.3.len() < bad.len();
         if let Some(r) = trial(&points, &spokes, &batch).filter(|r| better(r, &bad)) {
             (points, spokes, triangles, bad) = r;
             improved = true;
