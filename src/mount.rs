@@ -34,6 +34,10 @@ pub enum MountError {
     /// Hole outlines cross the grid lines of the band.
     #[error("root.cross-holes: the hole outlines cross the band's grid; give the holes more room from each other and from the transition (root.shank-length, `at`)")]
     OutlinesCrossGrid,
+    /// The root face between the shank's outline and the bore could not be triangulated
+    /// (the bore reaches the outline).
+    #[error("root.bore: the bore's mouth crosses the shank's outline at the root face; give a smaller bore diameter (or a larger root.shank-diameter)")]
+    BoreMeetsOutline,
 }
 
 /// Segments of a quarter-circle fillet.
@@ -62,7 +66,7 @@ pub fn add_mount_features(
 ) -> Result<(), MountError> {
     let grid_vertices = mesh.vertices.len();
     if root.flange.is_some() || root.bore.is_some() {
-        add_lathe_features(mesh, ring, cap, root, face);
+        add_lathe_features(mesh, ring, cap, root, face)?;
     }
     if !root.cross_holes.is_empty() && ring.len() > 2 {
         let c = shank_centre(mesh, ring, root);
@@ -96,13 +100,19 @@ fn shank_centre(mesh: &TriMesh, ring: &[u32], root: &RootSpec) -> Point3<f64> {
 }
 
 /// Flange and bore (see [`add_mount_features`]).
+///
+/// Without a flange the bore opens in the root face inside the skin's own root ring,
+/// which need not be star-shaped about the shank's centre (an opened trailing edge can
+/// turn back on itself there): the face between the ring and the bore's mouth (a
+/// circle) is then a constrained Delaunay triangulation of the two loops, as the
+/// tessellation's own caps are, and the bore is a circle of as many sides as the ring.
 fn add_lathe_features(
     mesh: &mut TriMesh,
     ring: &[u32],
     cap: std::ops::Range<usize>,
     root: &RootSpec,
     face: f64,
-) {
+) -> Result<(), MountError> {
     mesh.triangles.drain(cap);
     let pts: Vec<Point3<f64>> = ring.iter().map(|&i| mesh.vertices[i as usize]).collect();
     let z_ring = pts[0].z;
@@ -153,6 +163,28 @@ fn add_lathe_features(
     let bottom = outer.last().expect("at least the ring").clone();
 
     match &root.bore {
+        Some(b) if root.flange.is_none() => {
+            let rb = 0.5 * b.diameter;
+            let sides = n.max(12);
+            let mut circle = |z: f64| -> Vec<u32> {
+                (0..sides)
+                    .map(|k| {
+                        let t = std::f64::consts::TAU * k as f64 / sides as f64;
+                        mesh.push_vertex(Point3::new(c.x + rb * t.cos(), c.y + rb * t.sin(), z))
+                    })
+                    .collect()
+            };
+            let mouth = circle(face);
+            let floor = circle(face + b.depth);
+            annulus(mesh, &bottom, &mouth)?;
+            strip(mesh, &mouth, &floor, c);
+            let apex = mesh.push_vertex(Point3::new(
+                c.x,
+                c.y,
+                face + b.depth + root.bore_point_depth(),
+            ));
+            fan(mesh, &floor, apex, c);
+        }
         Some(b) => {
             let rb = 0.5 * b.diameter;
             let mouth: Vec<u32> = (0..n).map(|k| mesh.push_vertex(at(k, rb, face))).collect();
@@ -173,6 +205,28 @@ fn add_lathe_features(
             fan(mesh, &bottom, centre, c);
         }
     }
+    Ok(())
+}
+
+/// The planar face between the loop `outer` and the loop `inner` inside it (both in the
+/// root face's plane, any sense), facing down (-z, away from the blade): a constrained
+/// Delaunay triangulation of the two loops with no added points, so its boundary is
+/// the loops' own edges.
+fn annulus(mesh: &mut TriMesh, outer: &[u32], inner: &[u32]) -> Result<(), MountError> {
+    let ids: Vec<u32> = outer.iter().chain(inner).copied().collect();
+    let pts: Vec<Point2<f64>> = ids
+        .iter()
+        .map(|&i| {
+            let p = mesh.vertices[i as usize];
+            Point2::new(p.x, p.y)
+        })
+        .collect();
+    let loops = [0..outer.len(), outer.len()..ids.len()];
+    let tris = crate::planar::triangulate(&pts, &loops).ok_or(MountError::BoreMeetsOutline)?;
+    // Counter-clockwise in (x, y) faces +z; the root face faces -z.
+    mesh.triangles
+        .extend(tris.iter().map(|t| [ids[t[0]], ids[t[2]], ids[t[1]]]));
+    Ok(())
 }
 
 /// Pushes a triangle oriented so that its normal points away from the solid, judged by

@@ -36,6 +36,12 @@ pub const SHARE: f64 = 0.1;
 pub const MAX_RINGS: usize = 4096;
 /// Rounds of interval halving.
 const MAX_ROUNDS: usize = 24;
+/// Shortest ring interval, as a fraction of the span: at a kink of the design's law
+/// (the shank meeting the transition, say) no spline through rings follows the corner,
+/// and halving would go on to rings a few nanometres apart, whose knots an exact-solid
+/// file cannot tell apart (the B-rep checks refuse knots closer than 1e-6 of the
+/// parameter range). The distance left there is measured and reported.
+const MIN_INTERVAL: f64 = 1e-5;
 /// Where each ring interval is compared with the model when measuring, as fractions of
 /// the interval.
 const PROBES: [f64; 3] = [0.25, 0.5, 0.75];
@@ -222,7 +228,12 @@ pub fn place_rings(blade: &Blade, tolerance: f64) -> Result<RingPlacement, LoftE
         let skin = Skin::interpolate(&placed, blade.le_index())?;
         let cmp = Comparison::new(&skin, &placed, &radii)?;
         let worst = cmp.intervals(blade, &PLACING, &mut probes);
-        let split: Vec<bool> = worst.iter().map(|&(d, _)| d > target).collect();
+        let shortest = 2.0 * MIN_INTERVAL * span;
+        let split: Vec<bool> = worst
+            .iter()
+            .enumerate()
+            .map(|(i, &(d, _))| d > target && radii[i + 1] - radii[i] >= shortest)
+            .collect();
         let room = MAX_RINGS.saturating_sub(radii.len());
         // A tolerance that is not a positive number is refused by the tessellation.
         let valid = target > 0.0 && target.is_finite();
