@@ -84,7 +84,7 @@
 //! | `station[i].prebend` | number, length unit | 0 | out-of-plane offset, positive downstream, at most 10 m either way |
 //! | `station[i].stacking` | as `blade.stacking` | `blade.stacking` | this station's stacking |
 //! | `stations` | string | | instead of `[[station]]`: a CSV station table, path relative to the TOML file (not a TOML file) |
-//! | `root`, `tip`, `rotor`, `printer` | table | | kept in [`Design::tables`] for a later stage ([`TABLES`]) |
+//! | `root`, `tip`, `rotor`, `printer`, `segments`, `spar-channel` | table | | kept in [`Design::tables`] for a later stage ([`TABLES`]) |
 //!
 //! Every length in the file, `blade.tolerance` and `blade.min-te-thickness` included, is in
 //! `units.length`; the design holds millimetres.
@@ -195,7 +195,7 @@ pub const MIN_TOLERANCE: f64 = MIN_TOLERANCE_MM;
 
 /// The optional top-level tables of later stages, by name. Any other table in a design
 /// file is an error ("did you mean"); a stage that adds a table registers its name here.
-pub const TABLES: [&str; 4] = ["root", "tip", "rotor", "printer"];
+pub const TABLES: [&str; 6] = ["root", "tip", "rotor", "printer", "segments", "spar-channel"];
 
 /// Which way the rotor exchanges energy with the flow.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
