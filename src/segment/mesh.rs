@@ -116,6 +116,17 @@ pub fn build(
             mesh.vertices[i * nv + j].z = r;
         }
     }
+    // The tip cap's interior points (the cap triangulation may add some after the grid
+    // vertices): their triangles belong to the last segment, not to the root features.
+    let grid_len = input.us.len() * vs.len();
+    let mut tip_points = vec![false; mesh.vertices.len()];
+    for t in &mesh.triangles[root_cap.end..] {
+        for &v in t {
+            if v as usize >= grid_len {
+                tip_points[v as usize] = true;
+            }
+        }
+    }
     let opens = channel.is_some_and(|c| c.opens_at_root);
     let mut skip_root_cap = None;
     if opens {
@@ -142,7 +153,11 @@ pub fn build(
             .filter(|&&v| (v as usize) < grid)
             .map(|&v| v as usize % nv)
             .max();
+        let on_tip_cap = tri
+            .iter()
+            .any(|&v| tip_points.get(v as usize).copied().unwrap_or(false));
         let band = match top {
+            _ if on_tip_cap => count - 1,
             Some(row) if tri.iter().all(|&v| (v as usize) < grid) => {
                 rows.iter().filter(|&&j| j < row).count()
             }
@@ -321,7 +336,13 @@ pub fn build(
             );
         }
         if s == 0 {
-            hull.extend(mesh.vertices[grid..].iter().copied());
+            hull.extend(
+                mesh.vertices[grid..]
+                    .iter()
+                    .enumerate()
+                    .filter(|(k, _)| !tip_points.get(grid + k).copied().unwrap_or(false))
+                    .map(|(_, p)| *p),
+            );
         }
         out.push(SegmentMesh {
             index: s + 1,
