@@ -273,6 +273,9 @@ twist = 2
 
 [spar-channel]
 diameter = 4
+
+[rotor]
+blades = 3
 "#;
     let design = parse_toml_str(toml, None).unwrap();
     let outcome = run(&design, &Options::default()).expect("the blade builds");
@@ -288,4 +291,21 @@ diameter = 4
     let r = c.hole_radius();
     let hole = std::f64::consts::PI * r * r * ((c.end - c.start) + c.point_depth / 3.0);
     assert!(m.abs_volume < 0.05 * hole, "{} vs {hole}", m.abs_volume);
+    // The rotor's blade product is the same solid: channel included (ISO 10303-21 file
+    // read back by truck-stepio; its one product solid against the blade's mesh).
+    let rotor = outcome.part(PartKind::Rotor).expect("a rotor part");
+    let text = part_step_text(&outcome, rotor)
+        .unwrap()
+        .expect("rotor STEP");
+    let shells = read_shells(&text);
+    assert_eq!(shells.len(), 1, "one blade product, no hub");
+    assert_closed(&shells[0], "rotor's blade");
+    let (rings, genus) = brep_rings_and_genus(&shells[0]);
+    assert_eq!((rings, genus), (1, 0));
+    let mesh = blade.bodies[0].mesh();
+    let d = brep_volume(&shells[0]) - mesh.signed_volume();
+    assert!(
+        d.abs() <= m.bound && d.abs() <= 1e-3 * mesh.signed_volume(),
+        "{d}"
+    );
 }

@@ -195,7 +195,14 @@ pub const MIN_TOLERANCE: f64 = MIN_TOLERANCE_MM;
 
 /// The optional top-level tables of later stages, by name. Any other table in a design
 /// file is an error ("did you mean"); a stage that adds a table registers its name here.
-pub const TABLES: [&str; 6] = ["root", "tip", "rotor", "printer", "segments", "spar-channel"];
+pub const TABLES: [&str; 6] = [
+    "root",
+    "tip",
+    "rotor",
+    "printer",
+    "segments",
+    "spar-channel",
+];
 
 /// Which way the rotor exchanges energy with the flow.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
