@@ -1,6 +1,6 @@
 //! Speed of the writers: each mesh writer on a ~100k-triangle mesh (into memory, so the
 //! disk does not count), and the STEP path (B-rep build + text, and to a file) of a
-//! 20-station lofted skin.
+//! 20-station lofted skin, the demo blades and the barn-turbine demo's segments.
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use nalgebra::{Point3, Vector3};
@@ -156,6 +156,26 @@ fn writers(c: &mut Criterion) {
             b.iter(|| {
                 let solid = spanwright::brep::blade_solid(black_box(&model.skin), root, face).unwrap();
                 black_box(step_text(&[("blade".into(), solid)], &header, "blade.step"))
+            })
+        });
+    }
+    // Each segment of the barn-turbine demo (split faces, spar channel, pin holes) as
+    // the build writes it: exact solid and STEP text.
+    let path = std::path::Path::new("examples/barn-turbine.toml");
+    let design = spanwright::design::load(path).unwrap();
+    let opts = spanwright::pipeline::Options {
+        blade_only: true,
+        ..Default::default()
+    };
+    let outcome = spanwright::pipeline::run(&design, &opts).unwrap();
+    for part in outcome.segment_parts() {
+        c.bench_function(&format!("step {}", part.name), |b| {
+            b.iter(|| {
+                black_box(
+                    spanwright::export::part_step_text(black_box(&outcome), part)
+                        .unwrap()
+                        .unwrap(),
+                )
             })
         });
     }

@@ -106,6 +106,11 @@ pub struct Coupon {
     pub kind: CouponKind,
     /// The part (closed, oriented, checked), axis along z from z = 0.
     pub part: CheckedPart,
+    /// The loops its prism is made of (outer counter-clockwise, holes clockwise), mm, and
+    /// its length along z: the exact solid is [`crate::brep::prism_solid`] of the same.
+    pub loops: Vec<Vec<Point2<f64>>>,
+    /// Length along z, mm.
+    pub length: f64,
     /// The fit it tests, mm: socket diameter minus the shank's larger extent (the
     /// design's `rotor.hub.socket-clearance`) for the shank and socket coupons; pin hole
     /// minus pin diameter (`segments.dowels.clearance`) for the joint coupon.
@@ -337,6 +342,8 @@ fn coupon(
     )?;
     Ok(Coupon {
         kind,
+        loops: loops.to_vec(),
+        length,
         part,
         clearance,
     })

@@ -4,6 +4,7 @@
 
 #[macro_use]
 mod support;
+mod brep_support;
 
 use spanwright::coupon::{coupons, CouponKind, CouponOptions};
 use spanwright::design;
@@ -280,4 +281,27 @@ fn joint_coupon_of_a_split_blade() {
         })
         .sum();
     assert_rel!(m.signed_volume(), 10.0 * (area - holes_area), 1e-9);
+}
+
+#[test]
+fn coupon_step_is_the_same_polyhedron_as_its_mesh() {
+    // Each coupon's STEP (ISO 10303-21), read back with truck-stepio: one closed shell
+    // (every edge used twice in opposite senses), with as many faces as the prism has
+    // (two ends and one per loop edge), enclosing the mesh's volume (both are the same
+    // polyhedron, so to rounding).
+    let d = design::load(std::path::Path::new("examples/barn-turbine.toml")).unwrap();
+    let outcome = pipeline::run(&d, &pipeline::Options::default()).unwrap();
+    let all = coupons(&outcome, &CouponOptions::DEFAULT).unwrap();
+    assert_eq!(all.len(), 3);
+    for c in &all {
+        let name = c.part.name();
+        let text = spanwright::export::prism_step_text(name, &c.loops, c.length).unwrap();
+        let shells = brep_support::read_shells(&text);
+        assert_eq!(shells.len(), 1, "{name}");
+        brep_support::assert_closed(&shells[0], name);
+        let faces: usize = 2 + c.loops.iter().map(Vec::len).sum::<usize>();
+        assert_eq!(shells[0].faces.len(), faces, "{name}");
+        let v_step = brep_support::brep_volume(&shells[0]);
+        assert_rel!(v_step, c.part.mesh().signed_volume(), 1e-9, name);
+    }
 }

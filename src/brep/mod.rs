@@ -54,6 +54,7 @@
 //! | any span piece of a blade (segments) | [`piece_solid`] | the segment builder's |
 //! | hub (sockets, bore, bolt holes) | [`hub_solid`] | [`crate::assembly::Hub::mesh`] |
 //! | one-piece rotor | [`one_piece_solid`] with [`PrismHub::new`] | [`crate::assembly::one_piece`] |
+//! | fit coupon (a prism of planar loops) | [`prism_solid`] | [`crate::coupon::prism`] |
 //!
 //! Parts go to STEP through [`crate::export::write_step`] (one part per file) or
 //! [`crate::export::write_step_assembly`] (products and placed instances).
@@ -81,6 +82,7 @@ mod hub;
 mod knots;
 mod onepiece;
 mod piece;
+mod prism;
 mod skin;
 
 pub use check::{edge_uses, EdgeUse};
@@ -91,4 +93,5 @@ pub use hub::hub_solid;
 pub use knots::{check_knot_vector, check_knots};
 pub use onepiece::{one_piece_solid, PrismHub};
 pub use piece::{blade_solid, piece_solid, End, EndHole, Flange, PieceSpec};
+pub use prism::prism_solid;
 pub use skin::{Cut, SkinOptions};

@@ -267,7 +267,7 @@ fn stage_files(
     std::fs::create_dir_all(dir)
         .with_context(|| format!("cannot create the output folder {}", dir.display()))?;
     let mut batch = Batch::new();
-    let mut notes = if only {
+    let notes = if only {
         Vec::new()
     } else {
         stage_outcome(&mut batch, outcome, dir, formats, timings)?
@@ -282,10 +282,11 @@ fn stage_files(
                         write_mesh_to(w, m, name, std::slice::from_ref(&c.part))
                     })?;
                 }
-                Format::Step => notes.push(StepNote::NotWritten {
-                    part: name.to_string(),
-                    reason: "coupons are written as meshes only".into(),
-                }),
+                Format::Step => {
+                    let path = dir.join(file_name(name, format));
+                    let text = spanwright::export::prism_step_text(name, &c.loops, c.length)?;
+                    batch.write(&path, |w| w.write_all(text.as_bytes()))?;
+                }
             }
         }
     }

@@ -28,7 +28,9 @@ pub use brep::{step_solid, step_solid_with, BrepOptions};
 pub use error::ExportError;
 pub use format::{Format, MeshFormat};
 pub use obj::write_obj;
-pub use outcome::{file_name, stage_outcome, StepNote};
+pub use outcome::{
+    file_name, part_step_text, prism_step_text, segment_spec, stage_outcome, StepNote,
+};
 pub use step::{
     step_assembly_text, step_real, step_string, step_text, write_step, write_step_assembly,
     StepHeader, STEP_SCHEMA,

@@ -116,6 +116,17 @@ pub fn build(
             mesh.vertices[i * nv + j].z = r;
         }
     }
+    // The tip cap's interior points (the cap triangulation may add some after the grid
+    // vertices): their triangles belong to the last segment, not to the root features.
+    let grid_len = input.us.len() * vs.len();
+    let mut tip_points = vec![false; mesh.vertices.len()];
+    for t in &mesh.triangles[root_cap.end..] {
+        for &v in t {
+            if v as usize >= grid_len {
+                tip_points[v as usize] = true;
+            }
+        }
+    }
     let opens = channel.is_some_and(|c| c.opens_at_root);
     let mut skip_root_cap = None;
     if opens {
@@ -131,7 +142,6 @@ pub fn build(
     }
     let count = splits.len() + 1;
     let grid = nu * nv;
-    let tip_z = mesh.vertices[nv - 1].z;
     // Band of each triangle: the number of split rows below its highest grid row.
     let mut bands: Vec<Vec<[u32; 3]>> = vec![Vec::new(); count];
     for (t, tri) in mesh.triangles.iter().enumerate() {
@@ -143,28 +153,25 @@ pub fn build(
             .filter(|&&v| (v as usize) < grid)
             .map(|&v| v as usize % nv)
             .max();
+        let on_tip_cap = tri
+            .iter()
+            .any(|&v| tip_points.get(v as usize).copied().unwrap_or(false));
         let band = match top {
+            _ if on_tip_cap => count - 1,
             Some(row) if tri.iter().all(|&v| (v as usize) < grid) => {
                 rows.iter().filter(|&&j| j < row).count()
             }
-            // Vertices off the grid: mounting features at the root (the root segment:
-            // planning keeps splits beyond them), or interior points of the tip cap
-            // (in the tip's plane, so in the last segment).
-            _ => {
-                let zmax = tri
-                    .iter()
-                    .map(|&v| mesh.vertices[v as usize].z)
-                    .fold(f64::NEG_INFINITY, f64::max);
-                let band = splits.iter().filter(|&&r| zmax > r).count();
-                let at_tip = (zmax - tip_z).abs() <= 1e-9 * tip_z.abs().max(1.0);
-                if band > 0 && !at_tip {
+            // Mounting features: the root segment (planning keeps splits beyond them).
+            Some(row) => {
+                if rows.first().is_some_and(|&j| row > j) {
                     return Err(SegmentError::mesh(format!(
                         "a root feature reaches beyond the first split at {:.2} mm",
                         splits[0]
                     )));
                 }
-                band
+                0
             }
+            None => 0,
         };
         bands[band].push(*tri);
     }
@@ -329,13 +336,12 @@ pub fn build(
             );
         }
         if s == 0 {
-            // The root's features (a flange reaches beyond the skin); the tip cap's
-            // interior points lie inside the tip row's outline and another segment.
             hull.extend(
                 mesh.vertices[grid..]
                     .iter()
-                    .filter(|p| p.z <= z_hi)
-                    .copied(),
+                    .enumerate()
+                    .filter(|(k, _)| !tip_points.get(grid + k).copied().unwrap_or(false))
+                    .map(|(_, p)| *p),
             );
         }
         out.push(SegmentMesh {
