@@ -94,3 +94,189 @@ fn symmetric_sections_write_valid_knots_and_closed_shells() {
         assert_closed(&shells[0], name);
     }
 }
+
+/// `self-intersecting-root-tip.toml` of the shared reproducers (invented data: a
+/// 23-station blade with a root shank and a round tip). The skin's ring placement once
+/// halved the interval at the shank's kink down to rings 0.0003 mm apart, whose knots a
+/// STEP file cannot tell apart, and the build failed writing STEP.
+const ROOT_TIP: &str = r#"
+name = "v195"
+
+[blade]
+section = "naca6411"
+stacking = 0.287
+flow = "propeller"
+rotation = "ccw"
+tolerance = 0.01
+min-te-thickness = 0.3
+points-per-side = 120
+
+[[station]]
+radius = 240.353
+chord = 116.811
+twist = 19.695
+section = "naca6411"
+
+[[station]]
+radius = 254.331
+chord = 116.724
+twist = 19.181
+section = "naca6411"
+
+[[station]]
+radius = 268.861
+chord = 116.634
+twist = 18.663
+section = "naca6411"
+
+[[station]]
+radius = 286.072
+chord = 116.527
+twist = 18.071
+section = "naca6411"
+
+[[station]]
+radius = 299.735
+chord = 116.442
+twist = 17.619
+section = "naca6411"
+
+[[station]]
+radius = 312.288
+chord = 116.365
+twist = 17.216
+section = "naca6411"
+
+[[station]]
+radius = 326.286
+chord = 116.278
+twist = 16.783
+section = "naca6411"
+
+[[station]]
+radius = 340.956
+chord = 116.188
+twist = 16.347
+section = "naca6411"
+
+[[station]]
+radius = 356.595
+chord = 116.092
+twist = 15.904
+section = "naca6411"
+
+[[station]]
+radius = 371.844
+chord = 115.998
+twist = 15.492
+section = "naca6411"
+
+[[station]]
+radius = 386.043
+chord = 115.911
+twist = 15.129
+section = "naca6411"
+
+[[station]]
+radius = 398.209
+chord = 115.836
+twist = 14.832
+section = "naca6411"
+
+[[station]]
+radius = 416.345
+chord = 115.725
+twist = 14.417
+section = "naca6410"
+
+[[station]]
+radius = 430.138
+chord = 115.641
+twist = 14.123
+section = "naca6410"
+
+[[station]]
+radius = 443.967
+chord = 115.557
+twist = 13.849
+section = "naca6410"
+
+[[station]]
+radius = 458.447
+chord = 115.469
+twist = 13.584
+section = "naca6410"
+
+[[station]]
+radius = 473.178
+chord = 115.379
+twist = 13.339
+section = "naca6410"
+
+[[station]]
+radius = 489.236
+chord = 115.282
+twist = 13.102
+section = "naca6410"
+
+[[station]]
+radius = 502.924
+chord = 115.199
+twist = 12.926
+section = "naca6410"
+
+[[station]]
+radius = 518.684
+chord = 115.103
+twist = 12.755
+section = "naca6410"
+
+[[station]]
+radius = 532.589
+chord = 115.019
+twist = 12.636
+section = "naca6410"
+
+[[station]]
+radius = 544.4
+chord = 114.948
+twist = 12.562
+section = "naca6410"
+
+[[station]]
+radius = 560.374
+chord = 114.852
+twist = 12.512
+section = "naca6410"
+
+[root]
+shank-diameter = 47.299
+shank-length = 28.413
+transition-length = 127.698
+
+[tip]
+shape = "round"
+
+"#;
+
+#[test]
+fn a_kink_in_the_spanwise_law_still_writes_valid_knots() {
+    let design = spanwright::design::parse_toml_str(ROOT_TIP, None).unwrap();
+    let outcome = spanwright::pipeline::run(&design, &Options::default()).unwrap();
+    let part = &outcome.parts[0];
+    let text = spanwright::export::part_step_text(&outcome, part)
+        .unwrap()
+        .expect("the blade's exact solid");
+    assert!(assert_knots_valid(&text) >= 10);
+    let shells = read_shells(&text);
+    assert_eq!(shells.len(), 1);
+    assert_closed(&shells[0], "root and round tip");
+    // Neighbouring rings at least 1e-5 of the span apart (crate::rings).
+    let r = &outcome.blade.ring_radii;
+    let span = r[r.len() - 1] - r[0];
+    let gap = r
+        .windows(2)
+        .map(|w| w[1] - w[0])
+        .fold(f64::INFINITY, f64::min);
+    assert!(gap >= 1e-5 * span * 0.999, "rings {gap} mm apart");
+}

@@ -338,3 +338,36 @@ fn draft_names_the_first_station_radius_once() {
         r.stderr
     );
 }
+
+#[test]
+fn repro_07_bore_in_a_shank_with_an_opened_trailing_edge_builds() {
+    // A plausible small blade: 8.6 mm shank, 3 mm insert bore, 0.5 mm trailing edge.
+    // Its root ring turns back at the opened trailing edge, which once folded the root
+    // face's strip (refused as 14 pairs of same-direction edges). Built now, with the
+    // bore's cavity the cylinder plus its 118-degree drill point: pi r^2 d + pi r^2 h / 3
+    // with h = r / tan(59 deg) (elementary geometry; 118 degrees is the common twist
+    // drill point, common practice), against the same blade without the bore.
+    let head = "name = \"v056\"\n[blade]\nsection = \"naca2406\"\nmin-te-thickness = 0.5\n\
+                points-per-side = 60\n\
+                [[station]]\nradius = 80\nchord = 17.993\ntwist = 0.497\n\
+                [[station]]\nradius = 100\nchord = 17.631\ntwist = -2.153\n\
+                [root]\nshank-diameter = 8.558\nshank-length = 5.354\n\
+                transition-length = 36.004\n";
+    let volume = |text: &str| {
+        let d = spanwright::design::parse_toml_str(text, None).unwrap();
+        let o = spanwright::pipeline::run(&d, &spanwright::pipeline::Options::default())
+            .unwrap_or_else(|e| panic!("{e}"));
+        let m = o.blade_part().mesh();
+        (m.signed_volume(), m.area(), o.blade.tolerance)
+    };
+    let (plain, area, tol) = volume(head);
+    let (bored, _, _) = volume(&format!(
+        "{head}bore = {{ diameter = 2.995, depth = 2.677 }}\n"
+    ));
+    let r = 0.5 * 2.995;
+    let h = r / 59f64.to_radians().tan();
+    let cavity = std::f64::consts::PI * r * r * (2.677 + h / 3.0);
+    // The meshes differ at the root face and the bore's facets: within the tolerance
+    // times the area of the bore's walls and the root face (generous: the whole area).
+    assert_near!(plain - bored, cavity, tol * area * 0.05);
+}
