@@ -272,16 +272,7 @@ impl StressTable {
             rows.push(cut.row);
         }
         add_deflections(&mut rows, &radii, &curvature);
-        let (critical, min_sf) = rows
-            .iter()
-            .map(|r| (r.section.radius, r.safety_factor))
-            .fold((loading.r0, f64::INFINITY), |a, b| {
-                if b.1 < a.1 {
-                    b
-                } else {
-                    a
-                }
-            });
+        let (critical, min_sf) = weakest(&rows, loading.r0);
         Ok(StressTable {
             material: material.clone(),
             fill,
@@ -297,6 +288,14 @@ impl StressTable {
             cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
         })
     }
+}
+
+/// Radius and value of the smallest safety factor (the first of equals; `r0` and
+/// infinity without rows).
+fn weakest(rows: &[StressRow], r0: f64) -> (f64, f64) {
+    rows.iter()
+        .map(|r| (r.section.radius, r.safety_factor))
+        .fold((r0, f64::INFINITY), |a, b| if b.1 < a.1 { b } else { a })
 }
 
 /// The finite radii, sorted, each once.

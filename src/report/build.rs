@@ -6,8 +6,8 @@ use super::preview::{render, Item, Marks, PreviewOptions};
 use super::{planform_svg, stack_svg, stress_svg, three_view_svg};
 use crate::blade::Blade;
 use crate::check::CheckedPart;
-use crate::mesh::TriMesh;
 use crate::design::{Rotation, Station};
+use crate::mesh::TriMesh;
 use crate::props::{
     section_table, span_radii, Balance, Fill, LoadCase, Material, Slice, SliceError, StressError,
     StressTable,

@@ -193,8 +193,7 @@ impl ThreeViews {
         // Plan view: z -> right, x -> up.
         let plan = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), top + s * (bb.max.x - p.x));
         // Edge view: z -> right, y -> up.
-        let edge =
-            |p: &Point3<f64>| (left + s * (p.z - bb.min.z), y_edge + s * (bb.max.y - p.y));
+        let edge = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), y_edge + s * (bb.max.y - p.y));
         // End view from the tip: y -> right, x -> up.
         let end = |p: &Point3<f64>| (x_end + s * (p.y - bb.min.y), top + s * (bb.max.x - p.x));
         type Projection<'a> = &'a dyn Fn(&Point3<f64>) -> (f64, f64);

@@ -351,7 +351,11 @@ impl<'a> SplitBlade<'a> {
     /// for the root segment the root's features.
     fn hull(&self, ends: &Ends) -> Vec<Point3<f64>> {
         let (nu, nv) = (self.nu, self.nv);
-        let first_row = if ends.s == 0 { 0 } else { self.rows[ends.s - 1] };
+        let first_row = if ends.s == 0 {
+            0
+        } else {
+            self.rows[ends.s - 1]
+        };
         let last_row = if ends.hi.is_some() {
             self.rows[ends.s]
         } else {
