@@ -631,14 +631,51 @@ impl Hub {
     /// opening on the rim to its floor) and floor (a fan). Rim vertices `0..n` (top) and
     /// `np..np + n` (bottom) are already in `mesh`.
     fn rim_with_sockets(&self, mesh: &mut TriMesh, n: usize, np: u32, tol: f64) {
-        use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
         let Some(sockets) = &self.sockets else {
             return;
         };
-        let (rr, h) = (self.radius, 0.5 * self.thickness);
-        let start = self.rim_start.to_radians();
-        let unroll = |theta: f64| rr * (theta - start).rem_euclid(TAU);
-        // 2-D points of the unrolled rim and the mesh vertex each stands for.
+        let mut rim = UnrolledRim::new(self.radius, 0.5 * self.thickness, self.rim_start, n, np);
+        let m = circle_sides(sockets.radius, tol);
+        for &angle in &sockets.angles {
+            rim.add_socket(mesh, sockets, angle, m);
+        }
+        rim.add_interior(mesh, n);
+        rim.triangulate_into(mesh);
+    }
+
+    /// The hub as a named part.
+    pub fn part(&self, name: &str, tol: f64) -> Part {
+        Part {
+            name: format!("{name}-hub"),
+            mesh: self.mesh(tol),
+        }
+    }
+}
+
+/// The hub's rim unrolled into the plane (x along the rim from `rim_start`, y across
+/// it): its edge polygons, the socket openings as holes and interior points, each
+/// standing for a mesh vertex, for one constrained Delaunay triangulation.
+struct UnrolledRim {
+    /// Radius of the rim, mm.
+    rr: f64,
+    /// Half the hub's thickness, mm.
+    h: f64,
+    /// Where the unrolled rim starts, radians.
+    start: f64,
+    /// 2-D points of the unrolled rim.
+    flat: Vec<Point2<f64>>,
+    /// The mesh vertex each point stands for.
+    index: Vec<u32>,
+    /// Constraint edges.
+    edges: Vec<[usize; 2]>,
+    /// The socket openings' ranges in `flat`.
+    holes: Vec<std::ops::Range<usize>>,
+}
+
+impl UnrolledRim {
+    /// The rim's two edges (the faces' `n`-gons, the lower face's vertices from `np`)
+    /// and its seam, as constraints.
+    fn new(rr: f64, h: f64, rim_start_deg: f64, n: usize, np: u32) -> Self {
         let mut flat: Vec<Point2<f64>> = Vec::new();
         let mut index: Vec<u32> = Vec::new();
         let mut edges: Vec<[usize; 2]> = Vec::new();
@@ -656,51 +693,74 @@ impl Hub {
                 edges.push([n, first + n]);
             }
         }
-        let m = circle_sides(sockets.radius, tol);
-        let mut holes: Vec<std::ops::Range<usize>> = Vec::new();
-        for &angle in &sockets.angles {
-            let psi = angle.to_radians();
-            let d = Vector3::new(psi.sin(), 0.0, psi.cos());
-            let e = Vector3::new(psi.cos(), 0.0, -psi.sin());
-            let first_flat = flat.len();
-            let opening = mesh.vertices.len() as u32;
-            let mut floor_ring = Vec::with_capacity(m);
-            for i in 0..m {
-                let t = TAU * i as f64 / m as f64;
-                let (a, b) = (sockets.radius * t.sin(), sockets.radius * t.cos());
-                let along = (rr * rr - a * a).sqrt();
-                mesh.push_vertex(Point3::from(d * along + e * a + Vector3::y() * b));
-                floor_ring.push(Point3::from(d * sockets.floor + e * a + Vector3::y() * b));
-                flat.push(Point2::new(unroll(psi + (a / rr).asin()), b));
-                index.push(opening + i as u32);
-                edges.push([first_flat + i, first_flat + (i + 1) % m]);
-            }
-            holes.push(first_flat..flat.len());
-            let floor = mesh.vertices.len() as u32;
-            for q in floor_ring {
-                mesh.push_vertex(q);
-            }
-            let centre = mesh.push_vertex(Point3::from(d * sockets.floor));
-            for i in 0..m as u32 {
-                let j = (i + 1) % m as u32;
-                let (o0, o1, f0, f1) = (opening + i, opening + j, floor + i, floor + j);
-                // The wall faces the socket's axis; the floor faces up the socket.
-                let mid =
-                    (mesh.vertices[o0 as usize].coords + mesh.vertices[f1 as usize].coords) * 0.5;
-                let out = -(mid - d * mid.dot(&d));
-                push_facing(mesh, [o0, o1, f1], out);
-                push_facing(mesh, [o0, f1, f0], out);
-                push_facing(mesh, [centre, f0, f1], d);
-            }
+        UnrolledRim {
+            rr,
+            h,
+            start: rim_start_deg.to_radians(),
+            flat,
+            index,
+            edges,
+            holes: Vec::new(),
         }
-        // Interior columns, two per angular step of the rim's polygon: a rim triangle then
-        // spans less than one step around the axis (also beside a socket opening, where
-        // points nearer the outline than a third of a column are left out), so it stays
-        // within the tolerance of the cylinder: a step's sagitta is (see `circle_sides`).
+    }
+
+    /// Position along the unrolled rim of the angle `theta`, mm.
+    fn unroll(&self, theta: f64) -> f64 {
+        self.rr * (theta - self.start).rem_euclid(TAU)
+    }
+
+    /// The socket at `angle` (degrees): its opening in the rim (an `m`-gon, a hole of
+    /// the unrolled rim), its wall and its floor, added to the mesh.
+    fn add_socket(&mut self, mesh: &mut TriMesh, sockets: &Sockets, angle: f64, m: usize) {
+        let rr = self.rr;
+        let psi = angle.to_radians();
+        let d = Vector3::new(psi.sin(), 0.0, psi.cos());
+        let e = Vector3::new(psi.cos(), 0.0, -psi.sin());
+        let first_flat = self.flat.len();
+        let opening = mesh.vertices.len() as u32;
+        let mut floor_ring = Vec::with_capacity(m);
+        for i in 0..m {
+            let t = TAU * i as f64 / m as f64;
+            let (a, b) = (sockets.radius * t.sin(), sockets.radius * t.cos());
+            let along = (rr * rr - a * a).sqrt();
+            mesh.push_vertex(Point3::from(d * along + e * a + Vector3::y() * b));
+            floor_ring.push(Point3::from(d * sockets.floor + e * a + Vector3::y() * b));
+            let x = self.unroll(psi + (a / rr).asin());
+            self.flat.push(Point2::new(x, b));
+            self.index.push(opening + i as u32);
+            self.edges.push([first_flat + i, first_flat + (i + 1) % m]);
+        }
+        self.holes.push(first_flat..self.flat.len());
+        let floor = mesh.vertices.len() as u32;
+        for q in floor_ring {
+            mesh.push_vertex(q);
+        }
+        let centre = mesh.push_vertex(Point3::from(d * sockets.floor));
+        for i in 0..m as u32 {
+            let j = (i + 1) % m as u32;
+            let (o0, o1, f0, f1) = (opening + i, opening + j, floor + i, floor + j);
+            // The wall faces the socket's axis; the floor faces up the socket.
+            let mid = (mesh.vertices[o0 as usize].coords + mesh.vertices[f1 as usize].coords) * 0.5;
+            let out = -(mid - d * mid.dot(&d));
+            push_facing(mesh, [o0, o1, f1], out);
+            push_facing(mesh, [o0, f1, f0], out);
+            push_facing(mesh, [centre, f0, f1], d);
+        }
+    }
+
+    /// Interior columns, two per angular step of the rim's `n`-gon: a rim triangle then
+    /// spans less than one step around the axis (also beside a socket opening, where
+    /// points nearer the outline than a third of a column are left out), so it stays
+    /// within the tolerance of the cylinder: a step's sagitta is (see `circle_sides`).
+    fn add_interior(&mut self, mesh: &mut TriMesh, n: usize) {
+        let (rr, h) = (self.rr, self.h);
         let du = rr * TAU / (2 * n) as f64;
         let rows = ((2.0 * h / du).ceil() as usize).max(1);
-        let outlines: Vec<Vec<Point2<f64>>> =
-            holes.iter().map(|r| flat[r.clone()].to_vec()).collect();
+        let outlines: Vec<Vec<Point2<f64>>> = self
+            .holes
+            .iter()
+            .map(|r| self.flat[r.clone()].to_vec())
+            .collect();
         for j in 1..2 * n {
             for k in 1..rows {
                 let q = Point2::new(du * j as f64, -h + 2.0 * h * k as f64 / rows as f64);
@@ -710,12 +770,25 @@ impl Hub {
                 if near {
                     continue;
                 }
-                let theta = start + q.x / rr;
+                let theta = self.start + q.x / rr;
                 let v = mesh.push_vertex(Point3::new(rr * theta.sin(), q.y, rr * theta.cos()));
-                flat.push(q);
-                index.push(v);
+                self.flat.push(q);
+                self.index.push(v);
             }
         }
+    }
+
+    /// The rim's triangles outside the socket openings, facing out from the axis (none
+    /// when the constraints cannot be triangulated).
+    fn triangulate_into(self, mesh: &mut TriMesh) {
+        use spade::{ConstrainedDelaunayTriangulation, Point2 as SPoint, Triangulation};
+        let UnrolledRim {
+            flat,
+            index,
+            edges,
+            holes,
+            ..
+        } = self;
         let vertices: Vec<SPoint<f64>> = flat.iter().map(|p| SPoint::new(p.x, p.y)).collect();
         let Ok(cdt) =
             ConstrainedDelaunayTriangulation::<SPoint<f64>>::bulk_load_cdt(vertices, edges)
@@ -735,14 +808,6 @@ impl Hub {
                 + mesh.vertices[t[2] as usize].coords)
                 / 3.0;
             push_facing(mesh, t, Vector3::new(c3.x, 0.0, c3.z));
-        }
-    }
-
-    /// The hub as a named part.
-    pub fn part(&self, name: &str, tol: f64) -> Part {
-        Part {
-            name: format!("{name}-hub"),
-            mesh: self.mesh(tol),
         }
     }
 }

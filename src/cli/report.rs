@@ -1,6 +1,7 @@
 //! `spanwright report`: mass and section properties, balance, a stress estimate with
 //! cautions, pictures (SVG) and reports (HTML, JSON).
 
+use std::fmt::Write as _;
 use std::io::IsTerminal as _;
 use std::path::{Path, PathBuf};
 
@@ -12,7 +13,7 @@ use spanwright::design::variants::{variants, Variant};
 use spanwright::design::Design;
 use spanwright::pipeline;
 use spanwright::props::{Fill, LoadCase, Material, ThrustSpread, CAUTIONS};
-use spanwright::report::numbers::{number, Decimals};
+use spanwright::report::numbers::{number, Decimals, Decimals as D};
 use spanwright::report::{self, Pictures, Report, ReportInput, SummaryRow, STEPS};
 
 /// Arguments of `spanwright report`.
@@ -116,26 +117,70 @@ fn check_thrust(args: &Args) -> anyhow::Result<()> {
 /// Runs the subcommand.
 pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
     let material: Material = args.material.parse()?;
-    let fill = if args.solid {
-        Fill::SOLID
-    } else {
-        check_number(
-            "wall",
-            args.wall,
-            args.wall >= 0.0,
-            "give a thickness of 0 or more mm (1.2 is common)",
-        )?;
-        check_number(
-            "infill",
-            args.infill,
-            (0.0..=100.0).contains(&args.infill),
-            "give a percentage from 0 to 100",
-        )?;
-        Fill {
-            wall: args.wall,
-            infill: args.infill / 100.0,
+    let fill = checked_fill(&args)?;
+    check_options(&args)?;
+    let first = &args.input[0];
+    let subject = match load_subject(&args)? {
+        Loaded::Subject(s) => *s,
+        Loaded::Variants(design, variants) => {
+            return report_variants(&args, ctx, &material, fill, &design, &variants)
         }
     };
+    let input = subject.report_input(&args, material, fill)?;
+    let bar = progress_bar(ctx);
+    let (mut rep, pictures) = report::build(&input, &mut |step, msg| {
+        bar.set_position(step);
+        bar.set_message(msg.to_string());
+    })
+    .with_context(|| format!("reporting on {}", first.display()))?;
+    if let Some(o) = subject.outcome.as_ref() {
+        if let Some(s) = segments_report(o, &input, first)? {
+            rep.segments = Some(s);
+        }
+    }
+    bar.finish_and_clear();
+    let json = serde_json::to_string_pretty(&rep).context("encoding the JSON report")?;
+    let mut written = Vec::new();
+    if !args.no_files {
+        written = write_files(&args.out, &file_stem(&subject.name), &rep, &pictures, &json)?;
+    }
+    if args.json {
+        outln!("{json}");
+    } else if !ctx.quiet {
+        super::emit(&summary(&rep, &written));
+    }
+    print_cautions(&rep);
+    Ok(match &rep.stress {
+        Some(t) if !t.passes => Verdict::Failed,
+        _ => Verdict::Done,
+    })
+}
+
+/// The fill from `--solid`, or from `--wall` and `--infill` once checked.
+fn checked_fill(args: &Args) -> anyhow::Result<Fill> {
+    if args.solid {
+        return Ok(Fill::SOLID);
+    }
+    check_number(
+        "wall",
+        args.wall,
+        args.wall >= 0.0,
+        "give a thickness of 0 or more mm (1.2 is common)",
+    )?;
+    check_number(
+        "infill",
+        args.infill,
+        (0.0..=100.0).contains(&args.infill),
+        "give a percentage from 0 to 100",
+    )?;
+    Ok(Fill {
+        wall: args.wall,
+        infill: args.infill / 100.0,
+    })
+}
+
+/// `--at`, `--cuts` and the thrust options are in range.
+fn check_options(args: &Args) -> anyhow::Result<()> {
     for r in &args.at {
         check_number("at", *r, true, "give radii in mm")?;
     }
@@ -145,107 +190,141 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
             args.cuts
         );
     }
-    check_thrust(&args)?;
+    check_thrust(args)
+}
+
+/// What the report is on: STL parts, or a design's built blade.
+struct Subject {
+    /// Design or first part name.
+    name: String,
+    /// The parts; the first is the blade.
+    parts: Vec<spanwright::check::CheckedPart>,
+    /// The design, when the input is one.
+    design: Option<Design>,
+    /// The design's built parts.
+    outcome: Option<pipeline::Outcome>,
+}
+
+/// What the inputs load to.
+enum Loaded {
+    /// One subject.
+    Subject(Box<Subject>),
+    /// A design with variants, each reported on in turn.
+    Variants(Box<Design>, Vec<Variant>),
+}
+
+/// Loads the inputs: every STL file, or one design (built, unless it has variants).
+fn load_subject(args: &Args) -> anyhow::Result<Loaded> {
     let first = &args.input[0];
-    let (name, parts, design, outcome) = if args.input.iter().all(|p| load::has_extension(p, "stl"))
-    {
+    if args.input.iter().all(|p| load::has_extension(p, "stl")) {
         let mut parts = Vec::new();
         for p in &args.input {
             parts.push(load::stl_part(p)?);
         }
-        (parts[0].name().to_string(), parts, None, None)
-    } else if args.input.len() == 1 {
-        let design = load::design(first, None)?;
-        let variants = variants(&design)?;
-        if !variants.is_empty() {
-            return report_variants(&args, ctx, &material, fill, &design, &variants);
-        }
-        let outcome = spanwright::pipeline::run(&design, &spanwright::pipeline::Options::default())
-            .with_context(|| format!("building the parts of {}", first.display()))?;
-        let blade = outcome.blade_part().clone();
-        (
-            design.name.clone(),
-            vec![blade],
-            Some(design),
-            Some(outcome),
-        )
-    } else {
+        return Ok(Loaded::Subject(Box::new(Subject {
+            name: parts[0].name().to_string(),
+            parts,
+            design: None,
+            outcome: None,
+        })));
+    }
+    if args.input.len() != 1 {
         anyhow::bail!(
             "{} inputs given: give one design file, or one or more STL files",
             args.input.len()
         );
-    };
-    let source = args
-        .input
-        .iter()
-        .map(|p| p.display().to_string())
-        .collect::<Vec<_>>()
-        .join(", ");
-    let design_blades = match &design {
-        Some(d) => spanwright::pipeline::read_rotor(d)?.map(|r| r.blades),
-        None => None,
-    };
-    let load = load_case(&args, design_blades);
-    let input = ReportInput {
-        name: name.clone(),
-        source: Some(source),
-        parts: &parts,
-        stations: design.as_ref().map(|d| d.stations.as_slice()),
-        blade: outcome.as_ref().map(|o| &o.blade.blade),
-        rotation: design.as_ref().map(|d| d.blade.rotation),
-        material,
-        fill,
-        load,
-        extra_radii: args.at.clone(),
-        stress_cuts: args.cuts,
-        picture_cuts: 11,
-    };
-    let show = !ctx.quiet && std::io::stderr().is_terminal();
-    let bar = if show {
-        let b = indicatif::ProgressBar::new(STEPS);
-        if let Ok(style) = indicatif::ProgressStyle::with_template("{bar:30} {pos}/{len} {msg}") {
-            b.set_style(style);
-        }
-        b
-    } else {
-        indicatif::ProgressBar::hidden()
-    };
-    let (rep, pictures) = report::build(&input, &mut |step, msg| {
-        bar.set_position(step);
-        bar.set_message(msg.to_string());
-    })
-    .with_context(|| format!("reporting on {}", first.display()))?;
-    let mut rep = rep;
-    if let Some(o) = outcome.as_ref() {
-        let segments = o.segment_parts();
-        if let (Some(plan), false) = (&o.segments, segments.is_empty()) {
-            let bodies: Vec<&spanwright::check::CheckedPart> =
-                segments.iter().map(|p| &p.bodies[0]).collect();
-            rep.segments = Some(
-                report::segments_summary(
-                    o.blade_part(),
-                    &bodies,
-                    plan,
-                    &input.material,
-                    input.fill,
-                    input.load.as_ref(),
-                )
-                .with_context(|| format!("reporting on the segments of {}", first.display()))?,
-            );
-        }
     }
-    bar.finish_and_clear();
-    let json = serde_json::to_string_pretty(&rep).context("encoding the JSON report")?;
-    let mut written = Vec::new();
-    if !args.no_files {
-        written = write_files(&args.out, &file_stem(&name), &rep, &pictures, &json)?;
+    let design = load::design(first, None)?;
+    let variants = variants(&design)?;
+    if !variants.is_empty() {
+        return Ok(Loaded::Variants(Box::new(design), variants));
     }
-    if args.json {
-        outln!("{json}");
-    } else if !ctx.quiet {
-        super::emit(&summary(&rep, &written));
+    let outcome = spanwright::pipeline::run(&design, &spanwright::pipeline::Options::default())
+        .with_context(|| format!("building the parts of {}", first.display()))?;
+    let blade = outcome.blade_part().clone();
+    Ok(Loaded::Subject(Box::new(Subject {
+        name: design.name.clone(),
+        parts: vec![blade],
+        design: Some(design),
+        outcome: Some(outcome),
+    })))
+}
+
+impl Subject {
+    /// The report's input: the subject with the command line's material, fill, load
+    /// case and radii.
+    fn report_input(
+        &self,
+        args: &Args,
+        material: Material,
+        fill: Fill,
+    ) -> anyhow::Result<ReportInput<'_>> {
+        let source = args
+            .input
+            .iter()
+            .map(|p| p.display().to_string())
+            .collect::<Vec<_>>()
+            .join(", ");
+        let design_blades = match &self.design {
+            Some(d) => spanwright::pipeline::read_rotor(d)?.map(|r| r.blades),
+            None => None,
+        };
+        Ok(ReportInput {
+            name: self.name.clone(),
+            source: Some(source),
+            parts: &self.parts,
+            stations: self.design.as_ref().map(|d| d.stations.as_slice()),
+            blade: self.outcome.as_ref().map(|o| &o.blade.blade),
+            rotation: self.design.as_ref().map(|d| d.blade.rotation),
+            material,
+            fill,
+            load: load_case(args, design_blades),
+            extra_radii: args.at.clone(),
+            stress_cuts: args.cuts,
+            picture_cuts: 11,
+        })
     }
-    // Cautions go out even with --quiet: they bear on safety.
+}
+
+/// A progress bar on a terminal (hidden with `--quiet` or when standard error is not
+/// one).
+fn progress_bar(ctx: &super::Context) -> indicatif::ProgressBar {
+    if ctx.quiet || !std::io::stderr().is_terminal() {
+        return indicatif::ProgressBar::hidden();
+    }
+    let b = indicatif::ProgressBar::new(STEPS);
+    if let Ok(style) = indicatif::ProgressStyle::with_template("{bar:30} {pos}/{len} {msg}") {
+        b.set_style(style);
+    }
+    b
+}
+
+/// The segments' masses and joints, when the design's blade is split.
+fn segments_report(
+    o: &pipeline::Outcome,
+    input: &ReportInput<'_>,
+    first: &Path,
+) -> anyhow::Result<Option<report::SegmentsSummary>> {
+    let segments = o.segment_parts();
+    let (Some(plan), false) = (&o.segments, segments.is_empty()) else {
+        return Ok(None);
+    };
+    let bodies: Vec<&spanwright::check::CheckedPart> =
+        segments.iter().map(|p| &p.bodies[0]).collect();
+    let summary = report::segments_summary(
+        o.blade_part(),
+        &bodies,
+        plan,
+        &input.material,
+        input.fill,
+        input.load.as_ref(),
+    )
+    .with_context(|| format!("reporting on the segments of {}", first.display()))?;
+    Ok(Some(summary))
+}
+
+/// The cautions, even with `--quiet`: they bear on safety.
+fn print_cautions(rep: &Report) {
     if rep.stress.is_some() || rep.balance.is_some() {
         for c in CAUTIONS {
             eprintln!("caution: {c}");
@@ -256,10 +335,6 @@ pub fn run(args: Args, ctx: &super::Context) -> anyhow::Result<Verdict> {
             eprintln!("caution: {c}");
         }
     }
-    Ok(match &rep.stress {
-        Some(t) if !t.passes => Verdict::Failed,
-        _ => Verdict::Done,
-    })
 }
 
 /// The operating point the command line asks for (`None` without `--rpm`, `--wind` or
@@ -444,8 +519,6 @@ fn stage_files(
 
 /// The report in words, numbers written as in the HTML report (`report::numbers`).
 fn summary(rep: &Report, written: &[PathBuf]) -> String {
-    use std::fmt::Write as _;
-    use Decimals as D;
     let mut out = String::new();
     let _ = writeln!(
         out,
@@ -455,6 +528,20 @@ fn summary(rep: &Report, written: &[PathBuf]) -> String {
         number(rep.fill.wall, D::Mm),
         number(rep.fill.infill * 100.0, D::Percent)
     );
+    summary_parts(&mut out, rep);
+    summary_sections(&mut out, rep);
+    summary_stress(&mut out, rep);
+    if let Some(seg) = &rep.segments {
+        summary_segments(&mut out, seg);
+    }
+    for w in written {
+        let _ = writeln!(out, "  wrote {}", w.display());
+    }
+    out
+}
+
+/// Each part's mass properties and the balance.
+fn summary_parts(out: &mut String, rep: &Report) {
     for p in &rep.parts {
         let _ = writeln!(
             out,
@@ -477,26 +564,35 @@ fn summary(rep: &Report, written: &[PathBuf]) -> String {
             number(b.mass_spread, D::G)
         );
     }
-    if !rep.sections.is_empty() {
-        let _ = writeln!(out, "  sections (mm, mm², mm⁴, deg):");
+}
+
+/// The section table.
+fn summary_sections(out: &mut String, rep: &Report) {
+    if rep.sections.is_empty() {
+        return;
+    }
+    let _ = writeln!(out, "  sections (mm, mm², mm⁴, deg):");
+    let _ = writeln!(
+        out,
+        "  {:>9} {:>9} {:>11} {:>11} {:>11} {:>7}",
+        "r", "area", "Ixx", "Iyy", "Ixy", "angle"
+    );
+    for s in &rep.sections {
         let _ = writeln!(
             out,
             "  {:>9} {:>9} {:>11} {:>11} {:>11} {:>7}",
-            "r", "area", "Ixx", "Iyy", "Ixy", "angle"
+            number(s.radius, D::Mm),
+            number(s.area, D::Mm2),
+            number(s.ixx, D::Mm4),
+            number(s.iyy, D::Mm4),
+            number(s.ixy, D::Mm4),
+            number(s.angle, D::Deg)
         );
-        for s in &rep.sections {
-            let _ = writeln!(
-                out,
-                "  {:>9} {:>9} {:>11} {:>11} {:>11} {:>7}",
-                number(s.radius, D::Mm),
-                number(s.area, D::Mm2),
-                number(s.ixx, D::Mm4),
-                number(s.iyy, D::Mm4),
-                number(s.ixy, D::Mm4),
-                number(s.angle, D::Deg)
-            );
-        }
     }
+}
+
+/// The stress estimate's verdict.
+fn summary_stress(out: &mut String, rep: &Report) {
     if let Some(t) = &rep.stress {
         let _ = writeln!(
             out,
@@ -510,41 +606,39 @@ fn summary(rep: &Report, written: &[PathBuf]) -> String {
             number(t.tip_deflection, D::Mm)
         );
     }
-    if let Some(seg) = &rep.segments {
-        for p in &seg.segments {
-            let _ = writeln!(
-                out,
-                "  {}: mass {:.1} g, volume {:.0} mm3",
-                p.name, p.mass, p.volume
-            );
-        }
-        if let Some([d, l]) = seg.rod {
-            let _ = writeln!(out, "  rod: {d} mm diameter, cut to {l:.1} mm");
-        }
-        for j in &seg.joints {
-            let _ = write!(
-                out,
-                "  joint {} at {:.1} mm: net section {:.1} mm2 of {:.1} mm2 ({} holes), Ixx {:.4e} mm4",
-                j.joint, j.radius, j.net.area, j.gross.area, j.holes, j.net.ixx
-            );
-            match &j.stress {
-                Some(s) => {
-                    let _ = writeln!(
-                        out,
-                        "; on it {:.1} MPa tension, {:.1} MPa compression (force {:.1} N, moment {:.0} N mm): safety factor {:.2} in the plastic alone",
-                        s.max_tension, s.max_compression, s.centrifugal_force, s.bending_moment, s.safety_factor
-                    );
-                }
-                None => {
-                    let _ = writeln!(out);
-                }
+}
+
+/// The segments' masses, the rod and each joint's section and stress.
+fn summary_segments(out: &mut String, seg: &report::SegmentsSummary) {
+    for p in &seg.segments {
+        let _ = writeln!(
+            out,
+            "  {}: mass {:.1} g, volume {:.0} mm3",
+            p.name, p.mass, p.volume
+        );
+    }
+    if let Some([d, l]) = seg.rod {
+        let _ = writeln!(out, "  rod: {d} mm diameter, cut to {l:.1} mm");
+    }
+    for j in &seg.joints {
+        let _ = write!(
+            out,
+            "  joint {} at {:.1} mm: net section {:.1} mm2 of {:.1} mm2 ({} holes), Ixx {:.4e} mm4",
+            j.joint, j.radius, j.net.area, j.gross.area, j.holes, j.net.ixx
+        );
+        match &j.stress {
+            Some(s) => {
+                let _ = writeln!(
+                    out,
+                    "; on it {:.1} MPa tension, {:.1} MPa compression (force {:.1} N, moment {:.0} N mm): safety factor {:.2} in the plastic alone",
+                    s.max_tension, s.max_compression, s.centrifugal_force, s.bending_moment, s.safety_factor
+                );
+            }
+            None => {
+                let _ = writeln!(out);
             }
         }
     }
-    for w in written {
-        let _ = writeln!(out, "  wrote {}", w.display());
-    }
-    out
 }
 
 #[cfg(test)]

@@ -260,50 +260,131 @@ impl StressTable {
         load: &LoadCase,
     ) -> Result<StressTable, StressError> {
         load.validate()?;
-        let mut radii = radii.to_vec();
-        radii.retain(|r| r.is_finite());
-        radii.sort_by(f64::total_cmp);
-        radii.dedup();
-        let filled =
-            FilledMass::of_mesh(mesh, 1.0, fill, &ShellOptions::DEFAULT).map_err(|e| match e {
-                ShellError::NoVolume => StressError::NoVolume,
-                ShellError::Slice(s) => StressError::Slice(s),
-                other => StressError::Shell(other),
-            })?;
-        let props = filled.solid;
+        let radii = sorted_radii(radii);
+        let filled = filled_mass(mesh, fill)?;
         let bb = mesh.bounding_box().ok_or(StressError::NoVolume)?;
-        let (r0, r1) = (bb.min.z, bb.max.z);
-        let fraction = filled.fraction;
-        // kg/mm^3 with the fill model.
-        let rho = material.density * 1e-6 * fraction;
-        let omega = load.rpm * std::f64::consts::TAU / 60.0;
-        let thrust = load.thrust_per_blade(r1);
+        let loading = Loading::new(material, filled.fraction, load, bb.min.z, bb.max.z);
         let mut rows = Vec::with_capacity(radii.len());
         let mut curvature = Vec::with_capacity(radii.len());
         for &r in &radii {
-            let slice = Slice::cut(mesh, r)?;
-            let sec = SectionProps::of_slice(&slice).ok_or(StressError::EmptySection(r))?;
-            let out = Outboard::of_mesh(mesh, r);
-            let sfill = fill.fraction_of_section(&slice.loops);
-            // kg mm/s^2 = 1e-3 N.
-            let force = rho * omega * omega * out.moment * 1e-3;
-            let m = moment(load.spread, thrust, r0, r1, r);
-            let sc = force / sec.area / sfill;
-            let (b, c) = sec.flap_bending(m);
-            let (mut hi, mut lo) = (sc, sc);
-            for p in slice.points() {
-                let s = sc + (b * (p.x - sec.cx) + c * (p.y - sec.cy)) / sfill;
-                hi = hi.max(s);
-                lo = lo.min(s);
-            }
-            let worst = hi.abs().max(lo.abs());
-            let sf = if worst > 0.0 {
-                material.strength / worst
-            } else {
-                f64::INFINITY
-            };
-            curvature.push(m / (material.modulus * sfill * sec.flap_stiffness()));
-            rows.push(StressRow {
+            let cut = loading.cut(mesh, r, material, fill)?;
+            curvature.push(cut.curvature);
+            rows.push(cut.row);
+        }
+        add_deflections(&mut rows, &radii, &curvature);
+        let (critical, min_sf) = weakest(&rows, loading.r0);
+        Ok(StressTable {
+            material: material.clone(),
+            fill,
+            load: load.clone(),
+            thrust_per_blade: loading.thrust,
+            mass: filled.solid.volume * material.density_g_mm3() * filled.fraction,
+            tip_deflection: rows.last().map_or(0.0, |r| r.deflection),
+            passes: min_sf >= load.safety_factor,
+            min_safety_factor: min_sf,
+            critical_radius: critical,
+            rows,
+            assumptions: assumptions(material, fill, &filled, load, loading.r1),
+            cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
+        })
+    }
+}
+
+/// Radius and value of the smallest safety factor (the first of equals; `r0` and
+/// infinity without rows).
+fn weakest(rows: &[StressRow], r0: f64) -> (f64, f64) {
+    rows.iter()
+        .map(|r| (r.section.radius, r.safety_factor))
+        .fold((r0, f64::INFINITY), |a, b| if b.1 < a.1 { b } else { a })
+}
+
+/// The finite radii, sorted, each once.
+fn sorted_radii(radii: &[f64]) -> Vec<f64> {
+    let mut radii = radii.to_vec();
+    radii.retain(|r| r.is_finite());
+    radii.sort_by(f64::total_cmp);
+    radii.dedup();
+    radii
+}
+
+/// The part's mass properties with the fill model.
+fn filled_mass(mesh: &TriMesh, fill: Fill) -> Result<FilledMass, StressError> {
+    FilledMass::of_mesh(mesh, 1.0, fill, &ShellOptions::DEFAULT).map_err(|e| match e {
+        ShellError::NoVolume => StressError::NoVolume,
+        ShellError::Slice(s) => StressError::Slice(s),
+        other => StressError::Shell(other),
+    })
+}
+
+/// The loads on the blade at the operating point.
+struct Loading {
+    /// Density with the fill model, kg/mm^3.
+    rho: f64,
+    /// Angular speed, rad/s.
+    omega: f64,
+    /// Thrust on this blade, N.
+    thrust: f64,
+    /// How the thrust is spread along the span.
+    spread: ThrustSpread,
+    /// Radius of the root end (clamped), mm.
+    r0: f64,
+    /// Radius of the tip end, mm.
+    r1: f64,
+}
+
+/// One cut's row and the flapwise curvature there (1/mm).
+struct Cut {
+    row: StressRow,
+    curvature: f64,
+}
+
+impl Loading {
+    fn new(material: &Material, fraction: f64, load: &LoadCase, r0: f64, r1: f64) -> Self {
+        Loading {
+            // kg/mm^3 with the fill model.
+            rho: material.density * 1e-6 * fraction,
+            omega: load.rpm * std::f64::consts::TAU / 60.0,
+            thrust: load.thrust_per_blade(r1),
+            spread: load.spread,
+            r0,
+            r1,
+        }
+    }
+
+    /// The stresses on the cut at `r`: centrifugal force over the section plus flapwise
+    /// bending, at every point of the section's outline.
+    fn cut(
+        &self,
+        mesh: &TriMesh,
+        r: f64,
+        material: &Material,
+        fill: Fill,
+    ) -> Result<Cut, StressError> {
+        let (rho, omega) = (self.rho, self.omega);
+        let slice = Slice::cut(mesh, r)?;
+        let sec = SectionProps::of_slice(&slice).ok_or(StressError::EmptySection(r))?;
+        let out = Outboard::of_mesh(mesh, r);
+        let sfill = fill.fraction_of_section(&slice.loops);
+        // kg mm/s^2 = 1e-3 N.
+        let force = rho * omega * omega * out.moment * 1e-3;
+        let m = moment(self.spread, self.thrust, self.r0, self.r1, r);
+        let sc = force / sec.area / sfill;
+        let (b, c) = sec.flap_bending(m);
+        let (mut hi, mut lo) = (sc, sc);
+        for p in slice.points() {
+            let s = sc + (b * (p.x - sec.cx) + c * (p.y - sec.cy)) / sfill;
+            hi = hi.max(s);
+            lo = lo.min(s);
+        }
+        let worst = hi.abs().max(lo.abs());
+        let sf = if worst > 0.0 {
+            material.strength / worst
+        } else {
+            f64::INFINITY
+        };
+        let curvature = m / (material.modulus * sfill * sec.flap_stiffness());
+        Ok(Cut {
+            row: StressRow {
                 section: sec,
                 fill: sfill,
                 outboard_mass: out.volume * rho * 1e3,
@@ -314,65 +395,62 @@ impl StressTable {
                 max_compression: (-lo).max(0.0),
                 safety_factor: sf,
                 deflection: 0.0,
-            });
-        }
-        // Clamped at the first radius: slope and deflection zero there.
-        let (mut slope, mut w) = (0.0, 0.0);
-        for i in 1..rows.len() {
-            let h = radii[i] - radii[i - 1];
-            let new_slope = slope + 0.5 * h * (curvature[i] + curvature[i - 1]);
-            w += 0.5 * h * (slope + new_slope);
-            slope = new_slope;
-            rows[i].deflection = w;
-        }
-        let (critical, min_sf) = rows
-            .iter()
-            .map(|r| (r.section.radius, r.safety_factor))
-            .fold((r0, f64::INFINITY), |a, b| if b.1 < a.1 { b } else { a });
-        let assumptions = vec![
-            format!(
-                "material: {} - {}",
-                material.name, material.note
-            ),
-            format!(
-                "fill: {:.2} mm walls, {:.0} % infill; shell = material within the wall of the surface (inward offset of slices every {:.2} mm); material fraction {:.3} of the solid; mass spread uniformly for the centrifugal load",
-                fill.wall,
-                fill.infill * 100.0,
-                filled.step,
-                fraction
-            ),
-            "section stresses divided by the section's material fraction (its inward offset by the wall filled to the infill, the rest solid): conservative for bending".into(),
-            format!(
-                "centrifugal load: spanwise component m omega^2 z of the part outboard of each section, at {} rpm",
-                load.rpm
-            ),
-            match load.thrust {
-                Some(t) => format!("thrust: {t} N per blade, given"),
-                None => format!(
-                    "thrust: momentum theory T = 0.5 rho A V^2 C_T with rho = {} kg/m^3, A = pi R^2 (R = {:.1} mm, hub share included: conservative), V = {} m/s, C_T = {:.4}, shared by {} blades",
-                    load.air_density, r1, load.wind, load.thrust_coefficient, load.blades
-                ),
             },
-            match load.spread {
-                ThrustSpread::Annulus => "thrust spread along the span in proportion to the annulus area (q ~ r)".into(),
-                ThrustSpread::Uniform => "thrust spread uniformly along the span".into(),
-            },
-            "flapwise bending only (about the x axis), plane sections stay plane; root clamped at the first section".into(),
-            "tip deflection: cantilever, M/(E I) integrated twice by the trapezoidal rule".into(),
-        ];
-        Ok(StressTable {
-            material: material.clone(),
-            fill,
-            load: load.clone(),
-            thrust_per_blade: thrust,
-            mass: props.volume * material.density_g_mm3() * fraction,
-            tip_deflection: rows.last().map_or(0.0, |r| r.deflection),
-            passes: min_sf >= load.safety_factor,
-            min_safety_factor: min_sf,
-            critical_radius: critical,
-            rows,
-            assumptions,
-            cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
+            curvature,
         })
     }
+}
+
+/// Each row's deflection: the curvature integrated twice by the trapezoidal rule,
+/// clamped at the first radius (slope and deflection zero there).
+fn add_deflections(rows: &mut [StressRow], radii: &[f64], curvature: &[f64]) {
+    let (mut slope, mut w) = (0.0, 0.0);
+    for i in 1..rows.len() {
+        let h = radii[i] - radii[i - 1];
+        let new_slope = slope + 0.5 * h * (curvature[i] + curvature[i - 1]);
+        w += 0.5 * h * (slope + new_slope);
+        slope = new_slope;
+        rows[i].deflection = w;
+    }
+}
+
+/// The estimate's assumptions, in words; `r1` is the tip radius, mm.
+fn assumptions(
+    material: &Material,
+    fill: Fill,
+    filled: &FilledMass,
+    load: &LoadCase,
+    r1: f64,
+) -> Vec<String> {
+    vec![
+        format!(
+            "material: {} - {}",
+            material.name, material.note
+        ),
+        format!(
+            "fill: {:.2} mm walls, {:.0} % infill; shell = material within the wall of the surface (inward offset of slices every {:.2} mm); material fraction {:.3} of the solid; mass spread uniformly for the centrifugal load",
+            fill.wall,
+            fill.infill * 100.0,
+            filled.step,
+            filled.fraction
+        ),
+        "section stresses divided by the section's material fraction (its inward offset by the wall filled to the infill, the rest solid): conservative for bending".into(),
+        format!(
+            "centrifugal load: spanwise component m omega^2 z of the part outboard of each section, at {} rpm",
+            load.rpm
+        ),
+        match load.thrust {
+            Some(t) => format!("thrust: {t} N per blade, given"),
+            None => format!(
+                "thrust: momentum theory T = 0.5 rho A V^2 C_T with rho = {} kg/m^3, A = pi R^2 (R = {:.1} mm, hub share included: conservative), V = {} m/s, C_T = {:.4}, shared by {} blades",
+                load.air_density, r1, load.wind, load.thrust_coefficient, load.blades
+            ),
+        },
+        match load.spread {
+            ThrustSpread::Annulus => "thrust spread along the span in proportion to the annulus area (q ~ r)".into(),
+            ThrustSpread::Uniform => "thrust spread uniformly along the span".into(),
+        },
+        "flapwise bending only (about the x axis), plane sections stay plane; root clamped at the first section".into(),
+        "tip deflection: cantilever, M/(E I) integrated twice by the trapezoidal rule".into(),
+    ]
 }

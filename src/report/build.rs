@@ -7,6 +7,7 @@ use super::{planform_svg, stack_svg, stress_svg, three_view_svg};
 use crate::blade::Blade;
 use crate::check::CheckedPart;
 use crate::design::{Rotation, Station};
+use crate::mesh::TriMesh;
 use crate::props::{
     section_table, span_radii, Balance, Fill, LoadCase, Material, Slice, SliceError, StressError,
     StressTable,
@@ -141,86 +142,15 @@ pub fn build(
 ) -> Result<(Report, Pictures), ReportError> {
     let first = input.parts.first().ok_or(ReportError::NoParts)?;
     progress(0, "mass properties");
-    let mut parts = Vec::new();
-    let mut props = Vec::new();
-    for part in input.parts {
-        let (s, p) = PartSummary::of_part(part, &input.material, input.fill)
-            .ok_or_else(|| ReportError::NoVolume(part.name().to_string()))?;
-        parts.push(s);
-        props.push(p);
-    }
-    let balance = if props.len() > 1 {
-        Balance::of_parts(&props).map(|b| BalanceSummary::from(&b))
-    } else {
-        None
-    };
+    let (parts, balance) = mass_summaries(input)?;
     progress(1, "section properties");
     let mesh = first.mesh();
-    if let Some(bb) = mesh.bounding_box() {
-        if bb.min.z < 0.0 {
-            return Err(ReportError::NotABlade {
-                part: first.name().to_string(),
-                min: bb.min.z,
-                max: bb.max.z,
-            });
-        }
-    }
-    let span = span_radii(mesh, 2);
-    let (r0, r1) = (span[0], span[1]);
-    let mut radii: Vec<f64> = match input.stations {
-        Some(st) if !st.is_empty() => st.iter().map(|s| s.radius.clamp(r0, r1)).collect(),
-        _ => span_radii(mesh, 21),
-    };
-    radii.extend(input.extra_radii.iter().copied());
-    radii.sort_by(f64::total_cmp);
-    radii.dedup();
-    let slice_err = |source| ReportError::Slice {
-        part: first.name().to_string(),
-        source,
-    };
-    let sections = section_table(mesh, &radii).map_err(slice_err)?;
+    check_blade_frame(first)?;
+    let sections = section_table(mesh, &section_radii(input, mesh)).map_err(slice_error(first))?;
     progress(2, "stress estimate");
-    let stress = match &input.load {
-        Some(load) => Some(
-            StressTable::estimate(
-                mesh,
-                &span_radii(mesh, input.stress_cuts.max(3)),
-                &input.material,
-                input.fill,
-                load,
-            )
-            .map_err(|source| ReportError::Stress {
-                part: first.name().to_string(),
-                source,
-            })?,
-        ),
-        None => None,
-    };
+    let stress = stress_estimate(input, first)?;
     progress(3, "pictures");
-    let mut slices = Vec::new();
-    for r in span_radii(mesh, input.picture_cuts.max(2)) {
-        slices.push(Slice::cut(mesh, r).map_err(slice_err)?);
-    }
-    let axis = input.blade.map_or(Vec::new(), |b| b.stacking_axis(64));
-    let axis_at_cuts: Vec<nalgebra::Point2<f64>> = match input.blade {
-        Some(b) => slices
-            .iter()
-            .map(|s| {
-                let p = b.axis_point(s.radius);
-                nalgebra::Point2::new(p.x, p.y)
-            })
-            .collect(),
-        None => Vec::new(),
-    };
-    let pictures = Pictures {
-        planform: input
-            .stations
-            .map(|st| planform_svg(&input.name, st, false)),
-        sections: stack_svg(&input.name, &slices, &axis_at_cuts, false),
-        three_view: three_view_svg(first.name(), mesh, &axis, false),
-        stress: stress.as_ref().map(|t| stress_svg(first.name(), t, false)),
-        preview: Some(PreviewPng::of_parts(input.parts, input.rotation)),
-    };
+    let pictures = pictures(input, first, stress.as_ref())?;
     progress(4, "report");
     let report = Report {
         schema: SCHEMA_ID,
@@ -239,4 +169,117 @@ pub fn build(
         cautions: Report::cautions(),
     };
     Ok((report, pictures))
+}
+
+/// Every part's mass properties, and the balance of several.
+fn mass_summaries(
+    input: &ReportInput<'_>,
+) -> Result<(Vec<PartSummary>, Option<BalanceSummary>), ReportError> {
+    let mut parts = Vec::new();
+    let mut props = Vec::new();
+    for part in input.parts {
+        let (s, p) = PartSummary::of_part(part, &input.material, input.fill)
+            .ok_or_else(|| ReportError::NoVolume(part.name().to_string()))?;
+        parts.push(s);
+        props.push(p);
+    }
+    let balance = if props.len() > 1 {
+        Balance::of_parts(&props).map(|b| BalanceSummary::from(&b))
+    } else {
+        None
+    };
+    Ok((parts, balance))
+}
+
+/// The blade lies at positive radii (in the blade frame).
+fn check_blade_frame(first: &CheckedPart) -> Result<(), ReportError> {
+    if let Some(bb) = first.mesh().bounding_box() {
+        if bb.min.z < 0.0 {
+            return Err(ReportError::NotABlade {
+                part: first.name().to_string(),
+                min: bb.min.z,
+                max: bb.max.z,
+            });
+        }
+    }
+    Ok(())
+}
+
+/// Radii of the section table: the design's stations within the span (or 21 even
+/// cuts), with the extra radii, sorted, each once.
+fn section_radii(input: &ReportInput<'_>, mesh: &TriMesh) -> Vec<f64> {
+    let span = span_radii(mesh, 2);
+    let (r0, r1) = (span[0], span[1]);
+    let mut radii: Vec<f64> = match input.stations {
+        Some(st) if !st.is_empty() => st.iter().map(|s| s.radius.clamp(r0, r1)).collect(),
+        _ => span_radii(mesh, 21),
+    };
+    radii.extend(input.extra_radii.iter().copied());
+    radii.sort_by(f64::total_cmp);
+    radii.dedup();
+    radii
+}
+
+/// A cut of `part` that failed.
+fn slice_error(part: &CheckedPart) -> impl Fn(SliceError) -> ReportError + '_ {
+    move |source| ReportError::Slice {
+        part: part.name().to_string(),
+        source,
+    }
+}
+
+/// The stress estimate of the first part, with a load case.
+fn stress_estimate(
+    input: &ReportInput<'_>,
+    first: &CheckedPart,
+) -> Result<Option<StressTable>, ReportError> {
+    let Some(load) = &input.load else {
+        return Ok(None);
+    };
+    let mesh = first.mesh();
+    let table = StressTable::estimate(
+        mesh,
+        &span_radii(mesh, input.stress_cuts.max(3)),
+        &input.material,
+        input.fill,
+        load,
+    )
+    .map_err(|source| ReportError::Stress {
+        part: first.name().to_string(),
+        source,
+    })?;
+    Ok(Some(table))
+}
+
+/// The report's pictures.
+fn pictures(
+    input: &ReportInput<'_>,
+    first: &CheckedPart,
+    stress: Option<&StressTable>,
+) -> Result<Pictures, ReportError> {
+    let mesh = first.mesh();
+    let mut slices = Vec::new();
+    for r in span_radii(mesh, input.picture_cuts.max(2)) {
+        slices.push(Slice::cut(mesh, r).map_err(slice_error(first))?);
+    }
+    let axis = input.blade.map_or(Vec::new(), |b| b.stacking_axis(64));
+    let axis_at_cuts: Vec<nalgebra::Point2<f64>> = match input.blade {
+        Some(b) => slices
+            .iter()
+            .map(|s| {
+                let p = b.axis_point(s.radius);
+                nalgebra::Point2::new(p.x, p.y)
+            })
+            .collect(),
+        None => Vec::new(),
+    };
+    Ok(Pictures {
+        planform: input
+            .stations
+            .map(|st| planform_svg(&input.name, st, false)),
+        sections: stack_svg(&input.name, &slices, &axis_at_cuts, false),
+        three_view: three_view_svg(first.name(), mesh, &axis, false),
+        stress: stress.map(|t| stress_svg(first.name(), t, false)),
+        preview: Some(PreviewPng::of_parts(input.parts, input.rotation)),
+    })
 }

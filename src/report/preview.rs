@@ -250,10 +250,20 @@ pub fn render(items: &[Item<'_>], marks: Option<&Marks>, opts: &PreviewOptions) 
             .basis()
             .expect("the fixed upstream view has a basis")
     });
-    let [r, u, f] = basis;
-    let (w, h) = (opts.width.max(1), opts.height.max(1));
-    // Model-frame vertices of every item.
-    let placed: Vec<Vec<Point3<f64>>> = items
+    let placed = placed_vertices(items);
+    let drawn_marks = marks.map(|m| mark_geometry(m, &basis, &placed));
+    let framed = frame_points(items, &placed, drawn_marks.as_ref(), &basis);
+    let mut img = Image::framing(&framed, basis, opts);
+    shade_items(&mut img, items, &placed);
+    if let Some(g) = drawn_marks {
+        draw_marks(&mut img, &g);
+    }
+    img
+}
+
+/// Model-frame vertices of every item.
+fn placed_vertices(items: &[Item<'_>]) -> Vec<Vec<Point3<f64>>> {
+    items
         .iter()
         .map(|it| {
             it.mesh
@@ -262,11 +272,20 @@ pub fn render(items: &[Item<'_>], marks: Option<&Marks>, opts: &PreviewOptions) 
                 .map(|v| it.transform.transform_point(v))
                 .collect()
         })
-        .collect();
-    let drawn_marks = marks.map(|m| mark_geometry(m, &basis, &placed));
-    // Picture frame: every vertex used and every mark point.
+        .collect()
+}
+
+/// What the picture must frame, in view coordinates (right, up): every vertex used and
+/// every mark point.
+fn frame_points(
+    items: &[Item<'_>],
+    placed: &[Vec<Point3<f64>>],
+    marks: Option<&MarkGeometry>,
+    basis: &[Vector3<f64>; 3],
+) -> Vec<(f64, f64)> {
+    let [r, u, _] = basis;
     let mut pts2: Vec<(f64, f64)> = Vec::new();
-    for (it, verts) in items.iter().zip(&placed) {
+    for (it, verts) in items.iter().zip(placed) {
         for t in &it.mesh.triangles {
             for &i in t {
                 if let Some(p) = verts.get(i as usize) {
@@ -275,46 +294,61 @@ pub fn render(items: &[Item<'_>], marks: Option<&Marks>, opts: &PreviewOptions) 
             }
         }
     }
-    if let Some(g) = &drawn_marks {
+    if let Some(g) = marks {
         pts2.extend(g.points().map(|p| (r.dot(&p.coords), u.dot(&p.coords))));
     }
     pts2.retain(|p| p.0.is_finite() && p.1.is_finite());
-    let (x0, x1, y0, y1) = pts2.iter().fold(
-        (f64::MAX, f64::MIN, f64::MAX, f64::MIN),
-        |(a, b, c, d), p| (a.min(p.0), b.max(p.0), c.min(p.1), d.max(p.1)),
-    );
-    let m = opts.margin as f64;
-    let (aw, ah) = ((w as f64 - 2.0 * m).max(1.0), (h as f64 - 2.0 * m).max(1.0));
-    let scale = if pts2.is_empty() {
-        1.0
-    } else {
-        let (dx, dy) = ((x1 - x0).max(1e-9), (y1 - y0).max(1e-9));
-        (aw / dx).min(ah / dy)
-    };
-    let (cx, cy) = if pts2.is_empty() {
-        (0.0, 0.0)
-    } else {
-        (0.5 * (x0 + x1), 0.5 * (y0 + y1))
-    };
-    let shift = (0.5 * w as f64 - cx * scale, 0.5 * h as f64 + cy * scale);
-    let mut img = Image {
-        width: w,
-        height: h,
-        rgb: opts
-            .background
-            .iter()
-            .copied()
-            .cycle()
-            .take(3 * (w * h) as usize)
-            .collect(),
-        covered: vec![false; (w * h) as usize],
-        basis,
-        scale,
-        shift,
-    };
+    pts2
+}
+
+impl Image {
+    /// A blank picture of the options' size and background whose projection frames
+    /// `pts2` (view coordinates) within the margin, centred.
+    fn framing(pts2: &[(f64, f64)], basis: [Vector3<f64>; 3], opts: &PreviewOptions) -> Image {
+        let (w, h) = (opts.width.max(1), opts.height.max(1));
+        let (x0, x1, y0, y1) = pts2.iter().fold(
+            (f64::MAX, f64::MIN, f64::MAX, f64::MIN),
+            |(a, b, c, d), p| (a.min(p.0), b.max(p.0), c.min(p.1), d.max(p.1)),
+        );
+        let m = opts.margin as f64;
+        let (aw, ah) = ((w as f64 - 2.0 * m).max(1.0), (h as f64 - 2.0 * m).max(1.0));
+        let scale = if pts2.is_empty() {
+            1.0
+        } else {
+            let (dx, dy) = ((x1 - x0).max(1e-9), (y1 - y0).max(1e-9));
+            (aw / dx).min(ah / dy)
+        };
+        let (cx, cy) = if pts2.is_empty() {
+            (0.0, 0.0)
+        } else {
+            (0.5 * (x0 + x1), 0.5 * (y0 + y1))
+        };
+        let shift = (0.5 * w as f64 - cx * scale, 0.5 * h as f64 + cy * scale);
+        Image {
+            width: w,
+            height: h,
+            rgb: opts
+                .background
+                .iter()
+                .copied()
+                .cycle()
+                .take(3 * (w * h) as usize)
+                .collect(),
+            covered: vec![false; (w * h) as usize],
+            basis,
+            scale,
+            shift,
+        }
+    }
+}
+
+/// Draws every item's triangles, flat-shaded by a light from behind the eye, nearest
+/// first by a depth buffer.
+fn shade_items(img: &mut Image, items: &[Item<'_>], placed: &[Vec<Point3<f64>>]) {
+    let [r, u, f] = img.basis;
     let light = (-f + 0.6 * u - 0.35 * r).normalize();
-    let mut depth = vec![f64::INFINITY; (w * h) as usize];
-    for (it, verts) in items.iter().zip(&placed) {
+    let mut depth = vec![f64::INFINITY; (img.width * img.height) as usize];
+    for (it, verts) in items.iter().zip(placed) {
         let proj: Vec<(f64, f64, f64)> = verts.iter().map(|p| img.project(p)).collect();
         for t in &it.mesh.triangles {
             let Some([a, b, c]) = corners(t, &proj) else {
@@ -332,7 +366,7 @@ pub fn render(items: &[Item<'_>], marks: Option<&Marks>, opts: &PreviewOptions) 
             let colour = it
                 .colour
                 .map(|c| (c as f64 * shade).round().clamp(0.0, 255.0) as u8);
-            fill_triangle(&mut img, [a, b, c], |img, x, y, d| {
+            fill_triangle(img, [a, b, c], |img, x, y, d| {
                 let k = (y * img.width + x) as usize;
                 if d < depth[k] {
                     depth[k] = d;
@@ -343,10 +377,6 @@ pub fn render(items: &[Item<'_>], marks: Option<&Marks>, opts: &PreviewOptions) 
             });
         }
     }
-    if let Some(g) = drawn_marks {
-        draw_marks(&mut img, &g);
-    }
-    img
 }
 
 /// [`render`] as PNG bytes.

@@ -21,7 +21,7 @@ use nalgebra::{Point3, Vector3};
 
 use super::numbers::{fixed, number, Decimals};
 use super::stack::AXIS_COLOUR;
-use crate::mesh::TriMesh;
+use crate::mesh::{Aabb, TriMesh};
 use crate::svg::Svg;
 
 /// Dihedral angle above which an edge is drawn as a crease, degrees. Default 40.
@@ -130,22 +130,26 @@ pub fn three_view_svg(
     standalone: bool,
 ) -> String {
     let Some(bb) = mesh.bounding_box() else {
-        let (w, h) = (MAX_WIDTH, 120.0);
-        let mut svg = Svg::new(w, h);
-        svg.text(
-            w / 2.0,
-            20.0,
-            14.0,
-            "middle",
-            &format!("Three views: {name} (mm)"),
-        );
-        svg.text(w / 2.0, h / 2.0, 12.0, "middle", "empty part");
-        return svg.finish("Three views", standalone);
+        return empty_views(name, standalone);
     };
-    let size = bb.size();
-    let (ex, ey, ez) = (size.x.max(1e-6), size.y.max(1e-6), size.z.max(1e-6));
-    let l = Layout::new(ex, ey, ez);
-    let (w, h, s, m) = (l.width, l.height, l.scale, GAP);
+    let views = ThreeViews::of(bb);
+    let mut svg = Svg::new(views.layout.width, views.layout.height);
+    svg.text(
+        views.layout.width / 2.0,
+        20.0,
+        14.0,
+        "middle",
+        &format!("Three views: {name} (mm)"),
+    );
+    views.draw_views(&mut svg, mesh, axis);
+    views.draw_dimensions(&mut svg);
+    views.draw_footer(&mut svg);
+    svg.finish(&format!("Three views of {name}"), standalone)
+}
+
+/// The three views of a part with no vertices: the title and "empty part".
+fn empty_views(name: &str, standalone: bool) -> String {
+    let (w, h) = (MAX_WIDTH, 120.0);
     let mut svg = Svg::new(w, h);
     svg.text(
         w / 2.0,
@@ -154,89 +158,137 @@ pub fn three_view_svg(
         "middle",
         &format!("Three views: {name} (mm)"),
     );
-    let (left, top, x_end, y_edge) = (LEFT, TOP, l.x_end, l.y_edge);
-    // Plan view: z -> right, x -> up.
-    let plan = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), top + s * (bb.max.x - p.x));
-    // Edge view: z -> right, y -> up.
-    let edge = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), y_edge + s * (bb.max.y - p.y));
-    // End view from the tip: y -> right, x -> up.
-    let end = |p: &Point3<f64>| (x_end + s * (p.y - bb.min.y), top + s * (bb.max.x - p.x));
-    type Projection<'a> = &'a dyn Fn(&Point3<f64>) -> (f64, f64);
-    let views: [(Vector3<f64>, Projection, &str); 3] = [
-        (Vector3::y(), &plan, "plan, looking downstream (+y)"),
-        (-Vector3::x(), &edge, "edge view, looking along -x"),
-        (-Vector3::z(), &end, "from the tip, looking along -z"),
-    ];
-    for (dir, map, title) in views {
-        let segs: Vec<_> = outline_edges(mesh, &dir)
-            .iter()
-            .map(|(a, b)| (map(a), map(b)))
-            .collect();
-        svg.segments(&segs, "#1f2f4f", 0.8);
-        let (tx, ty) = map(&Point3::new(bb.min.x, bb.min.y, bb.min.z));
-        svg.text(tx, ty + 14.0, 10.0, "start", title);
-        draw_axis(&mut svg, axis, map, dir == -Vector3::z());
-    }
-    // Dimension lines.
-    let dim = |svg: &mut Svg, a: (f64, f64), b: (f64, f64), text: String, vertical: bool| {
-        svg.line(a, b, "#c0392b", 0.8);
-        let (tick_a, tick_b) = if vertical {
-            (
-                ((a.0 - 4.0, a.1), (a.0 + 4.0, a.1)),
-                ((b.0 - 4.0, b.1), (b.0 + 4.0, b.1)),
-            )
-        } else {
-            (
-                ((a.0, a.1 - 4.0), (a.0, a.1 + 4.0)),
-                ((b.0, b.1 - 4.0), (b.0, b.1 + 4.0)),
-            )
-        };
-        svg.line(tick_a.0, tick_a.1, "#c0392b", 0.8);
-        svg.line(tick_b.0, tick_b.1, "#c0392b", 0.8);
-        let mid = ((a.0 + b.0) / 2.0, (a.1 + b.1) / 2.0);
-        if vertical {
-            svg.text(mid.0 - 6.0, mid.1, 11.0, "end", &text);
-        } else {
-            svg.text(mid.0, mid.1 - 6.0, 11.0, "middle", &text);
+    svg.text(w / 2.0, h / 2.0, 12.0, "middle", "empty part");
+    svg.finish("Three views", standalone)
+}
+
+/// A part's box and the views' layout.
+struct ThreeViews {
+    bb: Aabb,
+    /// The box's size, mm.
+    size: Vector3<f64>,
+    /// The box's extents along x, y and z, at least 1e-6 mm.
+    extents: [f64; 3],
+    layout: Layout,
+}
+
+impl ThreeViews {
+    fn of(bb: Aabb) -> ThreeViews {
+        let size = bb.size();
+        let (ex, ey, ez) = (size.x.max(1e-6), size.y.max(1e-6), size.z.max(1e-6));
+        ThreeViews {
+            bb,
+            size,
+            extents: [ex, ey, ez],
+            layout: Layout::new(ex, ey, ez),
         }
+    }
+
+    /// The plan, the edge view and the view from the tip: the mesh's outline, a title
+    /// and the stacking axis in each.
+    fn draw_views(&self, svg: &mut Svg, mesh: &TriMesh, axis: &[Point3<f64>]) {
+        let bb = &self.bb;
+        let s = self.layout.scale;
+        let (left, top, x_end, y_edge) = (LEFT, TOP, self.layout.x_end, self.layout.y_edge);
+        // Plan view: z -> right, x -> up.
+        let plan = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), top + s * (bb.max.x - p.x));
+        // Edge view: z -> right, y -> up.
+        let edge = |p: &Point3<f64>| (left + s * (p.z - bb.min.z), y_edge + s * (bb.max.y - p.y));
+        // End view from the tip: y -> right, x -> up.
+        let end = |p: &Point3<f64>| (x_end + s * (p.y - bb.min.y), top + s * (bb.max.x - p.x));
+        type Projection<'a> = &'a dyn Fn(&Point3<f64>) -> (f64, f64);
+        let views: [(Vector3<f64>, Projection, &str); 3] = [
+            (Vector3::y(), &plan, "plan, looking downstream (+y)"),
+            (-Vector3::x(), &edge, "edge view, looking along -x"),
+            (-Vector3::z(), &end, "from the tip, looking along -z"),
+        ];
+        for (dir, map, title) in views {
+            let segs: Vec<_> = outline_edges(mesh, &dir)
+                .iter()
+                .map(|(a, b)| (map(a), map(b)))
+                .collect();
+            svg.segments(&segs, "#1f2f4f", 0.8);
+            let (tx, ty) = map(&Point3::new(bb.min.x, bb.min.y, bb.min.z));
+            svg.text(tx, ty + 14.0, 10.0, "start", title);
+            draw_axis(svg, axis, map, dir == -Vector3::z());
+        }
+    }
+
+    /// Dimension lines: the span below the edge view, the chordwise extent left of the
+    /// plan, the extent along the rotor axis above the end view.
+    fn draw_dimensions(&self, svg: &mut Svg) {
+        let (bb, size) = (&self.bb, &self.size);
+        let [ex, ey, ez] = self.extents;
+        let s = self.layout.scale;
+        let (left, top, x_end, y_edge) = (LEFT, TOP, self.layout.x_end, self.layout.y_edge);
+        let mm = |v: f64| number(v, Decimals::Mm);
+        let below = y_edge + s * ey + DIM_BELOW;
+        dimension(
+            svg,
+            (left, below),
+            (left + s * ez, below),
+            format!("z: {} (r {} to {})", mm(size.z), mm(bb.min.z), mm(bb.max.z)),
+            false,
+        );
+        dimension(
+            svg,
+            (left - 12.0, top),
+            (left - 12.0, top + s * ex),
+            format!("x: {}", mm(size.x)),
+            true,
+        );
+        dimension(
+            svg,
+            (x_end, top - 12.0),
+            (x_end + s * ey, top - 12.0),
+            format!("y: {}", mm(size.y)),
+            false,
+        );
+    }
+
+    /// The overall size and the scale, at the foot.
+    fn draw_footer(&self, svg: &mut Svg) {
+        let size = &self.size;
+        let mm = |v: f64| number(v, Decimals::Mm);
+        svg.text(
+            GAP,
+            self.layout.height - 12.0,
+            11.0,
+            "start",
+            &format!(
+                "overall {} × {} × {} mm (x chordwise, y along the rotor axis, z radius); scale {} px/mm",
+                mm(size.x),
+                mm(size.y),
+                mm(size.z),
+                fixed(self.layout.scale, 3)
+            ),
+        );
+    }
+}
+
+/// A dimension line from `a` to `b` with end ticks and its `text` (left of a `vertical`
+/// line, else above it).
+fn dimension(svg: &mut Svg, a: (f64, f64), b: (f64, f64), text: String, vertical: bool) {
+    svg.line(a, b, "#c0392b", 0.8);
+    let (tick_a, tick_b) = if vertical {
+        (
+            ((a.0 - 4.0, a.1), (a.0 + 4.0, a.1)),
+            ((b.0 - 4.0, b.1), (b.0 + 4.0, b.1)),
+        )
+    } else {
+        (
+            ((a.0, a.1 - 4.0), (a.0, a.1 + 4.0)),
+            ((b.0, b.1 - 4.0), (b.0, b.1 + 4.0)),
+        )
     };
-    let mm = |v: f64| number(v, Decimals::Mm);
-    let below = y_edge + s * ey + DIM_BELOW;
-    dim(
-        &mut svg,
-        (left, below),
-        (left + s * ez, below),
-        format!("z: {} (r {} to {})", mm(size.z), mm(bb.min.z), mm(bb.max.z)),
-        false,
-    );
-    dim(
-        &mut svg,
-        (left - 12.0, top),
-        (left - 12.0, top + s * ex),
-        format!("x: {}", mm(size.x)),
-        true,
-    );
-    dim(
-        &mut svg,
-        (x_end, top - 12.0),
-        (x_end + s * ey, top - 12.0),
-        format!("y: {}", mm(size.y)),
-        false,
-    );
-    svg.text(
-        m,
-        h - 12.0,
-        11.0,
-        "start",
-        &format!(
-            "overall {} × {} × {} mm (x chordwise, y along the rotor axis, z radius); scale {} px/mm",
-            mm(size.x),
-            mm(size.y),
-            mm(size.z),
-            fixed(s, 3)
-        ),
-    );
-    svg.finish(&format!("Three views of {name}"), standalone)
+    svg.line(tick_a.0, tick_a.1, "#c0392b", 0.8);
+    svg.line(tick_b.0, tick_b.1, "#c0392b", 0.8);
+    let mid = ((a.0 + b.0) / 2.0, (a.1 + b.1) / 2.0);
+    if vertical {
+        svg.text(mid.0 - 6.0, mid.1, 11.0, "end", &text);
+    } else {
+        svg.text(mid.0, mid.1 - 6.0, 11.0, "middle", &text);
+    }
 }
 
 /// Draws the stacking axis in one view: a line in the axis colour, labelled at its tip end, or

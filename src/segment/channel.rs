@@ -156,172 +156,289 @@ pub struct ChannelInput<'a> {
 /// naming the widest rod that would.
 pub fn plan_channel(input: &ChannelInput<'_>, spec: &ChannelSpec) -> Result<Channel, SegmentError> {
     spec.validate()?;
-    let rc = spec.hole_radius();
-    let cone = point_depth(rc, spec.point_angle);
-    let margin = 2.0 * input.tolerance;
-    let need = rc + spec.min_wall + margin;
-    let (first, last) = input.outlines.span();
-    let plain = plain_root_face(input.root);
-    let features = root_features_end(input.root, input.root_face);
-    let (start, opens) = match spec.start {
-        Some(s) if s <= input.root_face + 1e-9 => {
-            if !plain {
-                return Err(SegmentError::key(
-                    "spar-channel.start",
-                    format!(
-                        "{s:.2} mm is the root face, which carries the root's flange, bore or cross holes; start the channel at {:.2} mm or beyond (their end plus the wall and the drill point), or remove them so the channel opens at the root face",
-                        features + spec.min_wall + cone
-                    ),
-                ));
-            }
-            (input.root_face, true)
-        }
-        Some(s) => {
-            let least = if plain {
-                input.root_face + spec.min_wall + cone
-            } else {
-                features + spec.min_wall + cone
-            };
-            if s < least - 1e-9 {
-                return Err(SegmentError::key(
-                    "spar-channel.start",
-                    format!("{s:.2} mm leaves less than spar-channel.min-wall before the root's features or face (with the drill point): start at {least:.2} mm or beyond"),
-                ));
-            }
-            (s, false)
-        }
-        None if plain => (input.root_face, true),
-        None => (features + spec.min_wall + cone, false),
-    };
-    if start >= last {
-        return Err(SegmentError::key(
-            "spar-channel.start",
-            format!("{start:.2} mm is beyond the blade (its tip is at {last:.2} mm)"),
-        ));
-    }
-    // Outlines from the hole's lowest point (its drill point when blind) outward.
-    let low = if opens { start } else { start - cone };
-    let mut rows: Vec<Outline> = Vec::new();
-    if let Some(o) = Outline::at(input.skin, input.us, low.max(first + 1e-9)) {
-        rows.push(o);
-    }
-    rows.extend(input.outlines.between(low, last).iter().cloned());
-    let length_min = MIN_ENGAGEMENT * 2.0 * rc;
-    // Index of the first row beyond the shortest useful channel (its point included).
-    let least_reach = start + length_min + cone;
-    let k_min = rows.partition_point(|o| o.z < least_reach);
-    if k_min >= rows.len() {
-        return Err(SegmentError::ChannelTooThin {
-            what: "the blade is shorter than the shortest useful channel beyond its start".into(),
-            start,
-            widest_rod: None,
+    let start = Start::of(input, spec)?;
+    let course = Course::from(input, spec, &start)?;
+    let axis = course.axis()?;
+    let reach = course.rows[axis.k_reach].z;
+    let end = course.end(reach)?;
+    Ok(finish(
+        Channel {
+            axis: [axis.point.x, axis.point.y],
+            rule: axis.rule,
+            rod_diameter: spec.diameter,
+            hole_diameter: 2.0 * course.rc,
+            start: start.radius,
+            opens_at_root: start.opens,
+            end,
+            point_depth: course.cone,
+            reach,
+            rod_length: end - start.radius,
             min_wall: spec.min_wall,
-        });
-    }
-    let widest = |k: usize| -> Option<f64> {
-        let slice: Vec<&Outline> = rows[..=k].iter().collect();
-        let (_, c) = deepest(&slice, spec.axis);
-        let d = 2.0 * (c - spec.min_wall - margin) - spec.clearance;
-        (d > 0.0).then_some(d)
-    };
-    let (axis, rule, k_reach) = match spec.axis {
-        Some([x, y]) => {
-            let p = Point2::new(x, y);
-            let k = match rows.iter().position(|o| o.clearance(&p) < need) {
-                None => Some(rows.len() - 1),
-                Some(0) => None,
-                Some(k) => Some(k - 1),
-            };
-            let Some(k) = k.filter(|&k| k >= k_min) else {
-                return Err(SegmentError::ChannelTooThin {
-                    what: format!(
-                        "the given axis ({x:.2}, {y:.2}) does not keep the wall for {length_min:.1} mm from the start"
-                    ),
-                    start,
-                    widest_rod: widest(k_min),
-                    min_wall: spec.min_wall,
-                });
-            };
-            (p, AxisRule::Given, k)
-        }
-        None => {
-            // best(R) does not grow with R: bisect on the row index.
-            let ok = |k: usize| {
-                let slice: Vec<&Outline> = rows[..=k].iter().collect();
-                deepest(&slice, None).1 >= need
-            };
-            if !ok(k_min) {
-                return Err(SegmentError::ChannelTooThin {
-                    what: format!(
-                        "no axis keeps the wall for {:.1} mm from the start",
-                        length_min
-                    ),
-                    start,
-                    widest_rod: widest(k_min),
-                    min_wall: spec.min_wall,
-                });
-            }
-            let (mut lo, mut hi) = (k_min, rows.len() - 1);
-            if ok(hi) {
-                lo = hi;
-            }
-            while hi - lo > 1 {
-                let mid = (lo + hi) / 2;
-                if ok(mid) {
-                    lo = mid;
-                } else {
-                    hi = mid;
+            smallest_wall: 0.0,
+            smallest_wall_at: start.radius,
+        },
+        &course.rows,
+    ))
+}
+
+/// Where the channel starts.
+struct Start {
+    /// Radius of the hole's mouth at the root face, or of its blind start, mm.
+    radius: f64,
+    /// True when it opens at the root face.
+    opens: bool,
+}
+
+impl Start {
+    /// The given start, checked against the root's face and features and the tip; or
+    /// the root face when it is plain, else just beyond the root's features.
+    fn of(input: &ChannelInput<'_>, spec: &ChannelSpec) -> Result<Start, SegmentError> {
+        let cone = point_depth(spec.hole_radius(), spec.point_angle);
+        let (_, last) = input.outlines.span();
+        let plain = plain_root_face(input.root);
+        let features = root_features_end(input.root, input.root_face);
+        let (start, opens) = match spec.start {
+            Some(s) if s <= input.root_face + 1e-9 => {
+                if !plain {
+                    return Err(SegmentError::key(
+                        "spar-channel.start",
+                        format!(
+                            "{s:.2} mm is the root face, which carries the root's flange, bore or cross holes; start the channel at {:.2} mm or beyond (their end plus the wall and the drill point), or remove them so the channel opens at the root face",
+                            features + spec.min_wall + cone
+                        ),
+                    ));
                 }
+                (input.root_face, true)
             }
-            let slice: Vec<&Outline> = rows[..=lo].iter().collect();
-            (deepest(&slice, None).0, AxisRule::Farthest, lo)
+            Some(s) => {
+                let least = if plain {
+                    input.root_face + spec.min_wall + cone
+                } else {
+                    features + spec.min_wall + cone
+                };
+                if s < least - 1e-9 {
+                    return Err(SegmentError::key(
+                        "spar-channel.start",
+                        format!("{s:.2} mm leaves less than spar-channel.min-wall before the root's features or face (with the drill point): start at {least:.2} mm or beyond"),
+                    ));
+                }
+                (s, false)
+            }
+            None if plain => (input.root_face, true),
+            None => (features + spec.min_wall + cone, false),
+        };
+        if start >= last {
+            return Err(SegmentError::key(
+                "spar-channel.start",
+                format!("{start:.2} mm is beyond the blade (its tip is at {last:.2} mm)"),
+            ));
         }
-    };
-    let reach = rows[k_reach].z;
-    // The drill point also keeps the wall to the tip's end face.
-    let mut end = reach.min(last - spec.min_wall) - cone;
-    if let Some(e) = spec.end {
-        if e > end + 1e-9 {
-            let k = rows.partition_point(|o| o.z < e + cone).min(rows.len() - 1);
+        Ok(Start {
+            radius: start,
+            opens,
+        })
+    }
+}
+
+/// The outlines a channel from a start passes, and what it must keep there.
+struct Course<'s> {
+    spec: &'s ChannelSpec,
+    /// Outlines from the hole's lowest point (its drill point when blind) outward.
+    rows: Vec<Outline>,
+    /// Radius where the channel starts, mm.
+    start: f64,
+    /// Radius of the blade's outer end, mm.
+    last: f64,
+    /// Radius of the hole, mm.
+    rc: f64,
+    /// Axial depth of the drill point, mm.
+    cone: f64,
+    /// Allowance for the mesh tolerance, mm.
+    margin: f64,
+    /// Clearance the axis needs to every outline: the hole, the wall and the margin, mm.
+    need: f64,
+    /// The shortest useful channel, mm.
+    length_min: f64,
+    /// Index of the first row beyond the shortest useful channel (its point included).
+    k_min: usize,
+}
+
+/// The channel's axis and how far it keeps the wall.
+struct Axis {
+    point: Point2<f64>,
+    rule: AxisRule,
+    /// Index of the last row where the wall holds.
+    k_reach: usize,
+}
+
+impl<'s> Course<'s> {
+    /// The rows from the start outward.
+    ///
+    /// # Errors
+    /// [`SegmentError::ChannelTooThin`] when the blade ends before the shortest useful
+    /// channel.
+    fn from(
+        input: &ChannelInput<'_>,
+        spec: &'s ChannelSpec,
+        start: &Start,
+    ) -> Result<Self, SegmentError> {
+        let rc = spec.hole_radius();
+        let cone = point_depth(rc, spec.point_angle);
+        let margin = 2.0 * input.tolerance;
+        let (first, last) = input.outlines.span();
+        let low = if start.opens {
+            start.radius
+        } else {
+            start.radius - cone
+        };
+        let mut rows: Vec<Outline> = Vec::new();
+        if let Some(o) = Outline::at(input.skin, input.us, low.max(first + 1e-9)) {
+            rows.push(o);
+        }
+        rows.extend(input.outlines.between(low, last).iter().cloned());
+        let length_min = MIN_ENGAGEMENT * 2.0 * rc;
+        let least_reach = start.radius + length_min + cone;
+        let k_min = rows.partition_point(|o| o.z < least_reach);
+        if k_min >= rows.len() {
             return Err(SegmentError::ChannelTooThin {
-                what: format!(
-                    "spar-channel.end = {e:.2} mm lies beyond where the wall holds (the straight part can end at {end:.2} mm, the reach {reach:.2} mm less the drill point)"
-                ),
-                start,
-                widest_rod: widest(k),
+                what: "the blade is shorter than the shortest useful channel beyond its start"
+                    .into(),
+                start: start.radius,
+                widest_rod: None,
                 min_wall: spec.min_wall,
             });
         }
-        end = e;
+        Ok(Course {
+            spec,
+            rows,
+            start: start.radius,
+            last,
+            rc,
+            cone,
+            margin,
+            need: rc + spec.min_wall + margin,
+            length_min,
+            k_min,
+        })
     }
-    if end < start + length_min {
-        return Err(SegmentError::ChannelTooThin {
-            what: format!(
-                "the channel would end at {end:.1} mm, less than {length_min:.1} mm beyond its start"
-            ),
-            start,
-            widest_rod: None,
-            min_wall: spec.min_wall,
-        });
+
+    /// The widest rod whose channel keeps the wall up to row `k`.
+    fn widest(&self, k: usize) -> Option<f64> {
+        let spec = self.spec;
+        let slice: Vec<&Outline> = self.rows[..=k].iter().collect();
+        let (_, c) = deepest(&slice, spec.axis);
+        let d = 2.0 * (c - spec.min_wall - self.margin) - spec.clearance;
+        (d > 0.0).then_some(d)
     }
-    Ok(finish(
-        Channel {
-            axis: [axis.x, axis.y],
-            rule,
-            rod_diameter: spec.diameter,
-            hole_diameter: 2.0 * rc,
-            start,
-            opens_at_root: opens,
-            end,
-            point_depth: cone,
-            reach,
-            rod_length: end - start,
-            min_wall: spec.min_wall,
-            smallest_wall: 0.0,
-            smallest_wall_at: start,
-        },
-        &rows,
-    ))
+
+    /// A channel too thin at row `k` for `what`.
+    fn too_thin(&self, what: String, k: usize) -> SegmentError {
+        SegmentError::ChannelTooThin {
+            what,
+            start: self.start,
+            widest_rod: self.widest(k),
+            min_wall: self.spec.min_wall,
+        }
+    }
+
+    /// The given axis and how far it keeps the wall, or the axis that keeps it
+    /// farthest.
+    fn axis(&self) -> Result<Axis, SegmentError> {
+        let Some([x, y]) = self.spec.axis else {
+            return self.farthest();
+        };
+        let p = Point2::new(x, y);
+        let rows = &self.rows;
+        let k = match rows.iter().position(|o| o.clearance(&p) < self.need) {
+            None => Some(rows.len() - 1),
+            Some(0) => None,
+            Some(k) => Some(k - 1),
+        };
+        let Some(k) = k.filter(|&k| k >= self.k_min) else {
+            return Err(self.too_thin(
+                format!(
+                    "the given axis ({x:.2}, {y:.2}) does not keep the wall for {:.1} mm from the start",
+                    self.length_min
+                ),
+                self.k_min,
+            ));
+        };
+        Ok(Axis {
+            point: p,
+            rule: AxisRule::Given,
+            k_reach: k,
+        })
+    }
+
+    /// The axis that keeps the wall farthest: the best clearance over the rows up to
+    /// `k` does not grow with `k`, so bisect on the row index.
+    fn farthest(&self) -> Result<Axis, SegmentError> {
+        let ok = |k: usize| {
+            let slice: Vec<&Outline> = self.rows[..=k].iter().collect();
+            deepest(&slice, None).1 >= self.need
+        };
+        if !ok(self.k_min) {
+            return Err(self.too_thin(
+                format!(
+                    "no axis keeps the wall for {:.1} mm from the start",
+                    self.length_min
+                ),
+                self.k_min,
+            ));
+        }
+        let (mut lo, mut hi) = (self.k_min, self.rows.len() - 1);
+        if ok(hi) {
+            lo = hi;
+        }
+        while hi - lo > 1 {
+            let mid = (lo + hi) / 2;
+            if ok(mid) {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        let slice: Vec<&Outline> = self.rows[..=lo].iter().collect();
+        Ok(Axis {
+            point: deepest(&slice, None).0,
+            rule: AxisRule::Farthest,
+            k_reach: lo,
+        })
+    }
+
+    /// Where the straight part ends: the given end, or where the wall holds with the
+    /// drill point (the drill point also keeps the wall to the tip's end face).
+    fn end(&self, reach: f64) -> Result<f64, SegmentError> {
+        let (spec, cone) = (self.spec, self.cone);
+        let mut end = reach.min(self.last - spec.min_wall) - cone;
+        if let Some(e) = spec.end {
+            if e > end + 1e-9 {
+                let k = self
+                    .rows
+                    .partition_point(|o| o.z < e + cone)
+                    .min(self.rows.len() - 1);
+                return Err(self.too_thin(
+                    format!(
+                        "spar-channel.end = {e:.2} mm lies beyond where the wall holds (the straight part can end at {end:.2} mm, the reach {reach:.2} mm less the drill point)"
+                    ),
+                    k,
+                ));
+            }
+            end = e;
+        }
+        if end < self.start + self.length_min {
+            return Err(SegmentError::ChannelTooThin {
+                what: format!(
+                    "the channel would end at {end:.1} mm, less than {:.1} mm beyond its start",
+                    self.length_min
+                ),
+                start: self.start,
+                widest_rod: None,
+                min_wall: spec.min_wall,
+            });
+        }
+        Ok(end)
+    }
 }
 
 /// The widest rod (to 0.05 mm, at most the spec's) whose channel reaches past

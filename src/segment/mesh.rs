@@ -107,149 +107,377 @@ pub fn build(
     channel: Option<&Channel>,
     joints: &[Joint],
 ) -> Result<Vec<SegmentMesh>, SegmentError> {
-    let (vs, rows) = with_rows(input.skin, input.vs, splits)
-        .ok_or_else(|| SegmentError::mesh("a split radius lies outside the skin".to_string()))?;
-    let (mut mesh, root_ring, root_cap) = mesh_from_grid(input.skin, input.us, &vs)?;
-    let (nu, nv) = (input.us.len(), vs.len());
-    for (&j, &r) in rows.iter().zip(splits) {
-        for i in 0..nu {
-            mesh.vertices[i * nv + j].z = r;
-        }
-    }
-    // The tip cap's interior points (the cap triangulation may add some after the grid
-    // vertices): their triangles belong to the last segment, not to the root features.
-    let grid_len = input.us.len() * vs.len();
-    let mut tip_points = vec![false; mesh.vertices.len()];
-    for t in &mesh.triangles[root_cap.end..] {
-        for &v in t {
-            if v as usize >= grid_len {
-                tip_points[v as usize] = true;
+    let blade = SplitBlade::mesh(input, splits, channel)?;
+    let bands = blade.bands()?;
+    bands
+        .into_iter()
+        .enumerate()
+        .map(|(s, tris)| blade.segment(s, &tris, channel, joints))
+        .collect()
+}
+
+/// The whole blade's mesh with a row of vertices on each split plane, before it is cut
+/// into segments.
+struct SplitBlade<'a> {
+    input: &'a BuildInput<'a>,
+    /// The split radii, mm.
+    splits: &'a [f64],
+    /// The grid row on each split plane.
+    rows: Vec<usize>,
+    /// The shared mesh: the grid (column-major, `nv` rows a column), then the root's
+    /// features and the tip cap's interior points.
+    mesh: TriMesh,
+    /// The skin's root ring.
+    root_ring: Vec<u32>,
+    /// The root cap's triangles, left out when the spar channel opens at the root face.
+    skip_root_cap: Option<std::ops::Range<usize>>,
+    /// Whether the spar channel opens at the root face.
+    opens: bool,
+    nu: usize,
+    nv: usize,
+}
+
+impl<'a> SplitBlade<'a> {
+    /// Tessellates the skin with a row on each split plane and adds the root's mounting
+    /// features (unless the channel opens at the root face).
+    fn mesh(
+        input: &'a BuildInput<'a>,
+        splits: &'a [f64],
+        channel: Option<&Channel>,
+    ) -> Result<Self, SegmentError> {
+        let (vs, rows) = with_rows(input.skin, input.vs, splits).ok_or_else(|| {
+            SegmentError::mesh("a split radius lies outside the skin".to_string())
+        })?;
+        let (mut mesh, root_ring, root_cap) = mesh_from_grid(input.skin, input.us, &vs)?;
+        let (nu, nv) = (input.us.len(), vs.len());
+        for (&j, &r) in rows.iter().zip(splits) {
+            for i in 0..nu {
+                mesh.vertices[i * nv + j].z = r;
             }
         }
-    }
-    let opens = channel.is_some_and(|c| c.opens_at_root);
-    let mut skip_root_cap = None;
-    if opens {
-        skip_root_cap = Some(root_cap.clone());
-    } else if let Some(root) = input.root {
-        crate::mount::add_mount_features(
-            &mut mesh,
-            &root_ring,
-            root_cap.clone(),
-            root,
-            input.root_face,
-        )?;
-    }
-    let count = splits.len() + 1;
-    let grid = nu * nv;
-    // Band of each triangle: the number of split rows below its highest grid row.
-    let mut bands: Vec<Vec<[u32; 3]>> = vec![Vec::new(); count];
-    for (t, tri) in mesh.triangles.iter().enumerate() {
-        if skip_root_cap.as_ref().is_some_and(|r| r.contains(&t)) {
-            continue;
+        let opens = channel.is_some_and(|c| c.opens_at_root);
+        let mut skip_root_cap = None;
+        if opens {
+            skip_root_cap = Some(root_cap.clone());
+        } else if let Some(root) = input.root {
+            crate::mount::add_mount_features(
+                &mut mesh,
+                &root_ring,
+                root_cap.clone(),
+                root,
+                input.root_face,
+            )?;
         }
+        Ok(SplitBlade {
+            input,
+            splits,
+            rows,
+            mesh,
+            root_ring,
+            skip_root_cap,
+            opens,
+            nu,
+            nv,
+        })
+    }
+
+    /// Number of segments.
+    fn count(&self) -> usize {
+        self.splits.len() + 1
+    }
+
+    /// Number of grid vertices.
+    fn grid(&self) -> usize {
+        self.nu * self.nv
+    }
+
+    /// The triangles of each segment, in the shared mesh's order.
+    fn bands(&self) -> Result<Vec<Vec<[u32; 3]>>, SegmentError> {
+        let mut bands: Vec<Vec<[u32; 3]>> = vec![Vec::new(); self.count()];
+        for (t, tri) in self.mesh.triangles.iter().enumerate() {
+            if self.skip_root_cap.as_ref().is_some_and(|r| r.contains(&t)) {
+                continue;
+            }
+            bands[self.band_of(tri)?].push(*tri);
+        }
+        Ok(bands)
+    }
+
+    /// Band of a triangle: the number of split rows below its highest grid row.
+    fn band_of(&self, tri: &[u32; 3]) -> Result<usize, SegmentError> {
+        let (grid, nv) = (self.grid(), self.nv);
         let top = tri
             .iter()
             .filter(|&&v| (v as usize) < grid)
             .map(|&v| v as usize % nv)
             .max();
-        let on_tip_cap = tri
-            .iter()
-            .any(|&v| tip_points.get(v as usize).copied().unwrap_or(false));
-        let band = match top {
-            _ if on_tip_cap => count - 1,
+        match top {
             Some(row) if tri.iter().all(|&v| (v as usize) < grid) => {
-                rows.iter().filter(|&&j| j < row).count()
+                Ok(self.rows.iter().filter(|&&j| j < row).count())
             }
-            // Mounting features: the root segment (planning keeps splits beyond them).
-            Some(row) => {
-                if rows.first().is_some_and(|&j| row > j) {
+            // Vertices off the grid: mounting features at the root (the root segment:
+            // planning keeps splits beyond them), or interior points of the tip cap
+            // (in the tip's plane, so in the last segment).
+            _ => {
+                let tip_z = self.mesh.vertices[nv - 1].z;
+                let zmax = tri
+                    .iter()
+                    .map(|&v| self.mesh.vertices[v as usize].z)
+                    .fold(f64::NEG_INFINITY, f64::max);
+                let band = self.splits.iter().filter(|&&r| zmax > r).count();
+                let at_tip = (zmax - tip_z).abs() <= 1e-9 * tip_z.abs().max(1.0);
+                if band > 0 && !at_tip {
                     return Err(SegmentError::mesh(format!(
                         "a root feature reaches beyond the first split at {:.2} mm",
-                        splits[0]
+                        self.splits[0]
                     )));
                 }
-                0
+                Ok(band)
             }
-            None => 0,
-        };
-        bands[band].push(*tri);
+        }
     }
-    let ring_at = |j: usize| -> Vec<u32> {
+
+    /// Where segment `s` (from 0) ends.
+    fn ends(&self, s: usize) -> Ends {
+        let lo = if s == 0 { None } else { Some(s - 1) };
+        let hi = (s + 1 < self.count()).then_some(s);
+        Ends {
+            s,
+            lo,
+            hi,
+            z_lo: lo.map_or(self.input.root_face, |k| self.splits[k]),
+            z_hi: hi.map_or(f64::INFINITY, |k| self.splits[k]),
+        }
+    }
+
+    /// Segment `s` (from 0) from its band's triangles: the band, its caps with the
+    /// holes that meet them, and the holes' walls.
+    fn segment(
+        &self,
+        s: usize,
+        tris: &[[u32; 3]],
+        channel: Option<&Channel>,
+        joints: &[Joint],
+    ) -> Result<SegmentMesh, SegmentError> {
+        let ends = self.ends(s);
+        let mut b = Local::new(&self.mesh);
+        for t in tris {
+            let tri = t.map(|v| b.v(v));
+            b.out.triangles.push(tri);
+        }
+        let mut holes = EndHoles::default();
+        if let Some(c) = channel {
+            holes.add_channel(c, &ends)?;
+        }
+        holes.add_pins(joints, &ends);
+        let (loops_lo, loops_hi) = self.caps(&mut b, &ends, &holes)?;
+        holes.bore(&mut b, &loops_lo, &loops_hi);
+        let root_genus = if s == 0 {
+            self.input.root.map_or(0, RootSpec::genus)
+        } else {
+            0
+        };
+        let to = if ends.hi.is_some() {
+            ends.z_hi
+        } else {
+            b.out
+                .vertices
+                .iter()
+                .map(|p| p.z)
+                .fold(f64::NEG_INFINITY, f64::max)
+        };
+        Ok(SegmentMesh {
+            index: s + 1,
+            count: self.count(),
+            from: ends.z_lo,
+            to,
+            mesh: b.out,
+            genus: holes.through + root_genus,
+            hull: self.hull(&ends),
+        })
+    }
+
+    /// The loop of grid row `j`'s vertices (without the closing repeat).
+    fn ring_at(&self, j: usize) -> Vec<u32> {
+        let (nu, nv) = (self.nu, self.nv);
         let mut ring: Vec<u32> = (0..nu).map(|i| (i * nv + j) as u32).collect();
         let (a, b) = (
-            mesh.vertices[ring[0] as usize],
-            mesh.vertices[ring[nu - 1] as usize],
+            self.mesh.vertices[ring[0] as usize],
+            self.mesh.vertices[ring[nu - 1] as usize],
         );
         if (a - b).norm() <= 1e-9 {
             ring.pop();
         }
         ring
-    };
-    let mut out = Vec::with_capacity(count);
-    for (s, tris) in bands.into_iter().enumerate() {
-        let lo = if s == 0 { None } else { Some(s - 1) };
-        let hi = (s + 1 < count).then_some(s);
-        let z_lo = lo.map_or(input.root_face, |k| splits[k]);
-        let z_hi = hi.map_or(f64::INFINITY, |k| splits[k]);
-        let mut b = Local::new(&mesh);
-        for t in &tris {
-            let tri = t.map(|v| b.v(v));
-            b.out.triangles.push(tri);
+    }
+
+    /// The segment's caps: at its lower end (a split, or the root face when the
+    /// channel opens there) and at its upper end (a split). Returns each cap's hole
+    /// loops.
+    fn caps(
+        &self,
+        b: &mut Local<'_>,
+        ends: &Ends,
+        holes: &EndHoles,
+    ) -> Result<(HoleLoops, HoleLoops), SegmentError> {
+        let tol = self.input.tolerance;
+        let mut loops_lo = Vec::new();
+        let mut loops_hi = Vec::new();
+        if ends.s == 0 {
+            if self.opens {
+                let ring: Vec<u32> = self.root_ring.iter().map(|&v| b.v(v)).collect();
+                loops_lo = b.cap(&ring, self.input.root_face, &holes.lower, false, tol)?;
+            }
+        } else {
+            let ring: Vec<u32> = self
+                .ring_at(self.rows[ends.s - 1])
+                .iter()
+                .map(|&v| b.v(v))
+                .collect();
+            loops_lo = b.cap(&ring, ends.z_lo, &holes.lower, false, tol)?;
         }
-        // Holes at each end of the segment.
-        let mut lower: Vec<(Hole, Bore)> = Vec::new();
-        let mut upper: Vec<(Hole, Bore)> = Vec::new();
-        let mut through = 0u32;
-        if let Some(c) = channel {
-            let enters = if s == 0 {
-                c.opens_at_root
-            } else {
-                c.start < z_lo && c.end > z_lo
-            };
-            let leaves = hi.is_some() && c.start < z_hi && c.end > z_hi;
-            let hole = Hole {
-                centre: c.axis_point(),
-                radius: c.hole_radius(),
-                id: 0,
-            };
-            match (enters, leaves) {
-                (true, true) => {
-                    lower.push((hole, Bore::Through));
-                    upper.push((hole, Bore::Through));
-                    through += 1;
-                }
-                (true, false) => lower.push((
-                    hole,
-                    Bore::Blind {
-                        z: z_lo,
-                        dir: 1.0,
-                        depth: c.end - z_lo,
-                        point: c.point_depth,
-                    },
-                )),
-                (false, true) => upper.push((
-                    hole,
-                    Bore::Blind {
-                        z: z_hi,
-                        dir: -1.0,
-                        depth: z_hi - c.start,
-                        point: c.point_depth,
-                    },
-                )),
-                (false, false) => {
-                    if c.start > z_lo && c.start < z_hi {
-                        return Err(SegmentError::mesh(format!(
-                            "the spar channel would be a closed cavity in segment {} (no split between its start {:.2} mm and its end {:.2} mm)",
-                            s + 1,
-                            c.start,
-                            c.end
-                        )));
-                    }
+        if ends.hi.is_some() {
+            let ring: Vec<u32> = self
+                .ring_at(self.rows[ends.s])
+                .iter()
+                .map(|&v| b.v(v))
+                .collect();
+            loops_hi = b.cap(&ring, ends.z_hi, &holes.upper, true, tol)?;
+        }
+        Ok((loops_lo, loops_hi))
+    }
+
+    /// Points whose convex hull is the segment's: each grid row's outline hull, and
+    /// for the root segment the root's features.
+    fn hull(&self, ends: &Ends) -> Vec<Point3<f64>> {
+        let (nu, nv) = (self.nu, self.nv);
+        let first_row = if ends.s == 0 {
+            0
+        } else {
+            self.rows[ends.s - 1]
+        };
+        let last_row = if ends.hi.is_some() {
+            self.rows[ends.s]
+        } else {
+            nv - 1
+        };
+        let mut hull: Vec<Point3<f64>> = Vec::new();
+        for j in first_row..=last_row {
+            let pts: Vec<nalgebra::Point2<f64>> = (0..nu)
+                .map(|i| {
+                    let p = self.mesh.vertices[i * nv + j];
+                    nalgebra::Point2::new(p.x, p.y)
+                })
+                .collect();
+            let z = self.mesh.vertices[j].z;
+            hull.extend(
+                crate::fit::hull::convex_hull(&pts)
+                    .into_iter()
+                    .map(|p| Point3::new(p[0], p[1], z)),
+            );
+        }
+        if ends.s == 0 {
+            // The root's features (a flange reaches beyond the skin); the tip cap's
+            // interior points lie inside the tip row's outline and another segment.
+            hull.extend(
+                self.mesh.vertices[self.grid()..]
+                    .iter()
+                    .filter(|p| p.z <= ends.z_hi)
+                    .copied(),
+            );
+        }
+        hull
+    }
+}
+
+/// Where a segment ends.
+struct Ends {
+    /// The segment, from 0.
+    s: usize,
+    /// The split at its lower end (none for the root segment).
+    lo: Option<usize>,
+    /// The split at its upper end (none for the last segment).
+    hi: Option<usize>,
+    /// Radius of its lower end (the root face for the root segment), mm.
+    z_lo: f64,
+    /// Radius of its upper end (infinite for the last segment), mm.
+    z_hi: f64,
+}
+
+/// Each hole's loop of vertices on a cap, with the hole's id.
+type HoleLoops = Vec<(usize, Vec<u32>)>;
+
+/// The holes meeting a segment's two caps.
+#[derive(Default)]
+struct EndHoles {
+    /// Holes entering from the lower cap.
+    lower: Vec<(Hole, Bore)>,
+    /// Holes entering from the upper cap.
+    upper: Vec<(Hole, Bore)>,
+    /// Number of through channels.
+    through: u32,
+}
+
+impl EndHoles {
+    /// The spar channel's hole at either end of the segment: through, blind from one
+    /// end, or none.
+    fn add_channel(&mut self, c: &Channel, ends: &Ends) -> Result<(), SegmentError> {
+        let (z_lo, z_hi) = (ends.z_lo, ends.z_hi);
+        let enters = if ends.s == 0 {
+            c.opens_at_root
+        } else {
+            c.start < z_lo && c.end > z_lo
+        };
+        let leaves = ends.hi.is_some() && c.start < z_hi && c.end > z_hi;
+        let hole = Hole {
+            centre: c.axis_point(),
+            radius: c.hole_radius(),
+            id: 0,
+        };
+        match (enters, leaves) {
+            (true, true) => {
+                self.lower.push((hole, Bore::Through));
+                self.upper.push((hole, Bore::Through));
+                self.through += 1;
+            }
+            (true, false) => self.lower.push((
+                hole,
+                Bore::Blind {
+                    z: z_lo,
+                    dir: 1.0,
+                    depth: c.end - z_lo,
+                    point: c.point_depth,
+                },
+            )),
+            (false, true) => self.upper.push((
+                hole,
+                Bore::Blind {
+                    z: z_hi,
+                    dir: -1.0,
+                    depth: z_hi - c.start,
+                    point: c.point_depth,
+                },
+            )),
+            (false, false) => {
+                if c.start > z_lo && c.start < z_hi {
+                    return Err(SegmentError::mesh(format!(
+                        "the spar channel would be a closed cavity in segment {} (no split between its start {:.2} mm and its end {:.2} mm)",
+                        ends.s + 1,
+                        c.start,
+                        c.end
+                    )));
                 }
             }
         }
-        for (side, k, dir, z) in [(&mut lower, lo, 1.0, z_lo), (&mut upper, hi, -1.0, z_hi)] {
+        Ok(())
+    }
+
+    /// The joints' pin holes at each end that is a split.
+    fn add_pins(&mut self, joints: &[Joint], ends: &Ends) {
+        for (side, k, dir, z) in [
+            (&mut self.lower, ends.lo, 1.0, ends.z_lo),
+            (&mut self.upper, ends.hi, -1.0, ends.z_hi),
+        ] {
             let Some(k) = k else { continue };
             let j = &joints[k];
             for (n, p) in j.pins.iter().enumerate() {
@@ -268,23 +496,12 @@ pub fn build(
                 ));
             }
         }
-        let tol = input.tolerance;
-        let mut loops_lo: Vec<(usize, Vec<u32>)> = Vec::new();
-        let mut loops_hi: Vec<(usize, Vec<u32>)> = Vec::new();
-        if s == 0 {
-            if opens {
-                let ring: Vec<u32> = root_ring.iter().map(|&v| b.v(v)).collect();
-                loops_lo = b.cap(&ring, input.root_face, &lower, false, tol)?;
-            }
-        } else {
-            let ring: Vec<u32> = ring_at(rows[s - 1]).iter().map(|&v| b.v(v)).collect();
-            loops_lo = b.cap(&ring, z_lo, &lower, false, tol)?;
-        }
-        if hi.is_some() {
-            let ring: Vec<u32> = ring_at(rows[s]).iter().map(|&v| b.v(v)).collect();
-            loops_hi = b.cap(&ring, z_hi, &upper, true, tol)?;
-        }
-        for (list, loops) in [(&lower, &loops_lo), (&upper, &loops_hi)] {
+    }
+
+    /// The holes' walls from the caps' loops: blind holes from either cap, then the
+    /// through channels from the lower cap's loop to the upper's.
+    fn bore(&self, b: &mut Local<'_>, loops_lo: &HoleLoops, loops_hi: &HoleLoops) {
+        for (list, loops) in [(&self.lower, loops_lo), (&self.upper, loops_hi)] {
             for ((hole, bore), (_, ids)) in list.iter().zip(loops.iter()) {
                 if let Bore::Blind {
                     z,
@@ -297,64 +514,14 @@ pub fn build(
                 }
             }
         }
-        for ((hole, bore), (_, ids)) in lower.iter().zip(&loops_lo) {
+        for ((hole, bore), (_, ids)) in self.lower.iter().zip(loops_lo) {
             if let Bore::Through = bore {
                 if let Some((_, top)) = loops_hi.iter().find(|(id, _)| *id == hole.id) {
                     b.tube(ids, top, hole);
                 }
             }
         }
-        let root_genus = if s == 0 {
-            input.root.map_or(0, RootSpec::genus)
-        } else {
-            0
-        };
-        let to = if hi.is_some() {
-            z_hi
-        } else {
-            b.out
-                .vertices
-                .iter()
-                .map(|p| p.z)
-                .fold(f64::NEG_INFINITY, f64::max)
-        };
-        let first_row = if s == 0 { 0 } else { rows[s - 1] };
-        let last_row = if hi.is_some() { rows[s] } else { nv - 1 };
-        let mut hull: Vec<Point3<f64>> = Vec::new();
-        for j in first_row..=last_row {
-            let pts: Vec<nalgebra::Point2<f64>> = (0..nu)
-                .map(|i| {
-                    let p = mesh.vertices[i * nv + j];
-                    nalgebra::Point2::new(p.x, p.y)
-                })
-                .collect();
-            let z = mesh.vertices[j].z;
-            hull.extend(
-                crate::fit::hull::convex_hull(&pts)
-                    .into_iter()
-                    .map(|p| Point3::new(p[0], p[1], z)),
-            );
-        }
-        if s == 0 {
-            hull.extend(
-                mesh.vertices[grid..]
-                    .iter()
-                    .enumerate()
-                    .filter(|(k, _)| !tip_points.get(grid + k).copied().unwrap_or(false))
-                    .map(|(_, p)| *p),
-            );
-        }
-        out.push(SegmentMesh {
-            index: s + 1,
-            count,
-            from: z_lo,
-            to,
-            mesh: b.out,
-            genus: through + root_genus,
-            hull,
-        });
     }
-    Ok(out)
 }
 
 /// A segment's own mesh, taking vertices from the shared one as they are used.

@@ -280,186 +280,16 @@ fn attempt_plan(
     request: &Request,
     slack: f64,
 ) -> Result<Segmented, SegmentError> {
-    let spec = &request.segments;
-    let blade = input.blade;
-    let root = blade.root();
-    let face = blade.root_face();
-    let outlines = Outlines::of_grid(input.skin, input.us, input.vs);
-    let (_, part_end) = outlines.span();
-    let planned = match &request.channel {
-        Some(c) => Some(plan_channel(
-            &ChannelInput {
-                skin: input.skin,
-                us: input.us,
-                outlines: &outlines,
-                root,
-                root_face: face,
-                tolerance: input.tolerance,
-            },
-            c,
-        )?),
-        None => None,
-    };
-    let pin_r = spec.pin_hole_radius();
-    let pin_reach = spec.dowels.depth + point_depth(pin_r, spec.dowels.point_angle);
-    let wall = spec.min_wall;
-    let features = channel::root_features_end(root, face).max(blade.skin_start());
-    let mut joint_lo = features + pin_reach + wall;
-    if let Some(c) = planned.as_ref().filter(|c| !c.opens_at_root) {
-        joint_lo = joint_lo.max(c.start + c.engagement());
-    }
-    let joint_range = (joint_lo, part_end - pin_reach - wall);
-    let transition = root.map(|r| {
-        let first = blade.root_radius();
-        (first - r.transition_length, first)
-    });
-    let pin_input = PinInput {
-        blade,
-        skin: input.skin,
-        us: input.us,
-        outlines: &outlines,
-        channel: planned.as_ref(),
-        tolerance: input.tolerance,
-    };
-    let crosses = |c: &Channel, r: f64| {
-        (c.opens_at_root || c.start + c.engagement() <= r + 1e-9)
-            && c.end >= r + c.engagement() - 1e-9
-    };
-    let count_at = |r: f64| {
-        let through = planned.as_ref().is_some_and(|c| crosses(c, r));
-        (
-            spec.dowels.count.unwrap_or(if through { 2 } else { 3 }),
-            through,
-        )
-    };
-    let can_join = |r: f64| {
-        let (n, through) = count_at(r);
-        (n + usize::from(through) >= 3)
-            && place(
-                &pin_input,
-                spec,
-                JointAsk {
-                    radius: r,
-                    index: 1,
-                    count: n,
-                    channel: through,
-                },
-                &[],
-                None,
-            )
-            .is_ok()
-    };
-    let frame = Frame {
-        skin: input.skin,
-        us: input.us,
-        outlines: &outlines,
-        mesh: input.mesh,
-        part_start: face,
-        skin_start: blade.skin_start(),
-        part_end,
-        joint_range,
-        transition,
-        min_length: 2.0 * pin_reach + wall,
-        first_joint_max: planned.as_ref().map(|c| c.end - c.engagement()),
-    };
-    let (automatic, mut splits, searches) = match &spec.split {
-        Split::None => (false, Vec::new(), 0),
-        Split::At(radii) => (false, given_splits(radii, &frame)?, 0),
-        Split::Auto => {
-            let printer = request.printer.as_ref().ok_or(SegmentError::NeedsPrinter)?;
-            let test = FitTest::new(&frame, printer, slack);
-            let planner = Planner::new(&frame, &test, &can_join);
-            let splits = planner.plan(spec.max_count)?;
-            (true, splits, test.calls())
-        }
-    };
-    splits.sort_by(|a, b| a.radius.total_cmp(&b.radius));
-    // A channel ends clear of every split: not within its wall and drill point below a
-    // split, nor a rod's engagement beyond it (it then stops below).
-    let channel = planned.clone().map(|mut c| {
-        for s in splits.iter().rev() {
-            let r = s.radius;
-            if c.end > r - c.min_wall - c.point_depth && c.end < r + c.engagement() {
-                c.end = r - c.min_wall - c.point_depth;
-            }
-        }
-        channel::finish(c, &outlines.rows)
-    });
-    check_channel(channel.as_ref(), &splits, || {
-        let r = splits[0].radius;
-        let spec = request.channel.as_ref()?;
-        let chan_input = ChannelInput {
-            skin: input.skin,
-            us: input.us,
-            outlines: &outlines,
-            root,
-            root_face: face,
-            tolerance: input.tolerance,
-        };
-        channel::widest_reaching(&chan_input, spec, r)
-    })?;
-    let pin_input = PinInput {
-        channel: channel.as_ref(),
-        ..pin_input
-    };
-    let mut joints: Vec<Joint> = Vec::new();
-    for (k, s) in splits.iter().enumerate() {
-        let r = s.radius;
-        let through = channel.as_ref().is_some_and(|c| c.start < r && c.end > r);
-        let n = spec.dowels.count.unwrap_or(if through { 2 } else { 3 });
-        if n + usize::from(through) < 3 {
-            return Err(SegmentError::key(
-                "segments.dowels.count",
-                format!("{n} pins at joint {} ({r:.1} mm), which the spar channel does not cross: two pins alone fit either way round; use 3 or more", k + 1),
-            ));
-        }
-        let ask = JointAsk {
-            radius: r,
-            index: k + 1,
-            count: n,
-            channel: through,
-        };
-        match place(&pin_input, spec, ask, &joints, None) {
-            Ok(j) => joints.push(j),
-            Err(why) => {
-                return Err(SegmentError::PinsDoNotFit {
-                    joint: k + 1,
-                    radius: r,
-                    count: n,
-                    pin: spec.dowels.diameter,
-                    keyed: why == NoLayout::NotKeyed,
-                    largest_pin: largest_pin(&pin_input, spec, ask, &joints),
-                })
-            }
-        }
-    }
-    let radii: Vec<f64> = splits.iter().map(|s| s.radius).collect();
-    let segments = mesh::build(
-        &BuildInput {
-            skin: input.skin,
-            us: input.us,
-            vs: input.vs,
-            root,
-            root_face: face,
-            tolerance: input.tolerance,
-        },
-        &radii,
-        channel.as_ref(),
-        &joints,
-    )?;
-    let fits = match &request.printer {
-        Some(p) if segments.len() > 1 => std::thread::scope(|scope| {
-            let handles: Vec<_> = segments
-                .iter()
-                .map(|s| scope.spawn(move || segment_fit(&s.hull, p)))
-                .collect();
-            handles
-                .into_iter()
-                .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
-                .collect()
-        }),
-        _ => Vec::new(),
-    };
+    let planning = Planning::new(input, request)?;
+    let Splits {
+        automatic,
+        splits,
+        searches,
+    } = planning.splits(slack)?;
+    let channel = planning.channel_clear_of(&splits)?;
+    let joints = planning.joints(&splits, channel.as_ref())?;
+    let segments = planning.build(&splits, channel.as_ref(), &joints)?;
+    let fits = fit_segments(&segments, request.printer.as_ref());
     Ok(Segmented {
         plan: Plan {
             count: segments.len(),
@@ -473,6 +303,274 @@ fn attempt_plan(
         },
         segments,
     })
+}
+
+/// What one plan works from: the blade's outlines and the channel as planned before
+/// the splits.
+struct Planning<'a> {
+    input: &'a SegmentInput<'a>,
+    request: &'a Request,
+    /// The grid rows' outlines.
+    outlines: Outlines,
+    /// Radius of the part's outer end, mm.
+    part_end: f64,
+    /// The spar channel as planned before the splits are known.
+    planned: Option<Channel>,
+}
+
+/// The splits of a plan.
+struct Splits {
+    /// True when they were found for the printer.
+    automatic: bool,
+    /// Root to tip.
+    splits: Vec<SplitChoice>,
+    /// Printer-fit searches run to find them.
+    searches: usize,
+}
+
+impl<'a> Planning<'a> {
+    /// The outlines and the planned channel.
+    fn new(input: &'a SegmentInput<'a>, request: &'a Request) -> Result<Self, SegmentError> {
+        let outlines = Outlines::of_grid(input.skin, input.us, input.vs);
+        let (_, part_end) = outlines.span();
+        let mut planning = Planning {
+            input,
+            request,
+            outlines,
+            part_end,
+            planned: None,
+        };
+        planning.planned = match &request.channel {
+            Some(c) => Some(plan_channel(&planning.channel_input(), c)?),
+            None => None,
+        };
+        Ok(planning)
+    }
+
+    fn spec(&self) -> &'a SegmentsSpec {
+        &self.request.segments
+    }
+
+    fn channel_input(&self) -> ChannelInput<'_> {
+        let blade = self.input.blade;
+        ChannelInput {
+            skin: self.input.skin,
+            us: self.input.us,
+            outlines: &self.outlines,
+            root: blade.root(),
+            root_face: blade.root_face(),
+            tolerance: self.input.tolerance,
+        }
+    }
+
+    fn pin_input<'c>(&'c self, channel: Option<&'c Channel>) -> PinInput<'c> {
+        PinInput {
+            blade: self.input.blade,
+            skin: self.input.skin,
+            us: self.input.us,
+            outlines: &self.outlines,
+            channel,
+            tolerance: self.input.tolerance,
+        }
+    }
+
+    /// How far a joint's pins reach into a segment: the hole and its drill point, mm.
+    fn pin_reach(&self) -> f64 {
+        let spec = self.spec();
+        spec.dowels.depth + point_depth(spec.pin_hole_radius(), spec.dowels.point_angle)
+    }
+
+    /// Where splits may go: clear of the root's features, the tip and the planned
+    /// channel's start.
+    fn frame(&self) -> Frame<'_> {
+        let blade = self.input.blade;
+        let root = blade.root();
+        let face = blade.root_face();
+        let pin_reach = self.pin_reach();
+        let wall = self.spec().min_wall;
+        let features = channel::root_features_end(root, face).max(blade.skin_start());
+        let mut joint_lo = features + pin_reach + wall;
+        if let Some(c) = self.planned.as_ref().filter(|c| !c.opens_at_root) {
+            joint_lo = joint_lo.max(c.start + c.engagement());
+        }
+        let joint_range = (joint_lo, self.part_end - pin_reach - wall);
+        let transition = root.map(|r| {
+            let first = blade.root_radius();
+            (first - r.transition_length, first)
+        });
+        Frame {
+            skin: self.input.skin,
+            us: self.input.us,
+            outlines: &self.outlines,
+            mesh: self.input.mesh,
+            part_start: face,
+            skin_start: blade.skin_start(),
+            part_end: self.part_end,
+            joint_range,
+            transition,
+            min_length: 2.0 * pin_reach + wall,
+            first_joint_max: self.planned.as_ref().map(|c| c.end - c.engagement()),
+        }
+    }
+
+    /// Whether a joint at `r` could take its pins (with the planned channel).
+    fn can_join(&self, pin_input: &PinInput<'_>, r: f64) -> bool {
+        let spec = self.spec();
+        let crosses = |c: &Channel| {
+            (c.opens_at_root || c.start + c.engagement() <= r + 1e-9)
+                && c.end >= r + c.engagement() - 1e-9
+        };
+        let through = self.planned.as_ref().is_some_and(crosses);
+        let n = spec.dowels.count.unwrap_or(if through { 2 } else { 3 });
+        (n + usize::from(through) >= 3)
+            && place(
+                pin_input,
+                spec,
+                JointAsk {
+                    radius: r,
+                    index: 1,
+                    count: n,
+                    channel: through,
+                },
+                &[],
+                None,
+            )
+            .is_ok()
+    }
+
+    /// The splits: none, the given ones, or the fewest that fit the printer (with its
+    /// margin widened by `slack`); root to tip.
+    fn splits(&self, slack: f64) -> Result<Splits, SegmentError> {
+        let frame = self.frame();
+        let (automatic, mut splits, searches) = match &self.spec().split {
+            Split::None => (false, Vec::new(), 0),
+            Split::At(radii) => (false, given_splits(radii, &frame)?, 0),
+            Split::Auto => {
+                let printer = self
+                    .request
+                    .printer
+                    .as_ref()
+                    .ok_or(SegmentError::NeedsPrinter)?;
+                let pin_input = self.pin_input(self.planned.as_ref());
+                let can_join = |r: f64| self.can_join(&pin_input, r);
+                let test = FitTest::new(&frame, printer, slack);
+                let planner = Planner::new(&frame, &test, &can_join);
+                let splits = planner.plan(self.spec().max_count)?;
+                (true, splits, test.calls())
+            }
+        };
+        splits.sort_by(|a, b| a.radius.total_cmp(&b.radius));
+        Ok(Splits {
+            automatic,
+            splits,
+            searches,
+        })
+    }
+
+    /// The planned channel ended clear of every split: not within its wall and drill
+    /// point below a split, nor a rod's engagement beyond it (it then stops below);
+    /// checked that a rod can reach it.
+    fn channel_clear_of(&self, splits: &[SplitChoice]) -> Result<Option<Channel>, SegmentError> {
+        let channel = self.planned.clone().map(|mut c| {
+            for s in splits.iter().rev() {
+                let r = s.radius;
+                if c.end > r - c.min_wall - c.point_depth && c.end < r + c.engagement() {
+                    c.end = r - c.min_wall - c.point_depth;
+                }
+            }
+            channel::finish(c, &self.outlines.rows)
+        });
+        check_channel(channel.as_ref(), splits, || {
+            let r = splits[0].radius;
+            let spec = self.request.channel.as_ref()?;
+            channel::widest_reaching(&self.channel_input(), spec, r)
+        })?;
+        Ok(channel)
+    }
+
+    /// The joints' pins, root to tip, each keyed against the earlier ones.
+    fn joints(
+        &self,
+        splits: &[SplitChoice],
+        channel: Option<&Channel>,
+    ) -> Result<Vec<Joint>, SegmentError> {
+        let spec = self.spec();
+        let pin_input = self.pin_input(channel);
+        let mut joints: Vec<Joint> = Vec::new();
+        for (k, s) in splits.iter().enumerate() {
+            let r = s.radius;
+            let through = channel.is_some_and(|c| c.start < r && c.end > r);
+            let n = spec.dowels.count.unwrap_or(if through { 2 } else { 3 });
+            if n + usize::from(through) < 3 {
+                return Err(SegmentError::key(
+                    "segments.dowels.count",
+                    format!("{n} pins at joint {} ({r:.1} mm), which the spar channel does not cross: two pins alone fit either way round; use 3 or more", k + 1),
+                ));
+            }
+            let ask = JointAsk {
+                radius: r,
+                index: k + 1,
+                count: n,
+                channel: through,
+            };
+            match place(&pin_input, spec, ask, &joints, None) {
+                Ok(j) => joints.push(j),
+                Err(why) => {
+                    return Err(SegmentError::PinsDoNotFit {
+                        joint: k + 1,
+                        radius: r,
+                        count: n,
+                        pin: spec.dowels.diameter,
+                        keyed: why == NoLayout::NotKeyed,
+                        largest_pin: largest_pin(&pin_input, spec, ask, &joints),
+                    })
+                }
+            }
+        }
+        Ok(joints)
+    }
+
+    /// Each segment's mesh.
+    fn build(
+        &self,
+        splits: &[SplitChoice],
+        channel: Option<&Channel>,
+        joints: &[Joint],
+    ) -> Result<Vec<SegmentMesh>, SegmentError> {
+        let blade = self.input.blade;
+        let radii: Vec<f64> = splits.iter().map(|s| s.radius).collect();
+        mesh::build(
+            &BuildInput {
+                skin: self.input.skin,
+                us: self.input.us,
+                vs: self.input.vs,
+                root: blade.root(),
+                root_face: blade.root_face(),
+                tolerance: self.input.tolerance,
+            },
+            &radii,
+            channel,
+            joints,
+        )
+    }
+}
+
+/// Each segment against the printer, in parallel (none for a single segment or without
+/// a printer).
+fn fit_segments(segments: &[SegmentMesh], printer: Option<&Printer>) -> Vec<SegmentFit> {
+    match printer {
+        Some(p) if segments.len() > 1 => std::thread::scope(|scope| {
+            let handles: Vec<_> = segments
+                .iter()
+                .map(|s| scope.spawn(move || segment_fit(&s.hull, p)))
+                .collect();
+            handles
+                .into_iter()
+                .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
+                .collect()
+        }),
+        _ => Vec::new(),
+    }
 }
 
 /// The printer-fit search on a segment's hull points, with its default options (the

@@ -16,14 +16,6 @@ use crate::mesh::TriMesh;
 use crate::planar::{point_in_polygon, triangulate};
 use nalgebra::{Point2, Point3};
 
-/// One trial triangulation: points, spokes, triangles and the slivers among them.
-type Trial = (
-    Vec<Point2<f64>>,
-    Vec<[usize; 2]>,
-    Vec<[usize; 3]>,
-    Vec<[usize; 3]>,
-);
-
 /// A cap triangle counts as too small when its area is below this fraction of the part's
 /// squared size: four times the solid check's degenerate limit
 /// ([`crate::check::CheckOptions::DEFAULT`]), a margin for the part growing by its mount
@@ -240,6 +232,33 @@ fn ear_spoke(outline: &[Point2<f64>], t: [usize; 3], small: f64) -> Option<(Poin
 /// const`); `scale` is the part's size (its box diagonal). `None` when the outline
 /// crosses itself.
 pub(super) fn cap(vertices: &[Point3<f64>], ring: &[u32], up: bool, scale: f64) -> Option<Cap> {
+    let (outline, reversed) = ccw_outline(vertices, ring);
+    let refine = Refine {
+        outline: &outline,
+        n: outline.len(),
+        small: SLIVER_AREA * scale * scale,
+    };
+    let mut state = refine.start()?;
+    for _ in 0..MAX_ROUNDS {
+        if state.bad.is_empty() || !refine.round(&mut state) {
+            break;
+        }
+    }
+    // Back to ring order.
+    let n = refine.n;
+    let map = |k: usize| if reversed && k < n { n - 1 - k } else { k };
+    Some(Cap {
+        z: vertices[ring[0] as usize].z,
+        ring: ring.to_vec(),
+        interior: state.points[n..].to_vec(),
+        triangles: state.triangles.into_iter().map(|t| t.map(map)).collect(),
+        up,
+    })
+}
+
+/// The ring's outline in its plane, counter-clockwise for the inward normals (the
+/// triangles do not depend on it), and whether it was reversed to be so.
+fn ccw_outline(vertices: &[Point3<f64>], ring: &[u32]) -> (Vec<Point2<f64>>, bool) {
     let mut outline: Vec<Point2<f64>> = ring
         .iter()
         .map(|&i| {
@@ -247,7 +266,6 @@ pub(super) fn cap(vertices: &[Point3<f64>], ring: &[u32], up: bool, scale: f64) 
             Point2::new(p.x, p.y)
         })
         .collect();
-    // Counter-clockwise for the inward normals (the triangles do not depend on it).
     let twice_area: f64 = (0..outline.len())
         .map(|k| {
             outline[k]
@@ -259,13 +277,51 @@ pub(super) fn cap(vertices: &[Point3<f64>], ring: &[u32], up: bool, scale: f64) 
     if reversed {
         outline.reverse();
     }
-    let n = outline.len();
-    let small = SLIVER_AREA * scale * scale;
-    let mut points = outline.clone();
-    let mut spokes: Vec<[usize; 2]> = Vec::new();
-    let mut triangles = triangulate(&points, std::slice::from_ref(&(0..n)))?;
-    let mut bad = slivers(&points, &triangles, small);
-    let fits = |points: &[Point2<f64>], p: &Point2<f64>| {
+    (outline, reversed)
+}
+
+/// A candidate: an interior point, and the corner it is joined to (for ears).
+type Candidate = (Point2<f64>, Option<usize>);
+
+/// A cap's triangulation as it is refined.
+struct Triangulated {
+    /// The outline, then the interior points.
+    points: Vec<Point2<f64>>,
+    /// Constraint segments from ear corners to their interior points.
+    spokes: Vec<[usize; 2]>,
+    /// Counter-clockwise triangles on `points`.
+    triangles: Vec<[usize; 3]>,
+    /// The too small ones.
+    bad: Vec<[usize; 3]>,
+}
+
+/// Refinement of a cap's triangulation by interior points (module docs).
+struct Refine<'a> {
+    /// The outline, counter-clockwise.
+    outline: &'a [Point2<f64>],
+    /// Its number of points.
+    n: usize,
+    /// Area below which a triangle is too small.
+    small: f64,
+}
+
+impl Refine<'_> {
+    /// The triangulation of the outline alone; `None` when it crosses itself.
+    fn start(&self) -> Option<Triangulated> {
+        let points = self.outline.to_vec();
+        let triangles = triangulate(&points, std::slice::from_ref(&(0..self.n)))?;
+        let bad = slivers(&points, &triangles, self.small);
+        Some(Triangulated {
+            points,
+            spokes: Vec::new(),
+            triangles,
+            bad,
+        })
+    }
+
+    /// True when `p` lies strictly inside the outline and on none of `points`.
+    fn fits(&self, points: &[Point2<f64>], p: &Point2<f64>) -> bool {
+        let (outline, n) = (self.outline, self.n);
         let near = points
             .iter()
             .map(|q| (q - p).norm())
@@ -273,42 +329,49 @@ pub(super) fn cap(vertices: &[Point3<f64>], ring: &[u32], up: bool, scale: f64) 
         let wall = (0..n)
             .map(|k| dist_to_segment(*p, outline[k], outline[(k + 1) % n]))
             .fold(f64::INFINITY, f64::min);
-        point_in_polygon(&outline, p) && near > 0.0 && wall > 0.0
-    };
-    // A candidate: an interior point, and the corner it is joined to (for ears).
-    type Candidate = (Point2<f64>, Option<usize>);
-    let trial = |points: &[Point2<f64>], spokes: &[[usize; 2]], extra: &[Candidate]| {
-        let mut pts = points.to_vec();
-        let mut sp = spokes.to_vec();
+        point_in_polygon(outline, p) && near > 0.0 && wall > 0.0
+    }
+
+    /// The triangulation with the `extra` candidates added; `None` when it cannot be
+    /// made.
+    fn trial(&self, from: &Triangulated, extra: &[Candidate]) -> Option<Triangulated> {
+        let mut pts = from.points.to_vec();
+        let mut sp = from.spokes.to_vec();
         for (p, corner) in extra {
             if let Some(c) = corner {
                 sp.push([*c, pts.len()]);
             }
             pts.push(*p);
         }
-        let tris = triangulate_with(&pts, n, &sp)?;
-        let now = slivers(&pts, &tris, small);
-        Some((pts, sp, tris, now))
-    };
-    for _ in 0..MAX_ROUNDS {
-        if bad.is_empty() {
-            break;
-        }
-        // The first fitting candidate of each triangle as one batch; all of them singly.
+        let tris = triangulate_with(&pts, self.n, &sp)?;
+        let now = slivers(&pts, &tris, self.small);
+        Some(Triangulated {
+            points: pts,
+            spokes: sp,
+            triangles: tris,
+            bad: now,
+        })
+    }
+
+    /// The candidates for the too small triangles: the first fitting one of each
+    /// triangle as one batch (no nearer another batch point than the mesh points), and
+    /// all of them for trying singly.
+    fn candidates(&self, state: &Triangulated) -> (Vec<Candidate>, Vec<Candidate>) {
         let mut batch: Vec<Candidate> = Vec::new();
         let mut singles: Vec<Candidate> = Vec::new();
-        for t in &bad {
-            let ear = ear_spoke(&outline, *t, small).map(|(p, c)| (p, Some(c)));
-            let others = candidates(&outline, &points, *t)
+        for t in &state.bad {
+            let ear = ear_spoke(self.outline, *t, self.small).map(|(p, c)| (p, Some(c)));
+            let others = candidates(self.outline, &state.points, *t)
                 .into_iter()
                 .map(|p| (p, None));
             let mut first = true;
             for c in ear.into_iter().chain(others) {
-                if !fits(&points, &c.0) || singles.iter().any(|q| q.0 == c.0) {
+                if !self.fits(&state.points, &c.0) || singles.iter().any(|q| q.0 == c.0) {
                     continue;
                 }
                 // A batch point no nearer another batch point than the mesh points.
-                let room = points
+                let room = state
+                    .points
                     .iter()
                     .map(|q| (q - c.0).norm())
                     .fold(f64::INFINITY, f64::min);
@@ -319,33 +382,30 @@ pub(super) fn cap(vertices: &[Point3<f64>], ring: &[u32], up: bool, scale: f64) 
                 singles.push(c);
             }
         }
+        (batch, singles)
+    }
+
+    /// One round: the batch if it leaves fewer too small triangles, else each single
+    /// candidate (up to [`SINGLE_TRIES`]) that does. False when nothing helped.
+    fn round(&self, state: &mut Triangulated) -> bool {
+        let (batch, singles) = self.candidates(state);
+        if let Some(r) = self
+            .trial(state, &batch)
+            .filter(|r| r.bad.len() < state.bad.len())
+        {
+            *state = r;
+            return true;
+        }
         let mut improved = false;
-        // A trial (points, spokes, triangles, slivers) is better with fewer slivers.
-        let better = |r: &Trial, bad: &[[usize; 3]]| r.3.len() < bad.len();
-        if let Some(r) = trial(&points, &spokes, &batch).filter(|r| better(r, &bad)) {
-            (points, spokes, triangles, bad) = r;
-            improved = true;
-        } else {
-            for c in singles.iter().take(SINGLE_TRIES) {
-                if let Some(r) =
-                    trial(&points, &spokes, std::slice::from_ref(c)).filter(|r| better(r, &bad))
-                {
-                    (points, spokes, triangles, bad) = r;
-                    improved = true;
-                }
+        for c in singles.iter().take(SINGLE_TRIES) {
+            if let Some(r) = self
+                .trial(state, std::slice::from_ref(c))
+                .filter(|r| r.bad.len() < state.bad.len())
+            {
+                *state = r;
+                improved = true;
             }
         }
-        if !improved {
-            break;
-        }
+        improved
     }
-    // Back to ring order.
-    let map = |k: usize| if reversed && k < n { n - 1 - k } else { k };
-    Some(Cap {
-        z: vertices[ring[0] as usize].z,
-        ring: ring.to_vec(),
-        interior: points[n..].to_vec(),
-        triangles: triangles.into_iter().map(|t| t.map(map)).collect(),
-        up,
-    })
 }

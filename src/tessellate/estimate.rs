@@ -26,7 +26,7 @@
 
 use super::grid::{eval_grid, uniform};
 use crate::loft::Skin;
-use nalgebra::Vector3;
+use nalgebra::{Point3, Vector3};
 
 /// Ratio of real to ideal triangle counts, measured (see the module docs).
 pub const CALIBRATION: f64 = 1.75;
@@ -99,18 +99,76 @@ pub fn estimate(skin: &Skin, tolerance: f64) -> WorkEstimate {
             peak_bytes: f64::INFINITY,
         };
     }
-    let tau = 0.5 * tolerance;
-    let us = samples(&skin.knots_u, 512, &uniform(0.0, 1.0, 16));
-    let vs = samples(&skin.knots_v, 256, &uniform(0.0, 1.0, 32));
-    let (nu, nv) = (us.len(), vs.len());
-    let grid = eval_grid(skin, &us, &vs);
-    let at = |i: usize, j: usize| grid[i * nv + j].coords;
-    let u_le = skin.u_le;
-    // Per sample: the chord limit (half the tolerance, and aft of the leading edge a
-    // quarter of the local thickness), the normal curvatures along u and v, and the twist.
-    let local = |i: usize, j: usize| {
-        let (su, suu) = differences(&us, |k| at(k, j), i);
-        let (sv, svv) = differences(&vs, |k| at(i, k), j);
+    let s = SampleGrid::of(skin, tolerance);
+    let local: Vec<Local> = (0..s.nu * s.nv)
+        .map(|c| s.local(c / s.nv, c % s.nv))
+        .collect();
+    let (du_density, dv_density) = s.densities(&local, tolerance);
+    let columns = integrate(&s.us, &du_density) * CALIBRATION.sqrt();
+    let rows = integrate(&s.vs, &dv_density) * CALIBRATION.sqrt();
+    let triangles = 2.0 * columns * rows + 2.0 * columns;
+    WorkEstimate {
+        columns,
+        rows,
+        triangles,
+        peak_bytes: triangles * BYTES_PER_TRIANGLE,
+    }
+}
+
+/// The surface sampled at (thinned) knots and a few even parameters.
+struct SampleGrid<'a> {
+    skin: &'a Skin,
+    /// Half the tolerance: the chord part of the budget, mm.
+    tau: f64,
+    us: Vec<f64>,
+    vs: Vec<f64>,
+    nu: usize,
+    nv: usize,
+    /// Points, column-major (`nv` a column).
+    grid: Vec<Point3<f64>>,
+}
+
+/// What one sample asks of the grid.
+#[derive(Debug, Clone, Copy)]
+struct Local {
+    /// The chord limit, mm ([`SampleGrid::chord_limit`]).
+    limit: f64,
+    /// Normal curvature along u.
+    ku: f64,
+    /// Normal curvature along v.
+    kv: f64,
+    /// The twist term.
+    kuv: f64,
+}
+
+impl<'a> SampleGrid<'a> {
+    fn of(skin: &'a Skin, tolerance: f64) -> Self {
+        let us = samples(&skin.knots_u, 512, &uniform(0.0, 1.0, 16));
+        let vs = samples(&skin.knots_v, 256, &uniform(0.0, 1.0, 32));
+        let (nu, nv) = (us.len(), vs.len());
+        let grid = eval_grid(skin, &us, &vs);
+        SampleGrid {
+            skin,
+            tau: 0.5 * tolerance,
+            us,
+            vs,
+            nu,
+            nv,
+            grid,
+        }
+    }
+
+    fn at(&self, i: usize, j: usize) -> Vector3<f64> {
+        self.grid[i * self.nv + j].coords
+    }
+
+    /// The chord limit, the normal curvatures along u and v, and the twist at sample
+    /// `(i, j)`.
+    fn local(&self, i: usize, j: usize) -> Local {
+        let (us, vs, nu, nv) = (&self.us, &self.vs, self.nu, self.nv);
+        let at = |i: usize, j: usize| self.at(i, j);
+        let (su, suu) = differences(us, |k| at(k, j), i);
+        let (sv, svv) = differences(vs, |k| at(i, k), j);
         let (ci, cj) = (i.clamp(1, nu - 2), j.clamp(1, nv - 2));
         let suv = (at(ci + 1, cj + 1) - at(ci + 1, cj - 1) - at(ci - 1, cj + 1)
             + at(ci - 1, cj - 1))
@@ -119,6 +177,20 @@ pub fn estimate(skin: &Skin, tolerance: f64) -> WorkEstimate {
             .cross(&sv)
             .try_normalize(0.0)
             .unwrap_or_else(Vector3::zeros);
+        Local {
+            limit: self.chord_limit(i, j),
+            ku: normal_part(&su, &suu),
+            kv: normal_part(&sv, &svv),
+            kuv: suv.dot(&n).abs(),
+        }
+    }
+
+    /// Half the tolerance, and aft of the leading edge a quarter of the local
+    /// thickness, floored at a tenth of that.
+    fn chord_limit(&self, i: usize, j: usize) -> f64 {
+        let (us, nu, nv) = (&self.us, self.nu, self.nv);
+        let u_le = self.skin.u_le;
+        let tau = self.tau;
         let mut limit = tau;
         let t = us[i];
         if (t - u_le).abs() > 0.25 * u_le.min(1.0 - u_le) {
@@ -129,74 +201,67 @@ pub fn estimate(skin: &Skin, tolerance: f64) -> WorkEstimate {
             };
             // The opposite surface at the nearest sample of the mirrored parameter.
             let k = us.partition_point(|&x| x < m).min(nu - 1);
-            limit = limit.min(0.25 * (grid[i * nv + j] - grid[k * nv + j]).norm());
+            limit = limit.min(0.25 * (self.grid[i * nv + j] - self.grid[k * nv + j]).norm());
         }
         // At a knife trailing edge the thickness, and so this limit, goes to zero in a
         // band far narrower than a sample interval: the grid refines only that band (to
         // its depth limit), so the estimate floors the limit at a tenth of the chord
         // tolerance rather than spread an unbounded density over the whole interval.
-        let limit = limit.max(0.1 * tau);
-        (
-            limit,
-            normal_part(&su, &suu),
-            normal_part(&sv, &svv),
-            suv.dot(&n).abs(),
-        )
-    };
-    let curv: Vec<(f64, f64, f64, f64)> = (0..nu * nv).map(|c| local(c / nv, c % nv)).collect();
-    // Chord densities: columns at each u sample (worst row), rows at each v sample
-    // (worst column); at least the starting grid's 16 columns and 4 rows.
-    let du_chord: Vec<f64> = (0..nu)
-        .map(|i| {
-            (0..nv)
-                .map(|j| {
-                    let (limit, ku, _, _) = curv[i * nv + j];
-                    (ku / (8.0 * limit)).sqrt()
-                })
-                .fold(16.0, f64::max)
-        })
-        .collect();
-    let dv_chord: Vec<f64> = (0..nv)
-        .map(|j| {
-            (0..nu)
-                .map(|i| {
-                    let (limit, _, kv, _) = curv[i * nv + j];
-                    (kv / (8.0 * limit)).sqrt()
-                })
-                .fold(4.0, f64::max)
-        })
-        .collect();
-    // The cell criterion (ku du² + 2 kuv du dv + kv dv²) / 8 <= tolerance: where the
-    // chord spacings break it (the twist term), both spacings shrink by the same factor.
-    let shrink = |i: usize, j: usize| {
-        let (_, ku, kv, kuv) = curv[i * nv + j];
-        let (du, dv) = (1.0 / du_chord[i], 1.0 / dv_chord[j]);
-        let e = (ku * du * du + 2.0 * kuv * du * dv + kv * dv * dv) / 8.0;
-        if e > tolerance {
-            (tolerance / e).sqrt()
-        } else {
-            1.0
-        }
-    };
-    let du_density: Vec<f64> = (0..nu)
-        .map(|i| du_chord[i] / (0..nv).map(|j| shrink(i, j)).fold(1.0, f64::min))
-        .collect();
-    let dv_density: Vec<f64> = (0..nv)
-        .map(|j| dv_chord[j] / (0..nu).map(|i| shrink(i, j)).fold(1.0, f64::min))
-        .collect();
-    let integrate = |t: &[f64], d: &[f64]| -> f64 {
-        t.windows(2)
-            .zip(d.windows(2))
-            .map(|(w, e)| (w[1] - w[0]) * e[0].max(e[1]))
-            .sum()
-    };
-    let columns = integrate(&us, &du_density) * CALIBRATION.sqrt();
-    let rows = integrate(&vs, &dv_density) * CALIBRATION.sqrt();
-    let triangles = 2.0 * columns * rows + 2.0 * columns;
-    WorkEstimate {
-        columns,
-        rows,
-        triangles,
-        peak_bytes: triangles * BYTES_PER_TRIANGLE,
+        limit.max(0.1 * tau)
     }
+
+    /// Column densities at each u sample and row densities at each v sample: the
+    /// chord densities (worst row or column; at least the starting grid's 16 columns
+    /// and 4 rows), raised where the twist term breaks the cell criterion.
+    fn densities(&self, local: &[Local], tolerance: f64) -> (Vec<f64>, Vec<f64>) {
+        let (nu, nv) = (self.nu, self.nv);
+        let du_chord: Vec<f64> = (0..nu)
+            .map(|i| {
+                (0..nv)
+                    .map(|j| {
+                        let l = local[i * nv + j];
+                        (l.ku / (8.0 * l.limit)).sqrt()
+                    })
+                    .fold(16.0, f64::max)
+            })
+            .collect();
+        let dv_chord: Vec<f64> = (0..nv)
+            .map(|j| {
+                (0..nu)
+                    .map(|i| {
+                        let l = local[i * nv + j];
+                        (l.kv / (8.0 * l.limit)).sqrt()
+                    })
+                    .fold(4.0, f64::max)
+            })
+            .collect();
+        // The cell criterion (ku du² + 2 kuv du dv + kv dv²) / 8 <= tolerance: where the
+        // chord spacings break it (the twist term), both spacings shrink by the same
+        // factor.
+        let shrink = |i: usize, j: usize| {
+            let Local { ku, kv, kuv, .. } = local[i * nv + j];
+            let (du, dv) = (1.0 / du_chord[i], 1.0 / dv_chord[j]);
+            let e = (ku * du * du + 2.0 * kuv * du * dv + kv * dv * dv) / 8.0;
+            if e > tolerance {
+                (tolerance / e).sqrt()
+            } else {
+                1.0
+            }
+        };
+        let du_density: Vec<f64> = (0..nu)
+            .map(|i| du_chord[i] / (0..nv).map(|j| shrink(i, j)).fold(1.0, f64::min))
+            .collect();
+        let dv_density: Vec<f64> = (0..nv)
+            .map(|j| dv_chord[j] / (0..nu).map(|i| shrink(i, j)).fold(1.0, f64::min))
+            .collect();
+        (du_density, dv_density)
+    }
+}
+
+/// The integral of the density `d` sampled at `t`, each interval at its larger end.
+fn integrate(t: &[f64], d: &[f64]) -> f64 {
+    t.windows(2)
+        .zip(d.windows(2))
+        .map(|(w, e)| (w[1] - w[0]) * e[0].max(e[1]))
+        .sum()
 }
