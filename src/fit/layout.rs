@@ -204,6 +204,15 @@ struct Shape {
     size: [f64; 3],
 }
 
+/// The bits of a footprint and its pose: equal keys place alike.
+fn footprint_key(s: &Shape) -> Vec<u64> {
+    s.poly
+        .iter()
+        .flat_map(|p| [p.x.to_bits(), p.y.to_bits()])
+        .chain(s.rotation.iter().map(|v| v.to_bits()))
+        .collect()
+}
+
 fn shape(part: &Part, rotation: Matrix3<f64>) -> Shape {
     let pts: Vec<Vector3<f64>> = part
         .mesh
@@ -531,7 +540,13 @@ fn pack(
     alone: &mut Vec<Placed>,
 ) -> Vec<Plate> {
     let mut plates: Vec<(Plate, Vec<Vec<Point2<f64>>>)> = Vec::new();
+    // Footprints that found no spot on a plate: obstacles only grow, so the same
+    // footprint (a copy of the same part in the same pose) would fail there again. With
+    // it, copies cost one search on the plate being filled rather than one on every
+    // plate before it, and the layout grows about linearly with the copies.
+    let mut failed: Vec<std::collections::HashSet<Vec<u64>>> = Vec::new();
     for (i, s, _) in shapes {
+        let key = footprint_key(&s);
         let mut variants = vec![s];
         if flips {
             let flipped = variants[0].turned(std::f64::consts::PI);
@@ -539,14 +554,19 @@ fn pack(
         }
         let mut found = None;
         for (pi, (_, obstacles)) in plates.iter().enumerate() {
+            if failed[pi].contains(&key) {
+                continue;
+            }
             if let Some(b) = spot(&variants, obstacles, bed) {
                 found = Some((pi, b));
                 break;
             }
+            failed[pi].insert(key.clone());
         }
         if found.is_none() {
             if let Some(b) = spot(&variants, &[], bed) {
                 plates.push((Plate::default(), Vec::new()));
+                failed.push(std::collections::HashSet::new());
                 found = Some((plates.len() - 1, b));
             }
         }
