@@ -293,6 +293,24 @@ fn inside_distance(poly: &[(f64, f64)], q: (f64, f64)) -> f64 {
     }
 }
 
+/// The span an end hole takes along z (from its face to its reach) and its axis and
+/// radius, for the overlap checks.
+struct Extent {
+    /// z of the hole's face, mm.
+    from: f64,
+    /// z as far as it reaches, mm.
+    to: f64,
+    centre: [f64; 2],
+    r: f64,
+}
+
+impl Extent {
+    /// The smaller and the larger z of the hole's span.
+    fn range(&self) -> (f64, f64) {
+        (self.from.min(self.to), self.from.max(self.to))
+    }
+}
+
 /// End holes must stay inside the section over their length, away from each other and
 /// from the cross holes.
 fn check_end_holes(
@@ -305,117 +323,170 @@ fn check_end_holes(
         return Ok(());
     }
     let map = super::skin::SpanMap::new(skin, opts.planar)?;
+    let mut extents: Vec<Extent> = Vec::new();
+    for (i, h) in spec.end_holes.iter().enumerate() {
+        let what = format!("end hole {} (diameter {} mm)", i + 1, h.diameter);
+        let e = end_hole_extent(piece, spec, h, &what)?;
+        check_inside_section(skin, &map, piece, h, &e, &what)?;
+        check_clearances(spec, h, &e, &extents, &what)?;
+        extents.push(e);
+    }
+    check_cross_holes_apart(spec)
+}
+
+/// The z range the end hole `h` takes (its reach from its face), once its size, depth
+/// and point angle are valid and it does not run through the piece.
+fn end_hole_extent(
+    piece: &SkinPiece,
+    spec: &PieceSpec,
+    h: &EndHole,
+    what: &str,
+) -> Result<Extent, BrepError> {
     let s = piece.span_sign();
     let (zl, zh) = (piece.z_low, piece.z_high);
     let span = (zh - zl).abs();
-    let mut extents: Vec<(f64, f64, [f64; 2], f64)> = Vec::new();
-    for (i, h) in spec.end_holes.iter().enumerate() {
-        let what = format!("end hole {} (diameter {} mm)", i + 1, h.diameter);
-        let r = 0.5 * h.diameter;
-        if !(r > 0.0 && r.is_finite() && h.centre.iter().all(|c| c.is_finite())) {
-            return Err(BrepError::feature(
-                what,
-                "not a positive finite size",
-                "give a positive diameter",
-            ));
-        }
-        let reach = match h.bottom {
-            Bottom::Through => span,
-            b => {
-                if !(h.depth > 0.0 && h.depth.is_finite()) {
+    let r = 0.5 * h.diameter;
+    if !(r > 0.0 && r.is_finite() && h.centre.iter().all(|c| c.is_finite())) {
+        return Err(BrepError::feature(
+            what.to_string(),
+            "not a positive finite size",
+            "give a positive diameter",
+        ));
+    }
+    let reach = match h.bottom {
+        Bottom::Through => span,
+        b => {
+            if !(h.depth > 0.0 && h.depth.is_finite()) {
+                return Err(BrepError::feature(
+                    what.to_string(),
+                    format!("depth {} mm", h.depth),
+                    "give a positive depth",
+                ));
+            }
+            if let Bottom::Point(a) = b {
+                if !(a > 0.0 && a < 180.0) {
                     return Err(BrepError::feature(
-                        what,
-                        format!("depth {} mm", h.depth),
-                        "give a positive depth",
+                        what.to_string(),
+                        format!("point angle {a} degrees"),
+                        "give an angle between 0 and 180 degrees (or a flat floor)",
                     ));
                 }
-                if let Bottom::Point(a) = b {
-                    if !(a > 0.0 && a < 180.0) {
-                        return Err(BrepError::feature(
-                            what,
-                            format!("point angle {a} degrees"),
-                            "give an angle between 0 and 180 degrees (or a flat floor)",
-                        ));
-                    }
-                }
-                h.depth + b.point_depth(r)
             }
+            h.depth + b.point_depth(r)
+        }
+    };
+    let flange_depth = spec.flange.map_or(0.0, |f| f.thickness + f.fillet);
+    if reach >= span + if h.end == End::Low { flange_depth } else { 0.0 }
+        && h.bottom != Bottom::Through
+    {
+        return Err(BrepError::feature(
+            what.to_string(),
+            format!("it reaches {reach} mm deep, through the piece"),
+            "make it shallower or a through hole",
+        ));
+    }
+    let (za, zb) = match h.end {
+        End::Low => (zl - s * flange_depth, zl - s * flange_depth + s * reach),
+        End::High => (zh - s * reach, zh),
+    };
+    Ok(Extent {
+        from: za,
+        to: zb,
+        centre: h.centre,
+        r,
+    })
+}
+
+/// The end hole stays inside the section all along (sampled at 24 levels on the skin,
+/// from its face to its reach).
+fn check_inside_section(
+    skin: &Skin,
+    map: &super::skin::SpanMap<'_>,
+    piece: &SkinPiece,
+    h: &EndHole,
+    e: &Extent,
+    what: &str,
+) -> Result<(), BrepError> {
+    let s = piece.span_sign();
+    let (zl, zh) = (piece.z_low, piece.z_high);
+    let span = (zh - zl).abs();
+    let (za, zb) = (e.from, e.to);
+    for k in 0..=24 {
+        let z = za + (zb - za) * k as f64 / 24.0;
+        let zc = if s > 0.0 {
+            z.clamp(zl.min(zh), zl.max(zh))
+        } else {
+            z.clamp(zh.min(zl), zh.max(zl))
         };
-        let flange_depth = spec.flange.map_or(0.0, |f| f.thickness + f.fillet);
-        if reach >= span + if h.end == End::Low { flange_depth } else { 0.0 }
-            && h.bottom != Bottom::Through
-        {
+        let v = if (zc - zl).abs() < 1e-9 * span.max(1.0) {
+            end_v(zl, map, 0.0)?
+        } else if (zc - zh).abs() < 1e-9 * span.max(1.0) {
+            end_v(zh, map, 1.0)?
+        } else {
+            map.v_at(zc, what)?
+        };
+        let room = inside_distance(&section_at(skin, v), (h.centre[0], h.centre[1]));
+        if room <= e.r {
             return Err(BrepError::feature(
-                what,
-                format!("it reaches {reach} mm deep, through the piece"),
-                "make it shallower or a through hole",
+                what.to_string(),
+                format!(
+                    "at z = {zc:.3} mm it comes {:.3} mm outside the section",
+                    e.r - room
+                ),
+                "move the hole toward the section's middle, make it smaller or shorter",
             ));
         }
-        // Inside the section all along (sampled at 24 levels on the skin).
-        let (za, zb) = match h.end {
-            End::Low => (zl - s * flange_depth, zl - s * flange_depth + s * reach),
-            End::High => (zh - s * reach, zh),
-        };
-        for k in 0..=24 {
-            let z = za + (zb - za) * k as f64 / 24.0;
-            let zc = if s > 0.0 {
-                z.clamp(zl.min(zh), zl.max(zh))
-            } else {
-                z.clamp(zh.min(zl), zh.max(zl))
-            };
-            let v = if (zc - zl).abs() < 1e-9 * span.max(1.0) {
-                end_v(zl, &map, 0.0)?
-            } else if (zc - zh).abs() < 1e-9 * span.max(1.0) {
-                end_v(zh, &map, 1.0)?
-            } else {
-                map.v_at(zc, &what)?
-            };
-            let room = inside_distance(&section_at(skin, v), (h.centre[0], h.centre[1]));
-            if room <= r {
-                return Err(BrepError::feature(
-                    what,
-                    format!(
-                        "at z = {zc:.3} mm it comes {:.3} mm outside the section",
-                        r - room
-                    ),
-                    "move the hole toward the section's middle, make it smaller or shorter",
-                ));
-            }
-        }
-        if let Some(f) = &spec.flange {
-            let d =
-                ((h.centre[0] - f.centre[0]).powi(2) + (h.centre[1] - f.centre[1]).powi(2)).sqrt();
-            if h.end == End::Low && d + r >= 0.5 * f.diameter {
-                return Err(BrepError::feature(
-                    what,
-                    "it breaks out of the flange's rim",
-                    "move it inside the flange",
-                ));
-            }
-        }
-        let (lo, hi) = (za.min(zb), za.max(zb));
-        for (j, &(lo2, hi2, c2, r2)) in extents.iter().enumerate() {
-            let d = ((h.centre[0] - c2[0]).powi(2) + (h.centre[1] - c2[1]).powi(2)).sqrt();
-            if lo < hi2 && lo2 < hi && d <= r + r2 {
-                return Err(BrepError::feature(
-                    what,
-                    format!("it overlaps end hole {}", j + 1),
-                    "space the holes apart",
-                ));
-            }
-        }
-        for (j, c) in spec.cross_holes.iter().enumerate() {
-            let rc = 0.5 * c.diameter;
-            if lo < c.z + rc && c.z - rc < hi && (h.centre[0] - c.x).abs() < r + rc {
-                return Err(BrepError::feature(
-                    what,
-                    format!("it meets cross hole {}", j + 1),
-                    "move the cross hole beyond the end hole's depth",
-                ));
-            }
-        }
-        extents.push((lo, hi, h.centre, r));
     }
+    Ok(())
+}
+
+/// The end hole stays inside the flange's rim and clear of the end holes before it
+/// (`extents`) and of every cross hole.
+fn check_clearances(
+    spec: &PieceSpec,
+    h: &EndHole,
+    e: &Extent,
+    extents: &[Extent],
+    what: &str,
+) -> Result<(), BrepError> {
+    let r = e.r;
+    if let Some(f) = &spec.flange {
+        let d = ((h.centre[0] - f.centre[0]).powi(2) + (h.centre[1] - f.centre[1]).powi(2)).sqrt();
+        if h.end == End::Low && d + r >= 0.5 * f.diameter {
+            return Err(BrepError::feature(
+                what.to_string(),
+                "it breaks out of the flange's rim",
+                "move it inside the flange",
+            ));
+        }
+    }
+    let (lo, hi) = e.range();
+    for (j, o) in extents.iter().enumerate() {
+        let (lo2, hi2) = o.range();
+        let d = ((h.centre[0] - o.centre[0]).powi(2) + (h.centre[1] - o.centre[1]).powi(2)).sqrt();
+        if lo < hi2 && lo2 < hi && d <= r + o.r {
+            return Err(BrepError::feature(
+                what.to_string(),
+                format!("it overlaps end hole {}", j + 1),
+                "space the holes apart",
+            ));
+        }
+    }
+    for (j, c) in spec.cross_holes.iter().enumerate() {
+        let rc = 0.5 * c.diameter;
+        if lo < c.z + rc && c.z - rc < hi && (h.centre[0] - c.x).abs() < r + rc {
+            return Err(BrepError::feature(
+                what.to_string(),
+                format!("it meets cross hole {}", j + 1),
+                "move the cross hole beyond the end hole's depth",
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// No two cross holes overlap.
+fn check_cross_holes_apart(spec: &PieceSpec) -> Result<(), BrepError> {
     for (i, a) in spec.cross_holes.iter().enumerate() {
         for (j, b) in spec.cross_holes.iter().enumerate().skip(i + 1) {
             let (ra, rb) = (0.5 * a.diameter, 0.5 * b.diameter);
