@@ -521,7 +521,6 @@ fn flange_faces(
     mouths: Vec<Wire>,
 ) -> Result<EndFaces, BrepError> {
     let s = piece.span_sign();
-    let dir = Vector3::new(0.0, 0.0, s);
     let c = Point3::new(f.centre[0], f.centre[1], 0.0);
     let r_f = 0.5 * f.diameter;
     let z_top = piece.z_low - s * f.fillet;
@@ -537,17 +536,7 @@ fn flange_faces(
     }
     let mut faces = Vec::new();
     let low = piece.low_loop();
-    // The ring's radii about the centre.
-    let mut rho = (f64::INFINITY, 0.0f64);
-    for e in low.edge_iter() {
-        let cv = e.curve();
-        let (t0, t1) = cv.range_tuple();
-        for k in 0..=64 {
-            let p = cv.subs(t0 + (t1 - t0) * k as f64 / 64.0);
-            let d = ((p.x - c.x).powi(2) + (p.y - c.y).powi(2)).sqrt();
-            rho = (rho.0.min(d), rho.1.max(d));
-        }
-    }
+    let rho = ring_radii(&low, c);
     let foot = if f.fillet > 0.0 {
         let r = f.shank_radius;
         if (rho.1 - r).abs() > 1e-3 * r || (r - rho.0).abs() > 1e-3 * r {
@@ -578,52 +567,94 @@ fn flange_faces(
             "make the flange larger than the shank and its fillet",
         ));
     }
-    // Plate: top annulus, rim, face.
-    let frame = Frame::new(Point3::new(c.x, c.y, z_face), dir, Vector3::unit_x());
-    let h = f.thickness;
-    let vtx = |a: f64, hh: f64| Vertex::new(frame.at(r_f, a, hh));
-    let (t0, t1, b0, b1) = (vtx(0.0, h), vtx(PI, h), vtx(0.0, 0.0), vtx(PI, 0.0));
-    let circle = |a: &Vertex, b: &Vertex, hh: f64| -> Result<[Edge; 2], BrepError> {
-        Ok([
-            curve_edge(a, b, Curve::NurbsCurve(arc(&frame, r_f, hh, 0.0, PI)))?,
-            curve_edge(b, a, Curve::NurbsCurve(arc(&frame, r_f, hh, PI, 2.0 * PI)))?,
-        ])
+    let plate = Plate {
+        frame: Frame::new(
+            Point3::new(c.x, c.y, z_face),
+            Vector3::new(0.0, 0.0, s),
+            Vector3::unit_x(),
+        ),
+        r_f,
+        h: f.thickness,
     };
-    let top = circle(&t0, &t1, h)?;
-    let bottom = circle(&b0, &b1, 0.0)?;
-    let spokes = [
-        super::geom::line_edge(&t0, &b0)?,
-        super::geom::line_edge(&t1, &b1)?,
-    ];
-    let rim = Profile::line(r_f, h, r_f, 0.0);
-    for k in 0..2 {
-        let mid = (k as f64 + 0.5) * PI;
-        faces.push(sector_face(
-            &frame,
-            &rim,
-            k,
-            vec![
-                top[k].clone(),
-                spokes[(k + 1) % 2].clone(),
-                bottom[k].inverse(),
-                spokes[k].inverse(),
-            ],
-            frame.radial(mid),
-        )?);
-    }
-    faces.push(planar_face(
-        Wire::from(top.to_vec()),
-        vec![foot],
-        Point3::new(c.x, c.y, z_top),
-        dir,
-    )?);
-    faces.push(planar_face(
-        Wire::from(bottom.to_vec()),
-        mouths,
-        Point3::new(c.x, c.y, z_face),
-        -dir,
-    )?);
+    faces.extend(plate.faces(foot, mouths, z_top)?);
     Ok(EndFaces { faces })
+}
+
+/// The smallest and largest distance (in x, y) of the loop `low` from the centre `c`,
+/// 64 samples per edge.
+fn ring_radii(low: &Wire, c: Point3) -> (f64, f64) {
+    let mut rho = (f64::INFINITY, 0.0f64);
+    for e in low.edge_iter() {
+        let cv = e.curve();
+        let (t0, t1) = cv.range_tuple();
+        for k in 0..=64 {
+            let p = cv.subs(t0 + (t1 - t0) * k as f64 / 64.0);
+            let d = ((p.x - c.x).powi(2) + (p.y - c.y).powi(2)).sqrt();
+            rho = (rho.0.min(d), rho.1.max(d));
+        }
+    }
+    rho
+}
+
+/// The flange's round plate: its face at the origin of `frame` (z along the span), its
+/// rim of radius `r_f`, its top `h` above the face.
+struct Plate {
+    frame: Frame,
+    r_f: f64,
+    h: f64,
+}
+
+impl Plate {
+    /// The plate's rim (two sectors), its top annulus around `foot` (at `z_top`) and its
+    /// face with `mouths`.
+    fn faces(&self, foot: Wire, mouths: Vec<Wire>, z_top: f64) -> Result<Vec<Face>, BrepError> {
+        let (frame, r_f, h) = (&self.frame, self.r_f, self.h);
+        let (c, dir) = (frame.origin, frame.z);
+        let vtx = |a: f64, hh: f64| Vertex::new(frame.at(r_f, a, hh));
+        let (t0, t1, b0, b1) = (vtx(0.0, h), vtx(PI, h), vtx(0.0, 0.0), vtx(PI, 0.0));
+        let circle = |a: &Vertex, b: &Vertex, hh: f64| -> Result<[Edge; 2], BrepError> {
+            Ok([
+                curve_edge(a, b, Curve::NurbsCurve(arc(frame, r_f, hh, 0.0, PI)))?,
+                curve_edge(b, a, Curve::NurbsCurve(arc(frame, r_f, hh, PI, 2.0 * PI)))?,
+            ])
+        };
+        let top = circle(&t0, &t1, h)?;
+        let bottom = circle(&b0, &b1, 0.0)?;
+        let spokes = [
+            super::geom::line_edge(&t0, &b0)?,
+            super::geom::line_edge(&t1, &b1)?,
+        ];
+        let rim = Profile::line(r_f, h, r_f, 0.0);
+        let mut faces = Vec::new();
+        for k in 0..2 {
+            let mid = (k as f64 + 0.5) * PI;
+            faces.push(sector_face(
+                frame,
+                &rim,
+                k,
+                vec![
+                    top[k].clone(),
+                    spokes[(k + 1) % 2].clone(),
+                    bottom[k].inverse(),
+                    spokes[k].inverse(),
+                ],
+                frame.radial(mid),
+            )?);
+        }
+        faces.push(planar_face(
+            Wire::from(top.to_vec()),
+            vec![foot],
+            Point3::new(c.x, c.y, z_top),
+            dir,
+        )?);
+        faces.push(planar_face(
+            Wire::from(bottom.to_vec()),
+            mouths,
+            Point3::new(c.x, c.y, c.z),
+            -dir,
+        )?);
+        Ok(faces)
+    }
 }
 
 /// The fillet from the skin's low loop `low` (at the skin's low end) down to the plate
@@ -641,67 +672,99 @@ fn fillet(
     k_out: f64,
     z_top: f64,
 ) -> Result<(Vec<Face>, Wire), BrepError> {
-    let z_low = piece.z_low;
-    let profile = [
-        (1.0, z_low, 1.0),
-        (1.0, z_top, FRAC_1_SQRT_2),
-        (k_out, z_top, 1.0),
-    ];
-    let place =
-        |p: Point3, s: f64, z: f64| Point3::new(c.x + (p.x - c.x) * s, c.y + (p.y - c.y) * s, z);
-    let mut foot_of: Vec<(Vertex, Vertex)> = Vec::new();
-    let mut foot_vertex = |v: &Vertex| -> Vertex {
-        if let Some((_, f)) = foot_of.iter().find(|(a, _)| a == v) {
-            return f.clone();
-        }
-        let f = Vertex::new(place(v.point(), k_out, z_top));
-        foot_of.push((v.clone(), f.clone()));
-        f
-    };
-    let mut sides: Vec<(Vertex, Edge)> = Vec::new();
-    let mut side = |v: &Vertex, foot: &Vertex| -> Result<Edge, BrepError> {
-        if let Some((_, e)) = sides.iter().find(|(a, _)| a == v) {
-            return Ok(e.clone());
-        }
-        let p = v.point();
-        let cps = profile
-            .iter()
-            .map(|&(s, z, w)| {
-                let q = place(p, s, z);
-                Vector4::new(q.x * w, q.y * w, q.z * w, w)
-            })
-            .collect();
-        let curve = NurbsCurve::new(BSplineCurve::new(KnotVec::bezier_knot(2), cps));
-        let e = curve_edge(v, foot, Curve::NurbsCurve(curve))?;
-        sides.push((v.clone(), e.clone()));
-        Ok(e)
+    let mut sweep = Sweep {
+        c,
+        k_out,
+        z_top,
+        profile: [
+            (1.0, piece.z_low, 1.0),
+            (1.0, z_top, FRAC_1_SQRT_2),
+            (k_out, z_top, 1.0),
+        ],
+        feet: Vec::new(),
+        sides: Vec::new(),
     };
     let mut faces = Vec::new();
     let mut foot_edges = Vec::new();
     for e in low.edge_iter() {
+        let (face, foot_edge) = sweep.face(e, piece.span_sign())?;
+        faces.push(face);
+        foot_edges.push(foot_edge);
+    }
+    Ok((faces, Wire::from(foot_edges)))
+}
+
+/// The fillet's sweep (see [`fillet`]): the quarter-circle profile `(s, z, weight)`
+/// and the foot vertices and side edges made so far, shared between neighbouring
+/// faces.
+struct Sweep {
+    c: Point3,
+    k_out: f64,
+    z_top: f64,
+    profile: [(f64, f64, f64); 3],
+    /// Per top vertex, its foot.
+    feet: Vec<(Vertex, Vertex)>,
+    /// Per top vertex, the side edge down to its foot.
+    sides: Vec<(Vertex, Edge)>,
+}
+
+impl Sweep {
+    /// `p` moved radially from the centre by the factor `s`, at height `z`.
+    fn place(&self, p: Point3, s: f64, z: f64) -> Point3 {
+        let c = self.c;
+        Point3::new(c.x + (p.x - c.x) * s, c.y + (p.y - c.y) * s, z)
+    }
+
+    /// The homogeneous control points of the profile through `p`.
+    fn profile_of(&self, p: Point3) -> Vec<Vector4> {
+        self.profile
+            .iter()
+            .map(|&(s, z, w)| {
+                let q = self.place(p, s, z);
+                Vector4::new(q.x * w, q.y * w, q.z * w, w)
+            })
+            .collect()
+    }
+
+    /// The foot of the top vertex `v`.
+    fn foot_vertex(&mut self, v: &Vertex) -> Vertex {
+        if let Some((_, f)) = self.feet.iter().find(|(a, _)| a == v) {
+            return f.clone();
+        }
+        let f = Vertex::new(self.place(v.point(), self.k_out, self.z_top));
+        self.feet.push((v.clone(), f.clone()));
+        f
+    }
+
+    /// The side edge from the top vertex `v` down to its foot.
+    fn side(&mut self, v: &Vertex, foot: &Vertex) -> Result<Edge, BrepError> {
+        if let Some((_, e)) = self.sides.iter().find(|(a, _)| a == v) {
+            return Ok(e.clone());
+        }
+        let cps = self.profile_of(v.point());
+        let curve = NurbsCurve::new(BSplineCurve::new(KnotVec::bezier_knot(2), cps));
+        let e = curve_edge(v, foot, Curve::NurbsCurve(curve))?;
+        self.sides.push((v.clone(), e.clone()));
+        Ok(e)
+    }
+
+    /// The fillet face below the edge `e` of the low loop, facing outward (away from
+    /// the shank's axis and along `span_sign` toward the blade), and its foot edge.
+    fn face(&mut self, e: &Edge, span_sign: f64) -> Result<(Face, Edge), BrepError> {
+        let c = self.c;
+        let bs = as_bspline(e)?;
         // The edge as stored (front to back along its curve's parameter).
-        let bs =
-            match e.curve() {
-                Curve::BSplineCurve(b) => b,
-                Curve::Line(l) => BSplineCurve::new(KnotVec::bezier_knot(1), vec![l.0, l.1]),
-                _ => return Err(BrepError::Kernel {
-                    what: "fillet",
-                    detail:
-                        "the skin's low loop holds a curve that is neither a B-spline nor a line"
-                            .into(),
-                }),
-            };
         let (a, b) = if e.orientation() {
             (e.front().clone(), e.back().clone())
         } else {
             (e.back().clone(), e.front().clone())
         };
-        let (fa, fb) = (foot_vertex(&a), foot_vertex(&b));
+        let (fa, fb) = (self.foot_vertex(&a), self.foot_vertex(&b));
         let foot_curve = BSplineCurve::new(
             bs.knot_vec().clone(),
             bs.control_points()
                 .iter()
-                .map(|&p| place(p, k_out, z_top))
+                .map(|&p| self.place(p, self.k_out, self.z_top))
                 .collect(),
         );
         let top_edge = if e.orientation() {
@@ -710,19 +773,11 @@ fn fillet(
             e.inverse()
         };
         let foot_edge = curve_edge(&fa, &fb, Curve::BSplineCurve(foot_curve))?;
-        let (sa, sb) = (side(&a, &fa)?, side(&b, &fb)?);
+        let (sa, sb) = (self.side(&a, &fa)?, self.side(&b, &fb)?);
         let cps: Vec<Vec<Vector4>> = bs
             .control_points()
             .iter()
-            .map(|&p| {
-                profile
-                    .iter()
-                    .map(|&(s, z, w)| {
-                        let q = place(p, s, z);
-                        Vector4::new(q.x * w, q.y * w, q.z * w, w)
-                    })
-                    .collect()
-            })
+            .map(|&p| self.profile_of(p))
             .collect();
         let surface = NurbsSurface::new(BSplineSurface::new(
             (bs.knot_vec().clone(), KnotVec::bezier_knot(2)),
@@ -733,19 +788,31 @@ fn fillet(
         let um = 0.5 * (t0 + t1);
         let pm = surface.subs(um, 0.5);
         let radial = Vector3::new(pm.x - c.x, pm.y - c.y, 0.0).normalize();
-        let outward = radial + Vector3::new(0.0, 0.0, piece.span_sign());
+        let outward = radial + Vector3::new(0.0, 0.0, span_sign);
         let natural = surface.normal(um, 0.5);
         let w = turned(
             Wire::from(vec![top_edge, sb, foot_edge.inverse(), sa.inverse()]),
             outward,
             true,
         );
-        faces.push(oriented_face(
+        let face = oriented_face(
             vec![w],
             Surface::NurbsSurface(surface),
             natural.dot(outward) > 0.0,
-        )?);
-        foot_edges.push(foot_edge);
+        )?;
+        Ok((face, foot_edge))
     }
-    Ok((faces, Wire::from(foot_edges)))
+}
+
+/// The curve of an edge of the skin's low loop as a B-spline (a line as one of degree 1).
+fn as_bspline(e: &Edge) -> Result<BSplineCurve<Point3>, BrepError> {
+    match e.curve() {
+        Curve::BSplineCurve(b) => Ok(b),
+        Curve::Line(l) => Ok(BSplineCurve::new(KnotVec::bezier_knot(1), vec![l.0, l.1])),
+        _ => Err(BrepError::Kernel {
+            what: "fillet",
+            detail: "the skin's low loop holds a curve that is neither a B-spline nor a line"
+                .into(),
+        }),
+    }
 }
