@@ -11,7 +11,7 @@
 //! strips.
 
 use crate::mesh::TriMesh;
-use crate::root::RootSpec;
+use crate::root::{BoreSpec, FlangeSpec, RootSpec};
 use nalgebra::{Point2, Point3, Vector3};
 
 /// Why a cross hole could not be cut into the meshed shank. Validated roots
@@ -114,98 +114,157 @@ fn add_lathe_features(
     face: f64,
 ) -> Result<(), MountError> {
     mesh.triangles.drain(cap);
-    let pts: Vec<Point3<f64>> = ring.iter().map(|&i| mesh.vertices[i as usize]).collect();
-    let z_ring = pts[0].z;
-    // The blade records the exact centre (a flat moves the box's middle).
-    let c = shank_centre(mesh, ring, root);
-    let dirs: Vec<(Vector3<f64>, f64)> = pts
-        .iter()
-        .map(|p| {
-            let d = Vector3::new(p.x - c.x, p.y - c.y, 0.0);
-            let rho = d.norm();
-            (d / rho, rho)
-        })
-        .collect();
-    let at = |k: usize, rho: f64, z: f64| {
-        Point3::new(c.x + dirs[k].0.x * rho, c.y + dirs[k].0.y * rho, z)
-    };
-    let n = ring.len();
+    let lathe = Lathe::new(mesh, ring, root);
+    let outer = lathe.outer_profile(mesh, ring, root.flange.as_ref(), face);
+    for w in outer.windows(2) {
+        strip(mesh, &w[0], &w[1], lathe.c);
+    }
+    let bottom = outer.last().expect("at least the ring").clone();
+    match &root.bore {
+        Some(b) if root.flange.is_none() => lathe.bore_in_ring(mesh, &bottom, b, root, face)?,
+        Some(b) => lathe.bore_in_flange(mesh, &bottom, b, root, face),
+        None => lathe.close_face(mesh, &bottom, face),
+    }
+    Ok(())
+}
 
-    // Outer profile from the ring down to the root face: rings of vertex indices.
-    let mut outer: Vec<Vec<u32>> = vec![ring.to_vec()];
-    if let Some(f) = &root.flange {
+/// The lathe of the root ring: the shank centre and, per ring vertex, its direction
+/// and distance from the centre (see the module docs).
+struct Lathe {
+    /// The shank centre (z = 0).
+    c: Point3<f64>,
+    /// Unit direction (z = 0) and distance from `c` of each ring vertex.
+    dirs: Vec<(Vector3<f64>, f64)>,
+}
+
+impl Lathe {
+    fn new(mesh: &TriMesh, ring: &[u32], root: &RootSpec) -> Lathe {
+        // The blade records the exact centre (a flat moves the box's middle).
+        let c = shank_centre(mesh, ring, root);
+        let dirs = ring
+            .iter()
+            .map(|&i| {
+                let p = mesh.vertices[i as usize];
+                let d = Vector3::new(p.x - c.x, p.y - c.y, 0.0);
+                let rho = d.norm();
+                (d / rho, rho)
+            })
+            .collect();
+        Lathe { c, dirs }
+    }
+
+    /// The point at distance `rho` from the centre in the direction of ring vertex `k`,
+    /// at height `z`.
+    fn at(&self, k: usize, rho: f64, z: f64) -> Point3<f64> {
+        let c = self.c;
+        let d = self.dirs[k].0;
+        Point3::new(c.x + d.x * rho, c.y + d.y * rho, z)
+    }
+
+    /// A ring of new vertices, one per ring direction, at `rho(k)` and height `z`.
+    fn new_ring(&self, mesh: &mut TriMesh, rho: impl Fn(usize) -> f64, z: f64) -> Vec<u32> {
+        (0..self.dirs.len())
+            .map(|k| mesh.push_vertex(self.at(k, rho(k), z)))
+            .collect()
+    }
+
+    /// The outer profile from the ring down to the root face, as rings of vertex
+    /// indices: the ring itself, then with a flange the fillet's rings (a quarter
+    /// circle), the plate's top rim and its bottom rim in the root face.
+    fn outer_profile(
+        &self,
+        mesh: &mut TriMesh,
+        ring: &[u32],
+        flange: Option<&FlangeSpec>,
+        face: f64,
+    ) -> Vec<Vec<u32>> {
+        let mut outer: Vec<Vec<u32>> = vec![ring.to_vec()];
+        let Some(f) = flange else {
+            debug_assert!((mesh.vertices[ring[0] as usize].z - face).abs() < 1e-9);
+            return outer;
+        };
         let z_top = face + f.thickness;
         let steps = if f.fillet > 0.0 { FILLET_STEPS } else { 0 };
         for s in 1..=steps {
             // Quarter circle from (rho, z_top + r) to (rho + r, z_top).
             let th = std::f64::consts::FRAC_PI_2 * s as f64 / FILLET_STEPS as f64;
             let (dr, dz) = (f.fillet * (1.0 - th.cos()), f.fillet * (1.0 - th.sin()));
-            let rho_z = z_top + dz;
-            outer.push(
-                (0..n)
-                    .map(|k| mesh.push_vertex(at(k, dirs[k].1 + dr, rho_z)))
-                    .collect(),
-            );
+            outer.push(self.new_ring(mesh, |k| self.dirs[k].1 + dr, z_top + dz));
         }
         let r_f = 0.5 * f.diameter;
-        outer.push(
-            (0..n)
-                .map(|k| mesh.push_vertex(at(k, r_f, z_top)))
-                .collect(),
-        );
-        outer.push((0..n).map(|k| mesh.push_vertex(at(k, r_f, face))).collect());
-    } else {
-        debug_assert!((z_ring - face).abs() < 1e-9);
+        outer.push(self.new_ring(mesh, |_| r_f, z_top));
+        outer.push(self.new_ring(mesh, |_| r_f, face));
+        outer
     }
-    for w in outer.windows(2) {
-        strip(mesh, &w[0], &w[1], c);
-    }
-    let bottom = outer.last().expect("at least the ring").clone();
 
-    match &root.bore {
-        Some(b) if root.flange.is_none() => {
-            let rb = 0.5 * b.diameter;
-            let sides = n.max(12);
-            let mut circle = |z: f64| -> Vec<u32> {
-                (0..sides)
-                    .map(|k| {
-                        let t = std::f64::consts::TAU * k as f64 / sides as f64;
-                        mesh.push_vertex(Point3::new(c.x + rb * t.cos(), c.y + rb * t.sin(), z))
-                    })
-                    .collect()
-            };
-            let mouth = circle(face);
-            let floor = circle(face + b.depth);
-            annulus(mesh, &bottom, &mouth)?;
-            strip(mesh, &mouth, &floor, c);
-            let apex = mesh.push_vertex(Point3::new(
-                c.x,
-                c.y,
-                face + b.depth + root.bore_point_depth(),
-            ));
-            fan(mesh, &floor, apex, c);
-        }
-        Some(b) => {
-            let rb = 0.5 * b.diameter;
-            let mouth: Vec<u32> = (0..n).map(|k| mesh.push_vertex(at(k, rb, face))).collect();
-            let floor: Vec<u32> = (0..n)
-                .map(|k| mesh.push_vertex(at(k, rb, face + b.depth)))
-                .collect();
-            strip(mesh, &bottom, &mouth, c);
-            strip(mesh, &mouth, &floor, c);
-            let apex = mesh.push_vertex(Point3::new(
-                c.x,
-                c.y,
-                face + b.depth + root.bore_point_depth(),
-            ));
-            fan(mesh, &floor, apex, c);
-        }
-        None => {
-            let centre = mesh.push_vertex(Point3::new(c.x, c.y, face));
-            fan(mesh, &bottom, centre, c);
-        }
+    /// The bore opening in the root face inside the skin's own ring (no flange): the
+    /// face between `bottom` and the mouth triangulated, the bore a circle of as many
+    /// sides as the ring (at least 12), then its wall and drill point.
+    fn bore_in_ring(
+        &self,
+        mesh: &mut TriMesh,
+        bottom: &[u32],
+        b: &BoreSpec,
+        root: &RootSpec,
+        face: f64,
+    ) -> Result<(), MountError> {
+        let c = self.c;
+        let rb = 0.5 * b.diameter;
+        let sides = self.dirs.len().max(12);
+        let mut circle = |z: f64| -> Vec<u32> {
+            (0..sides)
+                .map(|k| {
+                    let t = std::f64::consts::TAU * k as f64 / sides as f64;
+                    mesh.push_vertex(Point3::new(c.x + rb * t.cos(), c.y + rb * t.sin(), z))
+                })
+                .collect()
+        };
+        let mouth = circle(face);
+        let floor = circle(face + b.depth);
+        annulus(mesh, bottom, &mouth)?;
+        strip(mesh, &mouth, &floor, c);
+        self.drill_point(mesh, &floor, b, root, face);
+        Ok(())
     }
-    Ok(())
+
+    /// The bore opening in the flange's face: mouth and floor on the ring's directions,
+    /// joined to `bottom` by a strip, then its wall and drill point.
+    fn bore_in_flange(
+        &self,
+        mesh: &mut TriMesh,
+        bottom: &[u32],
+        b: &BoreSpec,
+        root: &RootSpec,
+        face: f64,
+    ) {
+        let rb = 0.5 * b.diameter;
+        let mouth = self.new_ring(mesh, |_| rb, face);
+        let floor = self.new_ring(mesh, |_| rb, face + b.depth);
+        strip(mesh, bottom, &mouth, self.c);
+        strip(mesh, &mouth, &floor, self.c);
+        self.drill_point(mesh, &floor, b, root, face);
+    }
+
+    /// The bore's floor closed by a fan to the drill point's apex (on the floor's
+    /// plane for a flat floor).
+    fn drill_point(
+        &self,
+        mesh: &mut TriMesh,
+        floor: &[u32],
+        b: &BoreSpec,
+        root: &RootSpec,
+        face: f64,
+    ) {
+        let (c, z) = (self.c, face + b.depth + root.bore_point_depth());
+        let apex = mesh.push_vertex(Point3::new(c.x, c.y, z));
+        fan(mesh, floor, apex, c);
+    }
+
+    /// The root face without a bore: a fan from `bottom` to the centre.
+    fn close_face(&self, mesh: &mut TriMesh, bottom: &[u32], face: f64) {
+        let centre = mesh.push_vertex(Point3::new(self.c.x, self.c.y, face));
+        fan(mesh, bottom, centre, self.c);
+    }
 }
 
 /// The planar face between the loop `outer` and the loop `inner` inside it (both in the

@@ -14,7 +14,7 @@ use super::skin::{SkinPiece, SpanMap};
 use super::BrepError;
 use crate::loft::{Basis, Skin};
 use std::f64::consts::{PI, TAU};
-use truck_modeling::{Curve, Face, Point3, Vector3, Vertex, Wire};
+use truck_modeling::{Curve, Edge, Face, Point3, Vector3, Vertex, Wire};
 
 /// A round hole through the skin along the rotor axis (y), its axis the line
 /// `x = x, z = z`.
@@ -142,6 +142,18 @@ impl Tracer<'_> {
     }
 }
 
+/// One crossing of the hole's rim with the skin per side (larger y first), at one angle:
+/// `(u, v, point)`.
+type Crossing = [(f64, f64, Point3); 2];
+
+/// One rim of the hole on the skin: two fitted halves joined at `phi = 0` and `pi`.
+struct Rim {
+    /// The halves, `phi` in `[0, pi]` and `[pi, 2 pi]`.
+    edges: [Edge; 2],
+    /// The vertices at `phi = 0` and `pi`.
+    verts: [Vertex; 2],
+}
+
 /// Cuts `hole` (number `index`, for messages) into the skin faces of `piece`; returns
 /// the hole's wall faces.
 pub(crate) fn cut_cross_hole(
@@ -152,10 +164,39 @@ pub(crate) fn cut_cross_hole(
     planar: f64,
 ) -> Result<Vec<Face>, BrepError> {
     let what = format!("cross hole {} (z = {} mm)", index + 1, hole.z);
+    let r = checked_radius(piece, hole, &what)?;
+    let map = SpanMap::new(skin, planar)?;
+    let samples = sample_rims(skin, &map, hole, r, &what)?;
+    let sides = faces_of_sides(skin, &samples, &what)?;
+    let tracer = Tracer {
+        skin,
+        map: &map,
+        x: hole.x,
+        z: hole.z,
+        r,
+        table: trace_table(&samples),
+    };
+    let rims = [fit_rim(&tracer, 0, &what)?, fit_rim(&tracer, 1, &what)?];
+    // Inner loops of the skin faces: clockwise in the face's (u, v) parameters.
+    for s in 0..2 {
+        let area: f64 = (0..samples.len())
+            .map(|k| {
+                let (a, b) = (samples[k][s], samples[(k + 1) % samples.len()][s]);
+                a.0 * b.1 - b.0 * a.1
+            })
+            .sum();
+        let w = Wire::from(rims[s].edges.to_vec());
+        piece.add_hole(sides[s], if area > 0.0 { w.inverse() } else { w });
+    }
+    wall_faces(hole, r, &samples, &rims)
+}
+
+/// The hole's radius, once its size is finite and it lies clear of the piece's ends.
+fn checked_radius(piece: &SkinPiece, hole: &CrossHole, what: &str) -> Result<f64, BrepError> {
     let r = 0.5 * hole.diameter;
     if !(r > 0.0 && r.is_finite() && hole.x.is_finite() && hole.z.is_finite()) {
         return Err(BrepError::feature(
-            what,
+            what.to_string(),
             format!("diameter {} mm", hole.diameter),
             "give a positive diameter and finite position",
         ));
@@ -163,7 +204,7 @@ pub(crate) fn cut_cross_hole(
     let (lo, hi) = (piece.z_low.min(piece.z_high), piece.z_low.max(piece.z_high));
     if !(hole.z - r > lo && hole.z + r < hi) {
         return Err(BrepError::feature(
-            what,
+            what.to_string(),
             format!(
                 "the hole reaches from z = {} to {} mm, outside the skin piece's {lo} .. {hi} mm",
                 hole.z - r,
@@ -172,22 +213,36 @@ pub(crate) fn cut_cross_hole(
             "move the hole onto the skin, clear of the piece's ends",
         ));
     }
-    let map = SpanMap::new(skin, planar)?;
+    Ok(r)
+}
+
+/// Both rims sampled at 64 angles: each line along y must cross the skin exactly twice.
+fn sample_rims(
+    skin: &Skin,
+    map: &SpanMap<'_>,
+    hole: &CrossHole,
+    r: f64,
+    what: &str,
+) -> Result<Vec<Crossing>, BrepError> {
     let at = |phi: f64| {
         let (s, c) = phi.sin_cos();
-        crossings(skin, &map, hole.x + r * c, hole.z + r * s)
+        crossings(skin, map, hole.x + r * c, hole.z + r * s)
     };
-    // Both loops, sampled, must each stay inside one skin face.
-    let samples: Vec<[(f64, f64, Point3); 2]> = (0..64)
+    (0..64)
         .map(|k| at(TAU * k as f64 / 64.0))
         .collect::<Option<_>>()
         .ok_or_else(|| {
             BrepError::feature(
-                what.clone(),
+                what.to_string(),
                 "its rim does not cross the skin exactly twice all round (it breaks out at an edge of the section)",
                 "move the hole inside the section or make it smaller",
             )
-        })?;
+        })
+}
+
+/// The skin face (0 upper, 1 lower) each rim lies on: each must stay inside one face,
+/// and the two rims on different faces.
+fn faces_of_sides(skin: &Skin, samples: &[Crossing], what: &str) -> Result<[usize; 2], BrepError> {
     let margin = 1e-4;
     let u_le = skin.u_le;
     let mut sides = [0usize; 2];
@@ -214,53 +269,47 @@ pub(crate) fn cut_cross_hole(
             reason: format!("{what}: entry and exit lie on the same skin face"),
         });
     }
-    // Fitted halves of each loop, vertices at phi = 0 and pi.
+    Ok(sides)
+}
+
+/// The tracer's table: `(u, v)` per side at each sample, the first repeated at the end.
+fn trace_table(samples: &[Crossing]) -> Vec<[(f64, f64); 2]> {
     let mut table: Vec<[(f64, f64); 2]> = samples
         .iter()
         .map(|c| [(c[0].0, c[0].1), (c[1].0, c[1].1)])
         .collect();
     table.push(table[0]);
-    let tracer = Tracer {
-        skin,
-        map: &map,
-        x: hole.x,
-        z: hole.z,
-        r,
-        table,
-    };
-    let mut loops: Vec<[truck_modeling::Edge; 2]> = Vec::new();
-    let mut verts: Vec<[Vertex; 2]> = Vec::new();
-    for s in 0..2 {
-        let exact = |phi: f64| tracer.at(phi, s);
-        let halves: Vec<truck_modeling::BSplineCurve<Point3>> = (0..2)
-            .map(|h| fit_curve(h as f64 * PI, (h + 1) as f64 * PI, &exact))
-            .collect::<Option<_>>()
-            .ok_or_else(|| BrepError::NotExact {
-                feature: "cross hole",
-                reason: format!(
-                    "{what}: its rim could not be fitted within 1e-7 mm by 1024 points"
-                ),
-            })?;
-        let v0 = Vertex::new(*halves[0].control_points().first().expect("fitted"));
-        let v1 = Vertex::new(*halves[1].control_points().first().expect("fitted"));
-        let e0 = curve_edge(&v0, &v1, Curve::BSplineCurve(halves[0].clone()))?;
-        let e1 = curve_edge(&v1, &v0, Curve::BSplineCurve(halves[1].clone()))?;
-        loops.push([e0, e1]);
-        verts.push([v0, v1]);
-    }
-    // Inner loops of the skin faces: clockwise in the face's (u, v) parameters.
-    for s in 0..2 {
-        let area: f64 = (0..samples.len())
-            .map(|k| {
-                let (a, b) = (samples[k][s], samples[(k + 1) % samples.len()][s]);
-                a.0 * b.1 - b.0 * a.1
-            })
-            .sum();
-        let w = Wire::from(loops[s].to_vec());
-        piece.add_hole(sides[s], if area > 0.0 { w.inverse() } else { w });
-    }
-    // The wall: the cylinder about the hole's axis (frame z = -y, angle phi from +x
-    // toward +z), reaching past both loops.
+    table
+}
+
+/// The rim of side `s`, fitted in two halves with vertices at `phi = 0` and `pi`.
+fn fit_rim(tracer: &Tracer<'_>, s: usize, what: &str) -> Result<Rim, BrepError> {
+    let exact = |phi: f64| tracer.at(phi, s);
+    let halves: Vec<truck_modeling::BSplineCurve<Point3>> = (0..2)
+        .map(|h| fit_curve(h as f64 * PI, (h + 1) as f64 * PI, &exact))
+        .collect::<Option<_>>()
+        .ok_or_else(|| BrepError::NotExact {
+            feature: "cross hole",
+            reason: format!("{what}: its rim could not be fitted within 1e-7 mm by 1024 points"),
+        })?;
+    let v0 = Vertex::new(*halves[0].control_points().first().expect("fitted"));
+    let v1 = Vertex::new(*halves[1].control_points().first().expect("fitted"));
+    let e0 = curve_edge(&v0, &v1, Curve::BSplineCurve(halves[0].clone()))?;
+    let e1 = curve_edge(&v1, &v0, Curve::BSplineCurve(halves[1].clone()))?;
+    Ok(Rim {
+        edges: [e0, e1],
+        verts: [v0, v1],
+    })
+}
+
+/// The wall: the cylinder about the hole's axis (frame z = -y, angle phi from +x
+/// toward +z), reaching past both rims, in two sectors.
+fn wall_faces(
+    hole: &CrossHole,
+    r: f64,
+    samples: &[Crossing],
+    rims: &[Rim; 2],
+) -> Result<Vec<Face>, BrepError> {
     let frame = Frame {
         origin: Point3::new(hole.x, 0.0, hole.z),
         x: Vector3::unit_x(),
@@ -276,8 +325,8 @@ pub(crate) fn cut_cross_hole(
     let pad = 0.1 * (ymax - ymin) + r;
     let profile = Profile::line(r, -(ymax + pad), r, -(ymin - pad));
     let lines = [
-        line_edge(&verts[0][0], &verts[1][0])?,
-        line_edge(&verts[0][1], &verts[1][1])?,
+        line_edge(&rims[0].verts[0], &rims[1].verts[0])?,
+        line_edge(&rims[0].verts[1], &rims[1].verts[1])?,
     ];
     let mut faces = Vec::new();
     for k in 0..2 {
@@ -287,9 +336,9 @@ pub(crate) fn cut_cross_hole(
             &profile,
             k,
             vec![
-                loops[0][k].clone(),
+                rims[0].edges[k].clone(),
                 lines[(k + 1) % 2].clone(),
-                loops[1][k].inverse(),
+                rims[1].edges[k].inverse(),
                 lines[k].inverse(),
             ],
             -frame.radial(mid),

@@ -46,90 +46,154 @@ pub fn hub_solid(hub: &Hub) -> Result<Solid, BrepError> {
             "give a positive size",
         ));
     }
-    // Angle a about +y, measured from +z toward +x (the hub's convention).
-    let axis = Frame {
-        origin: Point3::new(0.0, 0.0, 0.0),
-        x: Vector3::unit_z(),
-        y: Vector3::unit_x(),
-        z: Vector3::unit_y(),
-    };
+    let sectors = Sectors::new(hub, rr, h)?;
     let mut faces: Vec<Face> = Vec::new();
-    // Rim sectors.
-    let (bounds, socket_of): (Vec<f64>, Vec<Option<usize>>) = match &hub.sockets {
-        None => (vec![0.0, PI, TAU], vec![None, None]),
-        Some(s) => {
-            let m = s.angles.len() * sectors_per_socket(s.angles.len());
-            let start = hub.rim_start.to_radians();
-            let bounds: Vec<f64> = (0..=m).map(|k| start + TAU * k as f64 / m as f64).collect();
-            let mut of = vec![None; m];
-            for (j, &psi) in s.angles.iter().enumerate() {
-                let a = (psi.to_radians() - start).rem_euclid(TAU);
-                let k = ((a / TAU * m as f64).floor() as usize).min(m - 1);
-                let half = (s.radius / rr).asin();
-                let (lo, hi) = (TAU * k as f64 / m as f64, TAU * (k + 1) as f64 / m as f64);
-                if !(a - half > lo && a + half < hi) || s.radius >= h {
-                    return Err(BrepError::feature(
-                        format!("hub socket {}", j + 1),
-                        "its opening does not fit between the neighbouring sockets and the hub's faces",
-                        "use fewer blades, a thicker hub or a thinner shank",
-                    ));
-                }
-                of[k] = Some(j);
-            }
-            (bounds, of)
-        }
-    };
-    let n = bounds.len() - 1;
-    let top: Vec<Vertex> = (0..n)
-        .map(|k| Vertex::new(axis.at(rr, bounds[k], h)))
-        .collect();
-    let bot: Vec<Vertex> = (0..n)
-        .map(|k| Vertex::new(axis.at(rr, bounds[k], -h)))
-        .collect();
-    let mut top_arcs = Vec::new();
-    let mut bot_arcs = Vec::new();
-    for k in 0..n {
-        let k1 = (k + 1) % n;
-        top_arcs.push(curve_edge(
-            &top[k],
-            &top[k1],
-            Curve::NurbsCurve(arc(&axis, rr, h, bounds[k], bounds[k + 1])),
-        )?);
-        bot_arcs.push(curve_edge(
-            &bot[k],
-            &bot[k1],
-            Curve::NurbsCurve(arc(&axis, rr, -h, bounds[k], bounds[k + 1])),
-        )?);
-    }
-    let sides: Vec<Edge> = (0..n)
-        .map(|k| line_edge(&top[k], &bot[k]))
-        .collect::<Result<_, _>>()?;
-    let rim = Profile::line(rr, -h, rr, h);
-    for k in 0..n {
-        let k1 = (k + 1) % n;
-        let outer = Wire::from(vec![
-            top_arcs[k].clone(),
-            sides[k1].clone(),
-            bot_arcs[k].inverse(),
-            sides[k].inverse(),
-        ]);
-        let mid = 0.5 * (bounds[k] + bounds[k + 1]);
-        let mut inner = Vec::new();
-        if let (Some(j), Some(s)) = (socket_of[k], &hub.sockets) {
-            let (opening, socket_faces) = socket(rr, s.radius, s.floor, s.angles[j], j)?;
-            inner.push(opening);
-            faces.extend(socket_faces);
-        }
-        faces.push(revolved_face(
-            &axis,
-            &rim,
-            (bounds[k], bounds[k + 1]),
-            outer,
-            inner,
-            axis.radial(mid),
-        )?);
-    }
+    let rim = sectors.rim(hub, rr, h, &mut faces)?;
     // Bore and bolt holes: through holes from the bottom face to the top.
+    let (mut top_mouths, mut bot_mouths) = (Vec::new(), Vec::new());
+    for (x, z, r) in through_holes(hub) {
+        let frame = Frame::new(Point3::new(x, -h, z), Vector3::unit_y(), Vector3::unit_z());
+        let hf = hole(&frame, r, 2.0 * h, Bottom::Through)?;
+        faces.extend(hf.faces);
+        bot_mouths.push(hf.mouth);
+        top_mouths.extend(hf.far_mouth);
+    }
+    faces.push(planar_face(
+        Wire::from(rim.top_arcs),
+        top_mouths,
+        Point3::new(0.0, h, 0.0),
+        Vector3::unit_y(),
+    )?);
+    faces.push(planar_face(
+        Wire::from(rim.bot_arcs),
+        bot_mouths,
+        Point3::new(0.0, -h, 0.0),
+        -Vector3::unit_y(),
+    )?);
+    closed_solid(faces)
+}
+
+/// Angle a about +y, measured from +z toward +x (the hub's convention).
+const AXIS: Frame = Frame {
+    origin: Point3::new(0.0, 0.0, 0.0),
+    x: Vector3::new(0.0, 0.0, 1.0),
+    y: Vector3::new(1.0, 0.0, 0.0),
+    z: Vector3::new(0.0, 1.0, 0.0),
+};
+
+/// The rim's sectors: their bounding angles (radians, the last a full turn after the
+/// first) and the socket each holds.
+struct Sectors {
+    bounds: Vec<f64>,
+    socket_of: Vec<Option<usize>>,
+}
+
+/// The rim's edges along the top and bottom faces, one arc per sector.
+struct RimEdges {
+    top_arcs: Vec<Edge>,
+    bot_arcs: Vec<Edge>,
+}
+
+impl Sectors {
+    /// Two half-turns without sockets; else [`sectors_per_socket`] per socket, each
+    /// socket's opening inside its sector and clear of the faces (half thickness `h`).
+    fn new(hub: &Hub, rr: f64, h: f64) -> Result<Sectors, BrepError> {
+        let Some(s) = &hub.sockets else {
+            return Ok(Sectors {
+                bounds: vec![0.0, PI, TAU],
+                socket_of: vec![None, None],
+            });
+        };
+        let m = s.angles.len() * sectors_per_socket(s.angles.len());
+        let start = hub.rim_start.to_radians();
+        let bounds: Vec<f64> = (0..=m).map(|k| start + TAU * k as f64 / m as f64).collect();
+        let mut of = vec![None; m];
+        for (j, &psi) in s.angles.iter().enumerate() {
+            let a = (psi.to_radians() - start).rem_euclid(TAU);
+            let k = ((a / TAU * m as f64).floor() as usize).min(m - 1);
+            let half = (s.radius / rr).asin();
+            let (lo, hi) = (TAU * k as f64 / m as f64, TAU * (k + 1) as f64 / m as f64);
+            if !(a - half > lo && a + half < hi) || s.radius >= h {
+                return Err(BrepError::feature(
+                    format!("hub socket {}", j + 1),
+                    "its opening does not fit between the neighbouring sockets and the hub's faces",
+                    "use fewer blades, a thicker hub or a thinner shank",
+                ));
+            }
+            of[k] = Some(j);
+        }
+        Ok(Sectors {
+            bounds,
+            socket_of: of,
+        })
+    }
+
+    /// The rim's cylinder sectors (each socket's faces before its sector) pushed onto
+    /// `faces`; returns the arcs along the top and bottom faces.
+    fn rim(
+        &self,
+        hub: &Hub,
+        rr: f64,
+        h: f64,
+        faces: &mut Vec<Face>,
+    ) -> Result<RimEdges, BrepError> {
+        let (axis, bounds) = (&AXIS, &self.bounds);
+        let n = bounds.len() - 1;
+        let top: Vec<Vertex> = (0..n)
+            .map(|k| Vertex::new(axis.at(rr, bounds[k], h)))
+            .collect();
+        let bot: Vec<Vertex> = (0..n)
+            .map(|k| Vertex::new(axis.at(rr, bounds[k], -h)))
+            .collect();
+        let mut top_arcs = Vec::new();
+        let mut bot_arcs = Vec::new();
+        for k in 0..n {
+            let k1 = (k + 1) % n;
+            top_arcs.push(curve_edge(
+                &top[k],
+                &top[k1],
+                Curve::NurbsCurve(arc(axis, rr, h, bounds[k], bounds[k + 1])),
+            )?);
+            bot_arcs.push(curve_edge(
+                &bot[k],
+                &bot[k1],
+                Curve::NurbsCurve(arc(axis, rr, -h, bounds[k], bounds[k + 1])),
+            )?);
+        }
+        let sides: Vec<Edge> = (0..n)
+            .map(|k| line_edge(&top[k], &bot[k]))
+            .collect::<Result<_, _>>()?;
+        let rim = Profile::line(rr, -h, rr, h);
+        for k in 0..n {
+            let k1 = (k + 1) % n;
+            let outer = Wire::from(vec![
+                top_arcs[k].clone(),
+                sides[k1].clone(),
+                bot_arcs[k].inverse(),
+                sides[k].inverse(),
+            ]);
+            let mid = 0.5 * (bounds[k] + bounds[k + 1]);
+            let mut inner = Vec::new();
+            if let (Some(j), Some(s)) = (self.socket_of[k], &hub.sockets) {
+                let (opening, socket_faces) = socket(rr, s.radius, s.floor, s.angles[j], j)?;
+                inner.push(opening);
+                faces.extend(socket_faces);
+            }
+            faces.push(revolved_face(
+                axis,
+                &rim,
+                (bounds[k], bounds[k + 1]),
+                outer,
+                inner,
+                axis.radial(mid),
+            )?);
+        }
+        Ok(RimEdges { top_arcs, bot_arcs })
+    }
+}
+
+/// The bore and the bolt holes, all through along y: `(x, z, radius)` of each.
+fn through_holes(hub: &Hub) -> Vec<(f64, f64, f64)> {
     let mut holes: Vec<(f64, f64, f64)> = Vec::new();
     if let Some(rb) = hub.bore_radius {
         holes.push((0.0, 0.0, rb));
@@ -140,27 +204,7 @@ pub fn hub_solid(hub: &Hub) -> Result<Solid, BrepError> {
             holes.push((rc * a.sin(), rc * a.cos(), rh));
         }
     }
-    let (mut top_mouths, mut bot_mouths) = (Vec::new(), Vec::new());
-    for (x, z, r) in holes {
-        let frame = Frame::new(Point3::new(x, -h, z), Vector3::unit_y(), Vector3::unit_z());
-        let hf = hole(&frame, r, 2.0 * h, Bottom::Through)?;
-        faces.extend(hf.faces);
-        bot_mouths.push(hf.mouth);
-        top_mouths.extend(hf.far_mouth);
-    }
-    faces.push(planar_face(
-        Wire::from(top_arcs),
-        top_mouths,
-        Point3::new(0.0, h, 0.0),
-        Vector3::unit_y(),
-    )?);
-    faces.push(planar_face(
-        Wire::from(bot_arcs),
-        bot_mouths,
-        Point3::new(0.0, -h, 0.0),
-        -Vector3::unit_y(),
-    )?);
-    closed_solid(faces)
+    holes
 }
 
 /// Socket `j` at angle `psi` (degrees from +z toward +x) of radius `rs`, its floor at

@@ -112,7 +112,29 @@ pub fn one_piece_solid(
             "give one placement per blade, at least three",
         ));
     }
-    // The blade without its root cap, in the blade frame.
+    let blade = open_blade(skin, hub)?;
+    let mut prism = Prism::new(hub);
+    let mut faces: Vec<Face> = Vec::new();
+    for (k, (frame, place)) in hub.face_frames.iter().zip(placements).enumerate() {
+        let side = prism.side(frame)?;
+        let (placed, root) = placed_blade(&blade, place)?;
+        check_root_in_face(&root, frame, hub, k)?;
+        let normal = frame.transform_vector(&nalgebra::Vector3::z());
+        faces.push(planar_face(
+            side.outer,
+            vec![root],
+            side.middle,
+            Vector3::new(normal.x, normal.y, normal.z),
+        )?);
+        faces.extend(placed.face_into_iter());
+    }
+    faces.extend(prism.end_faces()?);
+    closed_solid(faces)
+}
+
+/// The blade without its root cap, in the blade frame: skin faces and tip cap; its
+/// root face must lie in the plane of the hub's side faces.
+fn open_blade(skin: &Skin, hub: &PrismHub) -> Result<Shell, BrepError> {
     let piece = SkinPiece::new(skin, Cut::SkinEnd, Cut::SkinEnd, &SkinOptions::DEFAULT)?;
     if (piece.z_low - hub.root_face).abs() > 1e-6 * hub.root_face.abs().max(1.0) {
         return Err(BrepError::feature(
@@ -133,118 +155,171 @@ pub fn one_piece_solid(
     )?;
     let mut blade: Shell = piece.faces()?.into();
     blade.push(tip);
+    Ok(blade)
+}
+
+/// The blade placed by `place` and its root loop (the shell's only open boundary).
+fn placed_blade(blade: &Shell, place: &Matrix4<f64>) -> Result<(Shell, Wire), BrepError> {
+    let placed: Shell = truck_modeling::builder::transformed(blade, to_truck(place));
+    let mut open = placed.extract_boundaries();
+    if open.len() != 1 {
+        return Err(BrepError::Kernel {
+            what: "one-piece blade",
+            detail: format!(
+                "the blade without its root cap has {} open loops, not 1",
+                open.len()
+            ),
+        });
+    }
+    let root = open.remove(0);
+    Ok((placed, root))
+}
+
+/// The root loop of blade `k` must lie in its side face (`frame`), inside its rectangle.
+fn check_root_in_face(
+    root: &Wire,
+    frame: &Matrix4<f64>,
+    hub: &PrismHub,
+    k: usize,
+) -> Result<(), BrepError> {
     let (y0, y1) = hub.y_range;
-    let hw = hub.half_width;
-    // Prism corners, shared between neighbouring side faces and the end polygons.
-    let mut corners: Vec<Vertex> = Vec::new();
-    let mut corner = |p: Point3| -> Vertex {
-        let tol = 1e-9 * hub.root_face.max(1.0);
-        if let Some(v) = corners.iter().find(|v| {
+    let inv = frame.try_inverse().unwrap_or_else(Matrix4::identity);
+    for v in root.vertex_iter() {
+        let p = v.point();
+        let q = inv.transform_point(&NPoint::new(p.x, p.y, p.z));
+        if (q.z - hub.root_face).abs() > 1e-6 * hub.root_face.max(1.0)
+            || q.x.abs() >= hub.half_width
+            || !(q.y > y0 && q.y < y1)
+        {
+            return Err(BrepError::feature(
+                format!("one-piece rotor, blade {}", k + 1),
+                format!(
+                    "its root ({:.3}, {:.3}) mm does not lie inside its hub face",
+                    q.x, q.y
+                ),
+                "check the hub size against the blade root (the mesh builder checks the walls)",
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// The hub prism's edges as the side faces are made: corners and vertical edges shared
+/// between neighbouring side faces, top and bottom edges kept for the end polygons.
+struct Prism<'a> {
+    hub: &'a PrismHub,
+    corners: Vec<Vertex>,
+    verticals: Vec<Edge>,
+    top_edges: Vec<Edge>,
+    bottom_edges: Vec<Edge>,
+}
+
+/// A side face's rectangle and a point in its middle.
+struct SideFace {
+    outer: Wire,
+    middle: Point3,
+}
+
+impl<'a> Prism<'a> {
+    fn new(hub: &'a PrismHub) -> Prism<'a> {
+        Prism {
+            hub,
+            corners: Vec::new(),
+            verticals: Vec::new(),
+            top_edges: Vec::new(),
+            bottom_edges: Vec::new(),
+        }
+    }
+
+    /// The corner at `p`, shared with a neighbouring face when one made it already.
+    fn corner(&mut self, p: Point3) -> Vertex {
+        let tol = 1e-9 * self.hub.root_face.max(1.0);
+        if let Some(v) = self.corners.iter().find(|v| {
             let q = v.point();
             (q.x - p.x).abs() + (q.y - p.y).abs() + (q.z - p.z).abs() < tol
         }) {
             return v.clone();
         }
         let v = Vertex::new(p);
-        corners.push(v.clone());
+        self.corners.push(v.clone());
         v
-    };
-    let mut verticals: Vec<Edge> = Vec::new();
-    let mut vertical = |a: &Vertex, c: &Vertex| -> Result<Edge, BrepError> {
-        if let Some(e) = verticals.iter().find(|e| e.front() == a && e.back() == c) {
+    }
+
+    /// The vertical edge from `a` to `c`, shared with a neighbouring face.
+    fn vertical(&mut self, a: &Vertex, c: &Vertex) -> Result<Edge, BrepError> {
+        if let Some(e) = self
+            .verticals
+            .iter()
+            .find(|e| e.front() == a && e.back() == c)
+        {
             return Ok(e.clone());
         }
-        if let Some(e) = verticals.iter().find(|e| e.front() == c && e.back() == a) {
+        if let Some(e) = self
+            .verticals
+            .iter()
+            .find(|e| e.front() == c && e.back() == a)
+        {
             return Ok(e.inverse());
         }
         let e = line_edge(a, c)?;
-        verticals.push(e.clone());
+        self.verticals.push(e.clone());
         Ok(e)
-    };
-    let mut faces: Vec<Face> = Vec::new();
-    let (mut top_edges, mut bottom_edges) = (Vec::new(), Vec::new());
-    for (k, (frame, place)) in hub.face_frames.iter().zip(placements).enumerate() {
-        let at = |x: f64, y: f64| tp(frame.transform_point(&NPoint::new(x, y, hub.root_face)));
+    }
+
+    /// The rectangle of the side face in the plane `z = root_face` of `frame`.
+    fn side(&mut self, frame: &Matrix4<f64>) -> Result<SideFace, BrepError> {
+        let (y0, y1) = self.hub.y_range;
+        let (hw, root_face) = (self.hub.half_width, self.hub.root_face);
+        let at = |x: f64, y: f64| tp(frame.transform_point(&NPoint::new(x, y, root_face)));
         let (bl, br, tr, tl) = (
-            corner(at(-hw, y0)),
-            corner(at(hw, y0)),
-            corner(at(hw, y1)),
-            corner(at(-hw, y1)),
+            self.corner(at(-hw, y0)),
+            self.corner(at(hw, y0)),
+            self.corner(at(hw, y1)),
+            self.corner(at(-hw, y1)),
         );
         let bottom = line_edge(&bl, &br)?;
         let top = line_edge(&tr, &tl)?;
-        let (right, left) = (vertical(&br, &tr)?, vertical(&tl, &bl)?);
-        bottom_edges.push(bottom.clone());
-        top_edges.push(top.clone());
-        // The placed blade and its root loop (the shell's only open boundary).
-        let placed: Shell = truck_modeling::builder::transformed(&blade, to_truck(place));
-        let mut open = placed.extract_boundaries();
-        if open.len() != 1 {
-            return Err(BrepError::Kernel {
-                what: "one-piece blade",
-                detail: format!(
-                    "the blade without its root cap has {} open loops, not 1",
-                    open.len()
-                ),
-            });
+        let (right, left) = (self.vertical(&br, &tr)?, self.vertical(&tl, &bl)?);
+        self.bottom_edges.push(bottom.clone());
+        self.top_edges.push(top.clone());
+        Ok(SideFace {
+            outer: Wire::from(vec![bottom, right, top, left]),
+            middle: at(0.0, 0.5 * (y0 + y1)),
+        })
+    }
+
+    /// The bore's faces (when the hub has one), then the end polygons (the side faces'
+    /// top and bottom edges, in order around the axis) with the bore's mouths.
+    fn end_faces(self) -> Result<Vec<Face>, BrepError> {
+        let (y0, y1) = self.hub.y_range;
+        let mut faces = Vec::new();
+        let mut ends: [Vec<Wire>; 2] = [Vec::new(), Vec::new()];
+        if let Some(d) = self.hub.bore_diameter {
+            let frame = Frame::new(
+                Point3::new(0.0, y0, 0.0),
+                Vector3::unit_y(),
+                Vector3::unit_x(),
+            );
+            let hf = hole(&frame, 0.5 * d, y1 - y0, Bottom::Through)?;
+            faces.extend(hf.faces);
+            ends[0].push(hf.mouth);
+            ends[1].extend(hf.far_mouth);
         }
-        let root = open.remove(0);
-        // The root loop must lie in the side face, inside its rectangle.
-        let inv = frame.try_inverse().unwrap_or_else(Matrix4::identity);
-        for v in root.vertex_iter() {
-            let p = v.point();
-            let q = inv.transform_point(&NPoint::new(p.x, p.y, p.z));
-            if (q.z - hub.root_face).abs() > 1e-6 * hub.root_face.max(1.0)
-                || q.x.abs() >= hw
-                || !(q.y > y0 && q.y < y1)
-            {
-                return Err(BrepError::feature(
-                    format!("one-piece rotor, blade {}", k + 1),
-                    format!(
-                        "its root ({:.3}, {:.3}) mm does not lie inside its hub face",
-                        q.x, q.y
-                    ),
-                    "check the hub size against the blade root (the mesh builder checks the walls)",
-                ));
-            }
-        }
-        let normal = frame.transform_vector(&nalgebra::Vector3::z());
+        let [bottom_holes, top_holes] = ends;
         faces.push(planar_face(
-            Wire::from(vec![bottom, right, top, left]),
-            vec![root],
-            at(0.0, 0.5 * (y0 + y1)),
-            Vector3::new(normal.x, normal.y, normal.z),
-        )?);
-        faces.extend(placed.face_into_iter());
-    }
-    // End polygons (the side faces' top and bottom edges, in order around the axis),
-    // and the bore.
-    let mut ends: [Vec<Wire>; 2] = [Vec::new(), Vec::new()];
-    if let Some(d) = hub.bore_diameter {
-        let frame = Frame::new(
-            Point3::new(0.0, y0, 0.0),
+            polygon(self.top_edges)?,
+            top_holes,
+            Point3::new(0.0, y1, 0.0),
             Vector3::unit_y(),
-            Vector3::unit_x(),
-        );
-        let hf = hole(&frame, 0.5 * d, y1 - y0, Bottom::Through)?;
-        faces.extend(hf.faces);
-        ends[0].push(hf.mouth);
-        ends[1].extend(hf.far_mouth);
+        )?);
+        faces.push(planar_face(
+            polygon(self.bottom_edges)?,
+            bottom_holes,
+            Point3::new(0.0, y0, 0.0),
+            -Vector3::unit_y(),
+        )?);
+        Ok(faces)
     }
-    let [bottom_holes, top_holes] = ends;
-    faces.push(planar_face(
-        polygon(top_edges)?,
-        top_holes,
-        Point3::new(0.0, y1, 0.0),
-        Vector3::unit_y(),
-    )?);
-    faces.push(planar_face(
-        polygon(bottom_edges)?,
-        bottom_holes,
-        Point3::new(0.0, y0, 0.0),
-        -Vector3::unit_y(),
-    )?);
-    closed_solid(faces)
 }
 
 /// The closed wire of `edges` (each shared end to end with another), chained.

@@ -293,6 +293,24 @@ fn inside_distance(poly: &[(f64, f64)], q: (f64, f64)) -> f64 {
     }
 }
 
+/// The span an end hole takes along z (from its face to its reach) and its axis and
+/// radius, for the overlap checks.
+struct Extent {
+    /// z of the hole's face, mm.
+    from: f64,
+    /// z as far as it reaches, mm.
+    to: f64,
+    centre: [f64; 2],
+    r: f64,
+}
+
+impl Extent {
+    /// The smaller and the larger z of the hole's span.
+    fn range(&self) -> (f64, f64) {
+        (self.from.min(self.to), self.from.max(self.to))
+    }
+}
+
 /// End holes must stay inside the section over their length, away from each other and
 /// from the cross holes.
 fn check_end_holes(
@@ -305,117 +323,170 @@ fn check_end_holes(
         return Ok(());
     }
     let map = super::skin::SpanMap::new(skin, opts.planar)?;
+    let mut extents: Vec<Extent> = Vec::new();
+    for (i, h) in spec.end_holes.iter().enumerate() {
+        let what = format!("end hole {} (diameter {} mm)", i + 1, h.diameter);
+        let e = end_hole_extent(piece, spec, h, &what)?;
+        check_inside_section(skin, &map, piece, h, &e, &what)?;
+        check_clearances(spec, h, &e, &extents, &what)?;
+        extents.push(e);
+    }
+    check_cross_holes_apart(spec)
+}
+
+/// The z range the end hole `h` takes (its reach from its face), once its size, depth
+/// and point angle are valid and it does not run through the piece.
+fn end_hole_extent(
+    piece: &SkinPiece,
+    spec: &PieceSpec,
+    h: &EndHole,
+    what: &str,
+) -> Result<Extent, BrepError> {
     let s = piece.span_sign();
     let (zl, zh) = (piece.z_low, piece.z_high);
     let span = (zh - zl).abs();
-    let mut extents: Vec<(f64, f64, [f64; 2], f64)> = Vec::new();
-    for (i, h) in spec.end_holes.iter().enumerate() {
-        let what = format!("end hole {} (diameter {} mm)", i + 1, h.diameter);
-        let r = 0.5 * h.diameter;
-        if !(r > 0.0 && r.is_finite() && h.centre.iter().all(|c| c.is_finite())) {
-            return Err(BrepError::feature(
-                what,
-                "not a positive finite size",
-                "give a positive diameter",
-            ));
-        }
-        let reach = match h.bottom {
-            Bottom::Through => span,
-            b => {
-                if !(h.depth > 0.0 && h.depth.is_finite()) {
+    let r = 0.5 * h.diameter;
+    if !(r > 0.0 && r.is_finite() && h.centre.iter().all(|c| c.is_finite())) {
+        return Err(BrepError::feature(
+            what.to_string(),
+            "not a positive finite size",
+            "give a positive diameter",
+        ));
+    }
+    let reach = match h.bottom {
+        Bottom::Through => span,
+        b => {
+            if !(h.depth > 0.0 && h.depth.is_finite()) {
+                return Err(BrepError::feature(
+                    what.to_string(),
+                    format!("depth {} mm", h.depth),
+                    "give a positive depth",
+                ));
+            }
+            if let Bottom::Point(a) = b {
+                if !(a > 0.0 && a < 180.0) {
                     return Err(BrepError::feature(
-                        what,
-                        format!("depth {} mm", h.depth),
-                        "give a positive depth",
+                        what.to_string(),
+                        format!("point angle {a} degrees"),
+                        "give an angle between 0 and 180 degrees (or a flat floor)",
                     ));
                 }
-                if let Bottom::Point(a) = b {
-                    if !(a > 0.0 && a < 180.0) {
-                        return Err(BrepError::feature(
-                            what,
-                            format!("point angle {a} degrees"),
-                            "give an angle between 0 and 180 degrees (or a flat floor)",
-                        ));
-                    }
-                }
-                h.depth + b.point_depth(r)
             }
+            h.depth + b.point_depth(r)
+        }
+    };
+    let flange_depth = spec.flange.map_or(0.0, |f| f.thickness + f.fillet);
+    if reach >= span + if h.end == End::Low { flange_depth } else { 0.0 }
+        && h.bottom != Bottom::Through
+    {
+        return Err(BrepError::feature(
+            what.to_string(),
+            format!("it reaches {reach} mm deep, through the piece"),
+            "make it shallower or a through hole",
+        ));
+    }
+    let (za, zb) = match h.end {
+        End::Low => (zl - s * flange_depth, zl - s * flange_depth + s * reach),
+        End::High => (zh - s * reach, zh),
+    };
+    Ok(Extent {
+        from: za,
+        to: zb,
+        centre: h.centre,
+        r,
+    })
+}
+
+/// The end hole stays inside the section all along (sampled at 24 levels on the skin,
+/// from its face to its reach).
+fn check_inside_section(
+    skin: &Skin,
+    map: &super::skin::SpanMap<'_>,
+    piece: &SkinPiece,
+    h: &EndHole,
+    e: &Extent,
+    what: &str,
+) -> Result<(), BrepError> {
+    let s = piece.span_sign();
+    let (zl, zh) = (piece.z_low, piece.z_high);
+    let span = (zh - zl).abs();
+    let (za, zb) = (e.from, e.to);
+    for k in 0..=24 {
+        let z = za + (zb - za) * k as f64 / 24.0;
+        let zc = if s > 0.0 {
+            z.clamp(zl.min(zh), zl.max(zh))
+        } else {
+            z.clamp(zh.min(zl), zh.max(zl))
         };
-        let flange_depth = spec.flange.map_or(0.0, |f| f.thickness + f.fillet);
-        if reach >= span + if h.end == End::Low { flange_depth } else { 0.0 }
-            && h.bottom != Bottom::Through
-        {
+        let v = if (zc - zl).abs() < 1e-9 * span.max(1.0) {
+            end_v(zl, map, 0.0)?
+        } else if (zc - zh).abs() < 1e-9 * span.max(1.0) {
+            end_v(zh, map, 1.0)?
+        } else {
+            map.v_at(zc, what)?
+        };
+        let room = inside_distance(&section_at(skin, v), (h.centre[0], h.centre[1]));
+        if room <= e.r {
             return Err(BrepError::feature(
-                what,
-                format!("it reaches {reach} mm deep, through the piece"),
-                "make it shallower or a through hole",
+                what.to_string(),
+                format!(
+                    "at z = {zc:.3} mm it comes {:.3} mm outside the section",
+                    e.r - room
+                ),
+                "move the hole toward the section's middle, make it smaller or shorter",
             ));
         }
-        // Inside the section all along (sampled at 24 levels on the skin).
-        let (za, zb) = match h.end {
-            End::Low => (zl - s * flange_depth, zl - s * flange_depth + s * reach),
-            End::High => (zh - s * reach, zh),
-        };
-        for k in 0..=24 {
-            let z = za + (zb - za) * k as f64 / 24.0;
-            let zc = if s > 0.0 {
-                z.clamp(zl.min(zh), zl.max(zh))
-            } else {
-                z.clamp(zh.min(zl), zh.max(zl))
-            };
-            let v = if (zc - zl).abs() < 1e-9 * span.max(1.0) {
-                end_v(zl, &map, 0.0)?
-            } else if (zc - zh).abs() < 1e-9 * span.max(1.0) {
-                end_v(zh, &map, 1.0)?
-            } else {
-                map.v_at(zc, &what)?
-            };
-            let room = inside_distance(&section_at(skin, v), (h.centre[0], h.centre[1]));
-            if room <= r {
-                return Err(BrepError::feature(
-                    what,
-                    format!(
-                        "at z = {zc:.3} mm it comes {:.3} mm outside the section",
-                        r - room
-                    ),
-                    "move the hole toward the section's middle, make it smaller or shorter",
-                ));
-            }
-        }
-        if let Some(f) = &spec.flange {
-            let d =
-                ((h.centre[0] - f.centre[0]).powi(2) + (h.centre[1] - f.centre[1]).powi(2)).sqrt();
-            if h.end == End::Low && d + r >= 0.5 * f.diameter {
-                return Err(BrepError::feature(
-                    what,
-                    "it breaks out of the flange's rim",
-                    "move it inside the flange",
-                ));
-            }
-        }
-        let (lo, hi) = (za.min(zb), za.max(zb));
-        for (j, &(lo2, hi2, c2, r2)) in extents.iter().enumerate() {
-            let d = ((h.centre[0] - c2[0]).powi(2) + (h.centre[1] - c2[1]).powi(2)).sqrt();
-            if lo < hi2 && lo2 < hi && d <= r + r2 {
-                return Err(BrepError::feature(
-                    what,
-                    format!("it overlaps end hole {}", j + 1),
-                    "space the holes apart",
-                ));
-            }
-        }
-        for (j, c) in spec.cross_holes.iter().enumerate() {
-            let rc = 0.5 * c.diameter;
-            if lo < c.z + rc && c.z - rc < hi && (h.centre[0] - c.x).abs() < r + rc {
-                return Err(BrepError::feature(
-                    what,
-                    format!("it meets cross hole {}", j + 1),
-                    "move the cross hole beyond the end hole's depth",
-                ));
-            }
-        }
-        extents.push((lo, hi, h.centre, r));
     }
+    Ok(())
+}
+
+/// The end hole stays inside the flange's rim and clear of the end holes before it
+/// (`extents`) and of every cross hole.
+fn check_clearances(
+    spec: &PieceSpec,
+    h: &EndHole,
+    e: &Extent,
+    extents: &[Extent],
+    what: &str,
+) -> Result<(), BrepError> {
+    let r = e.r;
+    if let Some(f) = &spec.flange {
+        let d = ((h.centre[0] - f.centre[0]).powi(2) + (h.centre[1] - f.centre[1]).powi(2)).sqrt();
+        if h.end == End::Low && d + r >= 0.5 * f.diameter {
+            return Err(BrepError::feature(
+                what.to_string(),
+                "it breaks out of the flange's rim",
+                "move it inside the flange",
+            ));
+        }
+    }
+    let (lo, hi) = e.range();
+    for (j, o) in extents.iter().enumerate() {
+        let (lo2, hi2) = o.range();
+        let d = ((h.centre[0] - o.centre[0]).powi(2) + (h.centre[1] - o.centre[1]).powi(2)).sqrt();
+        if lo < hi2 && lo2 < hi && d <= r + o.r {
+            return Err(BrepError::feature(
+                what.to_string(),
+                format!("it overlaps end hole {}", j + 1),
+                "space the holes apart",
+            ));
+        }
+    }
+    for (j, c) in spec.cross_holes.iter().enumerate() {
+        let rc = 0.5 * c.diameter;
+        if lo < c.z + rc && c.z - rc < hi && (h.centre[0] - c.x).abs() < r + rc {
+            return Err(BrepError::feature(
+                what.to_string(),
+                format!("it meets cross hole {}", j + 1),
+                "move the cross hole beyond the end hole's depth",
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// No two cross holes overlap.
+fn check_cross_holes_apart(spec: &PieceSpec) -> Result<(), BrepError> {
     for (i, a) in spec.cross_holes.iter().enumerate() {
         for (j, b) in spec.cross_holes.iter().enumerate().skip(i + 1) {
             let (ra, rb) = (0.5 * a.diameter, 0.5 * b.diameter);
@@ -450,7 +521,6 @@ fn flange_faces(
     mouths: Vec<Wire>,
 ) -> Result<EndFaces, BrepError> {
     let s = piece.span_sign();
-    let dir = Vector3::new(0.0, 0.0, s);
     let c = Point3::new(f.centre[0], f.centre[1], 0.0);
     let r_f = 0.5 * f.diameter;
     let z_top = piece.z_low - s * f.fillet;
@@ -466,17 +536,7 @@ fn flange_faces(
     }
     let mut faces = Vec::new();
     let low = piece.low_loop();
-    // The ring's radii about the centre.
-    let mut rho = (f64::INFINITY, 0.0f64);
-    for e in low.edge_iter() {
-        let cv = e.curve();
-        let (t0, t1) = cv.range_tuple();
-        for k in 0..=64 {
-            let p = cv.subs(t0 + (t1 - t0) * k as f64 / 64.0);
-            let d = ((p.x - c.x).powi(2) + (p.y - c.y).powi(2)).sqrt();
-            rho = (rho.0.min(d), rho.1.max(d));
-        }
-    }
+    let rho = ring_radii(&low, c);
     let foot = if f.fillet > 0.0 {
         let r = f.shank_radius;
         if (rho.1 - r).abs() > 1e-3 * r || (r - rho.0).abs() > 1e-3 * r {
@@ -507,52 +567,94 @@ fn flange_faces(
             "make the flange larger than the shank and its fillet",
         ));
     }
-    // Plate: top annulus, rim, face.
-    let frame = Frame::new(Point3::new(c.x, c.y, z_face), dir, Vector3::unit_x());
-    let h = f.thickness;
-    let vtx = |a: f64, hh: f64| Vertex::new(frame.at(r_f, a, hh));
-    let (t0, t1, b0, b1) = (vtx(0.0, h), vtx(PI, h), vtx(0.0, 0.0), vtx(PI, 0.0));
-    let circle = |a: &Vertex, b: &Vertex, hh: f64| -> Result<[Edge; 2], BrepError> {
-        Ok([
-            curve_edge(a, b, Curve::NurbsCurve(arc(&frame, r_f, hh, 0.0, PI)))?,
-            curve_edge(b, a, Curve::NurbsCurve(arc(&frame, r_f, hh, PI, 2.0 * PI)))?,
-        ])
+    let plate = Plate {
+        frame: Frame::new(
+            Point3::new(c.x, c.y, z_face),
+            Vector3::new(0.0, 0.0, s),
+            Vector3::unit_x(),
+        ),
+        r_f,
+        h: f.thickness,
     };
-    let top = circle(&t0, &t1, h)?;
-    let bottom = circle(&b0, &b1, 0.0)?;
-    let spokes = [
-        super::geom::line_edge(&t0, &b0)?,
-        super::geom::line_edge(&t1, &b1)?,
-    ];
-    let rim = Profile::line(r_f, h, r_f, 0.0);
-    for k in 0..2 {
-        let mid = (k as f64 + 0.5) * PI;
-        faces.push(sector_face(
-            &frame,
-            &rim,
-            k,
-            vec![
-                top[k].clone(),
-                spokes[(k + 1) % 2].clone(),
-                bottom[k].inverse(),
-                spokes[k].inverse(),
-            ],
-            frame.radial(mid),
-        )?);
-    }
-    faces.push(planar_face(
-        Wire::from(top.to_vec()),
-        vec![foot],
-        Point3::new(c.x, c.y, z_top),
-        dir,
-    )?);
-    faces.push(planar_face(
-        Wire::from(bottom.to_vec()),
-        mouths,
-        Point3::new(c.x, c.y, z_face),
-        -dir,
-    )?);
+    faces.extend(plate.faces(foot, mouths, z_top)?);
     Ok(EndFaces { faces })
+}
+
+/// The smallest and largest distance (in x, y) of the loop `low` from the centre `c`,
+/// 64 samples per edge.
+fn ring_radii(low: &Wire, c: Point3) -> (f64, f64) {
+    let mut rho = (f64::INFINITY, 0.0f64);
+    for e in low.edge_iter() {
+        let cv = e.curve();
+        let (t0, t1) = cv.range_tuple();
+        for k in 0..=64 {
+            let p = cv.subs(t0 + (t1 - t0) * k as f64 / 64.0);
+            let d = ((p.x - c.x).powi(2) + (p.y - c.y).powi(2)).sqrt();
+            rho = (rho.0.min(d), rho.1.max(d));
+        }
+    }
+    rho
+}
+
+/// The flange's round plate: its face at the origin of `frame` (z along the span), its
+/// rim of radius `r_f`, its top `h` above the face.
+struct Plate {
+    frame: Frame,
+    r_f: f64,
+    h: f64,
+}
+
+impl Plate {
+    /// The plate's rim (two sectors), its top annulus around `foot` (at `z_top`) and its
+    /// face with `mouths`.
+    fn faces(&self, foot: Wire, mouths: Vec<Wire>, z_top: f64) -> Result<Vec<Face>, BrepError> {
+        let (frame, r_f, h) = (&self.frame, self.r_f, self.h);
+        let (c, dir) = (frame.origin, frame.z);
+        let vtx = |a: f64, hh: f64| Vertex::new(frame.at(r_f, a, hh));
+        let (t0, t1, b0, b1) = (vtx(0.0, h), vtx(PI, h), vtx(0.0, 0.0), vtx(PI, 0.0));
+        let circle = |a: &Vertex, b: &Vertex, hh: f64| -> Result<[Edge; 2], BrepError> {
+            Ok([
+                curve_edge(a, b, Curve::NurbsCurve(arc(frame, r_f, hh, 0.0, PI)))?,
+                curve_edge(b, a, Curve::NurbsCurve(arc(frame, r_f, hh, PI, 2.0 * PI)))?,
+            ])
+        };
+        let top = circle(&t0, &t1, h)?;
+        let bottom = circle(&b0, &b1, 0.0)?;
+        let spokes = [
+            super::geom::line_edge(&t0, &b0)?,
+            super::geom::line_edge(&t1, &b1)?,
+        ];
+        let rim = Profile::line(r_f, h, r_f, 0.0);
+        let mut faces = Vec::new();
+        for k in 0..2 {
+            let mid = (k as f64 + 0.5) * PI;
+            faces.push(sector_face(
+                frame,
+                &rim,
+                k,
+                vec![
+                    top[k].clone(),
+                    spokes[(k + 1) % 2].clone(),
+                    bottom[k].inverse(),
+                    spokes[k].inverse(),
+                ],
+                frame.radial(mid),
+            )?);
+        }
+        faces.push(planar_face(
+            Wire::from(top.to_vec()),
+            vec![foot],
+            Point3::new(c.x, c.y, z_top),
+            dir,
+        )?);
+        faces.push(planar_face(
+            Wire::from(bottom.to_vec()),
+            mouths,
+            Point3::new(c.x, c.y, c.z),
+            -dir,
+        )?);
+        Ok(faces)
+    }
 }
 
 /// The fillet from the skin's low loop `low` (at the skin's low end) down to the plate
@@ -570,67 +672,99 @@ fn fillet(
     k_out: f64,
     z_top: f64,
 ) -> Result<(Vec<Face>, Wire), BrepError> {
-    let z_low = piece.z_low;
-    let profile = [
-        (1.0, z_low, 1.0),
-        (1.0, z_top, FRAC_1_SQRT_2),
-        (k_out, z_top, 1.0),
-    ];
-    let place =
-        |p: Point3, s: f64, z: f64| Point3::new(c.x + (p.x - c.x) * s, c.y + (p.y - c.y) * s, z);
-    let mut foot_of: Vec<(Vertex, Vertex)> = Vec::new();
-    let mut foot_vertex = |v: &Vertex| -> Vertex {
-        if let Some((_, f)) = foot_of.iter().find(|(a, _)| a == v) {
-            return f.clone();
-        }
-        let f = Vertex::new(place(v.point(), k_out, z_top));
-        foot_of.push((v.clone(), f.clone()));
-        f
-    };
-    let mut sides: Vec<(Vertex, Edge)> = Vec::new();
-    let mut side = |v: &Vertex, foot: &Vertex| -> Result<Edge, BrepError> {
-        if let Some((_, e)) = sides.iter().find(|(a, _)| a == v) {
-            return Ok(e.clone());
-        }
-        let p = v.point();
-        let cps = profile
-            .iter()
-            .map(|&(s, z, w)| {
-                let q = place(p, s, z);
-                Vector4::new(q.x * w, q.y * w, q.z * w, w)
-            })
-            .collect();
-        let curve = NurbsCurve::new(BSplineCurve::new(KnotVec::bezier_knot(2), cps));
-        let e = curve_edge(v, foot, Curve::NurbsCurve(curve))?;
-        sides.push((v.clone(), e.clone()));
-        Ok(e)
+    let mut sweep = Sweep {
+        c,
+        k_out,
+        z_top,
+        profile: [
+            (1.0, piece.z_low, 1.0),
+            (1.0, z_top, FRAC_1_SQRT_2),
+            (k_out, z_top, 1.0),
+        ],
+        feet: Vec::new(),
+        sides: Vec::new(),
     };
     let mut faces = Vec::new();
     let mut foot_edges = Vec::new();
     for e in low.edge_iter() {
+        let (face, foot_edge) = sweep.face(e, piece.span_sign())?;
+        faces.push(face);
+        foot_edges.push(foot_edge);
+    }
+    Ok((faces, Wire::from(foot_edges)))
+}
+
+/// The fillet's sweep (see [`fillet`]): the quarter-circle profile `(s, z, weight)`
+/// and the foot vertices and side edges made so far, shared between neighbouring
+/// faces.
+struct Sweep {
+    c: Point3,
+    k_out: f64,
+    z_top: f64,
+    profile: [(f64, f64, f64); 3],
+    /// Per top vertex, its foot.
+    feet: Vec<(Vertex, Vertex)>,
+    /// Per top vertex, the side edge down to its foot.
+    sides: Vec<(Vertex, Edge)>,
+}
+
+impl Sweep {
+    /// `p` moved radially from the centre by the factor `s`, at height `z`.
+    fn place(&self, p: Point3, s: f64, z: f64) -> Point3 {
+        let c = self.c;
+        Point3::new(c.x + (p.x - c.x) * s, c.y + (p.y - c.y) * s, z)
+    }
+
+    /// The homogeneous control points of the profile through `p`.
+    fn profile_of(&self, p: Point3) -> Vec<Vector4> {
+        self.profile
+            .iter()
+            .map(|&(s, z, w)| {
+                let q = self.place(p, s, z);
+                Vector4::new(q.x * w, q.y * w, q.z * w, w)
+            })
+            .collect()
+    }
+
+    /// The foot of the top vertex `v`.
+    fn foot_vertex(&mut self, v: &Vertex) -> Vertex {
+        if let Some((_, f)) = self.feet.iter().find(|(a, _)| a == v) {
+            return f.clone();
+        }
+        let f = Vertex::new(self.place(v.point(), self.k_out, self.z_top));
+        self.feet.push((v.clone(), f.clone()));
+        f
+    }
+
+    /// The side edge from the top vertex `v` down to its foot.
+    fn side(&mut self, v: &Vertex, foot: &Vertex) -> Result<Edge, BrepError> {
+        if let Some((_, e)) = self.sides.iter().find(|(a, _)| a == v) {
+            return Ok(e.clone());
+        }
+        let cps = self.profile_of(v.point());
+        let curve = NurbsCurve::new(BSplineCurve::new(KnotVec::bezier_knot(2), cps));
+        let e = curve_edge(v, foot, Curve::NurbsCurve(curve))?;
+        self.sides.push((v.clone(), e.clone()));
+        Ok(e)
+    }
+
+    /// The fillet face below the edge `e` of the low loop, facing outward (away from
+    /// the shank's axis and along `span_sign` toward the blade), and its foot edge.
+    fn face(&mut self, e: &Edge, span_sign: f64) -> Result<(Face, Edge), BrepError> {
+        let c = self.c;
+        let bs = as_bspline(e)?;
         // The edge as stored (front to back along its curve's parameter).
-        let bs =
-            match e.curve() {
-                Curve::BSplineCurve(b) => b,
-                Curve::Line(l) => BSplineCurve::new(KnotVec::bezier_knot(1), vec![l.0, l.1]),
-                _ => return Err(BrepError::Kernel {
-                    what: "fillet",
-                    detail:
-                        "the skin's low loop holds a curve that is neither a B-spline nor a line"
-                            .into(),
-                }),
-            };
         let (a, b) = if e.orientation() {
             (e.front().clone(), e.back().clone())
         } else {
             (e.back().clone(), e.front().clone())
         };
-        let (fa, fb) = (foot_vertex(&a), foot_vertex(&b));
+        let (fa, fb) = (self.foot_vertex(&a), self.foot_vertex(&b));
         let foot_curve = BSplineCurve::new(
             bs.knot_vec().clone(),
             bs.control_points()
                 .iter()
-                .map(|&p| place(p, k_out, z_top))
+                .map(|&p| self.place(p, self.k_out, self.z_top))
                 .collect(),
         );
         let top_edge = if e.orientation() {
@@ -639,19 +773,11 @@ fn fillet(
             e.inverse()
         };
         let foot_edge = curve_edge(&fa, &fb, Curve::BSplineCurve(foot_curve))?;
-        let (sa, sb) = (side(&a, &fa)?, side(&b, &fb)?);
+        let (sa, sb) = (self.side(&a, &fa)?, self.side(&b, &fb)?);
         let cps: Vec<Vec<Vector4>> = bs
             .control_points()
             .iter()
-            .map(|&p| {
-                profile
-                    .iter()
-                    .map(|&(s, z, w)| {
-                        let q = place(p, s, z);
-                        Vector4::new(q.x * w, q.y * w, q.z * w, w)
-                    })
-                    .collect()
-            })
+            .map(|&p| self.profile_of(p))
             .collect();
         let surface = NurbsSurface::new(BSplineSurface::new(
             (bs.knot_vec().clone(), KnotVec::bezier_knot(2)),
@@ -662,19 +788,31 @@ fn fillet(
         let um = 0.5 * (t0 + t1);
         let pm = surface.subs(um, 0.5);
         let radial = Vector3::new(pm.x - c.x, pm.y - c.y, 0.0).normalize();
-        let outward = radial + Vector3::new(0.0, 0.0, piece.span_sign());
+        let outward = radial + Vector3::new(0.0, 0.0, span_sign);
         let natural = surface.normal(um, 0.5);
         let w = turned(
             Wire::from(vec![top_edge, sb, foot_edge.inverse(), sa.inverse()]),
             outward,
             true,
         );
-        faces.push(oriented_face(
+        let face = oriented_face(
             vec![w],
             Surface::NurbsSurface(surface),
             natural.dot(outward) > 0.0,
-        )?);
-        foot_edges.push(foot_edge);
+        )?;
+        Ok((face, foot_edge))
     }
-    Ok((faces, Wire::from(foot_edges)))
+}
+
+/// The curve of an edge of the skin's low loop as a B-spline (a line as one of degree 1).
+fn as_bspline(e: &Edge) -> Result<BSplineCurve<Point3>, BrepError> {
+    match e.curve() {
+        Curve::BSplineCurve(b) => Ok(b),
+        Curve::Line(l) => Ok(BSplineCurve::new(KnotVec::bezier_knot(1), vec![l.0, l.1])),
+        _ => Err(BrepError::Kernel {
+            what: "fillet",
+            detail: "the skin's low loop holds a curve that is neither a B-spline nor a line"
+                .into(),
+        }),
+    }
 }

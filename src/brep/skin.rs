@@ -300,77 +300,109 @@ pub(crate) struct SkinPiece {
     holes: [Vec<Wire>; 2],
 }
 
-impl SkinPiece {
-    /// The piece of `skin` between `low` (the end at smaller `v`) and `high`.
-    pub(crate) fn new(
+/// The `v` where the plane `z = c` cuts `skin`, refused when it lies so close to an
+/// inner knot that a STEP file could not tell the two apart.
+fn plane_v(skin: &Skin, c: f64, what: &str, planar: f64) -> Result<f64, BrepError> {
+    let map = SpanMap::new(skin, planar)?;
+    let v = map.v_at(c, what)?;
+    let inner = &skin.knots_v[skin.degree_v + 1..skin.knots_v.len() - skin.degree_v - 1];
+    if let Some(k) = inner
+        .iter()
+        .find(|&&k| k != v && (k - v).abs() <= 2.0 * KNOT_MERGE)
+    {
+        let dz = (map.z(*k) - c).abs();
+        return Err(BrepError::feature(
+            what.to_string(),
+            format!(
+                "the plane z = {c} mm lies {dz:.2e} mm from a knot of the skin, too close for a STEP file to tell them apart"
+            ),
+            format!("move the plane by at least {:.4} mm", 4.0 * dz.max(1e-6)),
+        ));
+    }
+    Ok(v)
+}
+
+/// The skin's surface (checked) cut to the span between `low` and `high`.
+fn span_surface(
+    skin: &Skin,
+    low: Cut,
+    high: Cut,
+    opts: &SkinOptions,
+) -> Result<BSplineSurface<Point3>, BrepError> {
+    check_skin(skin)?;
+    let knots_u = KnotVec::try_from(skin.knots_u.clone()).map_err(|e| bad("knots_u", "", e))?;
+    let knots_v = KnotVec::try_from(skin.knots_v.clone()).map_err(|e| bad("knots_v", "", e))?;
+    let control: Vec<Vec<Point3>> = skin
+        .control
+        .iter()
+        .map(|row| row.iter().map(pt).collect())
+        .collect();
+    let mut piece =
+        BSplineSurface::try_new((knots_u, knots_v), control).map_err(|e| bad("control", "", e))?;
+    let v_of = |cut: Cut, skin_end: f64| match cut {
+        Cut::SkinEnd => Ok(skin_end),
+        Cut::Plane(c) => plane_v(skin, c, &format!("split plane z = {c} mm"), opts.planar),
+    };
+    let v_low = v_of(low, 0.0)?;
+    let v_high = v_of(high, 1.0)?;
+    if !(v_high > v_low) {
+        return Err(BrepError::feature(
+            "piece",
+            format!("its ends {low:?} and {high:?} leave no skin between them"),
+            "give the low end below the high end along the skin",
+        ));
+    }
+    if v_high < 1.0 {
+        piece.vcut(v_high);
+    }
+    if v_low > 0.0 {
+        piece = piece.vcut(v_low);
+    }
+    Ok(piece)
+}
+
+/// The piece's surface split at the leading edge: `upper` runs from the trailing edge
+/// (`u = 0`) to the leading edge, `lower` from the leading edge back to the trailing
+/// edge; they share the split row bit for bit, and the trailing-edge row too when
+/// `sharp`.
+struct Halves {
+    upper: BSplineSurface<Point3>,
+    lower: BSplineSurface<Point3>,
+    sharp: bool,
+}
+
+impl Halves {
+    /// Splits `piece` at the leading edge (on a knot when one is as close as the
+    /// writer's tolerance) and closes a sharp trailing edge.
+    fn split(
         skin: &Skin,
-        low: Cut,
-        high: Cut,
+        piece: BSplineSurface<Point3>,
         opts: &SkinOptions,
-    ) -> Result<SkinPiece, BrepError> {
-        check_skin(skin)?;
-        let knots_u = KnotVec::try_from(skin.knots_u.clone()).map_err(|e| bad("knots_u", "", e))?;
-        let knots_v = KnotVec::try_from(skin.knots_v.clone()).map_err(|e| bad("knots_v", "", e))?;
-        let control: Vec<Vec<Point3>> = skin
-            .control
-            .iter()
-            .map(|row| row.iter().map(pt).collect())
-            .collect();
-        let mut piece = BSplineSurface::try_new((knots_u, knots_v), control)
-            .map_err(|e| bad("control", "", e))?;
-        // Span cuts.
-        let v_of = |c: f64, what: &str| -> Result<f64, BrepError> {
-            let map = SpanMap::new(skin, opts.planar)?;
-            let v = map.v_at(c, what)?;
-            let inner = &skin.knots_v[skin.degree_v + 1..skin.knots_v.len() - skin.degree_v - 1];
-            if let Some(k) = inner
-                .iter()
-                .find(|&&k| k != v && (k - v).abs() <= 2.0 * KNOT_MERGE)
-            {
-                let dz = (map.z(*k) - c).abs();
-                return Err(BrepError::feature(
-                    what.to_string(),
-                    format!(
-                        "the plane z = {c} mm lies {dz:.2e} mm from a knot of the skin, too close for a STEP file to tell them apart"
-                    ),
-                    format!("move the plane by at least {:.4} mm", 4.0 * dz.max(1e-6)),
-                ));
-            }
-            Ok(v)
-        };
-        let v_low = match low {
-            Cut::SkinEnd => 0.0,
-            Cut::Plane(c) => v_of(c, &format!("split plane z = {c} mm"))?,
-        };
-        let v_high = match high {
-            Cut::SkinEnd => 1.0,
-            Cut::Plane(c) => v_of(c, &format!("split plane z = {c} mm"))?,
-        };
-        if !(v_high > v_low) {
-            return Err(BrepError::feature(
-                "piece",
-                format!("its ends {low:?} and {high:?} leave no skin between them"),
-                "give the low end below the high end along the skin",
-            ));
-        }
-        if v_high < 1.0 {
-            piece.vcut(v_high);
-        }
-        if v_low > 0.0 {
-            piece = piece.vcut(v_low);
-        }
-        // Leading-edge split, on a knot when one is as close as the writer's tolerance.
+    ) -> Result<Halves, BrepError> {
         let u_le = snap_to_knot(&skin.knots_u, skin.u_le);
         let mut upper = piece;
         let mut lower = upper.ucut(u_le);
         let nu_up = upper.control_points().len();
-        let nu_lo = lower.control_points().len();
         let nv = upper.control_points()[0].len();
         // The split row is shared: make it bit-identical in both halves.
         for j in 0..nv {
             *lower.control_point_mut(0, j) = *upper.control_point(nu_up - 1, j);
         }
-        // Sharp or blunt trailing edge.
+        let mut halves = Halves {
+            upper,
+            lower,
+            sharp: false,
+        };
+        halves.sharp = halves.close_trailing_edge(opts)?;
+        Ok(halves)
+    }
+
+    /// Whether the trailing edge is sharp (then the lower half's trailing-edge row is
+    /// made the upper half's); refused when it is sharp at one end only.
+    fn close_trailing_edge(&mut self, opts: &SkinOptions) -> Result<bool, BrepError> {
+        let (upper, lower) = (&self.upper, &mut self.lower);
+        let nu_lo = lower.control_points().len();
+        let nv = upper.control_points()[0].len();
         let gap = (0..nv)
             .map(|j| {
                 let (a, b) = (upper.control_point(0, j), lower.control_point(nu_lo - 1, j));
@@ -395,14 +427,26 @@ impl SkinPiece {
                 *lower.control_point_mut(nu_lo - 1, j) = *upper.control_point(0, j);
             }
         }
-        let low_row: Vec<Point3> = (0..nu_up)
-            .map(|i| *upper.control_point(i, 0))
-            .chain((0..nu_lo).map(|i| *lower.control_point(i, 0)))
-            .collect();
-        let high_row: Vec<Point3> = (0..nu_up)
-            .map(|i| *upper.control_point(i, nv - 1))
-            .chain((0..nu_lo).map(|i| *lower.control_point(i, nv - 1)))
-            .collect();
+        Ok(sharp)
+    }
+
+    /// The control points of both halves at column `j` (an end row of the section).
+    fn end_row(&self, j: usize) -> Vec<Point3> {
+        let (nu_up, nu_lo) = (
+            self.upper.control_points().len(),
+            self.lower.control_points().len(),
+        );
+        (0..nu_up)
+            .map(|i| *self.upper.control_point(i, j))
+            .chain((0..nu_lo).map(|i| *self.lower.control_point(i, j)))
+            .collect()
+    }
+
+    /// The planes of both ends and which way the natural normal points.
+    fn ends(&self, opts: &SkinOptions) -> Result<Ends, BrepError> {
+        let nv = self.upper.control_points()[0].len();
+        let low_row = self.end_row(0);
+        let high_row = self.end_row(nv - 1);
         let z_low = end_z(&low_row, "control (root-side end row)", opts.planar)?;
         let z_high = end_z(&high_row, "control (tip-side end row)", opts.planar)?;
         if (z_high - z_low).abs() <= opts.planar {
@@ -427,9 +471,54 @@ impl SkinPiece {
                 "the section encloses no area; check the section points",
             ));
         }
-        let outward = area2 * (z_high - z_low) > 0.0;
+        Ok(Ends {
+            z_low,
+            z_high,
+            outward: area2 * (z_high - z_low) > 0.0,
+        })
+    }
+}
 
-        let (lu, ll, lv) = (nu_up - 1, nu_lo - 1, nv - 1);
+/// The ends of a piece: their planes and the sense of the skin's natural normal.
+struct Ends {
+    /// z of the low end, mm.
+    z_low: f64,
+    /// z of the high end, mm.
+    z_high: f64,
+    /// `S_u x S_v` points out of the solid.
+    outward: bool,
+}
+
+/// The boundary edges of the skin faces (see [`SkinPiece`]) and the ruled
+/// trailing-edge face when the trailing edge is blunt.
+struct Boundary {
+    e_te_u: Edge,
+    e_le: Edge,
+    e_te_l: Edge,
+    low_u: Edge,
+    low_l: Edge,
+    high_u: Edge,
+    high_l: Edge,
+    te: Option<TrailingFace>,
+}
+
+/// The ruled face of a blunt trailing edge and its edges across the ends.
+struct TrailingFace {
+    surface: BSplineSurface<Point3>,
+    low: Edge,
+    high: Edge,
+}
+
+impl Boundary {
+    /// The edges along the trailing edge(s), the leading edge and both ends; the
+    /// trailing-edge face when the edge is blunt.
+    fn new(h: &Halves) -> Result<Boundary, BrepError> {
+        let (upper, lower, sharp) = (&h.upper, &h.lower, h.sharp);
+        let (lu, ll) = (
+            upper.control_points().len() - 1,
+            lower.control_points().len() - 1,
+        );
+        let lv = upper.control_points()[0].len() - 1;
         let te_u_r = Vertex::new(*upper.control_point(0, 0));
         let te_u_t = Vertex::new(*upper.control_point(0, lv));
         let le_r = Vertex::new(*upper.control_point(lu, 0));
@@ -454,11 +543,11 @@ impl SkinPiece {
         let high_u = curve_edge(&te_u_t, &le_t, bs(upper.row_curve(lv)))?;
         let low_l = curve_edge(&le_r, &te_l_r, bs(lower.row_curve(0)))?;
         let high_l = curve_edge(&le_t, &te_l_t, bs(lower.row_curve(lv)))?;
-        let (te, te_low, te_high) = if sharp {
-            (None, None, None)
+        let te = if sharp {
+            None
         } else {
             // Ruled trailing-edge face: u from the lower curve to the upper one.
-            let ruled = BSplineSurface::try_new(
+            let surface = BSplineSurface::try_new(
                 (KnotVec::bezier_knot(1), lower.vknot_vec().clone()),
                 vec![
                     lower.control_points()[ll].clone(),
@@ -466,16 +555,13 @@ impl SkinPiece {
                 ],
             )
             .map_err(|e| bad("control", "trailing edge", e))?;
-            (
-                Some(ruled),
-                Some(line_edge(&te_l_r, &te_u_r)?),
-                Some(line_edge(&te_l_t, &te_u_t)?),
-            )
+            Some(TrailingFace {
+                surface,
+                low: line_edge(&te_l_r, &te_u_r)?,
+                high: line_edge(&te_l_t, &te_u_t)?,
+            })
         };
-        Ok(SkinPiece {
-            upper,
-            lower,
-            te,
+        Ok(Boundary {
             e_te_u,
             e_le,
             e_te_l,
@@ -483,11 +569,43 @@ impl SkinPiece {
             low_l,
             high_u,
             high_l,
+            te,
+        })
+    }
+}
+
+impl SkinPiece {
+    /// The piece of `skin` between `low` (the end at smaller `v`) and `high`.
+    pub(crate) fn new(
+        skin: &Skin,
+        low: Cut,
+        high: Cut,
+        opts: &SkinOptions,
+    ) -> Result<SkinPiece, BrepError> {
+        let piece = span_surface(skin, low, high, opts)?;
+        let halves = Halves::split(skin, piece, opts)?;
+        let ends = halves.ends(opts)?;
+        let b = Boundary::new(&halves)?;
+        let (te, te_low, te_high) = match b.te {
+            Some(t) => (Some(t.surface), Some(t.low), Some(t.high)),
+            None => (None, None, None),
+        };
+        Ok(SkinPiece {
+            upper: halves.upper,
+            lower: halves.lower,
+            te,
+            e_te_u: b.e_te_u,
+            e_le: b.e_le,
+            e_te_l: b.e_te_l,
+            low_u: b.low_u,
+            low_l: b.low_l,
+            high_u: b.high_u,
+            high_l: b.high_l,
             te_low,
             te_high,
-            outward,
-            z_low,
-            z_high,
+            outward: ends.outward,
+            z_low: ends.z_low,
+            z_high: ends.z_high,
             holes: [Vec::new(), Vec::new()],
         })
     }
