@@ -1,6 +1,6 @@
 //! `spanwright build`: design table in, checked solids out.
 
-use super::variants::{run_all, table, Done};
+use super::variants::{run_all, Done};
 use super::{load, progress::Stages, Context, Verdict};
 use anyhow::Context as _;
 use spanwright::assembly::hand_description;
@@ -183,26 +183,14 @@ fn build_variants(
         })
     })?;
     if args.json {
-        let json = serde_json::json!({
-            "design": design.name,
-            "variants": finished.rows,
-            "files": finished.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
-        });
-        outln!("{}", serde_json::to_string_pretty(&json)?);
+        outln!("{}", finished.json(&design.name)?);
     } else if !ctx.quiet {
-        let mut text = format!(
-            "{}: {} variants (blade mass for PLA, walls 1.2 mm, infill 20 %)\n",
+        let heading = format!(
+            "{}: {} variants (blade mass for PLA, walls 1.2 mm, infill 20 %)",
             design.name,
             finished.rows.len()
         );
-        for line in finished.extras.iter().flatten() {
-            text.push_str(&format!("  {line}\n"));
-        }
-        text.push_str(&table(&finished.rows));
-        for f in &finished.files {
-            text.push_str(&format!("  wrote {}\n", f.display()));
-        }
-        super::emit(&text);
+        super::emit(&finished.text(&heading, finished.extras.iter().flatten()));
     }
     Ok(Verdict::Done)
 }

@@ -5,7 +5,7 @@ use std::fmt::Write as _;
 use std::io::IsTerminal as _;
 use std::path::{Path, PathBuf};
 
-use super::variants::{run_all, table, Done};
+use super::variants::{run_all, Done};
 use super::{load, Verdict};
 use anyhow::Context as _;
 use spanwright::atomic::Batch;
@@ -414,26 +414,17 @@ fn report_variants(
         })
     })?;
     if args.json {
-        let json = serde_json::json!({
-            "design": design.name,
-            "variants": finished.rows,
-            "files": finished.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
-        });
-        outln!("{}", serde_json::to_string_pretty(&json)?);
+        outln!("{}", finished.json(&design.name)?);
     } else if !ctx.quiet {
-        let mut text = format!(
-            "{}: {} variants ({}, walls {} mm, infill {} %)\n",
+        let heading = format!(
+            "{}: {} variants ({}, walls {} mm, infill {} %)",
             design.name,
             finished.rows.len(),
             material.name,
             number(fill.wall, Decimals::Mm),
             number(fill.infill * 100.0, Decimals::Percent)
         );
-        text.push_str(&table(&finished.rows));
-        for f in &finished.files {
-            text.push_str(&format!("  wrote {}\n", f.display()));
-        }
-        super::emit(&text);
+        super::emit(&finished.text(&heading, &[]));
     }
     if args.rpm.is_some() || args.wind.is_some() || args.thrust.is_some() {
         for c in CAUTIONS {

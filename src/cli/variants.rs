@@ -34,6 +34,31 @@ pub struct Finished<T> {
     pub files: Vec<PathBuf>,
 }
 
+impl<T> Finished<T> {
+    /// The run for scripts: the design's name, one row per variant, the files written.
+    pub fn json(&self, design: &str) -> anyhow::Result<String> {
+        let json = serde_json::json!({
+            "design": design,
+            "variants": self.rows,
+            "files": self.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>(),
+        });
+        Ok(serde_json::to_string_pretty(&json)?)
+    }
+
+    /// The run for people: `heading`, the `notes` (one a line), the table, the files.
+    pub fn text<'a>(&self, heading: &str, notes: impl IntoIterator<Item = &'a String>) -> String {
+        let mut text = format!("{heading}\n");
+        for line in notes {
+            text.push_str(&format!("  {line}\n"));
+        }
+        text.push_str(&table(&self.rows));
+        for f in &self.files {
+            text.push_str(&format!("  wrote {}\n", f.display()));
+        }
+        text
+    }
+}
+
 /// Runs `job(variant, folder)` for every variant in parallel (rayon; each job on one
 /// thread), times each, then writes every variant's files and, when `write`, the
 /// summary. A failed variant's error names it; with several failures the others are

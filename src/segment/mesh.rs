@@ -691,7 +691,7 @@ mod tests {
                 sag <= tol + 1e-12 || n == 256,
                 "r {r} tol {tol}: n {n}, sagitta {sag}"
             );
-            assert!(n % 4 == 0 && n >= 12);
+            assert!(n.is_multiple_of(4) && n >= 12);
         }
     }
 }
