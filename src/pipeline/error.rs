@@ -69,7 +69,7 @@ pub enum PipelineError {
         likely_causes: Vec<SteepStep>,
     },
     /// Bodies of an assembly meet: each pair with its crossing triangles.
-    #[error("the bodies of '{part}' cross or touch; nothing was written:\n{}\nMove them apart: check rotor.hub.diameter against the blades' root face, cut sockets for the shanks (rotor.hub.sockets = true), or change rotor.cone and rotor.pitch", Lines(.found))]
+    #[error("the bodies of '{part}' cross or touch; nothing was written:\n{}\nMove them apart: blades that meet each other need fewer blades (rotor.blades), a narrower root chord or the first station farther out; a hub that meets the blades needs rotor.hub.diameter checked against the blades' root face or sockets for the shanks (rotor.hub.sockets = true); rotor.cone and rotor.pitch move both", Lines(.found))]
     Interference {
         /// The assembly.
         part: String,
