@@ -18,6 +18,7 @@
 //!   `V - E + F = 2 - 2 G`.
 
 mod brep_support;
+mod support;
 
 use brep_support::{
     assert_closed, assert_knots_valid, brep_volume, dump, face_samples, max_distance,
@@ -250,34 +251,8 @@ fn bored_root_channel_starts_blind_in_the_first_segment() {
 fn one_segment_blade_carries_its_channel() {
     // Invented test blade (as in tests/segment_cli.rs): 320 mm of plain airfoil, no
     // root table, a 4 mm channel and no split: the blade's own mesh and STEP carry it.
-    let toml = r#"name = "long"
-[blade]
-section = "naca4415"
-points-per-side = 60
-tolerance = 0.05
-
-[[station]]
-radius = 40
-chord = 70
-twist = 12
-
-[[station]]
-radius = 200
-chord = 55
-twist = 6
-
-[[station]]
-radius = 360
-chord = 40
-twist = 2
-
-[spar-channel]
-diameter = 4
-
-[rotor]
-blades = 3
-"#;
-    let design = parse_toml_str(toml, None).unwrap();
+    let toml = support::long_blade("\n[spar-channel]\ndiameter = 4\n\n[rotor]\nblades = 3\n");
+    let design = parse_toml_str(&toml, None).unwrap();
     let outcome = run(&design, &Options::default()).expect("the blade builds");
     let plan = outcome.segments.as_ref().expect("a plan for the channel");
     assert_eq!(plan.count, 1);

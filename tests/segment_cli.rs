@@ -8,34 +8,7 @@ mod support;
 
 use support::run_in_temp;
 
-/// Invented test blade: 320 mm of plain airfoil (no root table: the root face is a plain
-/// cap the channel can open through).
-fn blade(extra: &str) -> String {
-    format!(
-        r#"name = "long"
-[blade]
-section = "naca4415"
-points-per-side = 60
-tolerance = 0.05
-
-[[station]]
-radius = 40
-chord = 70
-twist = 12
-
-[[station]]
-radius = 200
-chord = 55
-twist = 6
-
-[[station]]
-radius = 360
-chord = 40
-twist = 2
-{extra}
-"#
-    )
-}
+use support::long_blade as blade;
 
 #[test]
 fn demo_writes_every_segment_in_every_format() {

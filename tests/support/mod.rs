@@ -209,3 +209,32 @@ pub fn blade(len: f64, root: f64, tip: f64, twist: f64, rings: usize, around: us
     }
     m
 }
+
+/// Invented test blade for the segment tests: 320 mm of plain airfoil (no root table:
+/// the root face is a plain cap a spar channel can open through), `extra` appended.
+pub fn long_blade(extra: &str) -> String {
+    format!(
+        r#"name = "long"
+[blade]
+section = "naca4415"
+points-per-side = 60
+tolerance = 0.05
+
+[[station]]
+radius = 40
+chord = 70
+twist = 12
+
+[[station]]
+radius = 200
+chord = 55
+twist = 6
+
+[[station]]
+radius = 360
+chord = 40
+twist = 2
+{extra}
+"#
+    )
+}
