@@ -80,7 +80,7 @@ fn build_writes_each_variant_in_its_folder_and_one_summary() {
             r["fits"], "true",
             "a 300 mm blade on a 220 x 220 x 250 printer"
         );
-        assert_eq!(r["segments"], "0");
+        assert_eq!(r["segments"], "1", "whole blades");
         assert!(r["seconds"].parse::<f64>().unwrap() > 0.0);
         // Mass with the fill model lies below the solid PLA mass, 1.24 g/cm³ (common
         // practice, the preset's typical value).

@@ -179,3 +179,24 @@ fn refusals_name_what_would_fit() {
     assert_eq!(run.code, 2, "{}", run.stderr);
     assert!(run.stderr.contains("--split"), "{}", run.stderr);
 }
+
+#[test]
+fn the_variants_summary_counts_the_segments() {
+    // The summary row of a split design says how many pieces each blade prints in (the
+    // plan's count); PLA preset and the default fill, no load case.
+    let d = spanwright::design::load(std::path::Path::new("examples/barn-turbine.toml")).unwrap();
+    let outcome = spanwright::pipeline::run(&d, &spanwright::pipeline::Options::default()).unwrap();
+    let pla = spanwright::props::Material::preset("pla").unwrap();
+    let row = spanwright::report::SummaryRow::of(
+        "barn",
+        "barn",
+        &d,
+        &outcome,
+        &pla,
+        spanwright::props::Fill::DEFAULT,
+        None,
+    )
+    .unwrap();
+    assert_eq!(row.segments, outcome.segments.as_ref().unwrap().count);
+    assert_eq!(row.segments, 2);
+}

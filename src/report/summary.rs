@@ -14,7 +14,7 @@
 //! | `blade_mass_g` | one blade's mass with the fill model (walls and infill) |
 //! | `safety_factor` | the smallest safety factor along the span; empty without a load case |
 //! | `fits` | `true` when every part to print fits the design's `[printer]` on its plates; empty without a printer |
-//! | `segments` | pieces each blade is printed in (1: whole; 0 until segmented blades land) |
+//! | `segments` | pieces each blade is printed in (1: whole) |
 //! | `seconds` | wall time of the variant's run |
 //!
 //! Every value but `seconds` is the same on every run of the same input; `seconds` is
@@ -48,7 +48,7 @@ pub struct SummaryRow {
     pub safety_factor: Option<f64>,
     /// Whether everything to print fits the printer (`None` without a printer).
     pub fits: Option<bool>,
-    /// Pieces each blade is printed in (0 until segmented blades land).
+    /// Pieces each blade is printed in (1: whole).
     pub segments: usize,
     /// Wall time of the variant's run, s.
     pub seconds: f64,
@@ -104,7 +104,7 @@ impl SummaryRow {
             blade_mass_g: printed.props.mass,
             safety_factor: stress.map(|t| t.min_safety_factor),
             fits: fits(design, outcome)?,
-            segments: 0,
+            segments: outcome.segments.as_ref().map_or(1, |p| p.count),
             seconds: 0.0,
         })
     }
