@@ -123,22 +123,27 @@ fn header_section(file_name: &str, h: &StepHeader) -> String {
     )
 }
 
-/// The whole STEP text of `solids` (each with a name) in one product, faces written as
-/// ADVANCED_FACE. Units are
-/// millimetres (truck-stepio writes `SI_UNIT(.MILLI.,.METRE.)`), uncertainty 1e-6 mm.
-/// `file_name` goes into FILE_NAME. Deterministic: the same input gives the same text.
-pub fn step_text(solids: &[(String, Solid)], header: &StepHeader, file_name: &str) -> String {
+/// truck-stepio's own text of `solids` (its header, one product), with our time stamp.
+fn truck_text(solids: &[(String, Solid)], header: &StepHeader) -> String {
     let compressed: Vec<CompressedSolid<_, _, _>> =
         solids.iter().map(|(_, s)| s.compress()).collect();
     let models: StepModels<_, _, _> = compressed.iter().collect();
-    let text = CompleteStepDisplay::new(
+    CompleteStepDisplay::new(
         models,
         StepHeaderDescriptor {
             time_stamp: header.time_stamp.clone(),
             ..StepHeaderDescriptor::default()
         },
     )
-    .to_string();
+    .to_string()
+}
+
+/// The whole STEP text of `solids` (each with a name) in one product, faces written as
+/// ADVANCED_FACE. Units are
+/// millimetres (truck-stepio writes `SI_UNIT(.MILLI.,.METRE.)`), uncertainty 1e-6 mm.
+/// `file_name` goes into FILE_NAME. Deterministic: the same input gives the same text.
+pub fn step_text(solids: &[(String, Solid)], header: &StepHeader, file_name: &str) -> String {
+    let text = truck_text(solids, header);
     // Replace truck's header section with ours.
     let data_at = text.find("DATA;\n").unwrap_or(0);
     let mut out = String::with_capacity(text.len() + 512);
@@ -217,17 +222,7 @@ pub fn step_real(x: f64) -> String {
 /// returns the text (one entity or complex entity per record), the entity numbers of
 /// the manifold solids, and the largest entity number.
 fn solid_entities(solids: &[(String, Solid)], header: &StepHeader) -> (String, Vec<usize>, usize) {
-    let compressed: Vec<CompressedSolid<_, _, _>> =
-        solids.iter().map(|(_, s)| s.compress()).collect();
-    let models: StepModels<_, _, _> = compressed.iter().collect();
-    let text = CompleteStepDisplay::new(
-        models,
-        StepHeaderDescriptor {
-            time_stamp: header.time_stamp.clone(),
-            ..StepHeaderDescriptor::default()
-        },
-    )
-    .to_string();
+    let text = truck_text(solids, header);
     let data = text
         .find("DATA;\n")
         .map(|k| &text[k + "DATA;\n".len()..])
