@@ -100,7 +100,9 @@ pub fn build_blade_timed(
     };
     let skin_to_design = placed.skin_to_design.max;
     let (ring_radii, skin) = (placed.radii, placed.skin);
-    check_work(&skin, tess_opts.tolerance, tolerance, available_memory())?;
+    timings.time("estimate", || {
+        check_work(&skin, tess_opts.tolerance, tolerance, available_memory())
+    })?;
     let mut tessellation = timings.time("tessellation", || tessellate(&skin, &tess_opts))?;
     let deviation = timings.time("deviation", || {
         max_deviation(&skin, &tessellation.us, &tessellation.vs, 2)
