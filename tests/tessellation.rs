@@ -2,6 +2,8 @@
 //! surface, measured both ways and with an independent library (parry3d), and needs far
 //! fewer triangles than a uniform grid of the same measured deviation.
 
+mod support;
+
 use nalgebra::{Point3, Vector2};
 use spanwright::design::parse_toml_str;
 use spanwright::loft::Skin;
@@ -237,16 +239,7 @@ fn printed_deviation_bounds_a_dense_independent_sampling() {
     // the cell's own two triangles, in f64 (farther than the nearest mesh point, so
     // a stricter check than (a)).
     use parry3d::query::PointQuery;
-    let design =
-        spanwright::design::load(std::path::Path::new("examples/garden-turbine.toml")).unwrap();
-    let m = build_blade(
-        &design,
-        &Options {
-            tolerance: Some(0.01),
-            ..Options::default()
-        },
-    )
-    .unwrap();
+    let m = support::demo_blade(0.01);
     let t = &m.tessellation;
     let printed = max_deviation(&m.skin, &t.us, &t.vs, 2);
     assert!(

@@ -3,6 +3,8 @@
 //! table whose chord steps between close stations, where a skin through evenly spaced
 //! rings strays far from the design.
 
+mod support;
+
 use nalgebra::{Point2, Point3};
 use spanwright::design::parse_toml_str;
 use spanwright::pipeline::{build_blade, BuiltBlade, Options};
@@ -161,16 +163,7 @@ fn work_too_large_for_the_memory_is_refused_with_the_estimate() {
     // of the real triangle count (the accuracy the estimate's module docs state), and a
     // budget below its peak memory refuses with the figures and a coarser tolerance.
     use spanwright::pipeline::{check_work, PipelineError};
-    let design =
-        spanwright::design::load(std::path::Path::new("examples/garden-turbine.toml")).unwrap();
-    let m = build_blade(
-        &design,
-        &Options {
-            tolerance: Some(0.01),
-            ..Options::default()
-        },
-    )
-    .unwrap();
+    let m = support::demo_blade(0.01);
     let real = m.tessellation.mesh.len() as f64;
     assert!(check_work(&m.skin, 0.01, 0.01, 1e12).is_ok());
     let err = check_work(&m.skin, 0.01, 0.01, 1e6).unwrap_err();

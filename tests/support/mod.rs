@@ -238,3 +238,17 @@ twist = 2
 "#
     )
 }
+
+/// The garden-turbine demo blade (examples/, invented data) built at `tolerance` mm.
+pub fn demo_blade(tolerance: f64) -> spanwright::pipeline::BuiltBlade {
+    let design =
+        spanwright::design::load(Path::new("examples/garden-turbine.toml")).expect("the demo");
+    spanwright::pipeline::build_blade(
+        &design,
+        &spanwright::pipeline::Options {
+            tolerance: Some(tolerance),
+            ..spanwright::pipeline::Options::default()
+        },
+    )
+    .expect("the demo builds")
+}
