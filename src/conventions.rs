@@ -83,3 +83,13 @@
 //! z = radius
 //! ```
 //! then `x -> -x` for a clockwise rotor.
+//!
+//! # Smallest triangle
+//! A triangle is degenerate when its area is below [`DEGENERATE_AREA`] `* d²`, `d` the
+//! diagonal of its mesh's bounding box: relative, so it holds in any unit and size, and
+//! about where single-precision STL (24-bit mantissas) stops telling a thin triangle's
+//! corners apart. The solid check refuses such triangles; the tessellation merges grid
+//! vertices well before a cell gets that thin.
+
+/// Relative area below which a triangle counts as degenerate (see the module docs).
+pub const DEGENERATE_AREA: f64 = 1e-12;

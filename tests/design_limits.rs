@@ -106,7 +106,7 @@ fn tolerance_has_a_floor_and_converts_with_the_file_unit() {
         "{BLADE}tolerance = 1e-9\n{}",
         stations(&[(40.0, 30.0), (120.0, 20.0)])
     ));
-    has_key(&e, "blade.tolerance", &["1e-9 mm", "finer than 0.0001 mm"]);
+    has_key(&e, "blade.tolerance", &["1e-9 mm", "finer than 0.001 mm"]);
     // In inches, tolerance and min-te-thickness convert like every other length.
     let d = design::parse_toml_str(
         &format!(
@@ -188,7 +188,7 @@ fn a_tolerance_given_for_a_build_is_checked_like_the_files() {
         .check_tolerance(1e-9, "--tolerance")
         .unwrap_err()
         .to_string();
-    assert!(e.contains("at least 0.0001 mm"), "{e}");
+    assert!(e.contains("at least 0.001 mm"), "{e}");
 }
 
 #[test]

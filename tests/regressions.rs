@@ -71,7 +71,7 @@ fn repro_02_tolerance_1e9_is_refused() {
         2,
         &build(&text),
         "tolerance 1e-9",
-        &["t.toml:3: blade.tolerance", "finer than 0.0001 mm"],
+        &["t.toml:3: blade.tolerance", "finer than 0.001 mm"],
     );
     // On the command line too.
     let r = run_in_temp(

@@ -26,7 +26,7 @@ impl CheckOptions {
     /// The defaults: relative degenerate area `1e-12`, self-intersection test on, genus 0
     /// expected, 10 items listed per finding.
     pub const DEFAULT: CheckOptions = CheckOptions {
-        degenerate_area: 1e-12,
+        degenerate_area: crate::conventions::DEGENERATE_AREA,
         self_intersection: true,
         expected_genus: Some(0),
         max_listed: 10,

@@ -71,7 +71,7 @@
 //! | `blade.flow` | `"turbine"`, `"propeller"` | `"turbine"` | see [`Flow`] |
 //! | `blade.rotation` | `"ccw"`, `"cw"` | `"ccw"` | seen from upstream, see [`Rotation`] |
 //! | `blade.points-per-side` | integer in 8..=2000 | 120 | section resampling |
-//! | `blade.tolerance` | number, length unit | 0.01 mm | largest mesh deviation; at least 0.0001 mm, at most 10 mm (in the file's unit: `0.0004` in an inch file is 0.01016 mm) |
+//! | `blade.tolerance` | number, length unit | 0.01 mm | largest mesh deviation; at least 0.001 mm, at most 10 mm (in the file's unit: `0.0004` in an inch file is 0.01016 mm) |
 //! | `blade.min-te-thickness` | number, length unit | 0.4 mm | thinnest trailing edge: thinner edges are opened to it (the build summary lists them); 0 keeps knife edges; at most 10 % of every station's chord |
 //! | `blade.spanwise` | `"smooth"`, `"linear"` | `"smooth"` | how values vary between stations: monotone cubic, or straight lines (see [`Law`]) |
 //! | `station` | array of tables (`[[station]]`) | | the stations, root to tip, 2 to 1000 |
@@ -117,7 +117,7 @@
 //! | limit | value | why |
 //! |-------|-------|-----|
 //! | largest radius, chord, sweep, prebend | 10 m ([`MAX_LENGTH_MM`]) | spanwright is for small rotors; a larger number is almost always a unit slip, and the message says so (`radius 280 m: did you mean millimetres? ... units = { length = "m" }`) |
-//! | tolerance | 0.0001 to 10 mm ([`MIN_TOLERANCE_MM`], [`MAX_TOLERANCE_MM`]) | ten times finer than precision machining holds; the mesh grows with 1/tolerance |
+//! | tolerance | 0.001 to 10 mm ([`MIN_TOLERANCE_MM`], [`MAX_TOLERANCE_MM`]) | what precision machining holds; below it the skin, STL's single precision and a round tip's end cannot keep the tolerance for every design; the mesh grows with 1/tolerance |
 //! | smallest chord | 20 tolerances ([`MIN_CHORD_TOLERANCES`]) | each side of the mesh may lie a tolerance inside the surface: a 10 %-thick section must stay thicker than two tolerances |
 //! | smallest span, first to last station | 20 tolerances ([`MIN_SPAN_TOLERANCES`]) | the same along the span (a 0.001 mm "blade" is a wafer the mesh cannot close) |
 //! | neighbouring stations | at least one tolerance apart ([`MIN_GAP_TOLERANCES`]) | closer, the mesh cannot tell them apart |

@@ -456,8 +456,8 @@ impl Reader<'_> {
                 &[Seg::Key("blade"), Seg::Key("tolerance")],
                 message,
                 Some(format!(
-                    "give the largest allowed mesh deviation from {lo} mm (finer than any \
-                     machine tool holds) to {hi} mm; 0.01 mm is a fine print, 0.001 mm a \
+                    "give the largest allowed mesh deviation from {lo} mm (what precision \
+                     machining holds) to {hi} mm; 0.01 mm is a fine print, 0.001 mm a \
                      machining file"
                 )),
             );

@@ -10,7 +10,7 @@ use crate::loft::Skin;
 use crate::mesh::{Part, TriMesh};
 use crate::rings::place_rings;
 use crate::root::{RootSpec, TipSpec};
-use crate::tessellate::{estimate, max_deviation, tessellate, Tessellation, TessellationOptions};
+use crate::tessellate::{estimate, mesh_deviation, tessellate, Tessellation, TessellationOptions};
 
 /// The built blade: every stage's result, for the consumers (parts, reports, STEP).
 #[derive(Debug, Clone)]
@@ -32,7 +32,7 @@ pub struct BuiltBlade {
     /// The mesh tolerance used, mm.
     pub tolerance: f64,
     /// Proven upper bound of the distance from the skin to its mesh, mm
-    /// ([`crate::tessellate::max_deviation`]).
+    /// ([`crate::tessellate::mesh_deviation`]).
     pub deviation: f64,
     /// Largest distance from the skin to the blade the design describes, measured between
     /// the rings, mm ([`crate::rings::skin_to_design`]).
@@ -105,7 +105,9 @@ pub fn build_blade_timed(
     })?;
     let mut tessellation = timings.time("tessellation", || tessellate(&skin, &tess_opts))?;
     let deviation = timings.time("deviation", || {
-        max_deviation(&skin, &tessellation.us, &tessellation.vs, 2)
+        let t = &tessellation;
+        let grid = &t.mesh.vertices[..t.us.len() * t.vs.len()];
+        mesh_deviation(&skin, &t.us, &t.vs, grid, 2)
     });
     if let Some(root) = blade.root() {
         timings.time("mount features", || {

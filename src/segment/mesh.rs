@@ -22,7 +22,7 @@ use super::SegmentError;
 use crate::loft::Skin;
 use crate::mesh::TriMesh;
 use crate::root::RootSpec;
-use crate::tessellate::{mesh_from_grid, with_rows};
+use crate::tessellate::{merge_distance, mesh_from_grid, row_ring, with_rows};
 use nalgebra::{Point2, Point3, Vector3};
 
 /// One segment's mesh and what it is.
@@ -148,7 +148,8 @@ impl<'a> SplitBlade<'a> {
         let (vs, rows) = with_rows(input.skin, input.vs, splits).ok_or_else(|| {
             SegmentError::mesh("a split radius lies outside the skin".to_string())
         })?;
-        let (mut mesh, root_ring, root_cap) = mesh_from_grid(input.skin, input.us, &vs)?;
+        let (mut mesh, root_ring, root_cap) =
+            mesh_from_grid(input.skin, input.us, &vs, merge_distance(input.tolerance))?;
         let (nu, nv) = (input.us.len(), vs.len());
         for (&j, &r) in rows.iter().zip(splits) {
             for i in 0..nu {
@@ -299,16 +300,7 @@ impl<'a> SplitBlade<'a> {
 
     /// The loop of grid row `j`'s vertices (without the closing repeat).
     fn ring_at(&self, j: usize) -> Vec<u32> {
-        let (nu, nv) = (self.nu, self.nv);
-        let mut ring: Vec<u32> = (0..nu).map(|i| (i * nv + j) as u32).collect();
-        let (a, b) = (
-            self.mesh.vertices[ring[0] as usize],
-            self.mesh.vertices[ring[nu - 1] as usize],
-        );
-        if (a - b).norm() <= 1e-9 {
-            ring.pop();
-        }
-        ring
+        row_ring(&self.mesh.vertices, self.nu, self.nv, j)
     }
 
     /// The segment's caps: at its lower end (a split, or the root face when the

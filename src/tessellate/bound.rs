@@ -362,8 +362,22 @@ impl Sample {
 /// margin over the samples shrinks as `1 / k²`. An independent sampling of the surface
 /// can never find a larger distance.
 pub fn max_deviation(skin: &Skin, us: &[f64], vs: &[f64], k: usize) -> f64 {
+    mesh_deviation(skin, us, vs, &super::grid::eval_grid(skin, us, vs), k)
+}
+
+/// [`max_deviation`] for the mesh whose grid vertices are `points` (`points[i *
+/// vs.len() + j]`, at `(us[i], vs[j])` or moved onto the vertex it merged into, see
+/// [`super::merge_distance`]): each cell is bounded against the triangles on its actual
+/// corners. A cell collapsed by merging is bounded against its degenerate triangles,
+/// which are edges of the neighbouring triangles, so the bound holds for the mesh.
+pub fn mesh_deviation(
+    skin: &Skin,
+    us: &[f64],
+    vs: &[f64],
+    points: &[Point3<f64>],
+    k: usize,
+) -> f64 {
     let k = k.max(2);
-    let points = super::grid::eval_grid(skin, us, vs);
     let cert = Certifier::new(skin);
     let (nu, nv) = (us.len(), vs.len());
     let mut cells: Vec<Cell> = Vec::with_capacity((nu - 1) * (nv - 1) + nv);
@@ -383,7 +397,7 @@ pub fn max_deviation(skin: &Skin, us: &[f64], vs: &[f64], k: usize) -> f64 {
             });
         }
     }
-    cells.extend((0..nv - 1).filter_map(|j| cert.strip_cell(us, vs, &points, j)));
+    cells.extend((0..nv - 1).filter_map(|j| cert.strip_cell(us, vs, points, j)));
     let first: Vec<(f64, f64)> = cells
         .par_iter()
         .map(|c| c.certify(f64::NEG_INFINITY, k, k))

@@ -21,6 +21,10 @@
 //! leading edge of a small round-tip end), interior points are added at the slivers'
 //! circumcentres, so the boundary stays shared with the skin.
 //!
+//! **Crowded rows**: where an outline shrinks (the end of a round tip) the shared columns
+//! crowd into slivers; such row neighbours are merged into one vertex (an edge collapse,
+//! see [`merge_distance`]) and the deviation bound is taken on the merged corners.
+//!
 //! **Work**: choosing the grid costs a few dozen surface evaluations per grid cell
 //! (each interval and each cell is tested once, plus the rows and columns split later);
 //! building the mesh costs one evaluation per vertex; both grow linearly with the number
@@ -32,7 +36,7 @@ mod cap;
 mod estimate;
 mod grid;
 
-pub use bound::max_deviation;
+pub use bound::{max_deviation, mesh_deviation};
 pub use estimate::{estimate, WorkEstimate};
 
 use crate::loft::{Basis, Skin};
@@ -224,7 +228,8 @@ pub fn tessellate(
         return Err(TessellateError::Tolerance(opts.tolerance));
     }
     let g = grid::grid(skin, opts);
-    let (mesh, root_ring, root_cap) = mesh_from_points(skin, &g.us, &g.vs, g.points)?;
+    let cap = merge_distance(opts.tolerance);
+    let (mesh, root_ring, root_cap) = mesh_from_points(skin, &g.us, &g.vs, g.points, cap)?;
     Ok(Tessellation {
         mesh,
         us: g.us,
@@ -238,36 +243,151 @@ pub fn tessellate(
 /// The root ring and the range of the root cap's triangles.
 type RootCap = (Vec<u32>, std::ops::Range<usize>);
 
+/// How much larger than the solid check's degenerate area
+/// ([`crate::conventions::DEGENERATE_AREA`]) the triangles next to a row edge must stay
+/// before the edge's vertices are merged: a rotor or one-piece part holding the blade is
+/// checked against its own, larger bounding box (up to 4 times the blade's diagonal).
+const MERGE_GUARD: f64 = 16.0;
+
+/// A row edge is short (a sliver's short side) below this share of the triangle's
+/// longest side.
+const SLIVER: f64 = 0.25;
+
+/// Farthest two neighbouring vertices of one grid row may be apart and still be merged
+/// into one mesh vertex, mm: the mesh tolerance.
+///
+/// The grid's columns are shared by every row, so columns placed close together where
+/// a section is large (the corners of an opened trailing edge) crowd together where the
+/// outline shrinks (the end of a round tip) into row edges a few hundred-thousandths of
+/// a millimetre long, between rows only thousandths of a millimetre apart in radius: the
+/// triangles on such an edge are slivers the solid check refuses and single-precision
+/// STL cannot hold. Such a vertex is merged into the one before it in its row when a
+/// triangle it would make with a neighbouring row is a sliver (area below
+/// [`MERGE_GUARD`] times the degenerate area, the row edge under [`SLIVER`] of its
+/// longest side) and the row edge is at most this distance; exactly coincident
+/// vertices (a sharp trailing edge) always merge. The cells on the edge
+/// collapse onto their neighbours' edges (an edge collapse inside a triangulated grid
+/// keeps it a closed 2-manifold), and the deviation bound ([`mesh_deviation`]) is taken
+/// on the moved corners, so the printed figure covers the merge.
+pub fn merge_distance(tolerance: f64) -> f64 {
+    tolerance
+}
+
 /// Builds the closed mesh on the given grid parameters (`us` from 0 to 1, `vs` from 0
-/// to 1, both sorted); also returns the root ring and the root cap's triangle range.
+/// to 1, both sorted), merging crowded row neighbours at most `merge` mm apart (see
+/// [`merge_distance`]; 0 merges only coincident ones); also returns the root ring and
+/// the root cap's triangle range.
 pub fn mesh_from_grid(
     skin: &Skin,
     us: &[f64],
     vs: &[f64],
+    merge: f64,
 ) -> Result<(TriMesh, Vec<u32>, std::ops::Range<usize>), TessellateError> {
-    mesh_from_points(skin, us, vs, grid::eval_grid(skin, us, vs))
+    mesh_from_points(skin, us, vs, grid::eval_grid(skin, us, vs), merge)
+}
+
+/// For each grid vertex that merges into an earlier one of its row, the pair (vertex,
+/// the vertex it becomes), both as `i * nv + j`. Along row `j` a run of vertices, each
+/// making a sliver with the run's first vertex (see [`merge_distance`]; `cap` the
+/// longest edge merged), becomes that first vertex; when the row's last run's first
+/// vertex makes a sliver with column 0 (a trailing edge closing to nothing), the run
+/// becomes column 0's vertex.
+fn row_merges(points: &[Point3<f64>], nu: usize, nv: usize, cap: f64) -> Vec<(u32, u32)> {
+    let diag = crate::mesh::Aabb::of_points(points).map_or(0.0, |b| b.size().norm());
+    let guard = MERGE_GUARD * crate::conventions::DEGENERATE_AREA * diag * diag;
+    (0..nv)
+        .into_par_iter()
+        .flat_map_iter(|j| {
+            let p = |i: usize, j: usize| points[i * nv + j];
+            let rows: Vec<usize> = [j.checked_sub(1), (j + 1 < nv).then_some(j + 1)]
+                .into_iter()
+                .flatten()
+                .collect();
+            // A sliver on the row edge from `a` (column `ia`) to `b` (column `ib`): a
+            // triangle with a neighbouring row's vertex whose area is below the guard
+            // while the edge is short against the triangle's other sides.
+            let sliver = |a: Point3<f64>, ib: usize, ia: usize| {
+                let b = p(ib, j);
+                let ab = (b - a).norm();
+                if ab <= 1e-9 {
+                    return true;
+                }
+                ab <= cap
+                    && rows.iter().any(|&k| {
+                        [p(ia, k), p(ib, k)].iter().any(|c| {
+                            let area = 0.5 * (b - a).cross(&(c - a)).norm();
+                            let long = (c - a).norm().max((c - b).norm());
+                            area < guard && ab < SLIVER * long
+                        })
+                    })
+            };
+            let mut out: Vec<(u32, u32)> = Vec::new();
+            let mut first = 0;
+            let mut run_start = 0;
+            for i in 1..nu {
+                if sliver(p(first, j), i, i - 1) {
+                    out.push(((i * nv + j) as u32, (first * nv + j) as u32));
+                } else {
+                    first = i;
+                    run_start = out.len();
+                }
+            }
+            if first != 0 && sliver(p(0, j), first, 0) {
+                for m in &mut out[run_start..] {
+                    m.1 = j as u32;
+                }
+                out.push(((first * nv + j) as u32, j as u32));
+            }
+            out
+        })
+        .collect()
+}
+
+/// The loop of grid row `j`'s mesh vertices, in `u` order, each once: the row's
+/// vertices with merged ones (equal positions, see [`merge_distance`]) and the
+/// trailing edge's repeat left out. Row `j` of column `i` is vertex `i * nv + j`.
+pub fn row_ring(vertices: &[Point3<f64>], nu: usize, nv: usize, j: usize) -> Vec<u32> {
+    let mut ring: Vec<u32> = Vec::with_capacity(nu);
+    for i in 0..nu {
+        let v = (i * nv + j) as u32;
+        match ring.last() {
+            Some(&w) if vertices[w as usize] == vertices[v as usize] => {}
+            _ => ring.push(v),
+        }
+    }
+    while ring.len() > 1 && vertices[ring[ring.len() - 1] as usize] == vertices[ring[0] as usize] {
+        ring.pop();
+    }
+    ring
 }
 
 /// [`mesh_from_grid`] on the evaluated grid `points` (`u` major), which become the
 /// first `us.len() * vs.len()` vertices: vertex `i * vs.len() + j` is at
-/// `(us[i], vs[j])`. Cap interior points, if any, follow them.
+/// `(us[i], vs[j])`, or, when merged, at the position of the vertex it merged into.
+/// Cap interior points, if any, follow them.
 fn mesh_from_points(
     skin: &Skin,
     us: &[f64],
     vs: &[f64],
-    points: Vec<Point3<f64>>,
+    mut points: Vec<Point3<f64>>,
+    merge: f64,
 ) -> Result<(TriMesh, Vec<u32>, std::ops::Range<usize>), TessellateError> {
     let (nu, nv) = (us.len(), vs.len());
-    let id = |i: usize, j: usize| (i * nv + j) as u32;
-    // Where the trailing edge is sharp, the last column is the first one.
-    let alias: Vec<bool> = (0..nv)
-        .map(|j| (points[id(0, j) as usize] - points[id(nu - 1, j) as usize]).norm() <= 1e-9)
-        .collect();
+    let merges = row_merges(&points, nu, nv, merge);
+    let mut target: Vec<u32> = Vec::new();
+    if !merges.is_empty() {
+        target = (0..(nu * nv) as u32).collect();
+        for &(v, to) in &merges {
+            target[v as usize] = to;
+            points[v as usize] = points[to as usize];
+        }
+    }
     let index = |i: usize, j: usize| {
-        if i == nu - 1 && alias[j] {
-            id(0, j)
+        let v = i * nv + j;
+        if target.is_empty() {
+            v as u32
         } else {
-            id(i, j)
+            target[v]
         }
     };
     let outward = skin.orientation() > 0.0;
@@ -290,30 +410,20 @@ fn mesh_from_points(
             }
         });
     // The trailing-edge strip (column nu-1 back to column 0), where it has width.
-    if !alias.iter().all(|&a| a) {
-        for j in 0..nv - 1 {
-            for t in cell(nu - 1, 0, j) {
-                if t[0] != t[1] && t[1] != t[2] && t[0] != t[2] {
-                    triangles.push(orient(t));
-                }
-            }
-        }
+    for j in 0..nv - 1 {
+        triangles.extend(cell(nu - 1, 0, j).map(orient));
     }
+    // Cells collapsed by merged vertices leave triangles with a repeated corner.
+    triangles.retain(|t| t[0] != t[1] && t[1] != t[2] && t[0] != t[2]);
     let mut mesh = TriMesh {
         vertices: points,
         triangles,
     };
-    // Caps: the boundary loop of row j, without the aliased duplicate.
+    // Caps: the boundary loops of the end rows.
     let scale = mesh.bounding_box().map_or(1.0, |b| b.size().norm());
     let rings: Vec<Vec<u32>> = [0, nv - 1]
         .iter()
-        .map(|&j| {
-            let mut ring: Vec<u32> = (0..nu).map(|i| index(i, j)).collect();
-            if ring[nu - 1] == ring[0] {
-                ring.pop();
-            }
-            ring
-        })
+        .map(|&j| row_ring(&mesh.vertices, nu, nv, j))
         .collect();
     let (root_cap, tip_cap) = rayon::join(
         || cap::cap(&mesh.vertices, &rings[0], false, scale),
