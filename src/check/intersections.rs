@@ -33,16 +33,40 @@ const LEAF: usize = 4;
 /// Tree levels below the root whose subtrees are handed to separate tasks.
 const PARALLEL_LEVELS: u32 = 10;
 
+/// An axis-aligned box in single precision, rounded outward from the double-precision
+/// coordinates it bounds, so it always contains them: two boxes that overlap in double
+/// precision overlap here too (half the memory of a double-precision box, and no pair
+/// is ever missed; the exact tests run on the mesh's own coordinates).
 #[derive(Clone, Copy)]
 struct Boxed {
-    min: [f64; 3],
-    max: [f64; 3],
+    min: [f32; 3],
+    max: [f32; 3],
+}
+
+/// The largest `f32` not above `x`.
+fn round_down(x: f64) -> f32 {
+    let y = x as f32;
+    if f64::from(y) > x {
+        y.next_down()
+    } else {
+        y
+    }
+}
+
+/// The smallest `f32` not below `x`.
+fn round_up(x: f64) -> f32 {
+    let y = x as f32;
+    if f64::from(y) < x {
+        y.next_up()
+    } else {
+        y
+    }
 }
 
 impl Boxed {
     const EMPTY: Boxed = Boxed {
-        min: [f64::INFINITY; 3],
-        max: [f64::NEG_INFINITY; 3],
+        min: [f32::INFINITY; 3],
+        max: [f32::NEG_INFINITY; 3],
     };
 
     fn overlaps(&self, o: &Boxed) -> bool {
@@ -90,7 +114,10 @@ impl Bvh {
         use rayon::prelude::*;
         let (lo, hi) = ids
             .par_iter()
-            .map(|&t| (tri_boxes[t as usize].min, tri_boxes[t as usize].max))
+            .map(|&t| {
+                let b = &tri_boxes[t as usize];
+                (b.min.map(f64::from), b.max.map(f64::from))
+            })
             .reduce(
                 || ([f64::INFINITY; 3], [f64::NEG_INFINITY; 3]),
                 |a, b| {
@@ -112,7 +139,8 @@ impl Bvh {
             .par_iter()
             .map(|&t| {
                 let b = &tri_boxes[t as usize];
-                let q = |k: usize| ((0.5 * (b.min[k] + b.max[k]) - lo[k]) * scale[k]) as u64;
+                let centre = |k: usize| 0.5 * (f64::from(b.min[k]) + f64::from(b.max[k]));
+                let q = |k: usize| ((centre(k) - lo[k]) * scale[k]) as u64;
                 (spread(q(0)) | (spread(q(1)) << 1) | (spread(q(2)) << 2), t)
             })
             .collect();
@@ -261,16 +289,19 @@ fn search(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
     let tri_boxes: Vec<Boxed> = tris
         .par_iter()
         .map(|t| {
-            let mut b = Boxed::EMPTY;
+            let (mut lo, mut hi) = ([f64::INFINITY; 3], [f64::NEG_INFINITY; 3]);
             for &i in t {
                 if let Some(p) = mesh.vertices.get(i as usize) {
                     for k in 0..3 {
-                        b.min[k] = b.min[k].min(p[k]);
-                        b.max[k] = b.max[k].max(p[k]);
+                        lo[k] = lo[k].min(p[k]);
+                        hi[k] = hi[k].max(p[k]);
                     }
                 }
             }
-            b
+            Boxed {
+                min: lo.map(round_down),
+                max: hi.map(round_up),
+            }
         })
         .collect();
     let bvh = Bvh::build(&tri_boxes, &ids);

@@ -42,27 +42,65 @@ pub(crate) fn analyse(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize, cap: u
         faces: use_tri.len(),
         ..Topology::default()
     };
-    let mut corners = topo.edges_of(triangles, &directed_edges(triangles, use_tri), cap);
+    let mut corners = topo.edges_of(triangles, &EdgeGroups::new(triangles, use_tri, nv), cap);
     topo.fans_of(triangles, use_tri, &mut corners, cap);
     debug_assert!(topo.vertices <= nv);
     topo
 }
 
-/// One record per directed edge: (undirected key, triangle, slot k of edge k -> k+1),
-/// sorted so the uses of one edge stand together.
-fn directed_edges(triangles: &[[u32; 3]], use_tri: &[u32]) -> Vec<(u64, u32, u8)> {
-    let mut rec: Vec<(u64, u32, u8)> = Vec::with_capacity(use_tri.len() * 3);
-    for &t in use_tri {
-        let tri = triangles[t as usize];
-        for k in 0..3u8 {
+/// The directed edges grouped by undirected edge: for each vertex `a` (ascending), the
+/// edges whose smaller end is `a`, as `(other end, corner 3 t + k of edge k -> k+1)`,
+/// sorted, so the uses of one edge stand together. A counting sort on the smaller end
+/// (`O(n)`, 8 bytes per directed edge) and a sort of each vertex's few edges; the
+/// result does not depend on the thread count.
+struct EdgeGroups {
+    /// `start[a]..start[a + 1]` are vertex `a`'s records.
+    start: Vec<u32>,
+    rec: Vec<(u32, u32)>,
+}
+
+impl EdgeGroups {
+    fn new(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize) -> EdgeGroups {
+        let ends = |t: u32, k: u32| {
+            let tri = triangles[t as usize];
             let (a, b) = (tri[k as usize], tri[(k as usize + 1) % 3]);
-            let key = ((a.min(b) as u64) << 32) | a.max(b) as u64;
-            rec.push((key, t, k));
+            (a.min(b), a.max(b))
+        };
+        let mut start = vec![0u32; nv + 1];
+        for &t in use_tri {
+            for k in 0..3 {
+                start[ends(t, k).0 as usize + 1] += 1;
+            }
+        }
+        for a in 0..nv {
+            start[a + 1] += start[a];
+        }
+        let mut fill = start.clone();
+        let mut rec = vec![(0u32, 0u32); use_tri.len() * 3];
+        for &t in use_tri {
+            for k in 0..3 {
+                let (a, b) = ends(t, k);
+                rec[fill[a as usize] as usize] = (b, 3 * t + k);
+                fill[a as usize] += 1;
+            }
+        }
+        drop(fill);
+        for a in 0..nv {
+            rec[start[a] as usize..start[a + 1] as usize].sort_unstable();
+        }
+        EdgeGroups { start, rec }
+    }
+
+    /// Each undirected edge `[a, b]` (`a < b`) with its uses `(triangle, slot)`.
+    fn each(&self, mut f: impl FnMut([u32; 2], &[(u32, u32)])) {
+        for a in 0..self.start.len() - 1 {
+            let group = &self.rec[self.start[a] as usize..self.start[a + 1] as usize];
+            for run in runs(group, |r| r.0) {
+                let uses = &group[run];
+                f([a as u32, uses[0].0], uses);
+            }
         }
     }
-    // Parallel sort: the records are distinct, so the order is the same on any thread count.
-    rec.par_sort_unstable();
-    rec
 }
 
 /// The runs of equal keys in a sorted list, as index ranges.
@@ -89,30 +127,27 @@ impl Topology {
     /// Counts the edges and lists those used once, more than twice, or twice in the
     /// same direction. Returns the corners (3 t + k) joined across each edge used
     /// exactly twice: the corners of one vertex that end in the same set form one fan.
-    fn edges_of(&mut self, triangles: &[[u32; 3]], rec: &[(u64, u32, u8)], cap: usize) -> Dsu {
+    fn edges_of(&mut self, triangles: &[[u32; 3]], groups: &EdgeGroups, cap: usize) -> Dsu {
         let mut corners = Dsu::new(triangles.len() * 3);
-        let directed = |t: u32, k: u8| {
-            let tri = triangles[t as usize];
-            [tri[k as usize], tri[(k as usize + 1) % 3]]
+        let directed = |c: u32| {
+            let (t, k) = ((c / 3) as usize, (c % 3) as usize);
+            [triangles[t][k], triangles[t][(k + 1) % 3]]
         };
-        for run in runs(rec, |r| r.0) {
+        groups.each(|edge, uses| {
             self.edges += 1;
-            let group = &rec[run];
-            match group.len() {
-                1 => {
-                    let (_, t, k) = group[0];
+            match uses {
+                [(_, c)] => {
                     self.boundary.push(
                         EdgeUse {
-                            edge: directed(t, k),
-                            triangles: vec![t as usize],
+                            edge: directed(*c),
+                            triangles: vec![(c / 3) as usize],
                         },
                         cap,
                     );
                 }
-                2 => {
-                    let (_, t1, k1) = group[0];
-                    let (_, t2, k2) = group[1];
-                    let (e1, e2) = (directed(t1, k1), directed(t2, k2));
+                [(_, c1), (_, c2)] => {
+                    let (t1, t2) = (c1 / 3, c2 / 3);
+                    let (e1, e2) = (directed(*c1), directed(*c2));
                     if e1 == e2 {
                         self.same_direction.push(
                             EdgeUse {
@@ -123,23 +158,20 @@ impl Topology {
                         );
                     }
                     for v in e1 {
-                        let c1 = corner(triangles, t1, v);
-                        let c2 = corner(triangles, t2, v);
-                        corners.union(c1, c2);
+                        corners.union(corner(triangles, t1, v), corner(triangles, t2, v));
                     }
                 }
                 _ => {
-                    let key = group[0].0;
                     self.overused.push(
                         EdgeUse {
-                            edge: [(key >> 32) as u32, key as u32],
-                            triangles: group.iter().map(|r| r.1 as usize).collect(),
+                            edge,
+                            triangles: uses.iter().map(|r| (r.1 / 3) as usize).collect(),
                         },
                         cap,
                     );
                 }
             }
-        }
+        });
         corners
     }
 

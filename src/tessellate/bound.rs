@@ -380,39 +380,41 @@ pub fn mesh_deviation(
     let k = k.max(2);
     let cert = Certifier::new(skin);
     let (nu, nv) = (us.len(), vs.len());
-    let mut cells: Vec<Cell> = Vec::with_capacity((nu - 1) * (nv - 1) + nv);
-    for i in 0..nu - 1 {
-        for j in 0..nv - 1 {
-            cells.push(Cell {
-                skin,
-                bounds: &cert.bounds,
-                u: [us[i], us[i + 1]],
-                v: [vs[j], vs[j + 1]],
-                corners: [
-                    points[i * nv + j],
-                    points[(i + 1) * nv + j],
-                    points[(i + 1) * nv + j + 1],
-                    points[i * nv + j + 1],
-                ],
-            });
+    // Cells are made on the fly from their index (skin cells column by column, then the
+    // trailing-edge strip's rows): a list of them would hold four corners per cell, more
+    // than the mesh itself.
+    let skin_cells = (nu - 1) * (nv - 1);
+    let cell = |c: usize| -> Option<Cell> {
+        if c >= skin_cells {
+            return cert.strip_cell(us, vs, points, c - skin_cells);
         }
-    }
-    cells.extend((0..nv - 1).filter_map(|j| cert.strip_cell(us, vs, points, j)));
-    let first: Vec<(f64, f64)> = cells
-        .par_iter()
-        .map(|c| c.certify(f64::NEG_INFINITY, k, k))
+        let (i, j) = (c / (nv - 1), c % (nv - 1));
+        Some(Cell {
+            skin,
+            bounds: &cert.bounds,
+            u: [us[i], us[i + 1]],
+            v: [vs[j], vs[j + 1]],
+            corners: [
+                points[i * nv + j],
+                points[(i + 1) * nv + j],
+                points[(i + 1) * nv + j + 1],
+                points[i * nv + j + 1],
+            ],
+        })
+    };
+    let cells = skin_cells + nv - 1;
+    let first: Vec<(f64, f64)> = (0..cells)
+        .into_par_iter()
+        .map(|c| cell(c).map_or((0.0, 0.0), |c| c.certify(f64::NEG_INFINITY, k, k)))
         .collect();
     // The largest distance any sample has to the mesh: no bound can be below it.
     let floor = first.iter().fold(0.0, |m: f64, b| m.max(b.1));
-    cells
+    first
         .par_iter()
-        .zip(&first)
-        .map(|(c, &(b, _))| {
-            if b > floor && 2 * k <= K_REPORT {
-                b.min(c.certify(floor, 2 * k, K_REPORT).0)
-            } else {
-                b
-            }
+        .enumerate()
+        .map(|(c, &(b, _))| match cell(c) {
+            Some(c) if b > floor && 2 * k <= K_REPORT => b.min(c.certify(floor, 2 * k, K_REPORT).0),
+            _ => b,
         })
         .reduce(|| 0.0, f64::max)
 }
