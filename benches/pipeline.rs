@@ -2,23 +2,30 @@
 //! with the triangle count.
 //!
 //! Run with `cargo bench --bench pipeline`. The design is a 10-station blade resampled to
-//! 200 points per side (the reference case).
+//! 200 points per side (the reference case); the floor group scales it ten times
+//! (a 2.8 m blade) so that a million triangles come at a tolerance the design allows, and
+//! times the build that writes its STL file against copying that file, in one run.
 
 use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
 use spanwright::design::parse_toml_str;
-use spanwright::export::write_stl;
+use spanwright::export::{write_mesh, write_stl, MeshFormat};
 use spanwright::pipeline::{build_blade, resolve_sections, run, Options};
 use spanwright::tessellate::{tessellate, TessellationOptions};
 use std::hint::black_box;
 
 fn design_text() -> String {
+    scaled_design_text(1.0)
+}
+
+/// The ten-station blade with every length times `scale` (scripts/speed builds the same).
+fn scaled_design_text(scale: f64) -> String {
     let mut s = String::from("name = \"bench\"\n[blade]\nsection = \"naca4412\"\npoints-per-side = 200\ntolerance = 0.01\n");
     for i in 0..10 {
         let t = i as f64 / 9.0;
         s += &format!(
             "[[station]]\nradius = {}\nchord = {}\ntwist = {}\nsection = \"{}\"\n",
-            40.0 + 240.0 * t,
-            60.0 - 35.0 * t,
+            scale * (40.0 + 240.0 * t),
+            scale * (60.0 - 35.0 * t),
             25.0 - 22.0 * t,
             if i < 3 { "naca4415" } else { "naca4412" }
         );
@@ -68,5 +75,58 @@ fn growth(c: &mut Criterion) {
     group.finish();
 }
 
-criterion_group!(benches, table_to_stl, growth);
+/// The floor: table to a checked, written binary STL of about a million triangles,
+/// against copying that STL file (read, write, flush to disk), both timed in this run;
+/// the ratio of the medians is printed.
+fn floor(c: &mut Criterion) {
+    let text = scaled_design_text(10.0);
+    let dir = tempfile::tempdir().unwrap();
+    let stl = dir.path().join("floor.stl");
+    let copy = dir.path().join("copy.stl");
+    let opts = Options {
+        tolerance: Some(0.002),
+        blade_only: true,
+        ..Options::default()
+    };
+    let build = || {
+        let design = parse_toml_str(&text, None).unwrap();
+        let outcome = run(&design, &opts).unwrap();
+        let blade = outcome.blade_part();
+        write_mesh(&stl, MeshFormat::Stl, std::slice::from_ref(blade)).unwrap();
+        blade.mesh().len()
+    };
+    let copy_file = || {
+        std::fs::copy(&stl, &copy).unwrap();
+        std::fs::File::open(&copy).unwrap().sync_all().unwrap();
+    };
+    let n = build();
+    let mut group = c.benchmark_group("floor");
+    group.sample_size(10);
+    group.bench_function(format!("build_and_write_{n}_triangles"), |b| b.iter(build));
+    group.bench_function("copy_its_stl", |b| b.iter(copy_file));
+    group.finish();
+    let median = |f: &dyn Fn()| {
+        let mut t: Vec<f64> = (0..5)
+            .map(|_| {
+                let start = std::time::Instant::now();
+                f();
+                start.elapsed().as_secs_f64()
+            })
+            .collect();
+        t.sort_by(f64::total_cmp);
+        t[2]
+    };
+    let (b, k) = (
+        median(&|| {
+            build();
+        }),
+        median(&copy_file),
+    );
+    println!(
+        "floor: {n} triangles: build {b:.3} s, copy {k:.4} s (medians of 5), ratio {:.1}",
+        b / k
+    );
+}
+
+criterion_group!(benches, table_to_stl, growth, floor);
 criterion_main!(benches);
