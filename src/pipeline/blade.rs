@@ -10,7 +10,7 @@ use crate::loft::Skin;
 use crate::mesh::{Part, TriMesh};
 use crate::rings::place_rings;
 use crate::root::{RootSpec, TipSpec};
-use crate::tessellate::{estimate, mesh_deviation, tessellate, Tessellation, TessellationOptions};
+use crate::tessellate::{estimate, tessellate, Tessellation, TessellationOptions};
 
 /// The built blade: every stage's result, for the consumers (parts, reports, STEP).
 #[derive(Debug, Clone)]
@@ -104,11 +104,9 @@ pub fn build_blade_timed(
         check_work(&skin, tess_opts.tolerance, tolerance, available_memory())
     })?;
     let mut tessellation = timings.time("tessellation", || tessellate(&skin, &tess_opts))?;
-    let deviation = timings.time("deviation", || {
-        let t = &tessellation;
-        let grid = &t.mesh.vertices[..t.us.len() * t.vs.len()];
-        mesh_deviation(&skin, &t.us, &t.vs, grid, 2)
-    });
+    let deviation = timings.time("deviation", || tessellation.measured_deviation(&skin, 2));
+    // The per-cell bounds served the measurement; the checks need the memory.
+    tessellation.known = Default::default();
     if let Some(root) = blade.root() {
         timings.time("mount features", || {
             cut_mount_features(&mut tessellation, root, blade.root_face())

@@ -252,8 +252,8 @@ pub fn render(items: &[Item<'_>], marks: Option<&Marks>, opts: &PreviewOptions) 
     });
     let placed = placed_vertices(items);
     let drawn_marks = marks.map(|m| mark_geometry(m, &basis, &placed));
-    let framed = frame_points(items, &placed, drawn_marks.as_ref(), &basis);
-    let mut img = Image::framing(&framed, basis, opts);
+    let framed = frame_extent(items, &placed, drawn_marks.as_ref(), &basis);
+    let mut img = Image::framing(framed, basis, opts);
     shade_items(&mut img, items, &placed);
     if let Some(g) = drawn_marks {
         draw_marks(&mut img, &g);
@@ -275,53 +275,61 @@ fn placed_vertices(items: &[Item<'_>]) -> Vec<Vec<Point3<f64>>> {
         .collect()
 }
 
-/// What the picture must frame, in view coordinates (right, up): every vertex used and
-/// every mark point.
-fn frame_points(
+/// What the picture must frame, in view coordinates (right, up): the extent
+/// `(x0, x1, y0, y1)` of every vertex used and every mark point, `None` when there is
+/// none. Folded point by point (a list of a million-triangle mesh's corners would be
+/// the largest allocation of a build).
+fn frame_extent(
     items: &[Item<'_>],
     placed: &[Vec<Point3<f64>>],
     marks: Option<&MarkGeometry>,
     basis: &[Vector3<f64>; 3],
-) -> Vec<(f64, f64)> {
+) -> Option<(f64, f64, f64, f64)> {
     let [r, u, _] = basis;
-    let mut pts2: Vec<(f64, f64)> = Vec::new();
+    let mut extent: Option<(f64, f64, f64, f64)> = None;
+    let mut add = |p: &Point3<f64>| {
+        let (x, y) = (r.dot(&p.coords), u.dot(&p.coords));
+        if x.is_finite() && y.is_finite() {
+            extent = Some(match extent {
+                None => (x, x, y, y),
+                Some((a, b, c, d)) => (a.min(x), b.max(x), c.min(y), d.max(y)),
+            });
+        }
+    };
     for (it, verts) in items.iter().zip(placed) {
         for t in &it.mesh.triangles {
             for &i in t {
                 if let Some(p) = verts.get(i as usize) {
-                    pts2.push((r.dot(&p.coords), u.dot(&p.coords)));
+                    add(p);
                 }
             }
         }
     }
     if let Some(g) = marks {
-        pts2.extend(g.points().map(|p| (r.dot(&p.coords), u.dot(&p.coords))));
+        for p in g.points() {
+            add(&p);
+        }
     }
-    pts2.retain(|p| p.0.is_finite() && p.1.is_finite());
-    pts2
+    extent
 }
 
 impl Image {
     /// A blank picture of the options' size and background whose projection frames
-    /// `pts2` (view coordinates) within the margin, centred.
-    fn framing(pts2: &[(f64, f64)], basis: [Vector3<f64>; 3], opts: &PreviewOptions) -> Image {
+    /// `extent` (view coordinates `(x0, x1, y0, y1)`) within the margin, centred.
+    fn framing(
+        extent: Option<(f64, f64, f64, f64)>,
+        basis: [Vector3<f64>; 3],
+        opts: &PreviewOptions,
+    ) -> Image {
         let (w, h) = (opts.width.max(1), opts.height.max(1));
-        let (x0, x1, y0, y1) = pts2.iter().fold(
-            (f64::MAX, f64::MIN, f64::MAX, f64::MIN),
-            |(a, b, c, d), p| (a.min(p.0), b.max(p.0), c.min(p.1), d.max(p.1)),
-        );
         let m = opts.margin as f64;
         let (aw, ah) = ((w as f64 - 2.0 * m).max(1.0), (h as f64 - 2.0 * m).max(1.0));
-        let scale = if pts2.is_empty() {
-            1.0
-        } else {
-            let (dx, dy) = ((x1 - x0).max(1e-9), (y1 - y0).max(1e-9));
-            (aw / dx).min(ah / dy)
-        };
-        let (cx, cy) = if pts2.is_empty() {
-            (0.0, 0.0)
-        } else {
-            (0.5 * (x0 + x1), 0.5 * (y0 + y1))
+        let (scale, cx, cy) = match extent {
+            None => (1.0, 0.0, 0.0),
+            Some((x0, x1, y0, y1)) => {
+                let (dx, dy) = ((x1 - x0).max(1e-9), (y1 - y0).max(1e-9));
+                ((aw / dx).min(ah / dy), 0.5 * (x0 + x1), 0.5 * (y0 + y1))
+            }
         };
         let shift = (0.5 * w as f64 - cx * scale, 0.5 * h as f64 + cy * scale);
         Image {

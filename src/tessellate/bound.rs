@@ -84,7 +84,8 @@ impl<'a> Certifier<'a> {
         }
     }
 
-    /// Certified bound of grid cell `(i, j)` (`points` as in [`super::grid::Grid`]), and
+    /// Certified bound of grid cell `(i, j)` (`points` as in [`super::grid::Grid`]), the
+    /// largest distance a sample of it has to its triangles (0 when none was taken), and
     /// which of its directions (`u`, `v`) to halve when the bound is above `target`:
     /// those whose curvature terms carry at least a third of the bound's curvature term.
     pub(crate) fn cell(
@@ -95,7 +96,7 @@ impl<'a> Certifier<'a> {
         i: usize,
         j: usize,
         target: f64,
-    ) -> (f64, [bool; 2]) {
+    ) -> (f64, f64, [bool; 2]) {
         let nv = vs.len();
         let corners = [
             points[i * nv + j],
@@ -111,11 +112,11 @@ impl<'a> Certifier<'a> {
             corners,
         };
         let r = cell.certify(target, 2, K_MAX);
-        (r.0, cell.directions())
+        (r.0, r.1, cell.directions())
     }
 
-    /// Certified bound of row `j` of the trailing-edge strip (0 when the trailing edge
-    /// is sharp).
+    /// Certified bound of row `j` of the trailing-edge strip and its largest sampled
+    /// distance (both 0 when the trailing edge is sharp).
     pub(crate) fn strip_row(
         &self,
         us: &[f64],
@@ -123,9 +124,9 @@ impl<'a> Certifier<'a> {
         points: &[Point3<f64>],
         j: usize,
         target: f64,
-    ) -> f64 {
+    ) -> (f64, f64) {
         self.strip_cell(us, vs, points, j)
-            .map_or(0.0, |c| c.certify(target, 2, K_MAX).0)
+            .map_or((0.0, 0.0), |c| c.certify(target, 2, K_MAX))
     }
 
     fn strip_cell<'b>(
@@ -377,6 +378,72 @@ pub fn mesh_deviation(
     points: &[Point3<f64>],
     k: usize,
 ) -> f64 {
+    measure(skin, us, vs, points, k, None)
+}
+
+/// Bounds already certified for the cells of a grid: per cell (skin cells `u` major,
+/// then the trailing-edge strip's rows) a proven bound against the cell's mesh
+/// triangles and the largest distance a sample of the cell had to them (rounded down to
+/// single precision, so still reached).
+#[derive(Debug, Clone, Default)]
+pub struct KnownBounds {
+    /// Per cell, a proven bound, mm.
+    pub cells: Vec<f64>,
+    /// Per cell, the largest sampled distance, mm.
+    pub lower: Vec<f32>,
+}
+
+impl KnownBounds {
+    /// Forgets cell `c` (its triangles changed): it will be bounded again.
+    pub fn forget(&mut self, c: usize) {
+        if let (Some(b), Some(l)) = (self.cells.get_mut(c), self.lower.get_mut(c)) {
+            *b = f64::INFINITY;
+            *l = 0.0;
+        }
+    }
+
+    /// The largest sampled distance over the cells, mm.
+    pub fn floor(&self) -> f64 {
+        self.lower
+            .iter()
+            .fold(0.0, |m: f64, &l| m.max(f64::from(l)))
+    }
+}
+
+/// `x` rounded down to single precision.
+pub(crate) fn f32_below(x: f64) -> f32 {
+    let y = x as f32;
+    if f64::from(y) > x {
+        y.next_down()
+    } else {
+        y
+    }
+}
+
+/// [`mesh_deviation`] using the bounds the tessellation already certified: a cell whose
+/// known bound is at most the known floor cannot raise the result (some sample already
+/// reaches the floor), so only the other cells are bounded again. Same method and
+/// guarantee as [`mesh_deviation`]; less work where most cells were certified well inside
+/// the tolerance.
+pub fn mesh_deviation_known(
+    skin: &Skin,
+    us: &[f64],
+    vs: &[f64],
+    points: &[Point3<f64>],
+    k: usize,
+    known: &KnownBounds,
+) -> f64 {
+    measure(skin, us, vs, points, k, Some(known))
+}
+
+fn measure(
+    skin: &Skin,
+    us: &[f64],
+    vs: &[f64],
+    points: &[Point3<f64>],
+    k: usize,
+    known: Option<&KnownBounds>,
+) -> f64 {
     let k = k.max(2);
     let cert = Certifier::new(skin);
     let (nu, nv) = (us.len(), vs.len());
@@ -403,12 +470,19 @@ pub fn mesh_deviation(
         })
     };
     let cells = skin_cells + nv - 1;
+    let known_floor = known.map_or(0.0, KnownBounds::floor);
+    let settled =
+        |c: usize| known.and_then(|kb| kb.cells.get(c).copied().filter(|&b| b <= known_floor));
     let first: Vec<(f64, f64)> = (0..cells)
         .into_par_iter()
-        .map(|c| cell(c).map_or((0.0, 0.0), |c| c.certify(f64::NEG_INFINITY, k, k)))
+        .map(|c| match settled(c) {
+            Some(b) => (b, 0.0),
+            None => cell(c).map_or((0.0, 0.0), |c| c.certify(f64::NEG_INFINITY, k, k)),
+        })
         .collect();
-    // The largest distance any sample has to the mesh: no bound can be below it.
-    let floor = first.iter().fold(0.0, |m: f64, b| m.max(b.1));
+    // The largest distance any sample has to its cell's triangles: no bound can be
+    // below it.
+    let floor = first.iter().fold(known_floor, |m: f64, b| m.max(b.1));
     first
         .par_iter()
         .enumerate()

@@ -7,7 +7,7 @@
 //! once, and after a split only the cells of the split rows and columns again. Both
 //! phases run their intervals or cells in parallel and gather results in order.
 
-use super::bound::Certifier;
+use super::bound::{f32_below, Certifier, KnownBounds};
 use super::{dist_to_segment, TessellationOptions};
 use crate::loft::{eval_curve, Basis, Skin};
 use nalgebra::Point3;
@@ -25,6 +25,8 @@ pub(crate) struct Grid {
     /// Largest certified bound of the distance from the skin (and the trailing-edge
     /// face) to the mesh on this grid, mm.
     pub deviation: f64,
+    /// The certified bound of every cell and the largest sampled distance.
+    pub known: KnownBounds,
 }
 
 /// Basis values of one direction at the given parameters.
@@ -266,6 +268,9 @@ pub(crate) fn grid(skin: &Skin, opts: &TessellationOptions) -> Grid {
     let cert = Certifier::new(skin);
     // Certified bounds per cell (`u` major) and per trailing-edge strip row; NaN = to do.
     let mut cells: Vec<f64> = vec![f64::NAN; (us.len() - 1) * (vs.len() - 1)];
+    // The largest sampled distance per cell and per strip row.
+    let mut lower: Vec<f64> = vec![0.0; cells.len()];
+    let mut strip_lower: Vec<f64> = vec![0.0; vs.len() - 1];
     // Directions to halve, per cell.
     let mut dirs: Vec<[bool; 2]> = vec![[true; 2]; cells.len()];
     let mut strip: Vec<f64> = vec![f64::NAN; vs.len() - 1];
@@ -274,24 +279,26 @@ pub(crate) fn grid(skin: &Skin, opts: &TessellationOptions) -> Grid {
         let points = eval_grid(skin, &us, &vs);
         let nv = vs.len();
         let todo: Vec<usize> = (0..cells.len()).filter(|&c| cells[c].is_nan()).collect();
-        let found: Vec<(f64, [bool; 2])> = todo
+        let found: Vec<(f64, f64, [bool; 2])> = todo
             .par_iter()
             .map(|&c| {
                 let (i, j) = (c / (nv - 1), c % (nv - 1));
                 cert.cell(&us, &vs, &points, i, j, tol)
             })
             .collect();
-        for (&c, (b, d)) in todo.iter().zip(found) {
+        for (&c, (b, l, d)) in todo.iter().zip(found) {
             cells[c] = b;
+            lower[c] = l;
             dirs[c] = d;
         }
         let todo_rows: Vec<usize> = (0..strip.len()).filter(|&j| strip[j].is_nan()).collect();
-        let found: Vec<f64> = todo_rows
+        let found: Vec<(f64, f64)> = todo_rows
             .par_iter()
             .map(|&j| cert.strip_row(&us, &vs, &points, j, tol))
             .collect();
-        for (&j, b) in todo_rows.iter().zip(found) {
+        for (&j, (b, l)) in todo_rows.iter().zip(found) {
             strip[j] = b;
+            strip_lower[j] = l;
         }
         let mut split_u = vec![false; us.len() - 1];
         let mut split_v = vec![false; vs.len() - 1];
@@ -316,23 +323,32 @@ pub(crate) fn grid(skin: &Skin, opts: &TessellationOptions) -> Grid {
         let any = split_u.iter().chain(&split_v).any(|&s| s);
         if !any || round >= opts.max_depth {
             let deviation = cells.iter().chain(&strip).fold(0.0, |m: f64, &b| m.max(b));
+            cells.extend(strip);
+            let lower = lower
+                .iter()
+                .chain(&strip_lower)
+                .map(|&l| f32_below(l))
+                .collect();
             return Grid {
                 us,
                 vs,
                 points,
                 deviation,
+                known: KnownBounds { cells, lower },
             };
         }
         round += 1;
         let (nus, from_u) = split_intervals(&us, &split_u);
         let (nvs, from_v) = split_intervals(&vs, &split_v);
         let mut next = vec![f64::NAN; from_u.len() * from_v.len()];
+        let mut next_lower = vec![0.0; next.len()];
         let mut next_dirs = vec![[true; 2]; next.len()];
         for (i, fu) in from_u.iter().enumerate() {
             let Some(oi) = fu else { continue };
             for (j, fv) in from_v.iter().enumerate() {
                 if let Some(oj) = fv {
                     next[i * from_v.len() + j] = cells[oi * (nv - 1) + oj];
+                    next_lower[i * from_v.len() + j] = lower[oi * (nv - 1) + oj];
                     next_dirs[i * from_v.len() + j] = dirs[oi * (nv - 1) + oj];
                 }
             }
@@ -342,7 +358,12 @@ pub(crate) fn grid(skin: &Skin, opts: &TessellationOptions) -> Grid {
             .iter()
             .map(|f| f.map_or(f64::NAN, |j| strip[j]))
             .collect();
+        strip_lower = from_v
+            .iter()
+            .map(|f| f.map_or(0.0, |j| strip_lower[j]))
+            .collect();
         cells = next;
+        lower = next_lower;
         us = nus;
         vs = nvs;
     }

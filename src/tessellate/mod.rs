@@ -36,7 +36,7 @@ mod cap;
 mod estimate;
 mod grid;
 
-pub use bound::{max_deviation, mesh_deviation};
+pub use bound::{max_deviation, mesh_deviation, mesh_deviation_known, KnownBounds};
 pub use estimate::{estimate, WorkEstimate};
 
 use crate::loft::{Basis, Skin};
@@ -112,6 +112,19 @@ pub struct Tessellation {
     /// unless refinement hit [`TessellationOptions::max_depth`]. [`max_deviation`]
     /// computes a tighter bound on the same grid.
     pub deviation: f64,
+    /// The bounds certified per cell while choosing the grid (cells whose corners moved
+    /// by merging forgotten), for [`Tessellation::measured_deviation`].
+    pub known: KnownBounds,
+}
+
+impl Tessellation {
+    /// The tight deviation bound of this mesh ([`mesh_deviation`] on its own grid
+    /// vertices, reusing the bounds certified while choosing the grid). Call before
+    /// features renumber the mesh's vertices.
+    pub fn measured_deviation(&self, skin: &Skin, k: usize) -> f64 {
+        let grid = &self.mesh.vertices[..self.us.len() * self.vs.len()];
+        mesh_deviation_known(skin, &self.us, &self.vs, grid, k, &self.known)
+    }
 }
 
 /// Distance from `q` to the segment `a b`.
@@ -229,7 +242,24 @@ pub fn tessellate(
     }
     let g = grid::grid(skin, opts);
     let cap = merge_distance(opts.tolerance);
-    let (mesh, root_ring, root_cap) = mesh_from_points(skin, &g.us, &g.vs, g.points, cap)?;
+    let (nu, nv) = (g.us.len(), g.vs.len());
+    let mut known = g.known;
+    let (mesh, root_ring, root_cap) = mesh_from_points(skin, &g.us, &g.vs, g.points, cap, |v| {
+        // The cells around a moved vertex (and the strip rows beside column 0 or the
+        // last column) have new triangles.
+        let (i, j) = (v / nv, v % nv);
+        let rows = j.saturating_sub(1)..=j.min(nv - 2);
+        for ci in i.saturating_sub(1)..=i.min(nu - 2) {
+            for cj in rows.clone() {
+                known.forget(ci * (nv - 1) + cj);
+            }
+        }
+        if i == 0 || i == nu - 1 {
+            for cj in rows {
+                known.forget((nu - 1) * (nv - 1) + cj);
+            }
+        }
+    })?;
     Ok(Tessellation {
         mesh,
         us: g.us,
@@ -237,6 +267,7 @@ pub fn tessellate(
         root_ring,
         root_cap,
         deviation: g.deviation,
+        known,
     })
 }
 
@@ -283,7 +314,7 @@ pub fn mesh_from_grid(
     vs: &[f64],
     merge: f64,
 ) -> Result<(TriMesh, Vec<u32>, std::ops::Range<usize>), TessellateError> {
-    mesh_from_points(skin, us, vs, grid::eval_grid(skin, us, vs), merge)
+    mesh_from_points(skin, us, vs, grid::eval_grid(skin, us, vs), merge, |_| {})
 }
 
 /// For each grid vertex that merges into an earlier one of its row, the pair (vertex,
@@ -363,14 +394,15 @@ pub fn row_ring(vertices: &[Point3<f64>], nu: usize, nv: usize, j: usize) -> Vec
 
 /// [`mesh_from_grid`] on the evaluated grid `points` (`u` major), which become the
 /// first `us.len() * vs.len()` vertices: vertex `i * vs.len() + j` is at
-/// `(us[i], vs[j])`, or, when merged, at the position of the vertex it merged into.
-/// Cap interior points, if any, follow them.
+/// `(us[i], vs[j])`, or, when merged, at the position of the vertex it merged into
+/// (each such vertex is passed to `moved`). Cap interior points, if any, follow them.
 fn mesh_from_points(
     skin: &Skin,
     us: &[f64],
     vs: &[f64],
     mut points: Vec<Point3<f64>>,
     merge: f64,
+    mut moved: impl FnMut(usize),
 ) -> Result<(TriMesh, Vec<u32>, std::ops::Range<usize>), TessellateError> {
     let (nu, nv) = (us.len(), vs.len());
     let merges = row_merges(&points, nu, nv, merge);
@@ -380,6 +412,7 @@ fn mesh_from_points(
         for &(v, to) in &merges {
             target[v as usize] = to;
             points[v as usize] = points[to as usize];
+            moved(v as usize);
         }
     }
     let index = |i: usize, j: usize| {
