@@ -255,11 +255,27 @@ fn stage_files(
     std::fs::create_dir_all(dir)
         .with_context(|| format!("cannot create the output folder {}", dir.display()))?;
     let mut batch = Batch::new();
-    let notes = if only {
-        Vec::new()
-    } else {
-        stage_outcome(&mut batch, outcome, dir, formats, timings)?
-    };
+    // The previews are drawn while the part files are written (neither needs the other).
+    let ((staged, writers), pictures) = rayon::join(
+        || {
+            let mut t = Timings::default();
+            let staged = if only {
+                Ok(Vec::new())
+            } else {
+                stage_outcome(&mut batch, outcome, dir, formats, &mut t)
+            };
+            (staged, t)
+        },
+        || {
+            (!only).then(|| {
+                let start = std::time::Instant::now();
+                let pictures = spanwright::report::previews(outcome, rotation);
+                (pictures, start.elapsed().as_secs_f64())
+            })
+        },
+    );
+    timings.extend(&writers);
+    let notes = staged?;
     for c in coupons {
         for &format in formats {
             let name = c.part.name();
@@ -284,13 +300,11 @@ fn stage_files(
         let svg = spanwright::report::transition_svg(&outcome.blade.blade, 12);
         batch.write(&path, |w| w.write_all(svg.as_bytes()))?;
     }
-    if !only {
-        timings.time("previews", || -> anyhow::Result<()> {
-            for (name, png) in spanwright::report::previews(outcome, rotation) {
-                batch.write(&dir.join(name), |w| w.write_all(&png))?;
-            }
-            Ok(())
-        })?;
+    if let Some((pictures, seconds)) = pictures {
+        timings.add("previews", seconds);
+        for (name, png) in pictures {
+            batch.write(&dir.join(name), |w| w.write_all(&png))?;
+        }
     }
     Ok((batch, notes))
 }

@@ -29,25 +29,28 @@ pub fn previews(outcome: &Outcome, rotation: Rotation) -> Vec<(String, Vec<u8>)>
         transform: Matrix4::identity(),
         colour: BLADE,
     };
-    let mut out = vec![(
-        format!("{}-preview.png", outcome.blade.name),
-        preview_png(&[blade], Some(&marks), &opts),
-    )];
-    if let Some(rotor) = outcome.part(PartKind::Rotor) {
-        let hub = outcome.part(PartKind::Hub).map(|h| h.bodies[0].name());
-        let items: Vec<Item<'_>> = rotor
-            .bodies
-            .iter()
-            .map(|b| Item {
-                mesh: b.mesh(),
-                transform: Matrix4::identity(),
-                colour: if Some(b.name()) == hub { HUB } else { BLADE },
-            })
-            .collect();
-        out.push((
-            format!("{}-preview.png", rotor.name),
-            preview_png(&items, Some(&marks), &opts),
-        ));
-    }
+    // The two pictures are drawn side by side.
+    let (blade_png, rotor_png) = rayon::join(
+        || preview_png(&[blade], Some(&marks), &opts),
+        || {
+            let rotor = outcome.part(PartKind::Rotor)?;
+            let hub = outcome.part(PartKind::Hub).map(|h| h.bodies[0].name());
+            let items: Vec<Item<'_>> = rotor
+                .bodies
+                .iter()
+                .map(|b| Item {
+                    mesh: b.mesh(),
+                    transform: Matrix4::identity(),
+                    colour: if Some(b.name()) == hub { HUB } else { BLADE },
+                })
+                .collect();
+            Some((
+                format!("{}-preview.png", rotor.name),
+                preview_png(&items, Some(&marks), &opts),
+            ))
+        },
+    );
+    let mut out = vec![(format!("{}-preview.png", outcome.blade.name), blade_png)];
+    out.extend(rotor_png);
     out
 }
