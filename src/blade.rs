@@ -102,6 +102,26 @@ pub struct Blade {
     mirror: bool,
     root: Option<RootSpec>,
     tip: TipSpec,
+    /// What every transition outline shares, set with the root.
+    transition: Option<TransitionParts>,
+}
+
+/// The parts every outline of the root transition shares (the shank, the first
+/// station's outline and its spanwise slope, their areas), computed once when the root is
+/// set: the transition is sampled hundreds of times while rings are placed.
+#[derive(Debug, Clone)]
+struct TransitionParts {
+    shank: Vec<Point2<f64>>,
+    air: Vec<Point2<f64>>,
+    slope: Vec<nalgebra::Vector2<f64>>,
+    /// The shank over its diameter and the first station over its chord.
+    n0: Vec<Point2<f64>>,
+    n1: Vec<Point2<f64>>,
+    /// Areas of the shank and the first station, and the blade's relative area change
+    /// per mm at the first station.
+    a0: f64,
+    a1: f64,
+    rel_slope: f64,
 }
 
 /// Spanwise regions of the blade, root to tip.
@@ -216,6 +236,7 @@ impl Blade {
             mirror: opts.rotation == Rotation::Cw,
             root: None,
             tip: TipSpec::default(),
+            transition: None,
         })
     }
 
@@ -240,6 +261,7 @@ impl Blade {
         )[0];
         root.centre = Some(Point2::new(centre.x, centre.y));
         self.root = Some(root);
+        self.transition = Some(self.transition_parts());
         let (shank, air) = (self.shank_outline(), self.airfoil_outline(self.radii[0]));
         let travel = shank
             .iter()
@@ -432,19 +454,59 @@ impl Blade {
     /// held the first station's trailing-edge gap apart (Hermite in the gap, never below
     /// the first station's gap), so a blunt trailing edge keeps its printable thickness
     /// all along the transition.
+    /// The shared parts of the transition outlines (see [`TransitionParts`]); only
+    /// called with a root.
+    fn transition_parts(&self) -> TransitionParts {
+        let first = self.radii[0];
+        let d = self.root.as_ref().map_or(1.0, |r| r.shank_diameter);
+        let c = self.chord.eval(first);
+        let shank = self.shank_outline();
+        let air = self.airfoil_outline(first);
+        let slope = self.airfoil_outline_slope(first, 1.0);
+        let n0 = shank.iter().map(|p| p / d).collect();
+        let n1 = air.iter().map(|p| p / c).collect();
+        let (a0, a1) = (polygon_area(&shank), polygon_area(&air));
+        let h = 1e-5 * (self.tip_radius() - first);
+        let rel_slope = (polygon_area(&self.airfoil_outline(first + h)) / a1).ln() / h;
+        TransitionParts {
+            shank,
+            air,
+            slope,
+            n0,
+            n1,
+            a0,
+            a1,
+            rel_slope,
+        }
+    }
+
     fn transition_outline(&self, s: f64) -> Vec<Point2<f64>> {
         let first = self.radii[0];
         let Some(root) = self.root.as_ref() else {
             return self.airfoil_outline(first);
         };
+        let owned;
+        let parts = match &self.transition {
+            Some(t) => t,
+            None => {
+                owned = self.transition_parts();
+                &owned
+            }
+        };
+        let TransitionParts {
+            air,
+            slope,
+            n0,
+            n1,
+            a0,
+            a1,
+            rel_slope,
+            ..
+        } = parts;
+        let (a0, a1, rel_slope) = (*a0, *a1, *rel_slope);
         let l = root.transition_length;
         let (hw, h11) = (3.0 * s * s - 2.0 * s * s * s, s * s * s - s * s);
-        let shank = self.shank_outline();
-        let air = self.airfoil_outline(first);
-        let slope = self.airfoil_outline_slope(first, 1.0);
         let (d, c) = (root.shank_diameter, self.chord.eval(first));
-        let n0: Vec<Point2<f64>> = shank.iter().map(|p| p / d).collect();
-        let n1: Vec<Point2<f64>> = air.iter().map(|p| p / c).collect();
         let w = d.powf(1.0 - hw) * c.powf(hw);
         let blend = |g: f64| -> Vec<Point2<f64>> {
             (0..n0.len())
@@ -461,22 +523,27 @@ impl Blade {
         // to first station and is at most three times its mean (Fritsch & Carlson,
         // "Monotone piecewise cubic interpolation", SIAM J. Numer. Anal. 17, 1980);
         // `with_root` checks the result.
-        let (a0, a1) = (polygon_area(&shank), polygon_area(&air));
-        let h = 1e-5 * (self.tip_radius() - first);
-        let rel_slope = (polygon_area(&self.airfoil_outline(first + h)) / a1).ln() / h;
         let target = (a0.ln() * (1.0 - hw) + a1.ln() * hw + h11 * l * rel_slope).exp();
         let g = if hw <= 0.0 {
             0.0
         } else if hw >= 1.0 {
             1.0
         } else {
-            // The blend's area is quadratic in g, from near a0 to near a1: bisection.
-            let (q0, q1) = (polygon_area(&blend(0.0)), polygon_area(&blend(1.0)));
+            // The blend is affine in g, so its area (the shoelace sum) is the quadratic
+            // through its areas at g = 0, 1/2 and 1; from near a0 to near a1: bisection
+            // on that quadratic.
+            let (q0, qh, q1) = (
+                polygon_area(&blend(0.0)),
+                polygon_area(&blend(0.5)),
+                polygon_area(&blend(1.0)),
+            );
+            let (b, c2) = (4.0 * qh - 3.0 * q0 - q1, 2.0 * q1 - 4.0 * qh + 2.0 * q0);
+            let area = |g: f64| q0 + g * (b + g * c2);
             let rising = q1 > q0;
             let (mut lo, mut hi) = (0.0f64, 1.0f64);
             for _ in 0..60 {
                 let g = 0.5 * (lo + hi);
-                if (polygon_area(&blend(g)) < target) == rising {
+                if (area(g) < target) == rising {
                     lo = g;
                 } else {
                     hi = g;
@@ -509,7 +576,9 @@ impl Blade {
                 self.prebend.eval(r),
             ),
             Region::Shank => (
-                self.shank_outline(),
+                self.transition
+                    .as_ref()
+                    .map_or_else(|| self.shank_outline(), |t| t.shank.clone()),
                 self.twist.eval(first),
                 self.sweep.eval(first),
                 self.prebend.eval(first),
