@@ -335,13 +335,7 @@ impl Image {
         Image {
             width: w,
             height: h,
-            rgb: opts
-                .background
-                .iter()
-                .copied()
-                .cycle()
-                .take(3 * (w * h) as usize)
-                .collect(),
+            rgb: opts.background.repeat((w * h) as usize),
             covered: vec![false; (w * h) as usize],
             basis,
             scale,
