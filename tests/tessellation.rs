@@ -131,35 +131,14 @@ fn deviation_stays_within_tolerance_both_ways() {
 fn parry3d_agrees_on_surface_to_mesh_distance() {
     // Independent reference library: parry3d projects exact surface points onto the
     // whole mesh (f32 arithmetic: coordinates are centred first and 2e-5 mm allowed).
-    use parry3d::query::PointQuery;
     let tol = 0.01;
     let m = model(tol);
-    let mesh = m.mesh();
-    let c = mesh.bounding_box().unwrap();
-    let centre = nalgebra::center(&c.min, &c.max);
-    let verts: Vec<parry3d::math::Vector> = mesh
-        .vertices
-        .iter()
-        .map(|p| {
-            parry3d::math::Vector::new(
-                (p.x - centre.x) as f32,
-                (p.y - centre.y) as f32,
-                (p.z - centre.z) as f32,
-            )
-        })
-        .collect();
-    let shape = parry3d::shape::TriMesh::new(verts, mesh.triangles.clone()).unwrap();
+    let shape = support::Parry::new(m.mesh());
     let mut rng = Rng(11);
     let mut worst: f64 = 0.0;
     for _ in 0..5000 {
         let q = m.skin.eval(rng.next(), rng.next());
-        let pt = parry3d::math::Vector::new(
-            (q.x - centre.x) as f32,
-            (q.y - centre.y) as f32,
-            (q.z - centre.z) as f32,
-        );
-        let d = shape.distance_to_local_point(pt, false) as f64;
-        worst = worst.max(d);
+        worst = worst.max(shape.distance(&q));
     }
     assert!(worst <= tol + 2e-5, "parry3d surface-to-mesh {worst}");
 }
@@ -239,7 +218,6 @@ fn printed_deviation_bounds_a_dense_independent_sampling() {
     // 2e-5 mm allowed for its rounding), (b) 24 x 24 samples in every grid cell against
     // the cell's own two triangles, in f64 (farther than the nearest mesh point, so
     // a stricter check than (a)).
-    use parry3d::query::PointQuery;
     let m = support::demo_blade(0.01);
     let t = &m.tessellation;
     let printed = m.deviation;
@@ -250,21 +228,12 @@ fn printed_deviation_bounds_a_dense_independent_sampling() {
     );
 
     let mesh = m.mesh();
-    let bb = mesh.bounding_box().unwrap();
-    let c = nalgebra::center(&bb.min, &bb.max);
-    let f = |p: &Point3<f64>| {
-        parry3d::math::Vector::new((p.x - c.x) as f32, (p.y - c.y) as f32, (p.z - c.z) as f32)
-    };
-    let shape = parry3d::shape::TriMesh::new(
-        mesh.vertices.iter().map(f).collect(),
-        mesh.triangles.clone(),
-    )
-    .unwrap();
+    let shape = support::Parry::new(mesh);
     let mut rng = Rng(2024);
     let mut dense: f64 = 0.0;
     for _ in 0..150_000 {
         let q = m.skin.eval(rng.next(), rng.next());
-        dense = dense.max(shape.distance_to_local_point(f(&q), false) as f64);
+        dense = dense.max(shape.distance(&q));
     }
     assert!(
         dense <= printed + 2e-5,
@@ -353,7 +322,6 @@ fn crowded_columns_at_a_round_tip_merge_without_losing_the_tolerance() {
     // tip, the mesh stays a checked solid, and the printed deviation still bounds an
     // independent sampling of the tip (parry3d, f32: coordinates centred, 2e-5 mm
     // allowed for its rounding) and keeps the tolerance with the skin-to-design distance.
-    use parry3d::query::PointQuery;
     let tol = 0.001;
     let m = support::demo_blade(tol);
     // The pipeline's mesh has its root features cut in and its vertices renumbered; the
@@ -390,22 +358,13 @@ fn crowded_columns_at_a_round_tip_merge_without_losing_the_tolerance() {
     assert_eq!(printed, m.deviation);
     assert!(m.mesh_to_design() <= tol, "{}", m.mesh_to_design());
 
-    let bb = mesh.bounding_box().unwrap();
-    let c = nalgebra::center(&bb.min, &bb.max);
-    let f = |p: &Point3<f64>| {
-        parry3d::math::Vector::new((p.x - c.x) as f32, (p.y - c.y) as f32, (p.z - c.z) as f32)
-    };
-    let shape = parry3d::shape::TriMesh::new(
-        mesh.vertices.iter().map(f).collect(),
-        mesh.triangles.clone(),
-    )
-    .unwrap();
+    let shape = support::Parry::new(mesh);
     let v0 = spanwright::tessellate::row_at_radius(&m.skin, tip).unwrap();
     let mut rng = Rng(7);
     let mut dense: f64 = 0.0;
     for _ in 0..50_000 {
         let q = m.skin.eval(rng.next(), v0 + (1.0 - v0) * rng.next());
-        dense = dense.max(shape.distance_to_local_point(f(&q), false) as f64);
+        dense = dense.max(shape.distance(&q));
     }
     assert!(
         dense <= printed + 2e-5,

@@ -97,25 +97,15 @@ fn stepped_chord_mesh_stays_within_the_tolerance_of_the_design_in_space() {
     // 1 mm) makes the surface nearly parallel to the cutting planes, so there the
     // distance is taken in space, to the nearest mesh point (parry3d, an independent
     // library, f32: coordinates centred, 2e-5 mm allowed for its rounding).
-    use parry3d::query::PointQuery;
     let tol = 0.001;
     for gaps in [[1.0, 39.0, 1.0], [39.0, 1.0, 39.0]] {
         let m = model(&stepped(gaps), tol);
         let mesh = m.mesh();
-        let bb = mesh.bounding_box().unwrap();
-        let c = nalgebra::center(&bb.min, &bb.max);
-        let f = |p: &Point3<f64>| {
-            parry3d::math::Vector::new((p.x - c.x) as f32, (p.y - c.y) as f32, (p.z - c.z) as f32)
-        };
-        let shape = parry3d::shape::TriMesh::new(
-            mesh.vertices.iter().map(f).collect(),
-            mesh.triangles.clone(),
-        )
-        .unwrap();
+        let shape = support::Parry::new(mesh);
         let mut worst: (f64, f64) = (0.0, 0.0);
         for r in sample_radii(&m) {
             for p in m.blade.ring(r).points {
-                let d = shape.distance_to_local_point(f(&p), false) as f64;
+                let d = shape.distance(&p);
                 if d > worst.0 {
                     worst = (d, r);
                 }

@@ -252,3 +252,39 @@ pub fn demo_blade(tolerance: f64) -> spanwright::pipeline::BuiltBlade {
     )
     .expect("the demo builds")
 }
+
+/// A mesh in parry3d (an independent reference library) for point distances: parry3d
+/// measures in single precision, so the mesh is centred on its bounding box first, which
+/// keeps the rounding near 1e-5 mm for a blade-sized part.
+pub struct Parry {
+    shape: parry3d::shape::TriMesh,
+    centre: Point3<f64>,
+}
+
+impl Parry {
+    /// The mesh, centred, as a parry3d triangle mesh.
+    pub fn new(mesh: &TriMesh) -> Parry {
+        let bb = mesh.bounding_box().expect("a mesh with vertices");
+        let centre = nalgebra::center(&bb.min, &bb.max);
+        let shape = parry3d::shape::TriMesh::new(
+            mesh.vertices
+                .iter()
+                .map(|p| Self::to_f32(p, &centre))
+                .collect(),
+            mesh.triangles.clone(),
+        )
+        .expect("a valid triangle mesh");
+        Parry { shape, centre }
+    }
+
+    fn to_f32(p: &Point3<f64>, c: &Point3<f64>) -> parry3d::math::Vector {
+        parry3d::math::Vector::new((p.x - c.x) as f32, (p.y - c.y) as f32, (p.z - c.z) as f32)
+    }
+
+    /// Distance from `p` to the mesh surface, mm.
+    pub fn distance(&self, p: &Point3<f64>) -> f64 {
+        use parry3d::query::PointQuery;
+        self.shape
+            .distance_to_local_point(Self::to_f32(p, &self.centre), false) as f64
+    }
+}
