@@ -793,3 +793,54 @@ fn hubs_over_a_range_of_blades_bolts_and_tolerances_are_solids() {
     }
     assert_eq!(built, 30);
 }
+
+#[test]
+fn socket_clearance_holds_at_every_tolerance() {
+    // The demo's shanks sit in hub sockets 0.3 mm wider (rotor.hub.socket-clearance,
+    // 0.15 mm all round). A shank's mesh lies inside its exact cylinder (vertices on it,
+    // flats within the tolerance inside), so the socket's polygon is circumscribed about
+    // its own circle: every socket vertex lies at least the nominal socket radius from
+    // the socket axis, and the rotor's bodies stay apart at every tolerance up to the
+    // coarsest the demo's chords allow (1.25 mm, 20 tolerances of its 25 mm chord). At
+    // 0.15 mm an inscribed socket had reached the shanks (238 crossing triangle pairs).
+    let design =
+        spanwright::design::load(std::path::Path::new("examples/garden-turbine.toml")).unwrap();
+    for tol in [0.01, 0.15, 0.3, 1.0, 1.25] {
+        let out = run(
+            &design,
+            &Options {
+                tolerance: Some(tol),
+                ..Options::default()
+            },
+        )
+        .unwrap_or_else(|e| panic!("tolerance {tol}: {e}"));
+        let hub = out
+            .rotor
+            .as_ref()
+            .and_then(|r| r.hub.as_ref())
+            .expect("a hub");
+        let s = hub.sockets.as_ref().expect("sockets");
+        let mesh = out.part(PartKind::Hub).expect("the hub part").bodies[0].mesh();
+        let mut on_walls = 0;
+        for p in &mesh.vertices {
+            for &angle in &s.angles {
+                let psi = angle.to_radians();
+                let d = Vector3::new(psi.sin(), 0.0, psi.cos());
+                let along = p.coords.dot(&d);
+                let off = (p.coords - d * along).norm();
+                if along >= s.floor - 1e-6 && (off - s.radius).abs() <= 2.0 * tol {
+                    on_walls += 1;
+                    assert!(
+                        off >= s.radius - 1e-9,
+                        "tolerance {tol}: a socket vertex {off} from its axis, socket radius {}",
+                        s.radius
+                    );
+                }
+            }
+        }
+        assert!(
+            on_walls >= 3 * 2 * 12,
+            "tolerance {tol}: {on_walls} socket vertices"
+        );
+    }
+}

@@ -548,8 +548,9 @@ impl Hub {
         u32::from(self.bore_radius.is_some()) + self.bolts.map_or(0, |b| b.0)
     }
 
-    /// The exact volume of the disc minus its holes, mm³ (the mesh is inscribed and
-    /// differs by less than the tolerance times the hole walls' and rim's areas).
+    /// The exact volume of the disc minus its holes, mm³ (the mesh's circles are
+    /// inscribed, its sockets circumscribed; it differs by less than the tolerance times
+    /// the hole walls' and rim's areas).
     pub fn exact_volume(&self) -> f64 {
         let holes = self.bore_radius.map_or(0.0, |r| r * r)
             + self.bolts.map_or(0.0, |(n, r, _)| n as f64 * r * r);
@@ -635,7 +636,10 @@ impl Hub {
             return;
         };
         let mut rim = UnrolledRim::new(self.radius, 0.5 * self.thickness, self.rim_start, n, np);
-        let m = circle_sides(sockets.radius, tol);
+        // The socket is circumscribed (its flats touch the nominal circle), so the
+        // shank's inscribed mesh keeps the whole clearance at any tolerance; a tenth of
+        // the tolerance spare keeps its corners `r (sec(pi / m) - 1)` within it.
+        let m = circle_sides(sockets.radius, 0.9 * tol);
         for &angle in &sockets.angles {
             rim.add_socket(mesh, sockets, angle, m);
         }
@@ -709,8 +713,9 @@ impl UnrolledRim {
         self.rr * (theta - self.start).rem_euclid(TAU)
     }
 
-    /// The socket at `angle` (degrees): its opening in the rim (an `m`-gon, a hole of
-    /// the unrolled rim), its wall and its floor, added to the mesh.
+    /// The socket at `angle` (degrees): its opening in the rim (an `m`-gon circumscribed
+    /// about the socket's circle, a hole of the unrolled rim), its wall and its floor,
+    /// added to the mesh.
     fn add_socket(&mut self, mesh: &mut TriMesh, sockets: &Sockets, angle: f64, m: usize) {
         let rr = self.rr;
         let psi = angle.to_radians();
@@ -719,9 +724,10 @@ impl UnrolledRim {
         let first_flat = self.flat.len();
         let opening = mesh.vertices.len() as u32;
         let mut floor_ring = Vec::with_capacity(m);
+        let corner = sockets.radius / (PI / m as f64).cos();
         for i in 0..m {
             let t = TAU * i as f64 / m as f64;
-            let (a, b) = (sockets.radius * t.sin(), sockets.radius * t.cos());
+            let (a, b) = (corner * t.sin(), corner * t.cos());
             let along = (rr * rr - a * a).sqrt();
             mesh.push_vertex(Point3::from(d * along + e * a + Vector3::y() * b));
             floor_ring.push(Point3::from(d * sockets.floor + e * a + Vector3::y() * b));
