@@ -227,6 +227,28 @@ pub struct Part {
     pub mesh: TriMesh,
 }
 
+/// `x` rounded down to single precision: the largest `f32` not above it (STL and the
+/// compact per-triangle data of the checks store `f32`; rounding outward keeps a bound a
+/// bound).
+pub fn f32_below(x: f64) -> f32 {
+    let y = x as f32;
+    if f64::from(y) > x {
+        y.next_down()
+    } else {
+        y
+    }
+}
+
+/// `x` rounded up to single precision: the smallest `f32` not below it.
+pub fn f32_above(x: f64) -> f32 {
+    let y = x as f32;
+    if f64::from(y) < x {
+        y.next_up()
+    } else {
+        y
+    }
+}
+
 #[cfg(test)]
 pub(crate) mod tests {
     use super::*;

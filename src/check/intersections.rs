@@ -25,7 +25,7 @@
 //! number of threads.
 
 use super::tritri::{corner_pair_meets, disjoint_pair_meets, edge_pair_meets};
-use crate::mesh::TriMesh;
+use crate::mesh::{f32_above, f32_below, TriMesh};
 use nalgebra::Vector3;
 
 /// Triangles per leaf.
@@ -41,26 +41,6 @@ const PARALLEL_LEVELS: u32 = 10;
 struct Boxed {
     min: [f32; 3],
     max: [f32; 3],
-}
-
-/// The largest `f32` not above `x`.
-fn round_down(x: f64) -> f32 {
-    let y = x as f32;
-    if f64::from(y) > x {
-        y.next_down()
-    } else {
-        y
-    }
-}
-
-/// The smallest `f32` not below `x`.
-fn round_up(x: f64) -> f32 {
-    let y = x as f32;
-    if f64::from(y) < x {
-        y.next_up()
-    } else {
-        y
-    }
 }
 
 impl Boxed {
@@ -299,8 +279,8 @@ fn search(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
                 }
             }
             Boxed {
-                min: lo.map(round_down),
-                max: hi.map(round_up),
+                min: lo.map(f32_below),
+                max: hi.map(f32_above),
             }
         })
         .collect();

@@ -410,16 +410,6 @@ impl KnownBounds {
     }
 }
 
-/// `x` rounded down to single precision.
-pub(crate) fn f32_below(x: f64) -> f32 {
-    let y = x as f32;
-    if f64::from(y) > x {
-        y.next_down()
-    } else {
-        y
-    }
-}
-
 /// [`mesh_deviation`] using the bounds the tessellation already certified: a cell whose
 /// known bound is at most the known floor cannot raise the result (some sample already
 /// reaches the floor), so only the other cells are bounded again. Same method and

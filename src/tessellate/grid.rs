@@ -7,9 +7,10 @@
 //! once, and after a split only the cells of the split rows and columns again. Both
 //! phases run their intervals or cells in parallel and gather results in order.
 
-use super::bound::{f32_below, Certifier, KnownBounds};
+use super::bound::{Certifier, KnownBounds};
 use super::{dist_to_segment, TessellationOptions};
 use crate::loft::{eval_curve, Basis, Skin};
+use crate::mesh::f32_below;
 use nalgebra::Point3;
 use rayon::prelude::*;
 
