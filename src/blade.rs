@@ -482,28 +482,12 @@ impl Blade {
 
     fn transition_outline(&self, s: f64) -> Vec<Point2<f64>> {
         let first = self.radii[0];
-        let Some(root) = self.root.as_ref() else {
+        // `with_root` sets the root and its transition parts together.
+        let (Some(root), Some(parts)) = (self.root.as_ref(), self.transition.as_ref()) else {
             return self.airfoil_outline(first);
         };
-        let owned;
-        let parts = match &self.transition {
-            Some(t) => t,
-            None => {
-                owned = self.transition_parts();
-                &owned
-            }
-        };
-        let TransitionParts {
-            air,
-            slope,
-            n0,
-            n1,
-            a0,
-            a1,
-            rel_slope,
-            ..
-        } = parts;
-        let (a0, a1, rel_slope) = (*a0, *a1, *rel_slope);
+        let (air, slope, n0, n1) = (&parts.air, &parts.slope, &parts.n0, &parts.n1);
+        let (a0, a1, rel_slope) = (parts.a0, parts.a1, parts.rel_slope);
         let l = root.transition_length;
         let (hw, h11) = (3.0 * s * s - 2.0 * s * s * s, s * s * s - s * s);
         let (d, c) = (root.shank_diameter, self.chord.eval(first));
