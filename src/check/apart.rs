@@ -100,7 +100,7 @@ fn crossing_pairs(a: &TriMesh, b: &TriMesh, window: &Aabb) -> Vec<[usize; 2]> {
             })
         })
         .collect();
-    self_intersections(&both, &active)
+    self_intersections(&both, &active, None)
         .into_iter()
         .filter(|&[i, j]| i < na && j >= na)
         .map(|[i, j]| [i, j - na])

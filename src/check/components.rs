@@ -47,29 +47,64 @@ impl Dsu {
 /// triangle index, and each group lists its triangles in increasing order. Triangles with
 /// a vertex index out of range form groups of their own.
 pub fn components(mesh: &TriMesh) -> Vec<Vec<usize>> {
-    let nv = mesh.vertices.len();
-    let mut dsu = Dsu::new(nv);
-    let valid = |t: &[u32; 3]| t.iter().all(|&i| (i as usize) < nv);
-    for t in mesh.triangles.iter().filter(|t| valid(t)) {
-        dsu.union(t[0], t[1]);
-        dsu.union(t[0], t[2]);
-    }
-    // Component id of each root, in order of first appearance.
-    let mut id = vec![u32::MAX; nv];
-    let mut groups: Vec<Vec<usize>> = Vec::new();
-    for (i, t) in mesh.triangles.iter().enumerate() {
-        if !valid(t) {
-            groups.push(vec![i]);
-            continue;
-        }
-        let r = dsu.find(t[0]) as usize;
-        if id[r] == u32::MAX {
-            id[r] = groups.len() as u32;
-            groups.push(Vec::new());
-        }
-        groups[id[r] as usize].push(i);
+    let label = Labels::of(mesh);
+    let mut groups: Vec<Vec<usize>> = vec![Vec::new(); label.count];
+    for (t, &g) in label.of_triangle.iter().enumerate() {
+        groups[g as usize].push(t);
     }
     groups
+}
+
+/// The number of triangles in each connected component, in the order of
+/// [`components`].
+pub(crate) fn component_sizes(mesh: &TriMesh) -> Vec<usize> {
+    let label = Labels::of(mesh);
+    let mut sizes = vec![0; label.count];
+    for &g in &label.of_triangle {
+        sizes[g as usize] += 1;
+    }
+    sizes
+}
+
+/// Each triangle's component, numbered in order of first appearance.
+struct Labels {
+    of_triangle: Vec<u32>,
+    count: usize,
+}
+
+impl Labels {
+    fn of(mesh: &TriMesh) -> Labels {
+        let nv = mesh.vertices.len();
+        let mut dsu = Dsu::new(nv);
+        let valid = |t: &[u32; 3]| t.iter().all(|&i| (i as usize) < nv);
+        for t in mesh.triangles.iter().filter(|t| valid(t)) {
+            dsu.union(t[0], t[1]);
+            dsu.union(t[0], t[2]);
+        }
+        // Component id of each root, in order of first appearance.
+        let mut id = vec![u32::MAX; nv];
+        let mut count = 0u32;
+        let of_triangle = mesh
+            .triangles
+            .iter()
+            .map(|t| {
+                if !valid(t) {
+                    count += 1;
+                    return count - 1;
+                }
+                let r = dsu.find(t[0]) as usize;
+                if id[r] == u32::MAX {
+                    id[r] = count;
+                    count += 1;
+                }
+                id[r]
+            })
+            .collect();
+        Labels {
+            of_triangle,
+            count: count as usize,
+        }
+    }
 }
 
 #[cfg(test)]

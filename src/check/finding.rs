@@ -31,6 +31,14 @@ impl<T> Listed<T> {
         }
     }
 
+    /// Adds the count and the kept items of `later` (found after this list's), keeping
+    /// at most `cap` items.
+    pub fn append(&mut self, later: Listed<T>, cap: usize) {
+        self.count += later.count;
+        let room = cap.saturating_sub(self.items.len());
+        self.items.extend(later.items.into_iter().take(room));
+    }
+
     /// True when nothing was counted.
     pub fn is_empty(&self) -> bool {
         self.count == 0

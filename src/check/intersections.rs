@@ -24,6 +24,7 @@
 //! work is split over threads at the top of the tree; the result is the same on any
 //! number of threads.
 
+use super::grid::{GridLayout, Grouping};
 use super::tritri::{corner_pair_meets, disjoint_pair_meets, edge_pair_meets};
 use crate::mesh::{f32_above, f32_below, TriMesh};
 use nalgebra::Vector3;
@@ -65,8 +66,23 @@ impl Boxed {
 /// `active[t]` (vertex indices in range, distinct, non-zero area). Pairs sharing an edge
 /// count only when folded flat onto each other; pairs sharing one vertex count when they
 /// meet anywhere else.
-pub(crate) fn self_intersections(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
-    search(mesh, active)
+///
+/// With a `grid` (the layout of the mesh's first vertices, see [`super::grid`]), pairs
+/// proven apart by the grid's certified windows are skipped; the result is the same.
+pub(crate) fn self_intersections(
+    mesh: &TriMesh,
+    active: &[bool],
+    grid: Option<&GridLayout>,
+) -> Vec<[usize; 2]> {
+    let items = match grid {
+        Some(g) => Grouping::on_grid(mesh, active, g),
+        None => Grouping::loose(
+            (0..mesh.triangles.len() as u32)
+                .filter(|&t| active[t as usize])
+                .collect(),
+        ),
+    };
+    search(mesh, &items)
 }
 
 /// Spreads the 10 low bits of `x` to every third bit.
@@ -90,12 +106,12 @@ struct Bvh {
 }
 
 impl Bvh {
-    fn build(tri_boxes: &[Boxed], ids: &[u32]) -> Bvh {
+    fn build(item_boxes: &[Boxed], ids: &[u32]) -> Bvh {
         use rayon::prelude::*;
         let (lo, hi) = ids
             .par_iter()
             .map(|&t| {
-                let b = &tri_boxes[t as usize];
+                let b = &item_boxes[t as usize];
                 (b.min.map(f64::from), b.max.map(f64::from))
             })
             .reduce(
@@ -118,7 +134,7 @@ impl Bvh {
         let mut keyed: Vec<(u64, u32)> = ids
             .par_iter()
             .map(|&t| {
-                let b = &tri_boxes[t as usize];
+                let b = &item_boxes[t as usize];
                 let centre = |k: usize| 0.5 * (f64::from(b.min[k]) + f64::from(b.max[k]));
                 let q = |k: usize| ((centre(k) - lo[k]) * scale[k]) as u64;
                 (spread(q(0)) | (spread(q(1)) << 1) | (spread(q(2)) << 2), t)
@@ -135,7 +151,7 @@ impl Bvh {
             .for_each(|(b, chunk)| {
                 *b = chunk
                     .iter()
-                    .fold(Boxed::EMPTY, |acc, &t| acc.union(&tri_boxes[t as usize]));
+                    .fold(Boxed::EMPTY, |acc, &t| acc.union(&item_boxes[t as usize]));
             });
         for i in (1..first_leaf).rev() {
             boxes[i] = boxes[2 * i].union(&boxes[2 * i + 1]);
@@ -155,35 +171,35 @@ impl Bvh {
     }
 }
 
-/// The traversal, with the exact test and the triangle boxes.
+/// The traversal over the items (blocks of grid cells and loose triangles): the pairs
+/// of items whose boxes overlap and which the grouping does not clear.
 struct Pairs<'a> {
     bvh: &'a Bvh,
-    tri_boxes: &'a [Boxed],
-    mesh: &'a TriMesh,
+    items: &'a Grouping,
+    item_boxes: &'a [Boxed],
 }
 
 impl Pairs<'_> {
-    fn test(&self, a: u32, b: u32, found: &mut Vec<[usize; 2]>) {
-        if self.tri_boxes[a as usize].overlaps(&self.tri_boxes[b as usize])
-            && pair_meets(
-                self.mesh,
-                self.mesh.triangles[a as usize],
-                self.mesh.triangles[b as usize],
-            )
+    /// Items `x` and `y` (`x == y`: the item's own pairs) as a candidate, unless their
+    /// boxes are apart or the grouping clears them.
+    fn test(&self, x: u32, y: u32, found: &mut Vec<[u32; 2]>) {
+        if (x != y && !self.item_boxes[x as usize].overlaps(&self.item_boxes[y as usize]))
+            || self.items.cleared(x, y)
+            || (x == y && self.items.tris(x).len() < 2)
         {
-            found.push([a.min(b) as usize, a.max(b) as usize]);
+            return;
         }
+        found.push([x, y]);
     }
-
     /// Pairs within node `i`.
-    fn within(&self, i: usize, level: u32, found: &mut Vec<[usize; 2]>) {
+    fn within(&self, i: usize, level: u32, found: &mut Vec<[u32; 2]>) {
         if self.bvh.boxes[i].min[0] > self.bvh.boxes[i].max[0] {
             return; // empty
         }
         if i >= self.bvh.first_leaf {
             let l = self.bvh.leaf(i);
             for (x, &a) in l.iter().enumerate() {
-                for &b in &l[x + 1..] {
+                for &b in &l[x..] {
                     self.test(a, b, found);
                 }
             }
@@ -211,7 +227,7 @@ impl Pairs<'_> {
     }
 
     /// Pairs with one triangle under node `a` and the other under node `b` (same level).
-    fn across(&self, a: usize, b: usize, level: u32, found: &mut Vec<[usize; 2]>) {
+    fn across(&self, a: usize, b: usize, level: u32, found: &mut Vec<[u32; 2]>) {
         if !self.bvh.boxes[a].overlaps(&self.bvh.boxes[b]) {
             return;
         }
@@ -230,7 +246,7 @@ impl Pairs<'_> {
             (2 * a + 1, 2 * b + 1),
         ];
         if level < PARALLEL_LEVELS {
-            let mut parts: [Vec<[usize; 2]>; 4] = Default::default();
+            let mut parts: [Vec<[u32; 2]>; 4] = Default::default();
             let [p0, p1, p2, p3] = &mut parts;
             rayon::join(
                 || {
@@ -257,21 +273,19 @@ impl Pairs<'_> {
     }
 }
 
-fn search(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
+fn search(mesh: &TriMesh, items: &Grouping) -> Vec<[usize; 2]> {
     use rayon::prelude::*;
     let tris = &mesh.triangles;
-    let ids: Vec<u32> = (0..tris.len() as u32)
-        .filter(|&t| active[t as usize])
-        .collect();
-    if ids.len() < 2 {
+    if items.len() == 0 {
         return Vec::new();
     }
-    let tri_boxes: Vec<Boxed> = tris
-        .par_iter()
-        .map(|t| {
+    let item_boxes: Vec<Boxed> = (0..items.len() as u32)
+        .into_par_iter()
+        .map(|k| {
             let (mut lo, mut hi) = ([f64::INFINITY; 3], [f64::NEG_INFINITY; 3]);
-            for &i in t {
-                if let Some(p) = mesh.vertices.get(i as usize) {
+            for &t in items.tris(k) {
+                for &i in &tris[t as usize] {
+                    let p = &mesh.vertices[i as usize];
                     for k in 0..3 {
                         lo[k] = lo[k].min(p[k]);
                         hi[k] = hi[k].max(p[k]);
@@ -284,17 +298,130 @@ fn search(mesh: &TriMesh, active: &[bool]) -> Vec<[usize; 2]> {
             }
         })
         .collect();
-    let bvh = Bvh::build(&tri_boxes, &ids);
+    let ids: Vec<u32> = (0..items.len() as u32).collect();
+    let bvh = Bvh::build(&item_boxes, &ids);
     let pairs = Pairs {
         bvh: &bvh,
-        tri_boxes: &tri_boxes,
-        mesh,
+        items,
+        item_boxes: &item_boxes,
     };
-    let mut found = Vec::new();
-    pairs.within(1, 0, &mut found);
+    let mut candidates = Vec::new();
+    pairs.within(1, 0, &mut candidates);
+    let exact = Exact::new(mesh, items, &item_boxes, &candidates);
+    let mut found: Vec<[usize; 2]> = candidates
+        .par_iter()
+        .flat_map_iter(|&[x, y]| exact.pairs(x, y))
+        .collect();
     found.sort_unstable();
     found.dedup();
     found
+}
+
+/// The exact tests of the candidate item pairs, with the boxes of the triangles of the
+/// items taking part (computed once each).
+struct Exact<'a> {
+    mesh: &'a TriMesh,
+    items: &'a Grouping,
+    item_boxes: &'a [Boxed],
+    /// Per item: where its triangles' boxes start in `boxes` (`u32::MAX`: not needed).
+    first: Vec<u32>,
+    boxes: Vec<Boxed>,
+}
+
+impl<'a> Exact<'a> {
+    fn new(
+        mesh: &'a TriMesh,
+        items: &'a Grouping,
+        item_boxes: &'a [Boxed],
+        candidates: &[[u32; 2]],
+    ) -> Exact<'a> {
+        use rayon::prelude::*;
+        let mut first = vec![u32::MAX; items.len()];
+        let mut involved: Vec<u32> = candidates.iter().flatten().copied().collect();
+        involved.sort_unstable();
+        involved.dedup();
+        let mut total = 0u32;
+        for &k in &involved {
+            first[k as usize] = total;
+            total += items.tris(k).len() as u32;
+        }
+        let boxes: Vec<Boxed> = involved
+            .par_iter()
+            .flat_map_iter(|&k| items.tris(k).iter().map(|&t| tri_box(mesh, t)))
+            .collect();
+        Exact {
+            mesh,
+            items,
+            item_boxes,
+            first,
+            boxes,
+        }
+    }
+
+    /// The boxes of item `k`'s triangles.
+    fn boxes_of(&self, k: u32) -> &[Boxed] {
+        let start = self.first[k as usize] as usize;
+        &self.boxes[start..start + self.items.tris(k).len()]
+    }
+
+    /// The meeting pairs with one triangle in item `x` and the other in item `y`
+    /// (`x == y`: two of its own).
+    fn pairs(&self, x: u32, y: u32) -> Vec<[usize; 2]> {
+        let mut found = Vec::new();
+        let (tx, bx) = (self.items.tris(x), self.boxes_of(x));
+        if x == y {
+            for a in 0..tx.len() {
+                for b in a + 1..tx.len() {
+                    if bx[a].overlaps(&bx[b]) {
+                        self.exact(tx[a], tx[b], &mut found);
+                    }
+                }
+            }
+            return found;
+        }
+        let (ty, by) = (self.items.tris(y), self.boxes_of(y));
+        // Only the triangles meeting the other item's box.
+        let near = |tris: &[u32], boxes: &[Boxed], other: u32| -> Vec<(u32, Boxed)> {
+            let ob = self.item_boxes[other as usize];
+            tris.iter()
+                .zip(boxes)
+                .filter(|(_, b)| b.overlaps(&ob))
+                .map(|(&t, &b)| (t, b))
+                .collect()
+        };
+        let ny = near(ty, by, x);
+        for (a, ba) in near(tx, bx, y) {
+            for &(b, ref bb) in &ny {
+                if ba.overlaps(bb) {
+                    self.exact(a, b, &mut found);
+                }
+            }
+        }
+        found
+    }
+
+    fn exact(&self, a: u32, b: u32, found: &mut Vec<[usize; 2]>) {
+        let tris = &self.mesh.triangles;
+        if pair_meets(self.mesh, tris[a as usize], tris[b as usize]) {
+            found.push([a.min(b) as usize, a.max(b) as usize]);
+        }
+    }
+}
+
+/// Triangle `t`'s box, rounded outward to single precision.
+fn tri_box(mesh: &TriMesh, t: u32) -> Boxed {
+    let v = &mesh.vertices;
+    let tri = mesh.triangles[t as usize];
+    let range = |k: usize| min_max(tri.map(|i| v[i as usize][k]));
+    Boxed {
+        min: std::array::from_fn(|k| f32_below(range(k).0)),
+        max: std::array::from_fn(|k| f32_above(range(k).1)),
+    }
+}
+
+/// The smallest and largest of three numbers.
+fn min_max(x: [f64; 3]) -> (f64, f64) {
+    (x[0].min(x[1]).min(x[2]), x[0].max(x[1]).max(x[2]))
 }
 
 /// The exact test for one pair, by the number of shared vertex indices.
@@ -400,11 +527,11 @@ mod tests {
         assert!(all.len() > 20, "the crumpled mesh should cross itself");
         // The large triangle cuts the sphere.
         assert!(all.iter().any(|p| p[1] == m.len() - 1));
-        assert_eq!(search(&m, &active), all);
-        assert_eq!(search(&m, &active), all);
+        assert_eq!(self_intersections(&m, &active, None), all);
+        assert_eq!(self_intersections(&m, &active, None), all);
         // And a smooth sphere has none.
         let smooth = crumpled(40, 20, 0.0);
         let inner: Vec<bool> = (0..smooth.len()).map(|t| t + 1 < smooth.len()).collect();
-        assert!(search(&smooth, &inner).is_empty());
+        assert!(self_intersections(&smooth, &inner, None).is_empty());
     }
 }

@@ -1,8 +1,6 @@
 //! Edge use, orientation, vertex fans and the Euler characteristic of a triangle mesh.
 
-use super::components::Dsu;
 use super::finding::{EdgeUse, Listed, VertexFans};
-use rayon::slice::ParallelSliceMut;
 
 /// What the edge and fan analysis found.
 #[derive(Debug, Clone, Default)]
@@ -37,176 +35,184 @@ impl Topology {
 
 /// Analyses `triangles[t]` for the `t` in `use_tri` (indices already known to be in range
 /// and distinct within each triangle). `nv` is the vertex count, `cap` the list cap.
+///
+/// Vertex by vertex: each vertex's corners (listed by a counting sort, `O(n)`) give its
+/// edges (an edge is counted at its smaller end) and its fans (corners joined across the
+/// edges used exactly twice; a small union-find per vertex). Vertices are analysed in
+/// parallel in fixed chunks and the findings merged in vertex order, so the result does
+/// not depend on the thread count: edges listed by smaller end, then larger end.
 pub(crate) fn analyse(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize, cap: usize) -> Topology {
+    use rayon::prelude::*;
+    const CHUNK: usize = 4096;
+    let at = VertexCorners::new(triangles, use_tri, nv);
+    let parts: Vec<Topology> = (0..nv.div_ceil(CHUNK))
+        .into_par_iter()
+        .map(|c| {
+            let mut part = Topology::default();
+            let mut local = Local::default();
+            for v in c * CHUNK..((c + 1) * CHUNK).min(nv) {
+                part.vertex(triangles, v as u32, at.of(v), cap, &mut local);
+            }
+            part
+        })
+        .collect();
     let mut topo = Topology {
         faces: use_tri.len(),
         ..Topology::default()
     };
-    let mut corners = topo.edges_of(triangles, &EdgeGroups::new(triangles, use_tri, nv), cap);
-    topo.fans_of(triangles, use_tri, &mut corners, cap);
+    for p in parts {
+        topo.edges += p.edges;
+        topo.vertices += p.vertices;
+        topo.boundary.append(p.boundary, cap);
+        topo.overused.append(p.overused, cap);
+        topo.same_direction.append(p.same_direction, cap);
+        topo.fans.append(p.fans, cap);
+    }
     debug_assert!(topo.vertices <= nv);
     topo
 }
 
-/// The directed edges grouped by undirected edge: for each vertex `a` (ascending), the
-/// edges whose smaller end is `a`, as `(other end, corner 3 t + k of edge k -> k+1)`,
-/// sorted, so the uses of one edge stand together. A counting sort on the smaller end
-/// (`O(n)`, 8 bytes per directed edge) and a sort of each vertex's few edges; the
-/// result does not depend on the thread count.
-struct EdgeGroups {
-    /// `start[a]..start[a + 1]` are vertex `a`'s records.
+/// The corners `3 t + k` at each vertex, ascending: a counting sort on the vertex.
+struct VertexCorners {
+    /// `start[v]..start[v + 1]` are vertex `v`'s corners.
     start: Vec<u32>,
-    rec: Vec<(u32, u32)>,
+    corners: Vec<u32>,
 }
 
-impl EdgeGroups {
-    fn new(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize) -> EdgeGroups {
-        let ends = |t: u32, k: u32| {
-            let tri = triangles[t as usize];
-            let (a, b) = (tri[k as usize], tri[(k as usize + 1) % 3]);
-            (a.min(b), a.max(b))
-        };
+impl VertexCorners {
+    fn new(triangles: &[[u32; 3]], use_tri: &[u32], nv: usize) -> VertexCorners {
         let mut start = vec![0u32; nv + 1];
         for &t in use_tri {
-            for k in 0..3 {
-                start[ends(t, k).0 as usize + 1] += 1;
+            for v in triangles[t as usize] {
+                start[v as usize + 1] += 1;
             }
         }
         for a in 0..nv {
             start[a + 1] += start[a];
         }
         let mut fill = start.clone();
-        let mut rec = vec![(0u32, 0u32); use_tri.len() * 3];
+        let mut corners = vec![0u32; use_tri.len() * 3];
         for &t in use_tri {
-            for k in 0..3 {
-                let (a, b) = ends(t, k);
-                rec[fill[a as usize] as usize] = (b, 3 * t + k);
-                fill[a as usize] += 1;
+            for (k, v) in triangles[t as usize].iter().enumerate() {
+                corners[fill[*v as usize] as usize] = 3 * t + k as u32;
+                fill[*v as usize] += 1;
             }
         }
-        drop(fill);
-        for a in 0..nv {
-            rec[start[a] as usize..start[a + 1] as usize].sort_unstable();
-        }
-        EdgeGroups { start, rec }
+        VertexCorners { start, corners }
     }
 
-    /// Each undirected edge `[a, b]` (`a < b`) with its uses `(triangle, slot)`.
-    fn each(&self, mut f: impl FnMut([u32; 2], &[(u32, u32)])) {
-        for a in 0..self.start.len() - 1 {
-            let group = &self.rec[self.start[a] as usize..self.start[a + 1] as usize];
-            for run in runs(group, |r| r.0) {
-                let uses = &group[run];
-                f([a as u32, uses[0].0], uses);
-            }
-        }
+    fn of(&self, v: usize) -> &[u32] {
+        &self.corners[self.start[v] as usize..self.start[v + 1] as usize]
     }
 }
 
-/// The runs of equal keys in a sorted list, as index ranges.
-fn runs<'a, T, K: PartialEq + 'a>(
-    sorted: &'a [T],
-    key: impl Fn(&T) -> K + 'a,
-) -> impl Iterator<Item = std::ops::Range<usize>> + 'a {
-    let mut i = 0;
-    std::iter::from_fn(move || {
-        if i >= sorted.len() {
-            return None;
+/// Buffers reused from vertex to vertex.
+#[derive(Default)]
+struct Local {
+    /// `(other end, triangle, local corner, leaves the vertex)` per edge use at the vertex.
+    uses: Vec<(u32, u32, u32, bool)>,
+    /// Union-find over the vertex's corners.
+    parent: Vec<u32>,
+}
+
+impl Local {
+    fn find(&mut self, mut x: u32) -> u32 {
+        while self.parent[x as usize] != x {
+            let p = self.parent[x as usize];
+            self.parent[x as usize] = self.parent[p as usize];
+            x = p;
         }
-        let mut j = i + 1;
-        while j < sorted.len() && key(&sorted[j]) == key(&sorted[i]) {
-            j += 1;
-        }
-        let run = i..j;
-        i = j;
-        Some(run)
-    })
+        x
+    }
 }
 
 impl Topology {
-    /// Counts the edges and lists those used once, more than twice, or twice in the
-    /// same direction. Returns the corners (3 t + k) joined across each edge used
-    /// exactly twice: the corners of one vertex that end in the same set form one fan.
-    fn edges_of(&mut self, triangles: &[[u32; 3]], groups: &EdgeGroups, cap: usize) -> Dsu {
-        let mut corners = Dsu::new(triangles.len() * 3);
-        let directed = |c: u32| {
-            let (t, k) = ((c / 3) as usize, (c % 3) as usize);
-            [triangles[t][k], triangles[t][(k + 1) % 3]]
-        };
-        groups.each(|edge, uses| {
-            self.edges += 1;
-            match uses {
-                [(_, c)] => {
-                    self.boundary.push(
+    /// Vertex `v` with its `corners`: counts it, its edges to larger vertices (listing
+    /// those used once, more than twice, or twice in the same direction) and its fans
+    /// (listed when more than one).
+    fn vertex(
+        &mut self,
+        triangles: &[[u32; 3]],
+        v: u32,
+        corners: &[u32],
+        cap: usize,
+        l: &mut Local,
+    ) {
+        if corners.is_empty() {
+            return;
+        }
+        self.vertices += 1;
+        l.uses.clear();
+        for (x, &c) in corners.iter().enumerate() {
+            let (t, k) = (c / 3, (c % 3) as usize);
+            let tri = triangles[t as usize];
+            l.uses.push((tri[(k + 1) % 3], t, x as u32, true));
+            l.uses.push((tri[(k + 2) % 3], t, x as u32, false));
+        }
+        l.uses.sort_unstable();
+        l.parent.clear();
+        l.parent.extend(0..corners.len() as u32);
+        let mut i = 0;
+        while i < l.uses.len() {
+            let w = l.uses[i].0;
+            let mut j = i + 1;
+            while j < l.uses.len() && l.uses[j].0 == w {
+                j += 1;
+            }
+            if j - i == 2 {
+                let (a, b) = (l.uses[i].2, l.uses[i + 1].2);
+                let (a, b) = (l.find(a), l.find(b));
+                l.parent[a as usize] = b;
+            }
+            if w > v {
+                self.edge(v, &l.uses[i..j], cap);
+            }
+            i = j;
+        }
+        let roots = (0..corners.len() as u32)
+            .filter(|&x| l.find(x) == x)
+            .count();
+        if roots > 1 {
+            self.fans.push(
+                VertexFans {
+                    vertex: v,
+                    fans: roots,
+                },
+                cap,
+            );
+        }
+    }
+
+    /// The edge from `v` to a larger vertex with its `uses` (sorted by triangle).
+    fn edge(&mut self, v: u32, uses: &[(u32, u32, u32, bool)], cap: usize) {
+        self.edges += 1;
+        let directed = |u: &(u32, u32, u32, bool)| if u.3 { [v, u.0] } else { [u.0, v] };
+        match uses {
+            [u] => self.boundary.push(
+                EdgeUse {
+                    edge: directed(u),
+                    triangles: vec![u.1 as usize],
+                },
+                cap,
+            ),
+            [u1, u2] => {
+                if u1.3 == u2.3 {
+                    self.same_direction.push(
                         EdgeUse {
-                            edge: directed(*c),
-                            triangles: vec![(c / 3) as usize],
+                            edge: directed(u1),
+                            triangles: vec![u1.1 as usize, u2.1 as usize],
                         },
                         cap,
                     );
                 }
-                [(_, c1), (_, c2)] => {
-                    let (t1, t2) = (c1 / 3, c2 / 3);
-                    let (e1, e2) = (directed(*c1), directed(*c2));
-                    if e1 == e2 {
-                        self.same_direction.push(
-                            EdgeUse {
-                                edge: e1,
-                                triangles: vec![t1 as usize, t2 as usize],
-                            },
-                            cap,
-                        );
-                    }
-                    for v in e1 {
-                        corners.union(corner(triangles, t1, v), corner(triangles, t2, v));
-                    }
-                }
-                _ => {
-                    self.overused.push(
-                        EdgeUse {
-                            edge,
-                            triangles: uses.iter().map(|r| (r.1 / 3) as usize).collect(),
-                        },
-                        cap,
-                    );
-                }
             }
-        });
-        corners
-    }
-
-    /// Counts the vertices and lists those with more than one fan: distinct corner sets
-    /// among the vertex's corners.
-    fn fans_of(&mut self, triangles: &[[u32; 3]], use_tri: &[u32], corners: &mut Dsu, cap: usize) {
-        let mut vc: Vec<(u32, u32)> = Vec::with_capacity(use_tri.len() * 3);
-        for &t in use_tri {
-            for k in 0..3 {
-                let c = 3 * t + k;
-                vc.push((triangles[t as usize][k as usize], corners.find(c)));
-            }
-        }
-        vc.par_sort_unstable();
-        vc.dedup();
-        for run in runs(&vc, |x| x.0) {
-            self.vertices += 1;
-            if run.len() > 1 {
-                self.fans.push(
-                    VertexFans {
-                        vertex: vc[run.start].0,
-                        fans: run.len(),
-                    },
-                    cap,
-                );
-            }
+            _ => self.overused.push(
+                EdgeUse {
+                    edge: [v, uses[0].0],
+                    triangles: uses.iter().map(|u| u.1 as usize).collect(),
+                },
+                cap,
+            ),
         }
     }
-}
-
-/// The corner id (3 t + k) of vertex `v` in triangle `t`.
-fn corner(triangles: &[[u32; 3]], t: u32, v: u32) -> u32 {
-    let k = triangles[t as usize]
-        .iter()
-        .position(|&x| x == v)
-        .unwrap_or(0);
-    3 * t + k as u32
 }

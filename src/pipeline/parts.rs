@@ -6,7 +6,7 @@ use super::{BuiltBlade, PipelineError, SteepStep};
 use crate::assembly::{
     one_piece, rigid, AssemblyError, BladeFacts, HandOptions, OnePieceBlade, OnePieceSpec, Rotor,
 };
-use crate::check::{certify, interferences, CheckOptions, CheckedPart};
+use crate::check::{certify_on_grid, interferences, CheckOptions, CheckedPart, GridLayout};
 use crate::design::{Design, DesignError};
 use crate::mesh::Part;
 use crate::segment::{SegmentError, SegmentMesh};
@@ -79,9 +79,20 @@ pub(super) fn checked(
     genus: u32,
     likely_causes: &[SteepStep],
 ) -> Result<CheckedPart, PipelineError> {
-    certify(
+    checked_on_grid(part, genus, likely_causes, None)
+}
+
+/// [`checked`] for a part whose first vertices lie on `grid` (a tessellation's grid).
+pub(super) fn checked_on_grid(
+    part: Part,
+    genus: u32,
+    likely_causes: &[SteepStep],
+    grid: Option<&GridLayout>,
+) -> Result<CheckedPart, PipelineError> {
+    certify_on_grid(
         part,
         &CheckOptions::DEFAULT.with_expected_genus(Some(genus)),
+        grid,
     )
     .map_err(|rejected| PipelineError::Rejected {
         rejected,
@@ -94,7 +105,16 @@ pub(super) fn blade_part(
     built: &BuiltBlade,
     likely_causes: &[SteepStep],
 ) -> Result<BuiltPart, PipelineError> {
-    let body = checked(built.part(), built.expected_genus(), likely_causes)?;
+    let grid = GridLayout {
+        us: &built.tessellation.us,
+        vs: &built.tessellation.vs,
+    };
+    let body = checked_on_grid(
+        built.part(),
+        built.expected_genus(),
+        likely_causes,
+        Some(&grid),
+    )?;
     Ok(BuiltPart {
         kind: PartKind::Blade,
         name: built.name.clone(),
