@@ -47,6 +47,13 @@ const K_REPORT: usize = 16;
 /// Bounds the cells of a skin and of its trailing-edge face.
 pub(crate) struct Certifier<'a> {
     skin: &'a Skin,
+    parts: std::sync::Arc<Derivatives>,
+}
+
+/// The second-derivative bounds of a skin and of its trailing-edge face (computed once
+/// per skin: the tessellation keeps them for the deviation measurement).
+#[derive(Debug)]
+pub(crate) struct Derivatives {
     bounds: DerivativeBounds,
     te: Option<(Skin, DerivativeBounds)>,
 }
@@ -79,38 +86,42 @@ impl<'a> Certifier<'a> {
         });
         Certifier {
             skin,
-            bounds: skin.derivative_bounds(),
-            te,
+            parts: std::sync::Arc::new(Derivatives {
+                bounds: skin.derivative_bounds(),
+                te,
+            }),
         }
+    }
+
+    /// The certifier of `skin` reusing bounds computed for it before, if any.
+    fn reusing(skin: &'a Skin, known: Option<&KnownBounds>) -> Self {
+        match known.and_then(|k| k.derivatives.clone()) {
+            Some(parts) => Certifier { skin, parts },
+            None => Certifier::new(skin),
+        }
+    }
+
+    /// Its derivative bounds, for [`KnownBounds`].
+    pub(crate) fn derivatives(&self) -> std::sync::Arc<Derivatives> {
+        self.parts.clone()
     }
 
     /// Certified bound of grid cell `(i, j)` (`points` as in [`super::grid::Grid`]), the
     /// largest distance a sample of it has to its triangles (0 when none was taken), and
     /// which of its directions (`u`, `v`) to halve when the bound is above `target`:
     /// those whose curvature terms carry at least a third of the bound's curvature term.
+    #[allow(clippy::too_many_arguments)]
     pub(crate) fn cell(
         &self,
         us: &[f64],
         vs: &[f64],
         points: &[Point3<f64>],
+        spans: &Spans,
         i: usize,
         j: usize,
         target: f64,
     ) -> (f64, f64, [bool; 2]) {
-        let nv = vs.len();
-        let corners = [
-            points[i * nv + j],
-            points[(i + 1) * nv + j],
-            points[(i + 1) * nv + j + 1],
-            points[i * nv + j + 1],
-        ];
-        let cell = Cell {
-            skin: self.skin,
-            bounds: &self.bounds,
-            u: [us[i], us[i + 1]],
-            v: [vs[j], vs[j + 1]],
-            corners,
-        };
+        let cell = self.skin_cell(us, vs, points, spans, i, j);
         let r = cell.certify(target, 2, K_MAX);
         (r.0, r.1, cell.directions())
     }
@@ -129,6 +140,48 @@ impl<'a> Certifier<'a> {
             .map_or((0.0, 0.0), |c| c.certify(target, 2, K_MAX))
     }
 
+    /// The knot spans each grid interval of `us` and of `vs` touches (found once per
+    /// grid, not per cell).
+    pub(crate) fn spans(&self, us: &[f64], vs: &[f64]) -> Spans {
+        let of = |dir: usize, t: &[f64]| {
+            t.windows(2)
+                .map(|w| self.parts.bounds.span_range(dir, w[0], w[1]))
+                .collect()
+        };
+        Spans {
+            u: of(0, us),
+            v: of(1, vs),
+        }
+    }
+
+    /// Skin cell `(i, j)` with the mesh corners over it.
+    fn skin_cell(
+        &self,
+        us: &[f64],
+        vs: &[f64],
+        points: &[Point3<f64>],
+        spans: &Spans,
+        i: usize,
+        j: usize,
+    ) -> Cell<'a> {
+        let nv = vs.len();
+        Cell {
+            skin: self.skin,
+            u: [us[i], us[i + 1]],
+            v: [vs[j], vs[j + 1]],
+            corners: [
+                points[i * nv + j],
+                points[(i + 1) * nv + j],
+                points[(i + 1) * nv + j + 1],
+                points[i * nv + j + 1],
+            ],
+            m: self
+                .parts
+                .bounds
+                .over_spans(spans.u[i].clone(), spans.v[j].clone()),
+        }
+    }
+
     fn strip_cell<'b>(
         &'b self,
         us: &[f64],
@@ -136,11 +189,11 @@ impl<'a> Certifier<'a> {
         points: &[Point3<f64>],
         j: usize,
     ) -> Option<Cell<'b>> {
-        let (face, bounds) = self.te.as_ref()?;
+        let (face, bounds) = self.parts.te.as_ref()?;
         let (nu, nv) = (us.len(), vs.len());
         Some(Cell {
             skin: face,
-            bounds,
+            m: bounds.over(0.0, 1.0, vs[j], vs[j + 1]),
             u: [0.0, 1.0],
             v: [vs[j], vs[j + 1]],
             corners: [
@@ -153,28 +206,37 @@ impl<'a> Certifier<'a> {
     }
 }
 
+/// The knot spans (0-based, see [`DerivativeBounds::span_range`]) each interval of a
+/// grid's `us` and `vs` touches.
+pub(crate) struct Spans {
+    u: Vec<std::ops::RangeInclusive<usize>>,
+    v: Vec<std::ops::RangeInclusive<usize>>,
+}
+
 /// One cell of a surface with the mesh corners over it.
 struct Cell<'a> {
     skin: &'a Skin,
-    bounds: &'a DerivativeBounds,
     u: [f64; 2],
     v: [f64; 2],
     /// Mesh vertices at `(u0, v0)`, `(u1, v0)`, `(u1, v1)`, `(u0, v1)`.
     corners: [Point3<f64>; 4],
+    /// `[M_uu, M_uv, M_vv]`: bounds of the second derivatives over the cell
+    /// ([`DerivativeBounds`]).
+    m: [f64; 3],
 }
 
 impl Cell<'_> {
     /// The curvature term `(M_uu du² + 2 M_uv du dv + M_vv dv²) / 8` of the bound
     /// (`k = 1`).
     fn curvature_term(&self) -> f64 {
-        let [muu, muv, mvv] = self.bounds.over(self.u[0], self.u[1], self.v[0], self.v[1]);
+        let [muu, muv, mvv] = self.m;
         let (du, dv) = (self.u[1] - self.u[0], self.v[1] - self.v[0]);
         (muu * du * du + 2.0 * muv * du * dv + mvv * dv * dv) / 8.0
     }
 
     /// Which directions dominate the curvature term: `[u, v]`.
     fn directions(&self) -> [bool; 2] {
-        let [muu, muv, mvv] = self.bounds.over(self.u[0], self.u[1], self.v[0], self.v[1]);
+        let [muu, muv, mvv] = self.m;
         let (du, dv) = (self.u[1] - self.u[0], self.v[1] - self.v[0]);
         let (tu, tv) = (muu * du * du + muv * du * dv, mvv * dv * dv + muv * du * dv);
         [tu >= 0.5 * tv, tv >= 0.5 * tu]
@@ -391,6 +453,8 @@ pub struct KnownBounds {
     pub cells: Vec<f64>,
     /// Per cell, the largest sampled distance, mm.
     pub lower: Vec<f32>,
+    /// The skin's derivative bounds the cells were certified with.
+    pub(crate) derivatives: Option<std::sync::Arc<Derivatives>>,
 }
 
 impl KnownBounds {
@@ -435,7 +499,8 @@ fn measure(
     known: Option<&KnownBounds>,
 ) -> f64 {
     let k = k.max(2);
-    let cert = Certifier::new(skin);
+    let cert = Certifier::reusing(skin, known);
+    let spans = cert.spans(us, vs);
     let (nu, nv) = (us.len(), vs.len());
     // Cells are made on the fly from their index (skin cells column by column, then the
     // trailing-edge strip's rows): a list of them would hold four corners per cell, more
@@ -446,18 +511,7 @@ fn measure(
             return cert.strip_cell(us, vs, points, c - skin_cells);
         }
         let (i, j) = (c / (nv - 1), c % (nv - 1));
-        Some(Cell {
-            skin,
-            bounds: &cert.bounds,
-            u: [us[i], us[i + 1]],
-            v: [vs[j], vs[j + 1]],
-            corners: [
-                points[i * nv + j],
-                points[(i + 1) * nv + j],
-                points[(i + 1) * nv + j + 1],
-                points[i * nv + j + 1],
-            ],
-        })
+        Some(cert.skin_cell(us, vs, points, &spans, i, j))
     };
     let cells = skin_cells + nv - 1;
     let known_floor = known.map_or(0.0, KnownBounds::floor);

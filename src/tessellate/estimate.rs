@@ -27,6 +27,7 @@
 use super::grid::{eval_grid, uniform};
 use crate::loft::Skin;
 use nalgebra::{Point3, Vector3};
+use rayon::prelude::*;
 
 /// Ratio of real to ideal triangle counts, measured (see the module docs).
 pub const CALIBRATION: f64 = 1.75;
@@ -101,6 +102,7 @@ pub fn estimate(skin: &Skin, tolerance: f64) -> WorkEstimate {
     }
     let s = SampleGrid::of(skin, tolerance);
     let local: Vec<Local> = (0..s.nu * s.nv)
+        .into_par_iter()
         .map(|c| s.local(c / s.nv, c % s.nv))
         .collect();
     let (du_density, dv_density) = s.densities(&local, tolerance);

@@ -279,12 +279,13 @@ pub(crate) fn grid(skin: &Skin, opts: &TessellationOptions) -> Grid {
     loop {
         let points = eval_grid(skin, &us, &vs);
         let nv = vs.len();
+        let spans = cert.spans(&us, &vs);
         let todo: Vec<usize> = (0..cells.len()).filter(|&c| cells[c].is_nan()).collect();
         let found: Vec<(f64, f64, [bool; 2])> = todo
             .par_iter()
             .map(|&c| {
                 let (i, j) = (c / (nv - 1), c % (nv - 1));
-                cert.cell(&us, &vs, &points, i, j, tol)
+                cert.cell(&us, &vs, &points, &spans, i, j, tol)
             })
             .collect();
         for (&c, (b, l, d)) in todo.iter().zip(found) {
@@ -335,7 +336,11 @@ pub(crate) fn grid(skin: &Skin, opts: &TessellationOptions) -> Grid {
                 vs,
                 points,
                 deviation,
-                known: KnownBounds { cells, lower },
+                known: KnownBounds {
+                    cells,
+                    lower,
+                    derivatives: Some(cert.derivatives()),
+                },
             };
         }
         round += 1;
