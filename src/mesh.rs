@@ -180,6 +180,12 @@ impl TriMesh {
     /// Drops vertices no triangle uses and renumbers the triangles; the kept vertices
     /// keep their relative order (a mesh without unused vertices is left unchanged).
     pub fn compact(&mut self) {
+        self.compact_map();
+    }
+
+    /// [`TriMesh::compact`], returning the new index of every old vertex (`u32::MAX` for
+    /// a dropped one) when any was dropped.
+    pub fn compact_map(&mut self) -> Option<Vec<u32>> {
         let mut used = vec![false; self.vertices.len()];
         for t in &self.triangles {
             for &i in t {
@@ -187,7 +193,7 @@ impl TriMesh {
             }
         }
         if used.iter().all(|&u| u) {
-            return;
+            return None;
         }
         let mut map = vec![u32::MAX; self.vertices.len()];
         let mut kept = Vec::with_capacity(self.vertices.len());
@@ -203,6 +209,7 @@ impl TriMesh {
             }
         }
         self.vertices = kept;
+        Some(map)
     }
 
     /// Appends another mesh (its vertices are not merged with ours).

@@ -115,6 +115,10 @@ pub struct Tessellation {
     /// The bounds certified per cell while choosing the grid (cells whose corners moved
     /// by merging forgotten), for [`Tessellation::measured_deviation`].
     pub known: KnownBounds,
+    /// The mesh vertex of each grid point (`i * vs.len() + j`; `u32::MAX` when dropped)
+    /// once features have renumbered the vertices; `None` while grid point `g` is
+    /// vertex `g`.
+    pub grid_ids: Option<Vec<u32>>,
 }
 
 impl Tessellation {
@@ -268,6 +272,7 @@ pub fn tessellate(
         root_cap,
         deviation: g.deviation,
         known,
+        grid_ids: None,
     })
 }
 
@@ -323,11 +328,44 @@ pub fn mesh_from_grid(
 /// longest edge merged), becomes that first vertex; when the row's last run's first
 /// vertex makes a sliver with column 0 (a trailing edge closing to nothing), the run
 /// becomes column 0's vertex.
+///
+/// Only rows that can merge are walked: a merged vertex lies within `cap` of its run's
+/// first vertex, so its edge to the vertex before it is at most `2 cap` long (or, at
+/// the row's end, its trailing-edge edge at most `cap`); those edges are found column
+/// by column first, in the grid's memory order.
 fn row_merges(points: &[Point3<f64>], nu: usize, nv: usize, cap: f64) -> Vec<(u32, u32)> {
     let diag = crate::mesh::Aabb::of_points(points).map_or(0.0, |b| b.size().norm());
     let guard = MERGE_GUARD * crate::conventions::DEGENERATE_AREA * diag * diag;
+    let near = |a: &Point3<f64>, b: &Point3<f64>, d: f64| (a - b).norm_squared() <= d * d;
+    // Exactly coincident vertices (within 1e-9) always merge.
+    let reach = 2.0 * cap.max(1e-9);
+    let candidate = (1..nu)
+        .into_par_iter()
+        .fold(
+            || vec![false; nv],
+            |mut rows, i| {
+                let (before, here) = (&points[(i - 1) * nv..i * nv], &points[i * nv..][..nv]);
+                for (j, (a, b)) in before.iter().zip(here).enumerate() {
+                    rows[j] |= near(a, b, reach);
+                }
+                if i == nu - 1 {
+                    for (j, (a, b)) in points[..nv].iter().zip(here).enumerate() {
+                        rows[j] |= near(a, b, cap.max(1e-9));
+                    }
+                }
+                rows
+            },
+        )
+        .reduce(
+            || vec![false; nv],
+            |mut a, b| {
+                a.iter_mut().zip(b).for_each(|(x, y)| *x |= y);
+                a
+            },
+        );
     (0..nv)
         .into_par_iter()
+        .filter(|&j| candidate[j])
         .flat_map_iter(|j| {
             let p = |i: usize, j: usize| points[i * nv + j];
             let rows: Vec<usize> = [j.checked_sub(1), (j + 1 < nv).then_some(j + 1)]
