@@ -8,6 +8,7 @@
 //! curves `v = 0` and `v = 1` (each in a plane `z = const`, see [`crate::conventions`]).
 
 use nalgebra::Point3;
+use rayon::prelude::*;
 
 /// A clamped, non-rational tensor-product B-spline surface.
 #[derive(Debug, Clone, PartialEq)]
@@ -65,10 +66,11 @@ impl Skin {
         let knots_v = averaged_knots(&vbar, q);
         // Curves around each ring: R[l][k].
         let bu = Banded::collocation(&knots_u, p, &ubar);
-        let r: Vec<Vec<Point3<f64>>> = rings.iter().map(|ring| bu.solve(ring)).collect();
+        let r: Vec<Vec<Point3<f64>>> = rings.par_iter().map(|ring| bu.solve(ring)).collect();
         // Then along the span for each column k: control[k][l].
         let bv = Banded::collocation(&knots_v, q, &vbar);
         let control: Vec<Vec<Point3<f64>>> = (0..n)
+            .into_par_iter()
             .map(|k| {
                 let column: Vec<Point3<f64>> = r.iter().map(|row| row[k]).collect();
                 bv.solve(&column)
@@ -397,6 +399,68 @@ fn chord_params(points: &[Point3<f64>]) -> Option<Vec<f64>> {
         return None;
     }
     Some(acc.into_iter().map(|a| a / total).collect())
+}
+
+/// The skin's spanwise curves through each section point: for point `k` of every ring,
+/// the cubic B-spline in `v` that [`Skin::interpolate`] would give on the same rings,
+/// without the curves around the sections.
+///
+/// Interpolation is linear in the data and the skin interpolates each ring at the
+/// section parameters `ubar` ([`section_parameters`]), so the skin's point at
+/// `(ubar[k], v)` is this curve `k` at `v`: the spanwise interpolation of the points `k`
+/// with the skin's own `v` knots (NURBS Book section 9.2.5, surface interpolation as
+/// curve interpolations in each direction). Half the work of a skin, for callers that
+/// only look at the section points.
+#[derive(Debug, Clone)]
+pub struct SpanCurves {
+    /// Knot vector along the span (the skin's `knots_v`).
+    pub knots_v: Vec<f64>,
+    /// Degree along the span.
+    pub degree_v: usize,
+    /// Span parameters of the rings ([`span_parameters`]).
+    pub vbar: Vec<f64>,
+    /// Per section point `k`, the control points of its curve.
+    pub control: Vec<Vec<Point3<f64>>>,
+}
+
+impl SpanCurves {
+    /// The curves through `rings` (as [`Skin::interpolate`] takes them).
+    ///
+    /// # Errors
+    /// As [`Skin::interpolate`].
+    pub fn interpolate(rings: &[Vec<Point3<f64>>]) -> Result<SpanCurves, LoftError> {
+        let m = rings.len();
+        let n = rings.first().map_or(0, Vec::len);
+        if m < 2 || n < 3 || rings.iter().any(|r| r.len() != n) {
+            return Err(LoftError::BadInput(format!(
+                "{m} section(s) of {n} points; at least two sections of equal point counts \
+                 (three or more) are needed"
+            )));
+        }
+        let vbar = span_parameters(rings)?;
+        let q = 3.min(m - 1);
+        let knots_v = averaged_knots(&vbar, q);
+        let bv = Banded::collocation(&knots_v, q, &vbar);
+        let control = (0..n)
+            .into_par_iter()
+            .map(|k| {
+                let column: Vec<Point3<f64>> = rings.iter().map(|r| r[k]).collect();
+                bv.solve(&column)
+            })
+            .collect();
+        Ok(SpanCurves {
+            knots_v,
+            degree_v: q,
+            vbar,
+            control,
+        })
+    }
+
+    /// The section points at `v`.
+    pub fn section_at(&self, v: f64) -> impl Iterator<Item = Point3<f64>> + '_ {
+        let b = Basis::at(&self.knots_v, self.degree_v, v);
+        self.control.iter().map(move |c| eval_curve(c, &b))
+    }
 }
 
 /// Clamped knot vector by averaging (NURBS Book eq. 9.8).

@@ -9,8 +9,9 @@
 //!
 //! **Placement.** Rings start at every station and every region boundary, with even
 //! steps of at most a sixteenth of the span between them ([`Blade::ring_radii`]); then,
-//! round after round, the skin is built and compared with the blade model at the
-//! midpoint of every ring interval, and every interval where the two differ by more
+//! round after round, the skin's spanwise curves through the section points (which are
+//! the skin's points at the section parameters, [`SpanCurves`]) are built and compared
+//! with the blade model at the midpoint of every ring interval, and every interval where the two differ by more
 //! than [`SHARE`] of the tolerance is halved, until none does.
 //!
 //! **Skin-to-design distance** ([`skin_to_design`]): at a radius `r`, every section point
@@ -24,7 +25,9 @@
 //! the design, at most mesh-to-skin plus skin-to-design, stays within the tolerance.
 
 use crate::blade::Blade;
-use crate::loft::{eval_curve, section_parameters, span_parameters, Basis, LoftError, Skin};
+use crate::loft::{
+    eval_curve, section_parameters, span_parameters, Basis, LoftError, Skin, SpanCurves,
+};
 use nalgebra::Point3;
 use rayon::prelude::*;
 use std::collections::HashMap;
@@ -79,15 +82,20 @@ pub struct SkinToDesign {
 }
 
 /// The skin's cut at `z = r`: its `v` parameter, found by bisection between the two rings
-/// around `r` (the skin's `z` passes through each ring's radius at the ring's `v`).
-fn v_at(skin: &Skin, vbar: &[f64], radii: &[f64], r: f64) -> f64 {
-    let z: Vec<Point3<f64>> = skin.control[0].clone();
-    let zat = |v: f64| eval_curve(&z, &Basis::at(&skin.knots_v, skin.degree_v, v)).z;
+/// around `r` (the skin's `z` passes through each ring's radius at the ring's `v`); `z`
+/// is the curve of knots, degree and control points `zc` (any spanwise curve of the
+/// skin: every ring is planar).
+fn v_at(zc: (&[f64], usize, &[Point3<f64>]), vbar: &[f64], radii: &[f64], r: f64) -> f64 {
+    let (knots, q, control) = zc;
+    let zat = |v: f64| eval_curve(control, &Basis::at(knots, q, v)).z;
     let i = radii.partition_point(|&x| x <= r).clamp(1, radii.len() - 1) - 1;
     let (mut lo, mut hi) = (vbar[i], vbar[i + 1]);
     let rising = radii[i + 1] >= radii[i];
     for _ in 0..64 {
         let mid = 0.5 * (lo + hi);
+        if !(mid > lo && mid < hi) {
+            break; // lo and hi are neighbouring numbers
+        }
         if (zat(mid) < r) == rising {
             lo = mid;
         } else {
@@ -95,17 +103,6 @@ fn v_at(skin: &Skin, vbar: &[f64], radii: &[f64], r: f64) -> f64 {
         }
     }
     0.5 * (lo + hi)
-}
-
-/// Largest distance between the model's section points at `r` (`design`) and the skin
-/// points with the same section parameters (`ubases`) on the skin's cut at `v`.
-fn distance_at(skin: &Skin, ubases: &[Basis], v: f64, design: &[Point3<f64>]) -> f64 {
-    let c = skin.iso_v_control(&Basis::at(&skin.knots_v, skin.degree_v, v));
-    ubases
-        .iter()
-        .zip(design)
-        .map(|(b, p)| (eval_curve(&c, b) - p).norm())
-        .fold(0.0, f64::max)
 }
 
 /// Measures the skin-to-design distance of `skin`, built on the rings of `blade` at
@@ -137,12 +134,22 @@ fn summary(radii: &[f64], worst: &[(f64, f64)], probes: usize) -> SkinToDesign {
     }
 }
 
-/// A skin with the parameters of its rings, ready to be compared with the model.
+/// What is compared with the model: the skin, or, while rings are being placed, only
+/// its spanwise curves through the section points ([`SpanCurves`]), which give the very
+/// points the comparison looks at for half the work.
+enum Along<'a> {
+    /// The skin, with the basis values at its section parameters.
+    Skin { skin: &'a Skin, ubases: Vec<Basis> },
+    /// The spanwise curves of the skin the rings would give.
+    Curves(SpanCurves),
+}
+
+/// A skin (or its spanwise curves) with the parameters of its rings, ready to be
+/// compared with the model.
 struct Comparison<'a> {
-    skin: &'a Skin,
+    along: Along<'a>,
     radii: &'a [f64],
     vbar: Vec<f64>,
-    ubases: Vec<Basis>,
 }
 
 impl<'a> Comparison<'a> {
@@ -157,11 +164,45 @@ impl<'a> Comparison<'a> {
             .map(|&u| Basis::at(&skin.knots_u, skin.degree_u, u))
             .collect();
         Ok(Comparison {
-            skin,
+            along: Along::Skin { skin, ubases },
             radii,
             vbar: span_parameters(rings)?,
-            ubases,
         })
+    }
+
+    /// The comparison of the skin `rings` would give, through its spanwise curves.
+    fn of_curves(rings: &[Vec<Point3<f64>>], radii: &'a [f64]) -> Result<Self, LoftError> {
+        let curves = SpanCurves::interpolate(rings)?;
+        Ok(Comparison {
+            vbar: curves.vbar.clone(),
+            along: Along::Curves(curves),
+            radii,
+        })
+    }
+
+    /// The spanwise curve giving `z`.
+    fn z_curve(&self) -> (&[f64], usize, &[Point3<f64>]) {
+        match &self.along {
+            Along::Skin { skin, .. } => (&skin.knots_v, skin.degree_v, &skin.control[0]),
+            Along::Curves(c) => (&c.knots_v, c.degree_v, &c.control[0]),
+        }
+    }
+
+    /// Largest distance between the model's section points at `r` (`design`) and the
+    /// skin points with the same section parameters on the skin's cut at `v`.
+    fn distance_at(&self, v: f64, design: &[Point3<f64>]) -> f64 {
+        let far = |pts: &mut dyn Iterator<Item = Point3<f64>>| {
+            pts.zip(design)
+                .map(|(q, p)| (q - p).norm())
+                .fold(0.0, f64::max)
+        };
+        match &self.along {
+            Along::Skin { skin, ubases } => {
+                let c = skin.iso_v_control(&Basis::at(&skin.knots_v, skin.degree_v, v));
+                far(&mut ubases.iter().map(|b| eval_curve(&c, b)))
+            }
+            Along::Curves(curves) => far(&mut curves.section_at(v)),
+        }
     }
 
     /// The largest distance in each ring interval and the radius where it was found;
@@ -195,11 +236,8 @@ impl<'a> Comparison<'a> {
                 chunk
                     .iter()
                     .map(|&r| {
-                        let v = v_at(self.skin, &self.vbar, self.radii, r);
-                        (
-                            distance_at(self.skin, &self.ubases, v, &cache[&r.to_bits()]),
-                            r,
-                        )
+                        let v = v_at(self.z_curve(), &self.vbar, self.radii, r);
+                        (self.distance_at(v, &cache[&r.to_bits()]), r)
                     })
                     .fold((0.0, chunk[0]), |m, x| if x.0 > m.0 { x } else { m })
             })
@@ -225,8 +263,7 @@ pub fn place_rings(blade: &Blade, tolerance: f64) -> Result<RingPlacement, LoftE
     loop {
         let placed: Vec<Vec<Point3<f64>>> =
             radii.iter().map(|r| rings[&r.to_bits()].clone()).collect();
-        let skin = Skin::interpolate(&placed, blade.le_index())?;
-        let cmp = Comparison::new(&skin, &placed, &radii)?;
+        let cmp = Comparison::of_curves(&placed, &radii)?;
         let worst = cmp.intervals(blade, &PLACING, &mut probes);
         let shortest = 2.0 * MIN_INTERVAL * span;
         let split: Vec<bool> = worst
@@ -238,8 +275,10 @@ pub fn place_rings(blade: &Blade, tolerance: f64) -> Result<RingPlacement, LoftE
         // A tolerance that is not a positive number is refused by the tessellation.
         let valid = target > 0.0 && target.is_finite();
         if !valid || !split.contains(&true) || round >= MAX_ROUNDS || room == 0 {
-            // The reported distance: the quarter points too.
-            let measured = cmp.intervals(blade, &PROBES, &mut probes);
+            // The skin itself, and the reported distance: the quarter points too.
+            let skin = Skin::interpolate(&placed, blade.le_index())?;
+            let measured =
+                Comparison::new(&skin, &placed, &radii)?.intervals(blade, &PROBES, &mut probes);
             return Ok(RingPlacement {
                 skin_to_design: summary(&radii, &measured, PROBES.len()),
                 radii,
