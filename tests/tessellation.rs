@@ -371,3 +371,94 @@ fn crowded_columns_at_a_round_tip_merge_without_losing_the_tolerance() {
         "parry3d found {dense}, printed {printed}"
     );
 }
+
+#[test]
+fn the_grid_check_finds_exactly_what_the_general_search_finds() {
+    // The self-intersection test skips pairs of grid cells it proves apart
+    // (check::GridLayout); its verdict must equal the general search's (every pair of
+    // triangles whose boxes overlap, itself checked against an exhaustive search) on the
+    // blade as built and on the blade broken two ways.
+    use spanwright::check::{check_solid, check_solid_on_grid, CheckOptions, Finding, GridLayout};
+    let b = model(0.05);
+    let t = &b.tessellation;
+    let grid = GridLayout {
+        us: &t.us,
+        vs: &t.vs,
+        ids: None,
+    };
+    let opts = CheckOptions::DEFAULT;
+    let same = |mesh: &spanwright::mesh::TriMesh| {
+        let general = check_solid(mesh, &opts);
+        let on_grid = check_solid_on_grid(mesh, &opts, Some(&grid));
+        assert_eq!(general, on_grid);
+        general
+    };
+    let built = same(&t.mesh);
+    assert!(built.is_ok(), "{built}");
+    let crossing = |r: &spanwright::check::CheckReport| {
+        r.findings.iter().find_map(|f| match f {
+            Finding::SelfIntersection(l) => Some(l.count),
+            _ => None,
+        })
+    };
+    let (nu, nv) = (t.us.len(), t.vs.len());
+    let (i, j) = (nu / 4, nv / 2);
+    // A vertex pushed through the section to beyond the other side: its cells cross
+    // cells far away on the grid.
+    let mut through = t.mesh.clone();
+    let (p, q) = (
+        through.vertices[i * nv + j],
+        through.vertices[(nu - 1 - i) * nv + j],
+    );
+    through.vertices[i * nv + j] = q + (q - p) * 0.5;
+    assert!(crossing(&same(&through)).is_some_and(|n| n > 0));
+    // Two vertices of one row two columns apart swapped: neighbouring cells fold over
+    // each other inside one window.
+    let mut folded = t.mesh.clone();
+    folded.vertices.swap(i * nv + j, (i + 2) * nv + j);
+    assert!(crossing(&same(&folded)).is_some_and(|n| n > 0));
+}
+
+#[test]
+fn the_grid_check_follows_vertices_renumbered_by_mount_features() {
+    // A cross hole drops skin vertices, and the mesh is compacted: the grid points are
+    // then no longer the first vertices in order (Tessellation::grid_ids). The check on
+    // the renumbered grid must still give the general search's report.
+    use spanwright::check::{check_solid, check_solid_on_grid, CheckOptions, GridLayout};
+    let text = format!(
+        "{BLADE}\n[root]\nshank-diameter = 30\nshank-length = 6\ntransition-length = 32\n\
+         cross-holes = [{{ diameter = 3, at = 3 }}]\n"
+    );
+    let design = parse_toml_str(&text, None).unwrap();
+    let b = build_blade(
+        &design,
+        &Options {
+            tolerance: Some(0.05),
+            ..Options::default()
+        },
+    )
+    .unwrap();
+    let t = &b.tessellation;
+    let ids = t.grid_ids.as_deref().expect("the hole drops skin vertices");
+    assert_eq!(ids.len(), t.us.len() * t.vs.len());
+    assert!(ids.iter().any(|&v| v == u32::MAX));
+    let opts = CheckOptions::DEFAULT.with_expected_genus(Some(1));
+    let grid = GridLayout {
+        us: &t.us,
+        vs: &t.vs,
+        ids: Some(ids),
+    };
+    let general = check_solid(&t.mesh, &opts);
+    assert!(general.is_ok(), "{general}");
+    assert_eq!(general, check_solid_on_grid(&t.mesh, &opts, Some(&grid)));
+    // Broken: a skin vertex pushed through to beyond the other side of the section.
+    let (nu, nv) = (t.us.len(), t.vs.len());
+    let (i, j) = (nu / 4, 3 * nv / 4);
+    let (v, w) = (ids[i * nv + j], ids[(nu - 1 - i) * nv + j]);
+    let mut through = t.mesh.clone();
+    let (p, q) = (through.vertices[v as usize], through.vertices[w as usize]);
+    through.vertices[v as usize] = q + (q - p) * 0.5;
+    let broken = check_solid(&through, &opts);
+    assert!(!broken.is_ok());
+    assert_eq!(broken, check_solid_on_grid(&through, &opts, Some(&grid)));
+}

@@ -49,15 +49,28 @@ pub(super) const BLOCK: usize = 4;
 /// (`0.9^2`; see the module docs).
 const CERTIFY: f64 = 0.81;
 
-/// The grid a mesh's first vertices lie on: vertex `i * vs.len() + j` is the grid point
-/// at parameters `(us[i], vs[j])`; both strictly increasing. The search checks which
-/// triangles really are grid cells, so a wrong layout costs time, never a missed pair.
+/// The grid a mesh's vertices lie on: grid point `g = i * vs.len() + j`, at parameters
+/// `(us[i], vs[j])` (both strictly increasing), is vertex `g`, or vertex `ids[g]` when
+/// `ids` is given (`u32::MAX`: no vertex). The search checks which triangles really are
+/// grid cells, so a wrong layout costs time, never a missed pair.
 #[derive(Debug, Clone, Copy)]
 pub struct GridLayout<'a> {
     /// Parameters of the grid's columns.
     pub us: &'a [f64],
     /// Parameters of the grid's rows.
     pub vs: &'a [f64],
+    /// The vertex of each grid point, when they are not the first vertices in order.
+    pub ids: Option<&'a [u32]>,
+}
+
+impl GridLayout<'_> {
+    /// The vertex of grid point `g`, if any.
+    fn vertex(&self, g: usize) -> Option<u32> {
+        match self.ids {
+            Some(ids) => ids.get(g).copied().filter(|&v| v != u32::MAX),
+            None => Some(g as u32),
+        }
+    }
 }
 
 /// How a cell is split, from the corner each of its triangles leaves out
@@ -106,15 +119,19 @@ impl Grouping {
         };
         let (nu, nv) = (grid.us.len(), grid.vs.len());
         let increasing = |s: &[f64]| s.windows(2).all(|w| w[0] < w[1]);
-        if nu < 3
-            || nv < 2
-            || nu * nv > mesh.vertices.len()
-            || !increasing(grid.us)
-            || !increasing(grid.vs)
-        {
+        let fits = match grid.ids {
+            Some(map) => {
+                map.len() == nu * nv
+                    && map
+                        .iter()
+                        .all(|&v| v == u32::MAX || (v as usize) < mesh.vertices.len())
+            }
+            None => nu * nv <= mesh.vertices.len(),
+        };
+        if nu < 3 || nv < 2 || !fits || !increasing(grid.us) || !increasing(grid.vs) {
             return Grouping::loose(ids());
         }
-        let cells = Cells::tally(mesh, active, nu, nv);
+        let cells = Cells::tally(mesh, active, grid);
         let nb = [(nu - 1).div_ceil(BLOCK), (nv - 1).div_ceil(BLOCK)];
         let nw = [
             nb[0].saturating_sub(1).max(1),
@@ -231,7 +248,8 @@ struct Cells {
 }
 
 impl Cells {
-    fn tally(mesh: &TriMesh, active: &[bool], nu: usize, nv: usize) -> Cells {
+    fn tally(mesh: &TriMesh, active: &[bool], grid: &GridLayout) -> Cells {
+        let (nu, nv) = (grid.us.len(), grid.vs.len());
         let n_cells = (nu - 1) * (nv - 1);
         let mut cells = Cells {
             nv,
@@ -239,16 +257,31 @@ impl Cells {
             tri: vec![[u32::MAX; 2]; n_cells],
             owned: vec![false; mesh.triangles.len()],
         };
-        let grid_vertices = (nu * nv) as u32;
+        // The grid point of each vertex (u32::MAX: none).
+        let point: Vec<u32> = match grid.ids {
+            Some(map) => {
+                let mut point = vec![u32::MAX; mesh.vertices.len()];
+                for (g, &v) in map.iter().enumerate() {
+                    if v != u32::MAX {
+                        point[v as usize] = g as u32;
+                    }
+                }
+                point
+            }
+            None => (0..mesh.vertices.len() as u32)
+                .map(|v| if (v as usize) < nu * nv { v } else { u32::MAX })
+                .collect(),
+        };
         let cell_of: Vec<Option<(u32, u16)>> = mesh
             .triangles
             .par_iter()
             .enumerate()
             .map(|(t, tri)| {
-                if !active[t] || tri.iter().any(|&v| v >= grid_vertices) {
+                let g = tri.map(|v| point[v as usize]);
+                if !active[t] || g.contains(&u32::MAX) {
                     return None;
                 }
-                let ij = tri.map(|v| (v as usize / nv, v as usize % nv));
+                let ij = g.map(|g| (g as usize / nv, g as usize % nv));
                 let i0 = ij.iter().map(|p| p.0).min()?;
                 let j0 = ij.iter().map(|p| p.1).min()?;
                 let mut seen = 0u16;
@@ -312,7 +345,19 @@ impl Cells {
         if cols.is_empty() || rows.is_empty() {
             return false;
         }
-        let p = |i: usize, j: usize| mesh.vertices[i * nv + j].coords;
+        // Every corner of a complete cell is a vertex; the window's cells are checked
+        // complete before any corner is read.
+        for ci in cols.clone() {
+            for cj in rows.clone() {
+                if !self.complete(ci * (nv - 1) + cj) {
+                    return false;
+                }
+            }
+        }
+        let p = |i: usize, j: usize| {
+            let v = grid.vertex(i * nv + j).unwrap_or(0);
+            mesh.vertices[v as usize].coords
+        };
         let (i0, i1, j0, j1) = (cols.start, cols.end, rows.start, rows.end);
         let (du, dv) = (grid.us[i1] - grid.us[i0], grid.vs[j1] - grid.vs[j0]);
         let ju = (p(i1, j0) + p(i1, j1) - p(i0, j0) - p(i0, j1)) / (2.0 * du);
@@ -333,9 +378,6 @@ impl Cells {
             let du = grid.us[ci + 1] - grid.us[ci];
             for cj in rows.clone() {
                 let c = ci * (nv - 1) + cj;
-                if !self.complete(c) {
-                    return false;
-                }
                 let dv = grid.vs[cj + 1] - grid.vs[cj];
                 let (a, b) = (p(ci, cj), p(ci + 1, cj));
                 let (c_, d) = (p(ci + 1, cj + 1), p(ci, cj + 1));
@@ -416,7 +458,11 @@ mod tests {
     fn a_smooth_grid_is_certified_and_the_search_finds_nothing() {
         let (m, us, vs) = tube(80, 40, |_, _| 1.0);
         let active = vec![true; m.len()];
-        let grid = GridLayout { us: &us, vs: &vs };
+        let grid = GridLayout {
+            us: &us,
+            vs: &vs,
+            ids: None,
+        };
         let g = Grouping::on_grid(&m, &active, &grid);
         let (ok, all) = g.certified_share();
         assert_eq!(ok, all, "every window of a smooth tube is certified");
@@ -432,7 +478,11 @@ mod tests {
         let (mut m, us, vs) = tube(40, 20, |_, _| 1.0);
         m.vertices.swap(10 * 20 + 10, 12 * 20 + 10);
         let active = vec![true; m.len()];
-        let grid = GridLayout { us: &us, vs: &vs };
+        let grid = GridLayout {
+            us: &us,
+            vs: &vs,
+            ids: None,
+        };
         let g = Grouping::on_grid(&m, &active, &grid);
         let (ok, all) = g.certified_share();
         assert!(ok > 0 && ok < all, "{ok} of {all}");
@@ -462,7 +512,11 @@ mod tests {
             }
         }
         let active = vec![true; m.len()];
-        let grid = GridLayout { us: &us, vs: &vs };
+        let grid = GridLayout {
+            us: &us,
+            vs: &vs,
+            ids: None,
+        };
         let (ok, all) = Grouping::on_grid(&m, &active, &grid).certified_share();
         assert!(ok > 0 && ok < all, "{ok} of {all}");
         let found = self_intersections(&m, &active, Some(&grid));
@@ -475,11 +529,23 @@ mod tests {
         let (m, us, vs) = tube(30, 10, |i, j| 1.0 + 0.05 * ((i * 7 + j * 3) % 5) as f64);
         let active = vec![true; m.len()];
         // Rows and columns swapped: no triangle is a cell of this layout.
-        let wrong = GridLayout { us: &vs, vs: &us };
+        let wrong = GridLayout {
+            us: &vs,
+            vs: &us,
+            ids: None,
+        };
         assert_eq!(self_intersections(&m, &active, Some(&wrong)), general(&m));
         // Too many vertices claimed: ignored.
         let long: Vec<f64> = (0..100).map(|k| k as f64).collect();
-        let g = Grouping::on_grid(&m, &active, &GridLayout { us: &long, vs: &vs });
+        let g = Grouping::on_grid(
+            &m,
+            &active,
+            &GridLayout {
+                us: &long,
+                vs: &vs,
+                ids: None,
+            },
+        );
         assert_eq!(g.len(), m.len());
         let _ = us;
     }

@@ -1,28 +1,35 @@
-//! Self-intersection search: a bounding volume hierarchy over the triangles, traversed
-//! against itself, then the exact pair tests of [`super::tritri`].
+//! Self-intersection search: a bounding volume hierarchy over items (blocks of grid cells
+//! and loose triangles, see [`super::grid`]), traversed against itself, then the exact
+//! pair tests of [`super::tritri`].
 //!
-//! **Hierarchy.** The triangles are ordered along a Morton (Z-order) curve through the
+//! **Items.** Without a grid every triangle is its own item. With one, the triangles of
+//! complete grid cells are grouped in blocks, and pairs of blocks lying in one window the
+//! grid certificate proves embedded are never tested.
+//!
+//! **Hierarchy.** The items are ordered along a Morton (Z-order) curve through the
 //! centres of their bounding boxes (G. M. Morton, IBM technical report, 1966; the
 //! ordering used by linear BVH builders, Lauterbach et al., "Fast BVH Construction on
-//! GPUs", Eurographics 2009), cut into leaves of [`LEAF`] consecutive triangles, and a
-//! balanced binary tree of boxes is built over the leaves. Spatially close triangles end
-//! up in nearby leaves whatever their shape, so the long thin triangles of a blade and
-//! long cap triangles need no tuning.
+//! GPUs", Eurographics 2009), cut into leaves of [`LEAF`] consecutive items, and a
+//! balanced binary tree of boxes is built over the leaves. Spatially close items end up
+//! in nearby leaves whatever their shape, so the long thin triangles of a blade and long
+//! cap triangles need no tuning.
 //!
-//! **Traversal.** Every unordered pair of triangles is met exactly once: a node's pairs
-//! are its two children's own pairs plus the pairs across them, and a pair of nodes is
-//! only descended when their boxes overlap. At the leaves, a pair whose triangle boxes
-//! overlap gets the exact test.
+//! **Traversal.** Every unordered pair of items is met exactly once: a node's pairs are
+//! its two children's own pairs plus the pairs across them, and a pair of nodes is only
+//! descended when their boxes overlap. At the leaves, a pair of items whose boxes overlap
+//! and which the grid does not clear is a candidate. **Exact phase**: for each candidate,
+//! the triangles of each item meeting the other item's box, and among those the pairs
+//! whose triangle boxes overlap, get the exact test.
 //!
-//! **Work**: `O(n log n)` to build for `n` triangles (a sort), and for the traversal one
-//! box test per pair of overlapping nodes plus one exact test per pair of overlapping
-//! triangle boxes: `O(n log n)` at most for a surface mesh whose triangles are small
+//! **Work**: `O(n log n)` to build for `n` items (a sort), and for the traversal one box
+//! test per pair of overlapping nodes plus one exact test per pair of overlapping
+//! triangle boxes left: `O(n log n)` at most for a surface mesh whose triangles are small
 //! against the part (each triangle's box meets a bounded number of others), close to
 //! `O(n)` in practice (see `benches/check.rs`). A triangle reaching across the part (a
-//! cap triangle) costs the nodes its box meets. The search is generic (blades with mount
-//! features, rotors and hubs all come here), so it relies on no tessellation grid. The
-//! work is split over threads at the top of the tree; the result is the same on any
-//! number of threads.
+//! cap triangle) costs the nodes its box meets. With a certified grid the items are
+//! blocks of `2 BLOCK^2` triangles and the neighbouring pairs, most of the exact tests of
+//! a fine mesh, are skipped. The work is split over threads at the top of the tree and
+//! over the candidates; the result is the same on any number of threads.
 
 use super::grid::{GridLayout, Grouping};
 use super::tritri::{corner_pair_meets, disjoint_pair_meets, edge_pair_meets};
@@ -33,6 +40,9 @@ use nalgebra::Vector3;
 const LEAF: usize = 4;
 /// Tree levels below the root whose subtrees are handed to separate tasks.
 const PARALLEL_LEVELS: u32 = 10;
+/// Fewest leaves under a node for its subtrees to be handed to separate tasks (below
+/// that a task costs more than the work it moves).
+const PARALLEL_LEAVES: usize = 64;
 
 /// An axis-aligned box in single precision, rounded outward from the double-precision
 /// coordinates it bounds, so it always contains them: two boxes that overlap in double
@@ -163,7 +173,12 @@ impl Bvh {
         }
     }
 
-    /// The triangles of leaf node `i`.
+    /// Leaves under a node `level` levels below the root.
+    fn leaves_under(&self, level: u32) -> usize {
+        self.first_leaf >> level.min(63)
+    }
+
+    /// The items of leaf node `i`.
     fn leaf(&self, i: usize) -> &[u32] {
         let l = i - self.first_leaf;
         let start = (l * LEAF).min(self.order.len());
@@ -205,7 +220,7 @@ impl Pairs<'_> {
             }
             return;
         }
-        if level < PARALLEL_LEVELS {
+        if level < PARALLEL_LEVELS && self.bvh.leaves_under(level) >= PARALLEL_LEAVES {
             let (mut f1, mut f2, mut f3) = (Vec::new(), Vec::new(), Vec::new());
             rayon::join(
                 || {
@@ -245,7 +260,7 @@ impl Pairs<'_> {
             (2 * a + 1, 2 * b),
             (2 * a + 1, 2 * b + 1),
         ];
-        if level < PARALLEL_LEVELS {
+        if level < PARALLEL_LEVELS && self.bvh.leaves_under(level) >= PARALLEL_LEAVES {
             let mut parts: [Vec<[u32; 2]>; 4] = Default::default();
             let [p0, p1, p2, p3] = &mut parts;
             rayon::join(

@@ -11,8 +11,9 @@ pub struct CheckOptions {
     /// is the diagonal of the mesh's bounding box (mm). Relative, so it does not depend on
     /// the units or the size of the part. Default `1e-12`.
     pub degenerate_area: f64,
-    /// Run the self-intersection test (triangle pairs through a uniform grid). It is the
-    /// slowest check, roughly linear in the triangle count. Default `true`.
+    /// Run the self-intersection test (triangle pairs found through a bounding volume
+    /// hierarchy; see [`super::check_solid_on_grid`] for meshes built on a grid). Roughly
+    /// linear in the triangle count. Default `true`.
     pub self_intersection: bool,
     /// The genus the solid must have (number of through-holes: 0 for a blade, 1 for a
     /// ring), or `None` to accept any genus and only report it. Default `Some(0)`.

@@ -212,6 +212,15 @@ fn cut_mount_features(
         tessellation.root_cap.clone(),
     );
     crate::mount::add_mount_features(&mut tessellation.mesh, &ring, cap, root, root_face)?;
-    tessellation.mesh.compact();
+    if let Some(map) = tessellation.mesh.compact_map() {
+        let grid = tessellation.us.len() * tessellation.vs.len();
+        tessellation.grid_ids = Some(match tessellation.grid_ids.take() {
+            Some(ids) => ids
+                .iter()
+                .map(|&v| map.get(v as usize).copied().unwrap_or(u32::MAX))
+                .collect(),
+            None => map[..grid].to_vec(),
+        });
+    }
     Ok(())
 }

@@ -108,6 +108,7 @@ pub(super) fn blade_part(
     let grid = GridLayout {
         us: &built.tessellation.us,
         vs: &built.tessellation.vs,
+        ids: built.tessellation.grid_ids.as_deref(),
     };
     let body = checked_on_grid(
         built.part(),
