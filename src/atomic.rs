@@ -66,7 +66,15 @@ struct Staged {
 }
 
 impl Staged {
-    fn commit(mut self) -> Result<(), WriteError> {
+    fn commit(self) -> Result<(), WriteError> {
+        let dir = self.dir.clone();
+        self.rename()?;
+        sync_dir(&dir);
+        Ok(())
+    }
+
+    /// Renames the temporary file onto the path (not yet durable: see [`sync_dir`]).
+    fn rename(mut self) -> Result<(), WriteError> {
         let Some(tmp) = self.tmp.path.take() else {
             return Ok(());
         };
@@ -78,13 +86,18 @@ impl Staged {
                 error,
             });
         }
-        // Make the rename itself durable where the platform allows it (best effort).
-        #[cfg(unix)]
-        if let Ok(d) = File::open(&self.dir) {
-            let _ = d.sync_all();
-        }
         Ok(())
     }
+}
+
+/// Makes the renames in `dir` durable where the platform allows it (best effort).
+fn sync_dir(dir: &Path) {
+    #[cfg(unix)]
+    if let Ok(d) = File::open(dir) {
+        let _ = d.sync_all();
+    }
+    #[cfg(not(unix))]
+    let _ = dir;
 }
 
 /// Several files that appear together: each [`Batch::write`] stages a complete,
@@ -127,8 +140,16 @@ impl Batch {
     /// removed.
     pub fn commit(mut self) -> Result<Vec<PathBuf>, WriteError> {
         let paths = self.paths();
+        let mut dirs: Vec<PathBuf> = Vec::new();
         for s in std::mem::take(&mut self.staged) {
-            s.commit()?;
+            if !dirs.contains(&s.dir) {
+                dirs.push(s.dir.clone());
+            }
+            s.rename()?;
+        }
+        // Each folder synced once, after all its renames.
+        for d in &dirs {
+            sync_dir(d);
         }
         Ok(paths)
     }

@@ -255,8 +255,9 @@ fn stage_files(
     std::fs::create_dir_all(dir)
         .with_context(|| format!("cannot create the output folder {}", dir.display()))?;
     let mut batch = Batch::new();
-    // The previews are drawn while the part files are written (neither needs the other).
-    let ((staged, writers), pictures) = rayon::join(
+    // The previews are drawn while the part files are written and the root transition
+    // drawn (none needs another).
+    let ((staged, writers, transition), pictures) = rayon::join(
         || {
             let mut t = Timings::default();
             let staged = if only {
@@ -264,7 +265,11 @@ fn stage_files(
             } else {
                 stage_outcome(&mut batch, outcome, dir, formats, &mut t)
             };
-            (staged, t)
+            // A picture of the root transition: outlines from root face to tip, along
+            // the span.
+            let transition = (!only && outcome.blade.blade.root().is_some())
+                .then(|| spanwright::report::transition_svg(&outcome.blade.blade, 12));
+            (staged, t, transition)
         },
         || {
             (!only).then(|| {
@@ -294,10 +299,8 @@ fn stage_files(
             }
         }
     }
-    if !only && outcome.blade.blade.root().is_some() {
-        // A picture of the root transition: outlines from root face to tip, along the span.
+    if let Some(svg) = transition {
         let path = dir.join(format!("{}-transition.svg", outcome.blade.name));
-        let svg = spanwright::report::transition_svg(&outcome.blade.blade, 12);
         batch.write(&path, |w| w.write_all(svg.as_bytes()))?;
     }
     if let Some((pictures, seconds)) = pictures {

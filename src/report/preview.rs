@@ -225,7 +225,7 @@ impl Image {
         let mut enc = png::Encoder::new(&mut out, self.width, self.height);
         enc.set_color(png::ColorType::Rgb);
         enc.set_depth(png::BitDepth::Eight);
-        enc.set_compression(png::Compression::Balanced);
+        enc.set_compression(png::Compression::Fastest);
         // Writing to memory cannot fail for a consistent size; an error leaves the bytes
         // written so far, which the caller's PNG check would reject.
         if let Ok(mut w) = enc.write_header() {
@@ -349,7 +349,9 @@ impl Image {
 fn shade_items(img: &mut Image, items: &[Item<'_>], placed: &[Vec<Point3<f64>>]) {
     let [r, u, f] = img.basis;
     let light = (-f + 0.6 * u - 0.35 * r).normalize();
-    let mut depth = vec![f64::INFINITY; (img.width * img.height) as usize];
+    // A pixel's depth counts once it is covered: the buffer starts as zeroed memory,
+    // which the system hands out page by page as pixels are drawn.
+    let mut depth = vec![0.0f64; (img.width * img.height) as usize];
     for (it, verts) in items.iter().zip(placed) {
         let proj: Vec<(f64, f64, f64)> = verts.iter().map(|p| img.project(p)).collect();
         for t in &it.mesh.triangles {
@@ -370,7 +372,7 @@ fn shade_items(img: &mut Image, items: &[Item<'_>], placed: &[Vec<Point3<f64>>])
                 .map(|c| (c as f64 * shade).round().clamp(0.0, 255.0) as u8);
             fill_triangle(img, [a, b, c], |img, x, y, d| {
                 let k = (y * img.width + x) as usize;
-                if d < depth[k] {
+                if !img.covered[k] || d < depth[k] {
                     depth[k] = d;
                     img.covered[k] = true;
                     let q = 3 * k;
@@ -417,7 +419,25 @@ fn fill_triangle(
     };
     for y in ymin..=ymax {
         let py = y as f64 + 0.5;
-        for x in xmin..=xmax {
+        // The pixels of this row the triangle can cover: each edge's test is linear in
+        // x; the interval is widened by a pixel and every pixel still tested exactly.
+        let (mut lo, mut hi) = (xmin as f64, xmax as f64);
+        for (p, q) in [(b, c), (c, a), (a, b)] {
+            let slope = -(q.1 - p.1) * s;
+            let at0 = ((q.0 - p.0) * (py - p.1) + (q.1 - p.1) * p.0) * s;
+            if slope > 0.0 {
+                lo = lo.max(-at0 / slope - 0.5 - 1.0);
+            } else if slope < 0.0 {
+                hi = hi.min(-at0 / slope - 0.5 + 1.0);
+            } else if at0 < 0.0 {
+                hi = lo - 1.0;
+            }
+        }
+        if !(lo <= hi) {
+            continue;
+        }
+        let (x0, x1) = ((lo.floor() as i64).max(xmin), (hi.ceil() as i64).min(xmax));
+        for x in x0..=x1 {
             let px = x as f64 + 0.5;
             let w0 = edge(b, c, px, py) * s;
             let w1 = edge(c, a, px, py) * s;
