@@ -441,7 +441,7 @@ fn the_grid_check_follows_vertices_renumbered_by_mount_features() {
     let t = &b.tessellation;
     let ids = t.grid_ids.as_deref().expect("the hole drops skin vertices");
     assert_eq!(ids.len(), t.us.len() * t.vs.len());
-    assert!(ids.iter().any(|&v| v == u32::MAX));
+    assert!(ids.contains(&u32::MAX));
     let opts = CheckOptions::DEFAULT.with_expected_genus(Some(1));
     let grid = GridLayout {
         us: &t.us,

@@ -187,27 +187,51 @@ impl Bvh {
 }
 
 /// The traversal over the items (blocks of grid cells and loose triangles): the pairs
-/// of items whose boxes overlap and which the grouping does not clear.
+/// of items whose boxes overlap and which the grouping does not clear. Two single
+/// triangles get their exact test at once; pairs with a block wait for the exact phase.
 struct Pairs<'a> {
     bvh: &'a Bvh,
     items: &'a Grouping,
     item_boxes: &'a [Boxed],
+    mesh: &'a TriMesh,
+}
+
+/// What the traversal found: meeting triangle pairs, and candidate item pairs.
+#[derive(Default)]
+struct Found {
+    pairs: Vec<[usize; 2]>,
+    candidates: Vec<[u32; 2]>,
+}
+
+impl Found {
+    fn extend(&mut self, other: Found) {
+        self.pairs.extend(other.pairs);
+        self.candidates.extend(other.candidates);
+    }
 }
 
 impl Pairs<'_> {
-    /// Items `x` and `y` (`x == y`: the item's own pairs) as a candidate, unless their
-    /// boxes are apart or the grouping clears them.
-    fn test(&self, x: u32, y: u32, found: &mut Vec<[u32; 2]>) {
+    /// Items `x` and `y` (`x == y`: the item's own pairs), unless their boxes are apart
+    /// or the grouping clears them.
+    fn test(&self, x: u32, y: u32, found: &mut Found) {
         if (x != y && !self.item_boxes[x as usize].overlaps(&self.item_boxes[y as usize]))
             || self.items.cleared(x, y)
             || (x == y && self.items.tris(x).len() < 2)
         {
             return;
         }
-        found.push([x, y]);
+        match (self.items.tris(x), self.items.tris(y)) {
+            (&[a], &[b]) => {
+                let tris = &self.mesh.triangles;
+                if pair_meets(self.mesh, tris[a as usize], tris[b as usize]) {
+                    found.pairs.push([a.min(b) as usize, a.max(b) as usize]);
+                }
+            }
+            _ => found.candidates.push([x, y]),
+        }
     }
     /// Pairs within node `i`.
-    fn within(&self, i: usize, level: u32, found: &mut Vec<[u32; 2]>) {
+    fn within(&self, i: usize, level: u32, found: &mut Found) {
         if self.bvh.boxes[i].min[0] > self.bvh.boxes[i].max[0] {
             return; // empty
         }
@@ -221,7 +245,7 @@ impl Pairs<'_> {
             return;
         }
         if level < PARALLEL_LEVELS && self.bvh.leaves_under(level) >= PARALLEL_LEAVES {
-            let (mut f1, mut f2, mut f3) = (Vec::new(), Vec::new(), Vec::new());
+            let (mut f1, mut f2, mut f3) = (Found::default(), Found::default(), Found::default());
             rayon::join(
                 || {
                     rayon::join(
@@ -242,7 +266,7 @@ impl Pairs<'_> {
     }
 
     /// Pairs with one triangle under node `a` and the other under node `b` (same level).
-    fn across(&self, a: usize, b: usize, level: u32, found: &mut Vec<[u32; 2]>) {
+    fn across(&self, a: usize, b: usize, level: u32, found: &mut Found) {
         if !self.bvh.boxes[a].overlaps(&self.bvh.boxes[b]) {
             return;
         }
@@ -261,7 +285,7 @@ impl Pairs<'_> {
             (2 * a + 1, 2 * b + 1),
         ];
         if level < PARALLEL_LEVELS && self.bvh.leaves_under(level) >= PARALLEL_LEAVES {
-            let mut parts: [Vec<[u32; 2]>; 4] = Default::default();
+            let mut parts: [Found; 4] = Default::default();
             let [p0, p1, p2, p3] = &mut parts;
             rayon::join(
                 || {
@@ -319,14 +343,20 @@ fn search(mesh: &TriMesh, items: &Grouping) -> Vec<[usize; 2]> {
         bvh: &bvh,
         items,
         item_boxes: &item_boxes,
+        mesh,
     };
-    let mut candidates = Vec::new();
-    pairs.within(1, 0, &mut candidates);
+    let mut traversal = Found::default();
+    pairs.within(1, 0, &mut traversal);
+    let Found {
+        pairs: mut found,
+        candidates,
+    } = traversal;
     let exact = Exact::new(mesh, items, &item_boxes, &candidates);
-    let mut found: Vec<[usize; 2]> = candidates
-        .par_iter()
-        .flat_map_iter(|&[x, y]| exact.pairs(x, y))
-        .collect();
+    found.par_extend(
+        candidates
+            .par_iter()
+            .flat_map_iter(|&[x, y]| exact.pairs(x, y)),
+    );
     found.sort_unstable();
     found.dedup();
     found
@@ -352,9 +382,13 @@ impl<'a> Exact<'a> {
     ) -> Exact<'a> {
         use rayon::prelude::*;
         let mut first = vec![u32::MAX; items.len()];
-        let mut involved: Vec<u32> = candidates.iter().flatten().copied().collect();
-        involved.sort_unstable();
-        involved.dedup();
+        let mut taking_part = vec![false; items.len()];
+        for &k in candidates.iter().flatten() {
+            taking_part[k as usize] = true;
+        }
+        let involved: Vec<u32> = (0..items.len() as u32)
+            .filter(|&k| taking_part[k as usize])
+            .collect();
         let mut total = 0u32;
         for &k in &involved {
             first[k as usize] = total;

@@ -419,25 +419,7 @@ fn fill_triangle(
     };
     for y in ymin..=ymax {
         let py = y as f64 + 0.5;
-        // The pixels of this row the triangle can cover: each edge's test is linear in
-        // x; the interval is widened by a pixel and every pixel still tested exactly.
-        let (mut lo, mut hi) = (xmin as f64, xmax as f64);
-        for (p, q) in [(b, c), (c, a), (a, b)] {
-            let slope = -(q.1 - p.1) * s;
-            let at0 = ((q.0 - p.0) * (py - p.1) + (q.1 - p.1) * p.0) * s;
-            if slope > 0.0 {
-                lo = lo.max(-at0 / slope - 0.5 - 1.0);
-            } else if slope < 0.0 {
-                hi = hi.min(-at0 / slope - 0.5 + 1.0);
-            } else if at0 < 0.0 {
-                hi = lo - 1.0;
-            }
-        }
-        if !(lo <= hi) {
-            continue;
-        }
-        let (x0, x1) = ((lo.floor() as i64).max(xmin), (hi.ceil() as i64).min(xmax));
-        for x in x0..=x1 {
+        for x in xmin..=xmax {
             let px = x as f64 + 0.5;
             let w0 = edge(b, c, px, py) * s;
             let w1 = edge(c, a, px, py) * s;
