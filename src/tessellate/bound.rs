@@ -110,6 +110,10 @@ impl<'a> Certifier<'a> {
     /// largest distance a sample of it has to its triangles (0 when none was taken), and
     /// which of its directions (`u`, `v`) to halve when the bound is above `target`:
     /// those whose curvature terms carry at least a third of the bound's curvature term.
+    ///
+    /// With `give_up`, a cell stops sampling once no finer sub-grid can meet `target`
+    /// (see [`Cell::certify`]): it will be split anyway, and its bound is the best found
+    /// so far (proven, not the tightest).
     #[allow(clippy::too_many_arguments)]
     pub(crate) fn cell(
         &self,
@@ -120,9 +124,10 @@ impl<'a> Certifier<'a> {
         i: usize,
         j: usize,
         target: f64,
+        give_up: bool,
     ) -> (f64, f64, [bool; 2]) {
         let cell = self.skin_cell(us, vs, points, spans, i, j);
-        let r = cell.certify(target, 2, K_MAX);
+        let r = cell.certify(target, 2, K_MAX, give_up);
         (r.0, r.1, cell.directions())
     }
 
@@ -137,7 +142,7 @@ impl<'a> Certifier<'a> {
         target: f64,
     ) -> (f64, f64) {
         self.strip_cell(us, vs, points, j)
-            .map_or((0.0, 0.0), |c| c.certify(target, 2, K_MAX))
+            .map_or((0.0, 0.0), |c| c.certify(target, 2, K_MAX, false))
     }
 
     /// The knot spans each grid interval of `us` and of `vs` touches (found once per
@@ -246,7 +251,13 @@ impl Cell<'_> {
     /// from `k_from` doubling to `k_to` until one meets `target`; also the largest
     /// distance from a sample to the mesh (a lower bound of the cell's deviation; 0 when
     /// no samples were taken).
-    fn certify(&self, target: f64, k_from: usize, k_to: usize) -> (f64, f64) {
+    ///
+    /// With `give_up`, stops as soon as no finer sub-grid up to `k_to` can meet `target`:
+    /// a sub-grid's sampled part is at least the largest distance of any sample taken so
+    /// far (its samples include the coarser ones'), so its bound is at least that plus
+    /// `raw / k_to²`. The bound returned is then the best found so far: still a proven
+    /// bound, above `target`.
+    fn certify(&self, target: f64, k_from: usize, k_to: usize, give_up: bool) -> (f64, f64) {
         let raw = self.curvature_term();
         let mut best = raw;
         let mut lower: f64 = 0.0;
@@ -255,6 +266,9 @@ impl Cell<'_> {
             let (s, l) = self.sampled(k);
             lower = lower.max(l);
             best = best.min(s + raw / (k * k) as f64);
+            if give_up && lower + raw / (k_to * k_to) as f64 > target {
+                break;
+            }
             k *= 2;
         }
         (best, lower)
@@ -521,7 +535,7 @@ fn measure(
         .into_par_iter()
         .map(|c| match settled(c) {
             Some(b) => (b, 0.0),
-            None => cell(c).map_or((0.0, 0.0), |c| c.certify(f64::NEG_INFINITY, k, k)),
+            None => cell(c).map_or((0.0, 0.0), |c| c.certify(f64::NEG_INFINITY, k, k, false)),
         })
         .collect();
     // The largest distance any sample has to its cell's triangles: no bound can be
@@ -531,7 +545,9 @@ fn measure(
         .par_iter()
         .enumerate()
         .map(|(c, &(b, _))| match cell(c) {
-            Some(c) if b > floor && 2 * k <= K_REPORT => b.min(c.certify(floor, 2 * k, K_REPORT).0),
+            Some(c) if b > floor && 2 * k <= K_REPORT => {
+                b.min(c.certify(floor, 2 * k, K_REPORT, false).0)
+            }
             _ => b,
         })
         .reduce(|| 0.0, f64::max)

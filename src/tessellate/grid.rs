@@ -285,7 +285,7 @@ pub(crate) fn grid(skin: &Skin, opts: &TessellationOptions) -> Grid {
             .par_iter()
             .map(|&c| {
                 let (i, j) = (c / (nv - 1), c % (nv - 1));
-                cert.cell(&us, &vs, &points, &spans, i, j, tol)
+                cert.cell(&us, &vs, &points, &spans, i, j, tol, round < opts.max_depth)
             })
             .collect();
         for (&c, (b, l, d)) in todo.iter().zip(found) {
