@@ -75,10 +75,15 @@ impl GridLayout<'_> {
 
 /// How a cell is split, from the corner each of its triangles leaves out
 /// (corners `a = (i, j)`, `b = (i + 1, j)`, `c = (i + 1, j + 1)`, `d = (i, j + 1)`).
-const SPLIT_AC: u16 = (1 << 1) | (1 << 3); // triangles a b c and a c d
-const SPLIT_BD: u16 = 1 | (1 << 2); // triangles a b d and b c d
+const SPLIT_AC: u32 = (1 << 1) | (1 << 3); // triangles a b c and a c d
+const SPLIT_BD: u32 = 1 | (1 << 2); // triangles a b d and b c d
 /// One triangle in a cell's tally (the low four bits mark left-out corners).
-const ONE: u16 = 1 << 4;
+const ONE: u32 = 1 << 4;
+
+/// A cell tally of exactly two triangles forming one of the cell's diagonal splits.
+fn complete(tally: u32) -> bool {
+    tally == 2 * ONE + SPLIT_AC || tally == 2 * ONE + SPLIT_BD
+}
 
 /// The search's items: blocks of complete grid cells and loose triangles, with the
 /// certified windows.
@@ -240,7 +245,7 @@ fn window_cells(
 struct Cells {
     nv: usize,
     /// Per cell: triangles counted in units of [`ONE`], left-out corners in the low bits.
-    tally: Vec<u16>,
+    tally: Vec<u32>,
     /// Per cell: its (first two) triangles.
     tri: Vec<[u32; 2]>,
     /// Per triangle: whether a complete cell owns it.
@@ -248,15 +253,13 @@ struct Cells {
 }
 
 impl Cells {
+    /// Tallies the triangles of each cell, in parallel: each triangle adds itself to
+    /// its cell atomically; a complete cell's two triangles are then put in order, so
+    /// the result does not depend on the thread count.
     fn tally(mesh: &TriMesh, active: &[bool], grid: &GridLayout) -> Cells {
+        use std::sync::atomic::{AtomicBool, AtomicU32, Ordering::Relaxed};
         let (nu, nv) = (grid.us.len(), grid.vs.len());
         let n_cells = (nu - 1) * (nv - 1);
-        let mut cells = Cells {
-            nv,
-            tally: vec![0; n_cells],
-            tri: vec![[u32::MAX; 2]; n_cells],
-            owned: vec![false; mesh.triangles.len()],
-        };
         // The grid point of each vertex (u32::MAX: none).
         let point: Vec<u32> = match grid.ids {
             Some(map) => {
@@ -272,59 +275,72 @@ impl Cells {
                 .map(|v| if (v as usize) < nu * nv { v } else { u32::MAX })
                 .collect(),
         };
-        let cell_of: Vec<Option<(u32, u16)>> = mesh
-            .triangles
-            .par_iter()
+        // The cell of a triangle whose corners are three corners of one cell, and the
+        // corner it leaves out (as a bit).
+        let cell_of = |t: usize, tri: &[u32; 3]| -> Option<(usize, u32)> {
+            let g = tri.map(|v| point[v as usize]);
+            if !active[t] || g.contains(&u32::MAX) {
+                return None;
+            }
+            let ij = g.map(|g| (g as usize / nv, g as usize % nv));
+            let i0 = ij.iter().map(|p| p.0).min()?;
+            let j0 = ij.iter().map(|p| p.1).min()?;
+            let mut seen = 0u32;
+            for (i, j) in ij {
+                let corner = match (i - i0, j - j0) {
+                    (0, 0) => 0,
+                    (1, 0) => 1,
+                    (1, 1) => 2,
+                    (0, 1) => 3,
+                    _ => return None,
+                };
+                seen |= 1 << corner;
+            }
+            // Three distinct corners (active triangles have distinct vertices).
+            let left_out = 0b1111 & !seen;
+            (i0 + 1 < nu && j0 + 1 < nv && left_out.count_ones() == 1)
+                .then_some((i0 * (nv - 1) + j0, left_out))
+        };
+        let tally: Vec<AtomicU32> = (0..n_cells).map(|_| AtomicU32::new(0)).collect();
+        let slots: Vec<[AtomicU32; 2]> = (0..n_cells)
+            .map(|_| [AtomicU32::new(u32::MAX), AtomicU32::new(u32::MAX)])
+            .collect();
+        mesh.triangles.par_iter().enumerate().for_each(|(t, tri)| {
+            if let Some((c, left_out)) = cell_of(t, tri) {
+                // A complete cell sees counts 0 then 1 here (its corner bits differ).
+                let k = (tally[c].fetch_add(ONE + left_out, Relaxed) / ONE) as usize;
+                if k < 2 {
+                    slots[c][k].store(t as u32, Relaxed);
+                }
+            }
+        });
+        let tally: Vec<u32> = tally.into_iter().map(AtomicU32::into_inner).collect();
+        let owned: Vec<AtomicBool> = (0..mesh.triangles.len())
+            .map(|_| AtomicBool::new(false))
+            .collect();
+        let tri: Vec<[u32; 2]> = slots
+            .into_par_iter()
             .enumerate()
-            .map(|(t, tri)| {
-                let g = tri.map(|v| point[v as usize]);
-                if !active[t] || g.contains(&u32::MAX) {
-                    return None;
+            .map(|(c, [a, b])| {
+                let (a, b) = (a.into_inner(), b.into_inner());
+                if complete(tally[c]) {
+                    owned[a as usize].store(true, Relaxed);
+                    owned[b as usize].store(true, Relaxed);
                 }
-                let ij = g.map(|g| (g as usize / nv, g as usize % nv));
-                let i0 = ij.iter().map(|p| p.0).min()?;
-                let j0 = ij.iter().map(|p| p.1).min()?;
-                let mut seen = 0u16;
-                for (i, j) in ij {
-                    let corner = match (i - i0, j - j0) {
-                        (0, 0) => 0,
-                        (1, 0) => 1,
-                        (1, 1) => 2,
-                        (0, 1) => 3,
-                        _ => return None,
-                    };
-                    seen |= 1 << corner;
-                }
-                // Three distinct corners (active triangles have distinct vertices).
-                let left_out = 0b1111 & !seen;
-                (i0 + 1 < nu && j0 + 1 < nv && left_out.count_ones() == 1)
-                    .then_some(((i0 * (nv - 1) + j0) as u32, left_out))
+                [a.min(b), a.max(b)]
             })
             .collect();
-        for (t, c) in cell_of.iter().enumerate() {
-            if let Some((c, left_out)) = *c {
-                let c = c as usize;
-                let k = (cells.tally[c] / ONE) as usize;
-                if k < 2 {
-                    cells.tri[c][k] = t as u32;
-                }
-                cells.tally[c] = cells.tally[c].saturating_add(ONE + left_out);
-            }
+        Cells {
+            nv,
+            tally,
+            tri,
+            owned: owned.into_iter().map(AtomicBool::into_inner).collect(),
         }
-        for c in 0..n_cells {
-            if cells.complete(c) {
-                for t in cells.tri[c] {
-                    cells.owned[t as usize] = true;
-                }
-            }
-        }
-        cells
     }
 
     /// Exactly two triangles forming one of the cell's diagonal splits.
     fn complete(&self, c: usize) -> bool {
-        let t = self.tally[c];
-        t == 2 * ONE + SPLIT_AC || t == 2 * ONE + SPLIT_BD
+        complete(self.tally[c])
     }
 
     fn owns(&self, t: usize) -> bool {

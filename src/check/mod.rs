@@ -77,16 +77,23 @@ pub fn check_solid_on_grid(
 ) -> CheckReport {
     let mut run = Checking::new(mesh, opts);
     let valid = run.indices();
-    let comps = components::component_sizes(mesh);
-    run.report.components = comps.len();
     let Some(valid) = valid else {
+        run.report.components = components::component_sizes(mesh).len();
         return run.finish();
     };
     let use_tri: Vec<u32> = (0..mesh.triangles.len() as u32)
         .filter(|&t| valid[t as usize])
         .collect();
-    let (closed, oriented) = run.topology(&use_tri);
-    let active = run.measures(&use_tri, valid, closed && oriented);
+    // The components (a sequential union-find) are counted while the edges, fans and
+    // measures are taken.
+    let (comps, (closed, active)) = rayon::join(
+        || components::component_sizes(mesh),
+        || {
+            let (closed, oriented) = run.topology(&use_tri);
+            (closed, run.measures(&use_tri, valid, closed && oriented))
+        },
+    );
+    run.report.components = comps.len();
     run.components_and_genus(&comps, closed);
     if opts.self_intersection {
         run.self_intersection(&active, grid);
