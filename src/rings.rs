@@ -19,7 +19,9 @@
 //! same section parameter on the skin's cut at `z = r` (the skin's cross-sections are
 //! planar: every ring lies in its plane `z = r`, so the skin's `z` depends on `v` alone).
 //! The largest such distance over the midpoints and quarter points of every ring
-//! interval is reported; at the rings themselves the skin passes through the model's
+//! interval is reported ([`place_rings`] measures it on the skin's spanwise curves,
+//! [`SpanCurves`], which pass through exactly those skin points, while it builds the
+//! skin); at the rings themselves the skin passes through the model's
 //! points exactly. The mesh then only needs to stay within the rest of the tolerance of
 //! the skin ([`RingPlacement::mesh_tolerance`]), so that the distance from the mesh to
 //! the design, at most mesh-to-skin plus skin-to-design, stays within the tolerance.
@@ -275,10 +277,13 @@ pub fn place_rings(blade: &Blade, tolerance: f64) -> Result<RingPlacement, LoftE
         // A tolerance that is not a positive number is refused by the tessellation.
         let valid = target > 0.0 && target.is_finite();
         if !valid || !split.contains(&true) || round >= MAX_ROUNDS || room == 0 {
-            // The skin itself, and the reported distance: the quarter points too.
-            let skin = Skin::interpolate(&placed, blade.le_index())?;
-            let measured =
-                Comparison::new(&skin, &placed, &radii)?.intervals(blade, &PROBES, &mut probes);
+            // The skin itself, built while the reported distance is measured (the
+            // quarter points too) on its spanwise curves, which give the same points.
+            let (skin, measured) = rayon::join(
+                || Skin::interpolate(&placed, blade.le_index()),
+                || cmp.intervals(blade, &PROBES, &mut probes),
+            );
+            let skin = skin?;
             return Ok(RingPlacement {
                 skin_to_design: summary(&radii, &measured, PROBES.len()),
                 radii,
