@@ -246,32 +246,57 @@ impl DerivativeBounds {
     }
 }
 
-/// First-derivative control points along one direction of a control net
-/// (`net[i][j]`, differences taken in `i`): `d (P[i+1] - P[i]) / (k[i+d+1] - k[i+1])`,
-/// NURBS Book equation 3.17 (a zero knot difference gives a zero point).
-fn difference_net(
-    net: &[Vec<nalgebra::Vector3<f64>>],
-    knots: &[f64],
-    d: usize,
-) -> Vec<Vec<nalgebra::Vector3<f64>>> {
-    (0..net.len().saturating_sub(1))
-        .map(|i| {
-            let den = knots[i + d + 1] - knots[i + 1];
-            let f = if den > 0.0 { d as f64 / den } else { 0.0 };
-            net[i + 1]
-                .iter()
-                .zip(&net[i])
-                .map(|(a, b)| (a - b) * f)
-                .collect()
-        })
-        .collect()
+/// A control net (or one of its derivative nets) in one flat array, row major.
+struct Net {
+    cols: usize,
+    v: Vec<nalgebra::Vector3<f64>>,
 }
 
-fn transpose<T: Copy>(net: &[Vec<T>]) -> Vec<Vec<T>> {
-    let cols = net.first().map_or(0, Vec::len);
-    (0..cols)
-        .map(|j| net.iter().map(|r| r[j]).collect())
-        .collect()
+impl Net {
+    fn rows(&self) -> usize {
+        self.v.len() / self.cols
+    }
+
+    /// First-derivative control points along the rows (`dir = 0`, differences in the
+    /// row index) or the columns (`dir = 1`): `d (P[i+1] - P[i]) / (k[i+d+1] - k[i+1])`,
+    /// NURBS Book equation 3.17 (a zero knot difference gives a zero point).
+    fn difference(&self, knots: &[f64], d: usize, dir: usize) -> Net {
+        let factor = |i: usize| {
+            let den = knots[i + d + 1] - knots[i + 1];
+            if den > 0.0 {
+                d as f64 / den
+            } else {
+                0.0
+            }
+        };
+        let (rows, cols) = (self.rows(), self.cols);
+        if dir == 0 {
+            let mut v = Vec::with_capacity(rows.saturating_sub(1) * cols);
+            for i in 0..rows.saturating_sub(1) {
+                let f = factor(i);
+                let (a, b) = (
+                    &self.v[(i + 1) * cols..][..cols],
+                    &self.v[i * cols..][..cols],
+                );
+                v.extend(a.iter().zip(b).map(|(a, b)| (a - b) * f));
+            }
+            Net { cols, v }
+        } else {
+            let out_cols = cols.saturating_sub(1);
+            let f: Vec<f64> = (0..out_cols).map(factor).collect();
+            let mut v = Vec::with_capacity(rows * out_cols);
+            for i in 0..rows {
+                let row = &self.v[i * cols..][..cols];
+                v.extend(row.windows(2).zip(&f).map(|(w, &f)| (w[1] - w[0]) * f));
+            }
+            Net { cols: out_cols, v }
+        }
+    }
+
+    /// The column count and the norms of the points.
+    fn norms(&self) -> (usize, Vec<f64>) {
+        (self.cols, self.v.iter().map(|x| x.norm()).collect())
+    }
 }
 
 impl Skin {
@@ -280,57 +305,55 @@ impl Skin {
     /// derivative along it.
     pub fn derivative_bounds(&self) -> DerivativeBounds {
         let (p, q) = (self.degree_u, self.degree_v);
-        let net: Vec<Vec<nalgebra::Vector3<f64>>> = self
-            .control
-            .iter()
-            .map(|r| r.iter().map(|c| c.coords).collect())
-            .collect();
-        let n = net.len() - 1;
-        let m = net[0].len() - 1;
+        let n = self.control.len() - 1;
+        let m = self.control[0].len() - 1;
         let (su, sv) = (n - p + 1, m - q + 1);
-        // Norms of the derivative nets, indexed like the NURBS Book's P^(k,l)_{i,j}.
-        let norms = |d: Vec<Vec<nalgebra::Vector3<f64>>>| -> Vec<Vec<f64>> {
-            d.iter()
-                .map(|r| r.iter().map(|x| x.norm()).collect())
-                .collect()
+        // Derivative nets in flat arrays (`rows x cols`, row major), indexed like the
+        // NURBS Book's P^(k,l)_{i,j} (equation 3.17 in each direction).
+        let net = Net {
+            cols: m + 1,
+            v: self
+                .control
+                .iter()
+                .flat_map(|r| r.iter().map(|c| c.coords))
+                .collect(),
         };
-        let du = difference_net(&net, &self.knots_u, p);
-        let duu = (p >= 2).then(|| norms(difference_net(&du, &self.knots_u[1..], p - 1)));
-        let duv = (p >= 1 && q >= 1).then(|| {
-            norms(transpose(&difference_net(
-                &transpose(&du),
-                &self.knots_v,
-                q,
-            )))
-        });
+        let du = net.difference(&self.knots_u, p, 0);
+        let duu = (p >= 2).then(|| du.difference(&self.knots_u[1..], p - 1, 0).norms());
+        let duv = (p >= 1 && q >= 1).then(|| du.difference(&self.knots_v, q, 1).norms());
         let dvv = (q >= 2).then(|| {
-            let dv = difference_net(&transpose(&net), &self.knots_v, q);
-            norms(transpose(&difference_net(&dv, &self.knots_v[1..], q - 1)))
+            net.difference(&self.knots_v, q, 1)
+                .difference(&self.knots_v[1..], q - 1, 1)
+                .norms()
         });
-        let window = |d: &Option<Vec<Vec<f64>>>,
+        // Largest of a net's norms over rows `is` and columns `js`.
+        let window = |d: &Option<(usize, Vec<f64>)>,
                       is: std::ops::RangeInclusive<usize>,
                       js: std::ops::RangeInclusive<usize>| {
-            let Some(d) = d else { return 0.0 };
+            let Some((cols, d)) = d else { return 0.0 };
             let mut mx = 0.0f64;
             for i in is {
                 for j in js.clone() {
-                    mx = mx.max(d[i][j]);
+                    mx = mx.max(d[i * cols + j]);
                 }
             }
             mx
         };
-        let mut table = Vec::with_capacity(su * sv);
-        for s in p..=n {
-            for t in q..=m {
-                // Active derivative control points on span (s, t): degree (p-a, q-b)
-                // functions on the knot vector without its first and last a knots.
-                table.push([
-                    window(&duu, s - p..=s - 2.min(s), t - q..=t),
-                    window(&duv, s - p..=s - 1.min(s), t - q..=t - 1.min(t)),
-                    window(&dvv, s - p..=s, t - q..=t - 2.min(t)),
-                ]);
-            }
-        }
+        let table: Vec<[f64; 3]> = (p..=n)
+            .into_par_iter()
+            .flat_map_iter(|s| {
+                let (duu, duv, dvv) = (&duu, &duv, &dvv);
+                (q..=m).map(move |t| {
+                    // Active derivative control points on span (s, t): degree (p-a, q-b)
+                    // functions on the knot vector without its first and last a knots.
+                    [
+                        window(duu, s - p..=s - 2.min(s), t - q..=t),
+                        window(duv, s - p..=s - 1.min(s), t - q..=t - 1.min(t)),
+                        window(dvv, s - p..=s, t - q..=t - 2.min(t)),
+                    ]
+                })
+            })
+            .collect();
         DerivativeBounds {
             knots_u: self.knots_u.clone(),
             knots_v: self.knots_v.clone(),
