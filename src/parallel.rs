@@ -23,6 +23,9 @@ pub enum ThreadsError {
         /// Threads the running pool has.
         running: usize,
     },
+    /// The system would not start the worker threads.
+    #[error("cannot start the worker threads: {0}")]
+    Build(String),
 }
 
 /// Sizes the global worker pool: `Some(n)` runs parallel work on `n` threads (`n = 1`
@@ -52,6 +55,24 @@ pub fn init_threads(threads: Option<usize>) -> Result<(), ThreadsError> {
             running,
         })
     }
+}
+
+/// Runs `work` on a worker pool of `threads` threads (`None`: every logical core), from
+/// one of its workers: the parallel loops `work` starts then share the pool without
+/// handing jobs across from an outside thread (what a command line does with its whole
+/// command).
+///
+/// # Errors
+/// [`ThreadsError::Build`] when the system refuses the threads.
+pub fn run_on_pool<R: Send>(
+    threads: Option<usize>,
+    work: impl FnOnce() -> R + Send,
+) -> Result<R, ThreadsError> {
+    let pool = rayon::ThreadPoolBuilder::new()
+        .num_threads(threads.unwrap_or(0))
+        .build()
+        .map_err(|e| ThreadsError::Build(e.to_string()))?;
+    Ok(pool.install(work))
 }
 
 /// Number of threads parallel work runs on (the current pool's size).

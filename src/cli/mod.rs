@@ -89,16 +89,17 @@ pub enum Verdict {
 pub fn main() -> ExitCode {
     let cli = Cli::parse();
     let ctx = Context { quiet: cli.quiet };
-    if let Err(e) = spanwright::parallel::init_threads(cli.threads.map(usize::from)) {
-        return ExitCode::from(exit_code(&Err(anyhow::Error::new(e).context("--threads"))));
-    }
-    let result = match cli.command {
-        Command::Build(a) => build::run(a, &ctx),
-        Command::Section(a) => section::run(a, &ctx),
-        Command::Fit(a) => fit::run(a, &ctx),
-        Command::Draft(a) => draft::run(a, &ctx),
-        Command::Report(a) => report::run(a, &ctx),
-    };
+    // The whole command runs on a worker of the pool, so its parallel loops start
+    // without handing work across from this thread.
+    let ran =
+        spanwright::parallel::run_on_pool(cli.threads.map(usize::from), || match cli.command {
+            Command::Build(a) => build::run(a, &ctx),
+            Command::Section(a) => section::run(a, &ctx),
+            Command::Fit(a) => fit::run(a, &ctx),
+            Command::Draft(a) => draft::run(a, &ctx),
+            Command::Report(a) => report::run(a, &ctx),
+        });
+    let result = ran.unwrap_or_else(|e| Err(anyhow::Error::new(e).context("--threads")));
     ExitCode::from(exit_code(&result))
 }
 

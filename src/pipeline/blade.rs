@@ -130,7 +130,7 @@ pub fn build_blade_timed(
 const MEMORY_SHARE: f64 = 0.8;
 
 /// Refuses a mesh whose estimated peak memory ([`crate::tessellate::estimate`]) exceeds
-/// [`MEMORY_SHARE`] of `available` bytes, before any meshing. `mesh_tolerance` is the
+/// `MEMORY_SHARE` (80 %) of `available` bytes, before any meshing. `mesh_tolerance` is the
 /// tessellation's tolerance, `tolerance` the one asked for (named in the message).
 ///
 /// # Errors

@@ -299,7 +299,7 @@ const SLIVER: f64 = 0.25;
 /// triangles on such an edge are slivers the solid check refuses and single-precision
 /// STL cannot hold. Such a vertex is merged into the one before it in its row when a
 /// triangle it would make with a neighbouring row is a sliver (area below
-/// [`MERGE_GUARD`] times the degenerate area, the row edge under [`SLIVER`] of its
+/// `MERGE_GUARD` (16) times the degenerate area, the row edge under `SLIVER` (a quarter) of its
 /// longest side) and the row edge is at most this distance; exactly coincident
 /// vertices (a sharp trailing edge) always merge. The cells on the edge
 /// collapse onto their neighbours' edges (an edge collapse inside a triangulated grid
