@@ -463,6 +463,11 @@ mod tests {
         (m, us, vs)
     }
 
+    /// The layout of a tube's grid (its points are its first vertices, in order).
+    fn layout<'a>(us: &'a [f64], vs: &'a [f64]) -> GridLayout<'a> {
+        GridLayout { us, vs, ids: None }
+    }
+
     /// The general search (no certificate; checked against an exhaustive search in
     /// `intersections`).
     fn general(m: &TriMesh) -> Vec<[usize; 2]> {
@@ -474,11 +479,7 @@ mod tests {
     fn a_smooth_grid_is_certified_and_the_search_finds_nothing() {
         let (m, us, vs) = tube(80, 40, |_, _| 1.0);
         let active = vec![true; m.len()];
-        let grid = GridLayout {
-            us: &us,
-            vs: &vs,
-            ids: None,
-        };
+        let grid = layout(&us, &vs);
         let g = Grouping::on_grid(&m, &active, &grid);
         let (ok, all) = g.certified_share();
         assert_eq!(ok, all, "every window of a smooth tube is certified");
@@ -494,11 +495,7 @@ mod tests {
         let (mut m, us, vs) = tube(40, 20, |_, _| 1.0);
         m.vertices.swap(10 * 20 + 10, 12 * 20 + 10);
         let active = vec![true; m.len()];
-        let grid = GridLayout {
-            us: &us,
-            vs: &vs,
-            ids: None,
-        };
+        let grid = layout(&us, &vs);
         let g = Grouping::on_grid(&m, &active, &grid);
         let (ok, all) = g.certified_share();
         assert!(ok > 0 && ok < all, "{ok} of {all}");
@@ -528,11 +525,7 @@ mod tests {
             }
         }
         let active = vec![true; m.len()];
-        let grid = GridLayout {
-            us: &us,
-            vs: &vs,
-            ids: None,
-        };
+        let grid = layout(&us, &vs);
         let (ok, all) = Grouping::on_grid(&m, &active, &grid).certified_share();
         assert!(ok > 0 && ok < all, "{ok} of {all}");
         let found = self_intersections(&m, &active, Some(&grid));
@@ -545,23 +538,11 @@ mod tests {
         let (m, us, vs) = tube(30, 10, |i, j| 1.0 + 0.05 * ((i * 7 + j * 3) % 5) as f64);
         let active = vec![true; m.len()];
         // Rows and columns swapped: no triangle is a cell of this layout.
-        let wrong = GridLayout {
-            us: &vs,
-            vs: &us,
-            ids: None,
-        };
+        let wrong = layout(&vs, &us);
         assert_eq!(self_intersections(&m, &active, Some(&wrong)), general(&m));
         // Too many vertices claimed: ignored.
         let long: Vec<f64> = (0..100).map(|k| k as f64).collect();
-        let g = Grouping::on_grid(
-            &m,
-            &active,
-            &GridLayout {
-                us: &long,
-                vs: &vs,
-                ids: None,
-            },
-        );
+        let g = Grouping::on_grid(&m, &active, &layout(&long, &vs));
         assert_eq!(g.len(), m.len());
         let _ = us;
     }
