@@ -11,8 +11,9 @@
 //! steps of at most a sixteenth of the span between them ([`Blade::ring_radii`]); then,
 //! round after round, the skin's spanwise curves through the section points (which are
 //! the skin's points at the section parameters, [`SpanCurves`]) are built and compared
-//! with the blade model at the midpoint of every ring interval, and every interval where the two differ by more
-//! than [`SHARE`] of the tolerance is halved, until none does.
+//! with the blade model at the midpoint of every ring interval, and every interval where
+//! the two differ by more than [`SHARE`] of the tolerance is cut in two, or in four or
+//! eight where it strays far more (`pieces_for`), until none does.
 //!
 //! **Skin-to-design distance** ([`skin_to_design`]): at a radius `r`, every section point
 //! `k` of the blade model, `Blade::ring(r).points[k]`, against the skin point with the
@@ -247,6 +248,23 @@ impl<'a> Comparison<'a> {
     }
 }
 
+/// Into how many even pieces to cut a ring interval whose midpoint strays `excess`
+/// times the target from the model and which is `room` times the shortest interval
+/// that may still be halved: the skin between cubic-spline rings strays as the fourth
+/// power of their spacing where the model is smooth (C. de Boor, *A Practical Guide to
+/// Splines*, rev. ed. 2001, chapter V, the error of cubic spline interpolation), so
+/// `excess` asks for `log2(excess) / 4` halvings; at least one, at most three per round
+/// (where the model has a kink the error falls more slowly, and later rounds split
+/// again), and never below the shortest interval.
+fn pieces_for(excess: f64, room: f64) -> usize {
+    let halvings = (excess.log2() / 4.0).ceil().clamp(1.0, 3.0) as u32;
+    let mut n = 1usize << halvings;
+    while n > 2 && (n as f64) > 2.0 * room {
+        n /= 2;
+    }
+    n
+}
+
 /// Places rings for `tolerance` (mm; see the module docs) and builds the skin through
 /// them.
 ///
@@ -291,18 +309,26 @@ pub fn place_rings(blade: &Blade, tolerance: f64) -> Result<RingPlacement, LoftE
             });
         }
         round += 1;
-        // Halve the worst intervals first when the ring budget runs short.
+        // Split the worst intervals first when the ring budget runs short.
         let mut order: Vec<usize> = (0..split.len()).filter(|&i| split[i]).collect();
         order.sort_by(|&a, &b| worst[b].0.total_cmp(&worst[a].0).then(a.cmp(&b)));
-        let mut halve = vec![false; split.len()];
-        for &i in order.iter().take(room) {
-            halve[i] = true;
+        let mut pieces = vec![1usize; split.len()];
+        let mut left = room;
+        for &i in &order {
+            let wanted = pieces_for(worst[i].0 / target, (radii[i + 1] - radii[i]) / shortest);
+            let n = wanted.min(left + 1);
+            if n < 2 {
+                break;
+            }
+            pieces[i] = n;
+            left -= n - 1;
         }
         let mut next = Vec::with_capacity(radii.len() * 2);
         for (i, &r) in radii.iter().enumerate() {
             next.push(r);
-            if i + 1 < radii.len() && halve[i] {
-                next.push(0.5 * (r + radii[i + 1]));
+            if i + 1 < radii.len() {
+                let (n, step) = (pieces[i], radii[i + 1] - r);
+                next.extend((1..n).map(|k| r + step * k as f64 / n as f64));
             }
         }
         let fresh: Vec<(u64, Vec<Point3<f64>>)> = next
