@@ -346,41 +346,64 @@ impl Image {
 
 /// Draws every item's triangles, flat-shaded by a light from behind the eye, nearest
 /// first by a depth buffer.
+///
+/// The picture is drawn in horizontal bands side by side (one per worker thread); each
+/// band takes every triangle in order and keeps the pixels in its rows, so every pixel
+/// sees the same triangles in the same order as on one thread: the same picture.
 fn shade_items(img: &mut Image, items: &[Item<'_>], placed: &[Vec<Point3<f64>>]) {
+    use rayon::prelude::*;
     let [r, u, f] = img.basis;
     let light = (-f + 0.6 * u - 0.35 * r).normalize();
+    let (w, h) = (img.width as usize, img.height as usize);
+    let projected: Vec<Vec<(f64, f64, f64)>> = placed
+        .iter()
+        .map(|verts| verts.iter().map(|p| img.project(p)).collect())
+        .collect();
     // A pixel's depth counts once it is covered: the buffer starts as zeroed memory,
     // which the system hands out page by page as pixels are drawn.
-    let mut depth = vec![0.0f64; (img.width * img.height) as usize];
-    for (it, verts) in items.iter().zip(placed) {
-        let proj: Vec<(f64, f64, f64)> = verts.iter().map(|p| img.project(p)).collect();
-        for t in &it.mesh.triangles {
-            let Some([a, b, c]) = corners(t, &proj) else {
-                continue;
-            };
-            let [pa, pb, pc] = t.map(|i| verts[i as usize]);
-            let mut n = (pb - pa).cross(&(pc - pa));
-            if n.dot(&f) > 0.0 {
-                n = -n;
-            }
-            let shade = match n.try_normalize(0.0) {
-                Some(n) => 0.25 + 0.75 * n.dot(&light).max(0.0),
-                None => 0.25,
-            };
-            let colour = it
-                .colour
-                .map(|c| (c as f64 * shade).round().clamp(0.0, 255.0) as u8);
-            fill_triangle(img, [a, b, c], |img, x, y, d| {
-                let k = (y * img.width + x) as usize;
-                if !img.covered[k] || d < depth[k] {
-                    depth[k] = d;
-                    img.covered[k] = true;
-                    let q = 3 * k;
-                    img.rgb[q..q + 3].copy_from_slice(&colour);
+    let mut depth = vec![0.0f64; w * h];
+    let rows = h.div_ceil(rayon::current_num_threads().clamp(1, 8)).max(1);
+    img.rgb
+        .par_chunks_mut(3 * w * rows)
+        .zip(img.covered.par_chunks_mut(w * rows))
+        .zip(depth.par_chunks_mut(w * rows))
+        .enumerate()
+        .for_each(|(band, ((rgb, covered), depth))| {
+            let y0 = band * rows;
+            let band_rows = y0 as i64..(y0 + rows).min(h) as i64;
+            for ((it, verts), proj) in items.iter().zip(placed).zip(&projected) {
+                for t in &it.mesh.triangles {
+                    let Some([a, b, c]) = corners(t, proj) else {
+                        continue;
+                    };
+                    let (lo, hi) = (a.1.min(b.1).min(c.1), a.1.max(b.1).max(c.1));
+                    if (hi.ceil() as i64) < band_rows.start || (lo.floor() as i64) >= band_rows.end
+                    {
+                        continue;
+                    }
+                    let [pa, pb, pc] = t.map(|i| verts[i as usize]);
+                    let mut n = (pb - pa).cross(&(pc - pa));
+                    if n.dot(&f) > 0.0 {
+                        n = -n;
+                    }
+                    let shade = match n.try_normalize(0.0) {
+                        Some(n) => 0.25 + 0.75 * n.dot(&light).max(0.0),
+                        None => 0.25,
+                    };
+                    let colour = it
+                        .colour
+                        .map(|c| (c as f64 * shade).round().clamp(0.0, 255.0) as u8);
+                    fill_triangle(w as u32, band_rows.clone(), [a, b, c], |x, y, d| {
+                        let k = (y as usize - y0) * w + x as usize;
+                        if !covered[k] || d < depth[k] {
+                            depth[k] = d;
+                            covered[k] = true;
+                            rgb[3 * k..3 * k + 3].copy_from_slice(&colour);
+                        }
+                    });
                 }
-            });
-        }
-    }
+            }
+        });
 }
 
 /// [`render`] as PNG bytes.
@@ -397,12 +420,14 @@ fn corners(t: &[u32; 3], proj: &[(f64, f64, f64)]) -> Option<[(f64, f64, f64); 3
     Some([get(t[0])?, get(t[1])?, get(t[2])?])
 }
 
-/// Calls `put(img, x, y, depth)` for every pixel whose centre lies inside or on the
-/// triangle (pixel coordinates, depth interpolated linearly).
+/// Calls `put(x, y, depth)` for every pixel of a picture `width` wide, in the rows
+/// `rows`, whose centre lies inside or on the triangle (pixel coordinates, depth
+/// interpolated linearly).
 fn fill_triangle(
-    img: &mut Image,
+    width: u32,
+    rows: std::ops::Range<i64>,
     p: [(f64, f64, f64); 3],
-    mut put: impl FnMut(&mut Image, u32, u32, f64),
+    mut put: impl FnMut(u32, u32, f64),
 ) {
     let [a, b, c] = p;
     let area = (b.0 - a.0) * (c.1 - a.1) - (b.1 - a.1) * (c.0 - a.0);
@@ -411,9 +436,9 @@ fn fill_triangle(
     }
     let s = area.signum();
     let xmin = a.0.min(b.0).min(c.0).floor().max(0.0) as i64;
-    let xmax = (a.0.max(b.0).max(c.0).ceil() as i64).min(img.width as i64 - 1);
-    let ymin = a.1.min(b.1).min(c.1).floor().max(0.0) as i64;
-    let ymax = (a.1.max(b.1).max(c.1).ceil() as i64).min(img.height as i64 - 1);
+    let xmax = (a.0.max(b.0).max(c.0).ceil() as i64).min(width as i64 - 1);
+    let ymin = (a.1.min(b.1).min(c.1).floor().max(0.0) as i64).max(rows.start);
+    let ymax = (a.1.max(b.1).max(c.1).ceil() as i64).min(rows.end - 1);
     let edge = |p: (f64, f64, f64), q: (f64, f64, f64), x: f64, y: f64| {
         (q.0 - p.0) * (y - p.1) - (q.1 - p.1) * (x - p.0)
     };
@@ -426,7 +451,7 @@ fn fill_triangle(
             let w2 = edge(a, b, px, py) * s;
             if w0 >= 0.0 && w1 >= 0.0 && w2 >= 0.0 {
                 let d = (w0 * a.2 + w1 * b.2 + w2 * c.2) / (w0 + w1 + w2).max(f64::MIN_POSITIVE);
-                put(img, x as u32, y as u32, d);
+                put(x as u32, y as u32, d);
             }
         }
     }
@@ -605,7 +630,8 @@ fn arrowhead(img: &mut Image, p: (f64, f64), q: (f64, f64), size: f64, colour: [
     let back = (q.0 - ux * size * 0.5, q.1 - uy * size * 0.5);
     let l = (back.0 - uy * size * 0.5, back.1 + ux * size * 0.5, 0.0);
     let r = (back.0 + uy * size * 0.5, back.1 - ux * size * 0.5, 0.0);
-    fill_triangle(img, [tip, l, r], |img, x, y, _| {
+    let (width, height) = (img.width, img.height);
+    fill_triangle(width, 0..i64::from(height), [tip, l, r], |x, y, _| {
         img.put(x as i64, y as i64, colour)
     });
 }
