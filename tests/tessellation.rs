@@ -31,7 +31,12 @@ twist = 3
 "#;
 
 fn model(tol: f64) -> BuiltBlade {
-    let design = parse_toml_str(BLADE, None).unwrap();
+    model_of(BLADE, tol)
+}
+
+/// The blade of the design `text` at `tol` mm.
+fn model_of(text: &str, tol: f64) -> BuiltBlade {
+    let design = parse_toml_str(text, None).unwrap();
     build_blade(
         &design,
         &Options {
@@ -429,15 +434,7 @@ fn the_grid_check_follows_vertices_renumbered_by_mount_features() {
         "{BLADE}\n[root]\nshank-diameter = 30\nshank-length = 6\ntransition-length = 32\n\
          cross-holes = [{{ diameter = 3, at = 3 }}]\n"
     );
-    let design = parse_toml_str(&text, None).unwrap();
-    let b = build_blade(
-        &design,
-        &Options {
-            tolerance: Some(0.05),
-            ..Options::default()
-        },
-    )
-    .unwrap();
+    let b = model_of(&text, 0.05);
     let t = &b.tessellation;
     let ids = t.grid_ids.as_deref().expect("the hole drops skin vertices");
     assert_eq!(ids.len(), t.us.len() * t.vs.len());

@@ -102,8 +102,11 @@ pub(super) struct Grouping {
 }
 
 impl Grouping {
-    /// Every triangle of `ids` its own item; nothing skipped.
-    pub(super) fn loose(ids: Vec<u32>) -> Grouping {
+    /// Every `active` triangle its own item; nothing skipped.
+    pub(super) fn loose(active: &[bool]) -> Grouping {
+        let ids: Vec<u32> = (0..active.len() as u32)
+            .filter(|&t| active[t as usize])
+            .collect();
         Grouping {
             start: (0..=ids.len() as u32).collect(),
             tris: ids,
@@ -117,11 +120,6 @@ impl Grouping {
     /// The items of the `active` triangles of `mesh` on `grid` (see the module docs);
     /// every triangle when the layout does not fit the mesh.
     pub(super) fn on_grid(mesh: &TriMesh, active: &[bool], grid: &GridLayout) -> Grouping {
-        let ids = || -> Vec<u32> {
-            (0..mesh.triangles.len() as u32)
-                .filter(|&t| active[t as usize])
-                .collect()
-        };
         let (nu, nv) = (grid.us.len(), grid.vs.len());
         let increasing = |s: &[f64]| s.windows(2).all(|w| w[0] < w[1]);
         let fits = match grid.ids {
@@ -134,7 +132,7 @@ impl Grouping {
             None => nu * nv <= mesh.vertices.len(),
         };
         if nu < 3 || nv < 2 || !fits || !increasing(grid.us) || !increasing(grid.vs) {
-            return Grouping::loose(ids());
+            return Grouping::loose(active);
         }
         let cells = Cells::tally(mesh, active, grid);
         let nb = [(nu - 1).div_ceil(BLOCK), (nv - 1).div_ceil(BLOCK)];

@@ -86,11 +86,7 @@ pub(crate) fn self_intersections(
 ) -> Vec<[usize; 2]> {
     let items = match grid {
         Some(g) => Grouping::on_grid(mesh, active, g),
-        None => Grouping::loose(
-            (0..mesh.triangles.len() as u32)
-                .filter(|&t| active[t as usize])
-                .collect(),
-        ),
+        None => Grouping::loose(active),
     };
     search(mesh, &items)
 }
@@ -116,14 +112,12 @@ struct Bvh {
 }
 
 impl Bvh {
-    fn build(item_boxes: &[Boxed], ids: &[u32]) -> Bvh {
+    /// The hierarchy over every item of `item_boxes`.
+    fn build(item_boxes: &[Boxed]) -> Bvh {
         use rayon::prelude::*;
-        let (lo, hi) = ids
+        let (lo, hi) = item_boxes
             .par_iter()
-            .map(|&t| {
-                let b = &item_boxes[t as usize];
-                (b.min.map(f64::from), b.max.map(f64::from))
-            })
+            .map(|b| (b.min.map(f64::from), b.max.map(f64::from)))
             .reduce(
                 || ([f64::INFINITY; 3], [f64::NEG_INFINITY; 3]),
                 |a, b| {
@@ -141,10 +135,11 @@ impl Bvh {
                 0.0
             }
         });
-        let mut keyed: Vec<(u64, u32)> = ids
+        let mut keyed: Vec<(u64, u32)> = item_boxes
             .par_iter()
-            .map(|&t| {
-                let b = &item_boxes[t as usize];
+            .enumerate()
+            .map(|(t, b)| {
+                let t = t as u32;
                 let centre = |k: usize| 0.5 * (f64::from(b.min[k]) + f64::from(b.max[k]));
                 let q = |k: usize| ((centre(k) - lo[k]) * scale[k]) as u64;
                 (spread(q(0)) | (spread(q(1)) << 1) | (spread(q(2)) << 2), t)
@@ -221,12 +216,7 @@ impl Pairs<'_> {
             return;
         }
         match (self.items.tris(x), self.items.tris(y)) {
-            (&[a], &[b]) => {
-                let tris = &self.mesh.triangles;
-                if pair_meets(self.mesh, tris[a as usize], tris[b as usize]) {
-                    found.pairs.push([a.min(b) as usize, a.max(b) as usize]);
-                }
-            }
+            (&[a], &[b]) => found.pairs.extend(meeting(self.mesh, a, b)),
             _ => found.candidates.push([x, y]),
         }
     }
@@ -314,31 +304,21 @@ impl Pairs<'_> {
 
 fn search(mesh: &TriMesh, items: &Grouping) -> Vec<[usize; 2]> {
     use rayon::prelude::*;
-    let tris = &mesh.triangles;
     if items.len() == 0 {
         return Vec::new();
     }
+    // An item's box is the union of its triangles' (rounding outward commutes with
+    // taking the smallest and largest).
     let item_boxes: Vec<Boxed> = (0..items.len() as u32)
         .into_par_iter()
         .map(|k| {
-            let (mut lo, mut hi) = ([f64::INFINITY; 3], [f64::NEG_INFINITY; 3]);
-            for &t in items.tris(k) {
-                for &i in &tris[t as usize] {
-                    let p = &mesh.vertices[i as usize];
-                    for k in 0..3 {
-                        lo[k] = lo[k].min(p[k]);
-                        hi[k] = hi[k].max(p[k]);
-                    }
-                }
-            }
-            Boxed {
-                min: lo.map(f32_below),
-                max: hi.map(f32_above),
-            }
+            items
+                .tris(k)
+                .iter()
+                .fold(Boxed::EMPTY, |acc, &t| acc.union(&tri_box(mesh, t)))
         })
         .collect();
-    let ids: Vec<u32> = (0..items.len() as u32).collect();
-    let bvh = Bvh::build(&item_boxes, &ids);
+    let bvh = Bvh::build(&item_boxes);
     let pairs = Pairs {
         bvh: &bvh,
         items,
@@ -450,11 +430,15 @@ impl<'a> Exact<'a> {
     }
 
     fn exact(&self, a: u32, b: u32, found: &mut Vec<[usize; 2]>) {
-        let tris = &self.mesh.triangles;
-        if pair_meets(self.mesh, tris[a as usize], tris[b as usize]) {
-            found.push([a.min(b) as usize, a.max(b) as usize]);
-        }
+        found.extend(meeting(self.mesh, a, b));
     }
+}
+
+/// Triangles `a` and `b` as a sorted pair when they meet where they should not.
+fn meeting(mesh: &TriMesh, a: u32, b: u32) -> Option<[usize; 2]> {
+    let tris = &mesh.triangles;
+    pair_meets(mesh, tris[a as usize], tris[b as usize])
+        .then(|| [a.min(b) as usize, a.max(b) as usize])
 }
 
 /// Triangle `t`'s box, rounded outward to single precision.
