@@ -20,7 +20,7 @@
 
 use crate::airfoil::Section;
 use crate::design::{BladeOptions, Flow, Rotation, Stacking, Station};
-use crate::interp::{Curve, Law};
+use crate::interp::{Bundle, Curve, Law};
 use crate::root::{RootError, RootSpec, TipShape, TipSpec};
 use nalgebra::{Point2, Point3};
 
@@ -93,8 +93,9 @@ pub struct Blade {
     twist: Curve,
     sweep: Curve,
     prebend: Curve,
-    /// One interpolant per section coordinate: `shape[k]` = (x, y) of point `k`.
-    shape: Vec<(Curve, Curve)>,
+    /// The section coordinates' interpolants: curves `2k` and `2k + 1` are x and y of
+    /// point `k`.
+    shape: Bundle,
     le_index: usize,
     name: String,
     stacking: StackLine,
@@ -209,16 +210,17 @@ impl Blade {
             })
         };
         let n = sections[0].points().len();
-        let mut shape = Vec::with_capacity(n);
-        for k in 0..n {
-            let xs: Vec<f64> = sections.iter().map(|s| s.points()[k].x).collect();
-            let ys: Vec<f64> = sections.iter().map(|s| s.points()[k].y).collect();
-            let fx = Curve::new(law, &radii, &xs)
-                .ok_or_else(|| BladeError::Stations("non-finite section point".into()))?;
-            let fy = Curve::new(law, &radii, &ys)
-                .ok_or_else(|| BladeError::Stations("non-finite section point".into()))?;
-            shape.push((fx, fy));
-        }
+        let columns: Vec<Vec<f64>> = (0..2 * n)
+            .map(|c| {
+                let coordinate = |p: &Point2<f64>| if c % 2 == 0 { p.x } else { p.y };
+                sections
+                    .iter()
+                    .map(|s| coordinate(&s.points()[c / 2]))
+                    .collect()
+            })
+            .collect();
+        let shape = Bundle::new(law, &radii, &columns)
+            .ok_or_else(|| BladeError::Stations("non-finite section point".into()))?;
         Ok(Blade {
             chord: curve(&|s| s.chord)?,
             twist: curve(&|s| s.twist)?,
@@ -384,9 +386,10 @@ impl Blade {
 
     /// The interpolated section at radius `r`: unit chord, section frame.
     fn unit_outline(&self, r: f64) -> Vec<Point2<f64>> {
-        self.shape
-            .iter()
-            .map(|(fx, fy)| Point2::new(fx.eval(r), fy.eval(r)))
+        let values: Vec<f64> = self.shape.eval(r).collect();
+        values
+            .chunks_exact(2)
+            .map(|p| Point2::new(p[0], p[1]))
             .collect()
     }
 

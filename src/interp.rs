@@ -162,39 +162,14 @@ impl Monotone {
         if !valid(x, y) {
             return None;
         }
-        let h: Vec<f64> = x.windows(2).map(|w| w[1] - w[0]).collect();
-        let delta: Vec<f64> = (0..n - 1).map(|i| (y[i + 1] - y[i]) / h[i]).collect();
-        let mut d = vec![0.0; n];
-        if n == 2 {
-            d = vec![delta[0]; 2];
-        } else {
-            for i in 1..n - 1 {
-                if delta[i - 1] * delta[i] > 0.0 {
-                    // Weighted harmonic mean (Fritsch & Butland).
-                    let w1 = 2.0 * h[i] + h[i - 1];
-                    let w2 = h[i] + 2.0 * h[i - 1];
-                    d[i] = (w1 + w2) / (w1 / delta[i - 1] + w2 / delta[i]);
-                }
-            }
-            d[0] = end_slope(h[0], h[1], delta[0], delta[1]);
-            d[n - 1] = end_slope(h[n - 2], h[n - 3], delta[n - 2], delta[n - 3]);
-        }
-        // A cubic Hermite segment is the cubic Bezier with inner control points
-        // y_i + d_i h_i / 3 and y_{i+1} - d_{i+1} h_i / 3; `StrokeBezier(in, out)` holds
-        // a key's incoming and outgoing control values.
+        let controls = hermite_controls(x, y);
         let keys = (0..n)
             .map(|i| {
-                let incoming = if i > 0 {
-                    y[i] - d[i] * h[i - 1] / 3.0
-                } else {
-                    y[i]
-                };
-                let outgoing = if i + 1 < n {
-                    y[i] + d[i] * h[i] / 3.0
-                } else {
-                    y[i]
-                };
-                Key::new(x[i], y[i], Interpolation::StrokeBezier(incoming, outgoing))
+                Key::new(
+                    x[i],
+                    y[i],
+                    Interpolation::StrokeBezier(controls[i].0, controls[i].1),
+                )
             })
             .collect();
         Some(Self {
@@ -213,6 +188,145 @@ impl Monotone {
         } else {
             self.spline.clamped_sample(x).unwrap_or(self.last.1)
         }
+    }
+}
+
+/// The Bézier control values of the monotone cubic through `(x_i, y_i)` (data already
+/// [`valid`]): for each point, its incoming and outgoing inner control values. A cubic
+/// Hermite segment is the cubic Bézier with inner control points `y_i + d_i h_i / 3` and
+/// `y_{i+1} - d_{i+1} h_i / 3`; the ends hold their own value where they have no segment.
+fn hermite_controls(x: &[f64], y: &[f64]) -> Vec<(f64, f64)> {
+    let n = x.len();
+    let h: Vec<f64> = x.windows(2).map(|w| w[1] - w[0]).collect();
+    let delta: Vec<f64> = (0..n - 1).map(|i| (y[i + 1] - y[i]) / h[i]).collect();
+    let mut d = vec![0.0; n];
+    if n == 2 {
+        d = vec![delta[0]; 2];
+    } else {
+        for i in 1..n - 1 {
+            if delta[i - 1] * delta[i] > 0.0 {
+                // Weighted harmonic mean (Fritsch & Butland).
+                let w1 = 2.0 * h[i] + h[i - 1];
+                let w2 = h[i] + 2.0 * h[i - 1];
+                d[i] = (w1 + w2) / (w1 / delta[i - 1] + w2 / delta[i]);
+            }
+        }
+        d[0] = end_slope(h[0], h[1], delta[0], delta[1]);
+        d[n - 1] = end_slope(h[n - 2], h[n - 3], delta[n - 2], delta[n - 3]);
+    }
+    (0..n)
+        .map(|i| {
+            let incoming = if i > 0 {
+                y[i] - d[i] * h[i - 1] / 3.0
+            } else {
+                y[i]
+            };
+            let outgoing = if i + 1 < n {
+                y[i] + d[i] * h[i] / 3.0
+            } else {
+                y[i]
+            };
+            (incoming, outgoing)
+        })
+        .collect()
+}
+
+/// Many spanwise curves over the same stations, by one [`Law`], evaluated together: one
+/// segment search per abscissa for all of them (a section's hundreds of ordinates share
+/// their stations). Each curve gives the same value, to the bit, as its own [`Curve`]:
+/// the same control values and the same evaluation formulas (the `splines` crate's cubic
+/// Bézier for [`Law::Smooth`], [`Linear::eval`]'s for [`Law::Linear`]).
+#[derive(Debug, Clone)]
+pub struct Bundle {
+    law: Law,
+    x: Vec<f64>,
+    /// Curves per segment.
+    count: usize,
+    /// Segment-major: for segment `i` and curve `k`, `[y_i, u, v, y_{i+1}]` at
+    /// `4 (i count + k)` (the Bézier controls; a straight segment ignores `u`, `v`).
+    controls: Vec<f64>,
+    /// The station values, station-major (`x.len() * count`), for abscissae at or beyond
+    /// the ends.
+    values: Vec<f64>,
+}
+
+impl Bundle {
+    /// The curves through `columns[k]` (one value per station, `x` strictly increasing);
+    /// `None` for the data [`Curve::new`] refuses in any column.
+    pub fn new(law: Law, x: &[f64], columns: &[Vec<f64>]) -> Option<Bundle> {
+        let n = x.len();
+        let count = columns.len();
+        if columns.iter().any(|y| !valid(x, y)) || n < 2 {
+            return None;
+        }
+        let mut controls = vec![0.0; 4 * (n - 1) * count];
+        let mut values = vec![0.0; n * count];
+        for (k, y) in columns.iter().enumerate() {
+            let c = match law {
+                Law::Smooth => hermite_controls(x, y),
+                Law::Linear => y.iter().map(|&v| (v, v)).collect(),
+            };
+            for i in 0..n - 1 {
+                let at = 4 * (i * count + k);
+                controls[at..at + 4].copy_from_slice(&[y[i], c[i].1, c[i + 1].0, y[i + 1]]);
+            }
+            for (i, v) in y.iter().enumerate() {
+                values[i * count + k] = *v;
+            }
+        }
+        Some(Bundle {
+            law,
+            x: x.to_vec(),
+            count,
+            controls,
+            values,
+        })
+    }
+
+    /// How many curves.
+    pub fn len(&self) -> usize {
+        self.count
+    }
+
+    /// Whether there are no curves.
+    pub fn is_empty(&self) -> bool {
+        self.count == 0
+    }
+
+    /// Every curve's value at `x`, in column order (end values held outside the stations).
+    pub fn eval(&self, x: f64) -> impl ExactSizeIterator<Item = f64> + '_ {
+        let n = self.x.len();
+        let held = if x <= self.x[0] {
+            Some(0)
+        } else if x >= self.x[n - 1] {
+            Some(n - 1)
+        } else {
+            None
+        };
+        // The segment [x_i, x_{i+1}) holding x, as the `splines` crate and
+        // `Linear::eval` find it.
+        let i = self.x.partition_point(|&xi| xi <= x).clamp(1, n - 1) - 1;
+        let t = (x - self.x[i]) / (self.x[i + 1] - self.x[i]);
+        let (one_t, law) = (1.0 - t, self.law);
+        let (one_t2, t2) = (one_t * one_t, t * t);
+        let one_t3 = one_t2 * one_t;
+        let segment = &self.controls[4 * i * self.count..4 * (i + 1) * self.count];
+        let ends = held.map(|i| &self.values[i * self.count..(i + 1) * self.count]);
+        (0..self.count).map(move |k| {
+            if let Some(ends) = ends {
+                return ends[k];
+            }
+            let [a, u, v, b] = [
+                segment[4 * k],
+                segment[4 * k + 1],
+                segment[4 * k + 2],
+                segment[4 * k + 3],
+            ];
+            match law {
+                Law::Smooth => a * one_t3 + (u * one_t2 * t + v * one_t * t2) * 3. + b * t2 * t,
+                Law::Linear => a + t * (b - a),
+            }
+        })
     }
 }
 
@@ -272,6 +386,36 @@ mod tests {
         assert!(Linear::new(&[0.0, 0.0], &[1.0, 2.0]).is_none());
         assert_eq!(Law::parse(" Linear "), Some(Law::Linear));
         assert_eq!(Law::parse("cubic"), None);
+    }
+
+    #[test]
+    fn bundle_gives_each_curves_value_to_the_bit() {
+        // A bundle is only a faster way to evaluate the curves it holds: compared with
+        // each column's own `Curve` (and through it the `splines` crate) at the stations,
+        // between them, and outside them.
+        let x = [0.0, 1.0, 2.5, 3.0, 7.0];
+        let columns = vec![
+            vec![10.0, 10.0, 4.0, 4.0, 3.9],
+            vec![-1.0, 2.0, 0.5, 0.7, 9.0],
+            vec![0.3, 0.3, 0.3, 0.3, 0.3],
+        ];
+        for law in [Law::Smooth, Law::Linear] {
+            let bundle = Bundle::new(law, &x, &columns).unwrap();
+            assert_eq!(bundle.len(), 3);
+            let curves: Vec<Curve> = columns
+                .iter()
+                .map(|y| Curve::new(law, &x, y).unwrap())
+                .collect();
+            for k in -20..=160 {
+                let at = k as f64 * 0.05;
+                let got: Vec<f64> = bundle.eval(at).collect();
+                for (g, c) in got.iter().zip(&curves) {
+                    assert_eq!(g.to_bits(), c.eval(at).to_bits(), "{law} at {at}");
+                }
+            }
+        }
+        assert!(Bundle::new(Law::Smooth, &x, &[vec![1.0, 2.0]]).is_none());
+        assert!(Bundle::new(Law::Smooth, &[0.0, 0.0], &[vec![1.0, 2.0]]).is_none());
     }
 
     #[test]
