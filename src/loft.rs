@@ -66,16 +66,10 @@ impl Skin {
         let knots_v = averaged_knots(&vbar, q);
         // Curves around each ring: R[l][k].
         let bu = Banded::collocation(&knots_u, p, &ubar);
-        let r: Vec<Vec<Point3<f64>>> = rings.par_iter().map(|ring| bu.solve(ring)).collect();
+        let r = bu.solve_columns(m, |k, l| rings[l][k]);
         // Then along the span for each column k: control[k][l].
         let bv = Banded::collocation(&knots_v, q, &vbar);
-        let control: Vec<Vec<Point3<f64>>> = (0..n)
-            .into_par_iter()
-            .map(|k| {
-                let column: Vec<Point3<f64>> = r.iter().map(|row| row[k]).collect();
-                bv.solve(&column)
-            })
-            .collect();
+        let control = bv.solve_columns(n, |l, k| r[l][k]);
         Ok(Skin {
             degree_u: p,
             degree_v: q,
@@ -464,13 +458,7 @@ impl SpanCurves {
         let q = 3.min(m - 1);
         let knots_v = averaged_knots(&vbar, q);
         let bv = Banded::collocation(&knots_v, q, &vbar);
-        let control = (0..n)
-            .into_par_iter()
-            .map(|k| {
-                let column: Vec<Point3<f64>> = rings.iter().map(|r| r[k]).collect();
-                bv.solve(&column)
-            })
-            .collect();
+        let control = bv.solve_columns(n, |l, k| rings[l][k]);
         Ok(SpanCurves {
             knots_v,
             degree_v: q,
@@ -625,25 +613,74 @@ impl Banded {
         }
     }
 
-    fn solve(&self, rhs: &[Point3<f64>]) -> Vec<Point3<f64>> {
+    /// Solves `A x = b` for `columns` right-hand sides at once, `b[i]` of column `c`
+    /// being `rhs(i, c)`; returns each column's solution. The columns are solved in
+    /// blocks side by side, each block as rows of contiguous numbers, so every step of
+    /// the elimination is one sweep over a block's row; every number goes through the
+    /// same operations, in the same order, as a one-column solve.
+    fn solve_columns(
+        &self,
+        columns: usize,
+        rhs: impl Fn(usize, usize) -> Point3<f64> + Sync,
+    ) -> Vec<Vec<Point3<f64>>> {
+        /// Columns per block.
+        const BLOCK: usize = 64;
+        let starts: Vec<usize> = (0..columns).step_by(BLOCK).collect();
+        let blocks: Vec<Vec<Vec<Point3<f64>>>> = starts
+            .par_iter()
+            .map(|&c0| {
+                let cols = BLOCK.min(columns - c0);
+                let mut b = vec![0.0; self.n * 3 * cols];
+                for (i, row) in b.chunks_exact_mut(3 * cols).enumerate() {
+                    for (c, x) in row.chunks_exact_mut(3).enumerate() {
+                        x.copy_from_slice(rhs(i, c0 + c).coords.as_slice());
+                    }
+                }
+                self.solve_rows(&mut b, 3 * cols);
+                (0..cols)
+                    .map(|c| {
+                        b.chunks_exact(3 * cols)
+                            .map(|row| Point3::new(row[3 * c], row[3 * c + 1], row[3 * c + 2]))
+                            .collect()
+                    })
+                    .collect()
+            })
+            .collect();
+        blocks.into_iter().flatten().collect()
+    }
+
+    /// Forward and back substitution on the rows of `b` (`n` rows of `width` numbers,
+    /// each number one right-hand side), in place.
+    fn solve_rows(&self, b: &mut [f64], width: usize) {
         let (n, w) = (self.n, self.w);
-        let mut x: Vec<nalgebra::Vector3<f64>> = rhs.iter().map(|p| p.coords).collect();
+        let axpy = |x: &mut [f64], y: &[f64], f: f64| {
+            for (x, y) in x.iter_mut().zip(y) {
+                *x -= y * f;
+            }
+        };
         for i in 0..n {
+            let (done, rest) = b.split_at_mut(i * width);
+            let row = &mut rest[..width];
             for k in i.saturating_sub(w)..i {
-                let f = self.a[self.idx(i, k)];
-                let xk = x[k];
-                x[i] -= xk * f;
+                axpy(
+                    row,
+                    &done[k * width..(k + 1) * width],
+                    self.a[self.idx(i, k)],
+                );
             }
         }
         for i in (0..n).rev() {
+            let (head, tail) = b.split_at_mut((i + 1) * width);
+            let row = &mut head[i * width..];
             for j in i + 1..(i + w + 1).min(n) {
-                let f = self.a[self.idx(i, j)];
-                let xj = x[j];
-                x[i] -= xj * f;
+                let at = (j - i - 1) * width;
+                axpy(row, &tail[at..at + width], self.a[self.idx(i, j)]);
             }
-            x[i] /= self.a[self.idx(i, i)];
+            let d = self.a[self.idx(i, i)];
+            for x in row.iter_mut() {
+                *x /= d;
+            }
         }
-        x.into_iter().map(Point3::from).collect()
     }
 }
 
