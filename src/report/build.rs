@@ -77,7 +77,7 @@ impl PreviewPng {
     /// [`PreviewOptions::DEFAULT`]'s view, with the marks of `rotation` when given (the
     /// arc just outside the parts' reach from the rotor axis).
     pub fn of_parts(parts: &[CheckedPart], rotation: Option<Rotation>) -> PreviewPng {
-        let items: Vec<Item<'_>> = parts.iter().map(|p| Item::new(p.mesh())).collect();
+        let items: Vec<Item<'_>> = parts.iter().map(|p| Item::solid(p.mesh())).collect();
         let marks = rotation.map(|r| Marks::blade_frame(r, 0.0));
         let opts = PreviewOptions::DEFAULT;
         let image = render(&items, marks.as_ref(), &opts);

@@ -11,7 +11,11 @@
 //!   projected area cover nothing. So the covered pixels are the pixel centres inside the
 //!   union of the projected triangles: the part's projected outline.
 //! * **Hidden surfaces**: a depth buffer; the nearest surface wins, the first drawn on a
-//!   tie (items and triangles in input order).
+//!   tie (items and triangles in input order). An item that bounds a solid
+//!   ([`Item::solid`]: closed and outward-oriented, as every checked part) has its
+//!   triangles that face away from the eye skipped: along every line of sight the first
+//!   surface met enters the solid, so faces turned away never show (back-face culling;
+//!   half the pixels to draw).
 //! * **Shading**: flat, two-sided (a triangle seen from behind is lit as its other
 //!   side): `0.25 + 0.75 max(0, n . l)` times the item's colour, light from over the
 //!   viewer's left shoulder.
@@ -20,8 +24,9 @@
 //!   rotation, an arc about the rotor axis with an arrowhead in the sense of rotation,
 //!   labelled `CCW` or `CW` `SEEN FROM UPSTREAM`. Marks are drawn over the parts.
 //!
-//! Deterministic: the same input gives the same bytes (fixed order of work, no
-//! threads, PNG written with fixed settings).
+//! Deterministic: the same input gives the same bytes (fixed order of work: bands of rows
+//! drawn side by side each see every triangle in input order; PNG written with fixed
+//! settings).
 
 use crate::design::Rotation;
 use crate::mesh::TriMesh;
@@ -126,15 +131,28 @@ pub struct Item<'a> {
     pub transform: Matrix4<f64>,
     /// Its colour (sRGB).
     pub colour: [u8; 3],
+    /// True when the mesh bounds a solid (closed, consistently oriented with outward
+    /// normals, as every checked part): its faces turned away from the eye are skipped.
+    pub solid: bool,
 }
 
 impl<'a> Item<'a> {
-    /// A mesh as it is, in the default part colour.
+    /// A mesh as it is, in the default part colour (any surface: both sides drawn).
     pub fn new(mesh: &'a TriMesh) -> Item<'a> {
         Item {
             mesh,
             transform: Matrix4::identity(),
             colour: PART_COLOUR,
+            solid: false,
+        }
+    }
+
+    /// A checked part's mesh as it is, in the default part colour: a solid, so faces
+    /// turned away from the eye are skipped.
+    pub fn solid(mesh: &'a TriMesh) -> Item<'a> {
+        Item {
+            solid: true,
+            ..Item::new(mesh)
         }
     }
 }
@@ -372,6 +390,13 @@ fn shade_items(img: &mut Image, items: &[Item<'_>], placed: &[Vec<Point3<f64>>])
             let y0 = band * rows;
             let band_rows = y0 as i64..(y0 + rows).min(h) as i64;
             for ((it, verts), proj) in items.iter().zip(placed).zip(&projected) {
+                // Facing away from the eye: the outward normal along the look (turned
+                // over by a mirroring placement).
+                let away = match it.transform.fixed_view::<3, 3>(0, 0).determinant() {
+                    d if it.solid && d > 0.0 => 1.0,
+                    d if it.solid && d < 0.0 => -1.0,
+                    _ => 0.0,
+                };
                 for t in &it.mesh.triangles {
                     let Some([a, b, c]) = corners(t, proj) else {
                         continue;
@@ -383,6 +408,9 @@ fn shade_items(img: &mut Image, items: &[Item<'_>], placed: &[Vec<Point3<f64>>])
                     }
                     let [pa, pb, pc] = t.map(|i| verts[i as usize]);
                     let mut n = (pb - pa).cross(&(pc - pa));
+                    if away * n.dot(&f) > 0.0 {
+                        continue;
+                    }
                     if n.dot(&f) > 0.0 {
                         n = -n;
                     }
@@ -444,7 +472,24 @@ fn fill_triangle(
     };
     for y in ymin..=ymax {
         let py = y as f64 + 0.5;
-        for x in xmin..=xmax {
+        // Where each edge's function is not negative along this row: it is linear in
+        // the pixel's x, so one division finds the crossing; a pixel of slack each side
+        // leaves the rounding of that division to the exact test below, so the covered
+        // pixels are the same as testing the whole box.
+        let (mut lo, mut hi) = (xmin as f64, xmax as f64);
+        for (p, q) in [(b, c), (c, a), (a, b)] {
+            let slope = -(q.1 - p.1) * s;
+            let at_p = (q.0 - p.0) * (py - p.1) * s;
+            if slope > 0.0 {
+                lo = lo.max((p.0 - at_p / slope - 0.5).floor() - 1.0);
+            } else if slope < 0.0 {
+                hi = hi.min((p.0 - at_p / slope - 0.5).ceil() + 1.0);
+            }
+        }
+        if !(lo <= hi) {
+            continue;
+        }
+        for x in lo as i64..=hi as i64 {
             let px = x as f64 + 0.5;
             let w0 = edge(b, c, px, py) * s;
             let w1 = edge(c, a, px, py) * s;

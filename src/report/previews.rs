@@ -28,6 +28,7 @@ pub fn previews(outcome: &Outcome, rotation: Rotation) -> Vec<(String, Vec<u8>)>
         mesh: outcome.blade_part().mesh(),
         transform: Matrix4::identity(),
         colour: BLADE,
+        solid: true,
     };
     // The two pictures are drawn side by side.
     let (blade_png, rotor_png) = rayon::join(
@@ -42,6 +43,7 @@ pub fn previews(outcome: &Outcome, rotation: Rotation) -> Vec<(String, Vec<u8>)>
                     mesh: b.mesh(),
                     transform: Matrix4::identity(),
                     colour: if Some(b.name()) == hub { HUB } else { BLADE },
+                    solid: true,
                 })
                 .collect();
             Some((
