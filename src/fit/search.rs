@@ -54,6 +54,7 @@ use super::yaw::best_yaw;
 use super::{FitError, Printer, Volume};
 use crate::mesh::TriMesh;
 use nalgebra::{Matrix3, Matrix4, Point2, Point3, Rotation3, Vector3};
+use rayon::prelude::*;
 use std::cmp::Ordering;
 use std::collections::{BTreeMap, BinaryHeap};
 
@@ -296,9 +297,7 @@ fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOption
     let slope = lip / av.min();
     let mut cells: Vec<Cell> = Vec::new();
     let mut heap = BinaryHeap::new();
-    let mut evaluated = 0usize;
-    let mut best: Option<Eval> = None;
-    let make = |face: usize, a: [f64; 2], b: [f64; 2], cells: &mut Vec<Cell>| {
+    let make = |(face, a, b): (usize, [f64; 2], [f64; 2])| {
         let (am, bm) = (0.5 * (a[0] + a[1]), 0.5 * (b[0] + b[1]));
         let c = cube_dir(face, am, bm);
         let alpha = [(a[0], b[0]), (a[0], b[1]), (a[1], b[0]), (a[1], b[1])]
@@ -307,29 +306,39 @@ fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOption
             .fold(0.0, f64::max);
         let ev = evaluate(pts, c, av);
         let lb = ev.ratio - slope * alpha;
-        cells.push(Cell {
+        Cell {
             face,
             a,
             b,
             alpha,
             ev,
             lb,
-        });
-        cells.len() - 1
+        }
+    };
+    // Cells are evaluated side by side (each is a function of its patch alone) and
+    // queued in a fixed order: the search takes the same steps on any thread count.
+    let evaluate_all = |patches: Vec<(usize, [f64; 2], [f64; 2])>| -> Vec<Cell> {
+        patches.into_par_iter().map(make).collect()
     };
     const START: usize = 6;
-    for face in 0..3 {
-        for i in 0..START {
-            for j in 0..START {
-                let s = 2.0 / START as f64;
-                let a = [-1.0 + s * i as f64, -1.0 + s * (i + 1) as f64];
-                let b = [-1.0 + s * j as f64, -1.0 + s * (j + 1) as f64];
-                let k = make(face, a, b, &mut cells);
-                evaluated += 1;
-                heap.push(Queued(cells[k].lb, k));
-            }
-        }
+    let s = 2.0 / START as f64;
+    let start: Vec<(usize, [f64; 2], [f64; 2])> = (0..3)
+        .flat_map(|face| {
+            (0..START).flat_map(move |i| {
+                (0..START).map(move |j| {
+                    let a = [-1.0 + s * i as f64, -1.0 + s * (i + 1) as f64];
+                    let b = [-1.0 + s * j as f64, -1.0 + s * (j + 1) as f64];
+                    (face, a, b)
+                })
+            })
+        })
+        .collect();
+    let mut evaluated = start.len();
+    for cell in evaluate_all(start) {
+        heap.push(Queued(cell.lb, cells.len()));
+        cells.push(cell);
     }
+    let mut best: Option<Eval> = None;
     for c in &cells {
         if best.is_none_or(|b| c.ev.ratio < b.ratio) {
             best = Some(c.ev);
@@ -355,18 +364,19 @@ fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOption
             continue;
         }
         let (am, bm) = (0.5 * (a[0] + a[1]), 0.5 * (b[0] + b[1]));
-        for (ra, rb) in [
-            ([a[0], am], [b[0], bm]),
-            ([a[0], am], [bm, b[1]]),
-            ([am, a[1]], [b[0], bm]),
-            ([am, a[1]], [bm, b[1]]),
-        ] {
-            let c = make(face, ra, rb, &mut cells);
+        let children = vec![
+            (face, [a[0], am], [b[0], bm]),
+            (face, [a[0], am], [bm, b[1]]),
+            (face, [am, a[1]], [b[0], bm]),
+            (face, [am, a[1]], [bm, b[1]]),
+        ];
+        for cell in evaluate_all(children) {
             evaluated += 1;
-            if cells[c].ev.ratio < best.ratio {
-                best = cells[c].ev;
+            if cell.ev.ratio < best.ratio {
+                best = cell.ev;
             }
-            heap.push(Queued(cells[c].lb, c));
+            heap.push(Queued(cell.lb, cells.len()));
+            cells.push(cell);
         }
     }
     Search {
