@@ -203,8 +203,9 @@ pub fn check_hand(
         undetermined: Vec::new(),
         missed: Vec::new(),
     };
-    for (i, &r) in radii.iter().enumerate() {
-        let segs = slice::segments(&local, r);
+    // Every plane cut in one pass over the mesh.
+    let cuts = slice::segments_many(&local, radii);
+    for ((i, &r), segs) in radii.iter().enumerate().zip(cuts) {
         let Some(st) = station(&segs, r, &omega, &axis_point, &flow2, flow, opts) else {
             report.stations.push(StationHand {
                 radius: r,

@@ -38,6 +38,7 @@ use crate::design::{Flow, Rotation};
 use crate::mesh::{Part, TriMesh};
 use crate::root::RootSpec;
 use nalgebra::{IsometryMatrix3, Matrix4, Rotation3, Translation3, Vector3};
+use rayon::prelude::*;
 use serde::Deserialize;
 
 /// A rotor setting that cannot be assembled: the design key at fault (as written in a
@@ -335,8 +336,9 @@ impl Rotor {
     /// strictly inside the span and midway between stations ([`super::hand_radii`]).
     pub fn check_hand(&self, placed: &[&TriMesh], opts: &HandOptions) -> Vec<HandReport> {
         let radii = hand_radii(&self.station_radii);
+        // The blades side by side, reported in order.
         placed
-            .iter()
+            .par_iter()
             .zip(&self.transforms)
             .map(|(mesh, m)| check_hand(mesh, m, &radii, self.rotation, self.flow, opts))
             .collect()
