@@ -128,5 +128,104 @@ fn floor(c: &mut Criterion) {
     );
 }
 
-criterion_group!(benches, table_to_stl, growth, floor);
+/// Table to a checked, written binary STL (the floor's work) from about 10 thousand to
+/// about 2 million triangles: the blade scaled so that 0.001 mm, the finest tolerance a
+/// design may ask, gives about 2 million. Prints the fitted exponent of time against
+/// triangles (least squares on the logarithms of medians of 5), and time as a fixed
+/// set-up plus a cost per triangle with the exponent of the part that grows.
+fn pipeline_growth(c: &mut Criterion) {
+    let text = scaled_design_text(11.8);
+    let dir = tempfile::tempdir().unwrap();
+    let stl = dir.path().join("growth.stl");
+    let build = |tol: f64| {
+        let opts = Options {
+            tolerance: Some(tol),
+            blade_only: true,
+            ..Options::default()
+        };
+        let design = parse_toml_str(&text, None).unwrap();
+        let outcome = run(&design, &opts).unwrap();
+        let blade = outcome.blade_part();
+        write_mesh(&stl, MeshFormat::Stl, std::slice::from_ref(blade)).unwrap();
+        blade.mesh().len()
+    };
+    let mut group = c.benchmark_group("pipeline_growth");
+    group.sample_size(10);
+    let mut points = Vec::new();
+    for tol in [0.2, 0.06, 0.02, 0.006, 0.002, 0.001] {
+        let n = build(tol);
+        group.bench_with_input(
+            BenchmarkId::new(format!("{n}_triangles"), tol),
+            &tol,
+            |b, &t| b.iter(|| build(t)),
+        );
+        let mut t: Vec<f64> = (0..5)
+            .map(|_| {
+                let start = std::time::Instant::now();
+                build(tol);
+                start.elapsed().as_secs_f64()
+            })
+            .collect();
+        t.sort_by(f64::total_cmp);
+        points.push((n as f64, t[2]));
+    }
+    group.finish();
+    for (n, t) in &points {
+        println!("pipeline growth: {n} triangles: median {:.2} ms", t * 1e3);
+    }
+    println!(
+        "pipeline growth: fitted exponent of time against triangles {:.3}",
+        fitted_exponent(&points)
+    );
+    // Time as set-up plus work per triangle, t = a + b n (least squares on relative
+    // errors), and the exponent of what grows, t - a.
+    let (a, b) = affine_fit(&points);
+    let worst = points
+        .iter()
+        .map(|(n, t)| ((a + b * n - t) / t).abs())
+        .fold(0.0, f64::max);
+    let grows: Vec<(f64, f64)> = points.iter().map(|&(n, t)| (n, t - a)).collect();
+    let k = if grows.iter().all(|p| p.1 > 0.0) {
+        format!("{:.3}", fitted_exponent(&grows))
+    } else {
+        "undefined (set-up above a point)".to_string()
+    };
+    println!(
+        "pipeline growth: t = {:.2} ms + {:.1} ns x triangles, within {:.1} % of every \
+         point; exponent of t - set-up {k}",
+        a * 1e3,
+        b * 1e9,
+        100.0 * worst
+    );
+}
+
+/// Least squares `t = a + b n` on relative errors (weights `1 / t^2`): `(a, b)`.
+fn affine_fit(points: &[(f64, f64)]) -> (f64, f64) {
+    let (mut s00, mut s01, mut s11, mut r0, mut r1) = (0.0, 0.0, 0.0, 0.0, 0.0);
+    for &(n, t) in points {
+        let w = 1.0 / (t * t);
+        s00 += w;
+        s01 += w * n;
+        s11 += w * n * n;
+        r0 += w * t;
+        r1 += w * n * t;
+    }
+    let det = s00 * s11 - s01 * s01;
+    ((s11 * r0 - s01 * r1) / det, (s00 * r1 - s01 * r0) / det)
+}
+
+/// Least-squares slope of ln t against ln n.
+fn fitted_exponent(points: &[(f64, f64)]) -> f64 {
+    let xs: Vec<f64> = points.iter().map(|p| p.0.ln()).collect();
+    let ys: Vec<f64> = points.iter().map(|p| p.1.ln()).collect();
+    let (mx, my) = (
+        xs.iter().sum::<f64>() / xs.len() as f64,
+        ys.iter().sum::<f64>() / ys.len() as f64,
+    );
+    let sxy: f64 = xs.iter().zip(&ys).map(|(x, y)| (x - mx) * (y - my)).sum();
+    let sxx: f64 = xs.iter().map(|x| (x - mx).powi(2)).sum();
+    sxy / sxx
+}
+
+criterion_group!(benches, table_to_stl, growth, pipeline_growth, floor);
 criterion_main!(benches);
