@@ -762,17 +762,25 @@ impl UnrolledRim {
         let (rr, h) = (self.rr, self.h);
         let du = rr * TAU / (2 * n) as f64;
         let rows = ((2.0 * h / du).ceil() as usize).max(1);
-        let outlines: Vec<Vec<Point2<f64>>> = self
+        // Each opening with its box grown by a third of a column (and a millionth, for
+        // rounding): a point outside it is neither inside the opening nor that near its
+        // outline, so only points inside are tested against the outline.
+        let outlines: Vec<(Vec<Point2<f64>>, Bounds)> = self
             .holes
             .iter()
-            .map(|r| self.flat[r.clone()].to_vec())
+            .map(|r| {
+                let o = self.flat[r.clone()].to_vec();
+                let b = Bounds::of(&o, du / 3.0 * (1.0 + 1e-6));
+                (o, b)
+            })
             .collect();
         for j in 1..2 * n {
             for k in 1..rows {
                 let q = Point2::new(du * j as f64, -h + 2.0 * h * k as f64 / rows as f64);
-                let near = outlines
-                    .iter()
-                    .any(|o| point_in_polygon(o, &q) || distance_to_outline(o, &q) < du / 3.0);
+                let near = outlines.iter().any(|(o, b)| {
+                    b.holds(&q)
+                        && (point_in_polygon(o, &q) || distance_to_outline(o, &q) < du / 3.0)
+                });
                 if near {
                     continue;
                 }
@@ -801,11 +809,17 @@ impl UnrolledRim {
         else {
             return;
         };
-        let polys: Vec<&[Point2<f64>]> = holes.iter().map(|r| &flat[r.clone()]).collect();
+        let polys: Vec<(&[Point2<f64>], Bounds)> = holes
+            .iter()
+            .map(|r| (&flat[r.clone()], Bounds::of(&flat[r.clone()], 0.0)))
+            .collect();
         for face in cdt.inner_faces() {
             let [a, b, c] = face.vertices().map(|v| v.fix().index());
             let q = Point2::from((flat[a].coords + flat[b].coords + flat[c].coords) / 3.0);
-            if polys.iter().any(|p| point_in_polygon(p, &q)) {
+            if polys
+                .iter()
+                .any(|(p, b)| b.holds(&q) && point_in_polygon(p, &q))
+            {
                 continue;
             }
             let t = [index[a], index[b], index[c]];
@@ -815,6 +829,35 @@ impl UnrolledRim {
                 / 3.0;
             push_facing(mesh, t, Vector3::new(c3.x, 0.0, c3.z));
         }
+    }
+}
+
+/// A polygon's bounding box grown by a margin: a point outside it is outside the
+/// polygon and farther than the margin from its outline.
+struct Bounds {
+    min: Point2<f64>,
+    max: Point2<f64>,
+}
+
+impl Bounds {
+    fn of(points: &[Point2<f64>], margin: f64) -> Bounds {
+        let (mut min, mut max) = (
+            Point2::new(f64::INFINITY, f64::INFINITY),
+            Point2::new(f64::NEG_INFINITY, f64::NEG_INFINITY),
+        );
+        for p in points {
+            min = Point2::new(min.x.min(p.x), min.y.min(p.y));
+            max = Point2::new(max.x.max(p.x), max.y.max(p.y));
+        }
+        Bounds {
+            min: Point2::new(min.x - margin, min.y - margin),
+            max: Point2::new(max.x + margin, max.y + margin),
+        }
+    }
+
+    /// True when `q` lies in the box, its sides included.
+    fn holds(&self, q: &Point2<f64>) -> bool {
+        q.x >= self.min.x && q.x <= self.max.x && q.y >= self.min.y && q.y <= self.max.y
     }
 }
 
