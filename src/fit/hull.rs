@@ -158,21 +158,51 @@ pub fn support_subset(vertices: &[Point3<f64>], count: usize) -> Vec<usize> {
     let dx: Vec<f64> = dirs.iter().map(|d| d.x).collect();
     let dy: Vec<f64> = dirs.iter().map(|d| d.y).collect();
     let dz: Vec<f64> = dirs.iter().map(|d| d.z).collect();
-    let mut best = vec![f64::NEG_INFINITY; dirs.len()];
-    let mut arg = vec![usize::MAX; dirs.len()];
-    for (i, v) in vertices.iter().enumerate() {
-        if !v.coords.iter().all(|c| c.is_finite()) {
-            continue;
-        }
-        let (x, y, z) = (v.x, v.y, v.z);
-        for k in 0..dx.len() {
-            let d = x * dx[k] + y * dy[k] + z * dz[k];
-            if d > best[k] {
-                best[k] = d;
-                arg[k] = i;
+    // The first vertex of `chunk` (from index `offset`) reaching the largest value along
+    // each direction.
+    let extremes = |offset: usize, chunk: &[Point3<f64>]| {
+        let mut best = vec![f64::NEG_INFINITY; dirs.len()];
+        let mut arg = vec![usize::MAX; dirs.len()];
+        for (i, v) in chunk.iter().enumerate() {
+            if !v.coords.iter().all(|c| c.is_finite()) {
+                continue;
+            }
+            let (x, y, z) = (v.x, v.y, v.z);
+            for k in 0..dx.len() {
+                let d = x * dx[k] + y * dy[k] + z * dz[k];
+                if d > best[k] {
+                    best[k] = d;
+                    arg[k] = offset + i;
+                }
             }
         }
-    }
+        (best, arg)
+    };
+    // Large meshes in chunks side by side, merged in order keeping the earlier vertex on
+    // a tie: the same vertices as one pass.
+    const CHUNK: usize = 16_384;
+    let (_, arg) = if vertices.len() <= 2 * CHUNK {
+        extremes(0, vertices)
+    } else {
+        use rayon::prelude::*;
+        let parts: Vec<(Vec<f64>, Vec<usize>)> = vertices
+            .par_chunks(CHUNK)
+            .enumerate()
+            .map(|(c, chunk)| extremes(c * CHUNK, chunk))
+            .collect();
+        parts
+            .into_iter()
+            .reduce(|(mut best, mut arg), (b, a)| {
+                for k in 0..best.len() {
+                    if b[k] > best[k] {
+                        best[k] = b[k];
+                        arg[k] = a[k];
+                    }
+                }
+                (best, arg)
+            })
+            .unwrap_or_default()
+    };
     let mut keep: Vec<usize> = arg.into_iter().filter(|&i| i != usize::MAX).collect();
     keep.sort_unstable();
     keep.dedup();
