@@ -245,9 +245,6 @@ pub struct Bundle {
     /// Segment-major: for segment `i` and curve `k`, `[y_i, u, v, y_{i+1}]` at
     /// `4 (i count + k)` (the Bézier controls; a straight segment ignores `u`, `v`).
     controls: Vec<f64>,
-    /// The station values, station-major (`x.len() * count`), for abscissae at or beyond
-    /// the ends.
-    values: Vec<f64>,
 }
 
 impl Bundle {
@@ -260,7 +257,6 @@ impl Bundle {
             return None;
         }
         let mut controls = vec![0.0; 4 * (n - 1) * count];
-        let mut values = vec![0.0; n * count];
         for (k, y) in columns.iter().enumerate() {
             let c = match law {
                 Law::Smooth => hermite_controls(x, y),
@@ -270,16 +266,12 @@ impl Bundle {
                 let at = 4 * (i * count + k);
                 controls[at..at + 4].copy_from_slice(&[y[i], c[i].1, c[i + 1].0, y[i + 1]]);
             }
-            for (i, v) in y.iter().enumerate() {
-                values[i * count + k] = *v;
-            }
         }
         Some(Bundle {
             law,
             x: x.to_vec(),
             count,
             controls,
-            values,
         })
     }
 
@@ -296,10 +288,12 @@ impl Bundle {
     /// Every curve's value at `x`, in column order (end values held outside the stations).
     pub fn eval(&self, x: f64) -> impl ExactSizeIterator<Item = f64> + '_ {
         let n = self.x.len();
+        // At or beyond an end, that end's value: the first segment's start, the last
+        // segment's end (control 0 or 3).
         let held = if x <= self.x[0] {
             Some(0)
         } else if x >= self.x[n - 1] {
-            Some(n - 1)
+            Some(3)
         } else {
             None
         };
@@ -311,10 +305,9 @@ impl Bundle {
         let (one_t2, t2) = (one_t * one_t, t * t);
         let one_t3 = one_t2 * one_t;
         let segment = &self.controls[4 * i * self.count..4 * (i + 1) * self.count];
-        let ends = held.map(|i| &self.values[i * self.count..(i + 1) * self.count]);
         (0..self.count).map(move |k| {
-            if let Some(ends) = ends {
-                return ends[k];
+            if let Some(end) = held {
+                return segment[4 * k + end];
             }
             let [a, u, v, b] = [
                 segment[4 * k],

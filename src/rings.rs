@@ -108,7 +108,7 @@ fn v_at(zc: (&[f64], usize, &[Point3<f64>]), vbar: &[f64], radii: &[f64], r: f64
     }
     // Which end moved last (-1 low, +1 high, 0 neither): when one end moves twice in a
     // row, the other end's value is halved, so that it moves too.
-    let mut kept = 0;
+    let mut moved = 0;
     for _ in 0..100 {
         let mut v = if f_lo.is_finite() && f_hi.is_finite() && f_lo * f_hi < 0.0 {
             lo - f_lo * (hi - lo) / (f_hi - f_lo)
@@ -127,16 +127,16 @@ fn v_at(zc: (&[f64], usize, &[Point3<f64>]), vbar: &[f64], radii: &[f64], r: f64
         }
         if (f < 0.0) == (f_lo < 0.0) {
             (lo, f_lo) = (v, f);
-            if kept == -1 {
+            if moved == -1 {
                 f_hi *= 0.5;
             }
-            kept = -1;
+            moved = -1;
         } else {
             (hi, f_hi) = (v, f);
-            if kept == 1 {
+            if moved == 1 {
                 f_lo *= 0.5;
             }
-            kept = 1;
+            moved = 1;
         }
     }
     0.5 * (lo + hi)
