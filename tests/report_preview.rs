@@ -171,6 +171,15 @@ fn blade_silhouette_matches_its_projected_triangles() {
     }
 }
 
+/// Pixels whose colour differs between two pictures of one size.
+fn pixels_differing(a: &Image, b: &Image) -> usize {
+    a.rgb
+        .chunks(3)
+        .zip(b.rgb.chunks(3))
+        .filter(|(p, q)| p != q)
+        .count()
+}
+
 /// Back-face culling of a solid item: along every line of sight through a closed,
 /// outward-oriented solid the first surface met faces the eye (common practice in
 /// rendering: a closed surface's back faces are hidden), so skipping the faces turned
@@ -206,13 +215,7 @@ fn solid_items_skip_hidden_faces_without_changing_the_picture() {
                 render(&[both], None, &opts(view)),
                 render(&[culled], None, &opts(view)),
             );
-            let n = a.covered_count();
-            let differ = a
-                .rgb
-                .chunks(3)
-                .zip(b.rgb.chunks(3))
-                .filter(|(p, q)| p != q)
-                .count();
+            let (n, differ) = (a.covered_count(), pixels_differing(&a, &b));
             assert!(n > 5_000, "{n}");
             assert!(differ * 1000 <= n, "{differ} of {n} pixels differ");
         }
@@ -226,12 +229,7 @@ fn solid_items_skip_hidden_faces_without_changing_the_picture() {
             render(&[Item::new(&cyl)], None, &opts(view)),
             render(&[Item::solid(&inside_out)], None, &opts(view)),
         );
-        let differ = a
-            .rgb
-            .chunks(3)
-            .zip(b.rgb.chunks(3))
-            .filter(|(p, q)| p != q)
-            .count();
+        let differ = pixels_differing(&a, &b);
         assert!(differ * 10 > a.covered_count(), "{differ}");
     }
 }
