@@ -291,8 +291,25 @@ struct Search {
     complete: bool,
 }
 
+/// What a search is asked.
+#[derive(Clone, Copy, PartialEq)]
+enum Question {
+    /// The best direction (the smallest ratio), fitting or not.
+    Best,
+    /// Only whether some direction fits: the search stops once no cell left can hold
+    /// one (every direction in a cell has a ratio of at least the cell's lower bound),
+    /// which gives the same answer as [`Question::Best`] with less work where none fits.
+    Fits,
+}
+
 /// Best-first branch and bound over down directions (see the module docs).
-fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOptions) -> Search {
+fn branch_and_bound(
+    pts: &[Vector3<f64>],
+    lip: f64,
+    av: &Avail,
+    opts: &FitOptions,
+    question: Question,
+) -> Search {
     let eps = opts.resolution_deg.to_radians().max(1e-6);
     let slope = lip / av.min();
     let mut cells: Vec<Cell> = Vec::new();
@@ -349,10 +366,11 @@ fn branch_and_bound(pts: &[Vector3<f64>], lip: f64, av: &Avail, opts: &FitOption
         yaw: 0.0,
         ratio: f64::MAX,
     });
-    let fits = |e: &Eval| e.ratio <= 1.0 + opts.tolerance / av.min();
+    let limit = 1.0 + opts.tolerance / av.min();
+    let fits = |e: &Eval| e.ratio <= limit;
     let mut complete = true;
     while let Some(Queued(lb, k)) = heap.pop() {
-        if fits(&best) || lb >= best.ratio {
+        if fits(&best) || lb >= best.ratio || (question == Question::Fits && lb > limit) {
             break;
         }
         if evaluated >= opts.max_evaluations {
@@ -587,7 +605,7 @@ pub fn fit_part(
     // Unreachable in practice: the last round searched every vertex, and a fit found
     // there is exact. Report the closest placement found.
     let pts: Vec<Vector3<f64>> = run.verts.iter().map(|v| v - run.centre).collect();
-    let search = branch_and_bound(&pts, run.lip, &run.av, opts);
+    let search = branch_and_bound(&pts, run.lip, &run.av, opts, Question::Best);
     run.evaluated += search.evaluated;
     run.complete = false;
     let poses = vec![run.no_fit(&search.best)];
@@ -729,7 +747,7 @@ impl<'a> PoseSearch<'a> {
     /// evaluated exactly (parts that fit only just, face down, are found whatever the
     /// resolution).
     fn best_down(&mut self, pts: &[Vector3<f64>]) -> Eval {
-        let search = branch_and_bound(pts, self.lip, &self.av, self.opts);
+        let search = branch_and_bound(pts, self.lip, &self.av, self.opts, Question::Best);
         self.evaluated += search.evaluated;
         self.complete &= search.complete;
         let mut best = search.best;
@@ -971,7 +989,7 @@ pub fn fit_extents(
             .min_by(|a, b| a.ratio.total_cmp(&b.ratio))
             .expect("three axes");
         if best.ratio > fit_limit {
-            let search = branch_and_bound(&pts, lip, &av, opts);
+            let search = branch_and_bound(&pts, lip, &av, opts, Question::Fits);
             if search.best.ratio < best.ratio {
                 best = search.best;
             }
