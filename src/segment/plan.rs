@@ -43,7 +43,6 @@ use crate::loft::Skin;
 use crate::mesh::TriMesh;
 use nalgebra::{Point2, Point3};
 use std::collections::BTreeMap;
-use std::sync::atomic::{AtomicUsize, Ordering};
 use std::sync::Mutex;
 
 /// Extra margin kept from the printer's walls while planning (covering the thinned
@@ -171,7 +170,7 @@ pub struct FitTest<'a> {
     rows: Vec<(f64, Vec<Point2<f64>>)>,
     base: Vec<Point3<f64>>,
     slack: f64,
-    calls: AtomicUsize,
+    /// Answers by segment (ends in micrometres).
     memo: Mutex<BTreeMap<(i64, i64), bool>>,
 }
 
@@ -203,14 +202,14 @@ impl<'a> FitTest<'a> {
             rows,
             base,
             slack,
-            calls: AtomicUsize::new(0),
             memo: Mutex::new(BTreeMap::new()),
         }
     }
 
-    /// Number of searches run so far.
+    /// Number of distinct segments searched so far (the same on any thread count: two
+    /// threads asking the same question at once both search, but it is one question).
     pub fn calls(&self) -> usize {
-        self.calls.load(Ordering::Relaxed)
+        self.lock().len()
     }
 
     /// True when the segment from `a` to `b` fits (each question asked once).
@@ -229,7 +228,6 @@ impl<'a> FitTest<'a> {
     }
 
     fn search(&self, a: f64, b: f64) -> bool {
-        self.calls.fetch_add(1, Ordering::Relaxed);
         let mut pts: Vec<Point3<f64>> = Vec::new();
         for z in [a, b] {
             let o = if z <= self.frame.skin_start + 1e-9 {
